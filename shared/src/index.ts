@@ -1,1 +1,2 @@
 export * from './version';
+export * from './domain';

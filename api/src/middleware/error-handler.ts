@@ -1,0 +1,42 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import type { Problem } from '@ratewarden/shared/domain';
+import { ZodError } from 'zod';
+import { AppError } from '../lib/app-error';
+
+/** Unknown routes under /api become a problem too, never Express's HTML page. */
+export const notFound: RequestHandler = (req, _res, next) => {
+  next(new AppError('not_found', `no such route: ${req.method} ${req.path}`));
+};
+
+/** Turns anything thrown into `{ code, message, details? }`; internals are logged, never sent. */
+export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next) => {
+  let problem: Problem;
+  let status: number;
+  if (err instanceof AppError) {
+    status = err.status;
+    problem = { code: err.code, message: err.message, ...(err.details === undefined ? {} : { details: err.details }) };
+  } else if (err instanceof ZodError) {
+    status = 422;
+    problem = {
+      code: 'validation_failed',
+      message: 'the request is not valid',
+      details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
+    };
+  } else if (isHttpError(err)) {
+    // body-parser and friends throw errors carrying a status; keep the status, word the message ourselves.
+    status = err.status;
+    problem = err.status === 413
+      ? { code: 'payload_too_large', message: 'the request body is too large' }
+      : { code: 'bad_request', message: 'the request could not be read' };
+  } else {
+    status = 500;
+    problem = { code: 'internal_error', message: 'something went wrong on the server; the error has been logged' };
+    console.error(`${req.method} ${req.originalUrl} failed:`, err);
+  }
+  if (res.headersSent) return;
+  res.status(status).type('application/json').json(problem);
+};
+
+function isHttpError(err: unknown): err is { status: number } {
+  return typeof err === 'object' && err !== null && 'status' in err && typeof err.status === 'number' && err.status >= 400 && err.status < 500;
+}

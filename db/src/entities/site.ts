@@ -1,0 +1,22 @@
+import { EntitySchema } from 'typeorm';
+import { timestampColumns, type Timestamps } from './base';
+
+/** A workplace (plant, yard, office) that rosters and cases belong to. */
+export interface Site extends Timestamps {
+  id: number;
+  code: string;
+  name: string;
+  region: string | null;
+}
+
+export const SiteEntity = new EntitySchema<Site>({
+  name: 'Site',
+  tableName: 'sites',
+  columns: {
+    id: { type: 'integer', primary: true, generated: 'increment' },
+    code: { type: 'text', unique: true },
+    name: { type: 'text' },
+    region: { type: 'text', nullable: true },
+    ...timestampColumns,
+  },
+});

@@ -1,0 +1,28 @@
+import { EntitySchema } from 'typeorm';
+import type { Role } from '@ratewarden/shared/domain';
+import { timestampColumns, type Timestamps } from './base';
+
+/** A person known to Ratewarden. The identity provider says who; this row says what they may do. */
+export interface User extends Timestamps {
+  id: string;
+  /** Issuer and subject from the identity provider, `iss|sub`. */
+  subject: string;
+  email: string;
+  name: string;
+  role: Role | null;
+  lastSignInAt: Date | null;
+}
+
+export const UserEntity = new EntitySchema<User>({
+  name: 'User',
+  tableName: 'users',
+  columns: {
+    id: { type: 'uuid', primary: true, generated: 'uuid' },
+    subject: { type: 'text', unique: true },
+    email: { type: 'text' },
+    name: { type: 'text' },
+    role: { type: 'text', nullable: true },
+    lastSignInAt: { name: 'last_sign_in_at', type: 'timestamptz', nullable: true },
+    ...timestampColumns,
+  },
+});

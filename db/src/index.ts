@@ -1,0 +1,5 @@
+export { createDataSource } from './data-source';
+export { readDbConfig, type DbConfig } from './config';
+export { migrate } from './migrate';
+export * from './entities';
+export { seedDemo } from './seed/seed-demo';

@@ -1,0 +1,14 @@
+import type { DataSource } from 'typeorm';
+import { ExposureGroupEntity, OutcomeEntity, SiteEntity } from '../entities';
+import { demoExposureGroups, demoOutcomes, demoSites } from './demo-scenario';
+
+/** Loads the demo scenario into an empty database. Returns false when data is already there. */
+export async function seedDemo(ds: DataSource): Promise<boolean> {
+  return ds.transaction(async (em) => {
+    if ((await em.count(SiteEntity)) > 0) return false;
+    await em.insert(SiteEntity, demoSites.map((s) => ({ ...s })));
+    await em.insert(ExposureGroupEntity, demoExposureGroups.map((g) => ({ ...g, description: null })));
+    await em.insert(OutcomeEntity, demoOutcomes.map((o) => ({ ...o, lagMonths: 0, referenceGroupId: null })));
+    return true;
+  });
+}

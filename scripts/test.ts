@@ -1,0 +1,40 @@
+import { spawn } from 'node:child_process';
+import { join } from 'node:path';
+import { migrate } from '@ratewarden/db';
+import { runMain, say } from './lib/log';
+import { recreateDatabase, startPostgres } from './lib/postgres';
+import { readSettings } from './lib/settings';
+import { ensureSystemPackages, testRequirements } from './lib/system-packages';
+import { buildWebIfStale } from './lib/web-build';
+
+const root = join(import.meta.dirname, '..');
+const TEST_DB = 'ratewarden_test';
+
+/**
+ * `npm test`: its own PostgreSQL cluster and an empty database (never the demo data), the web
+ * build, then every vitest project (unit, integration, browser). Extra arguments go to vitest.
+ */
+runMain(async () => {
+  const settings = readSettings();
+  ensureSystemPackages(testRequirements);
+  const db = await startPostgres({ folder: join(root, '.data', 'test-postgres'), port: settings.TEST_PGPORT, database: 'postgres', durable: false });
+  const stopDb = () => db.stop();
+  process.on('exit', stopDb);
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) process.on(signal, () => process.exit(130));
+
+  await recreateDatabase(settings.TEST_PGPORT, TEST_DB);
+  const url = `postgres://ratewarden@127.0.0.1:${settings.TEST_PGPORT}/${TEST_DB}`;
+  await migrate(url);
+  say(`test database ready on 127.0.0.1:${settings.TEST_PGPORT}`);
+  buildWebIfStale(root);
+
+  const code = await new Promise<number>((resolve) => {
+    const vitest = spawn(process.execPath, [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', ...process.argv.slice(2)], {
+      cwd: root,
+      stdio: 'inherit',
+      env: { ...process.env, DATABASE_URL: url, TEST_DATABASE_URL: url, TEST_PGPORT: String(settings.TEST_PGPORT), NODE_ENV: 'test' },
+    });
+    vitest.on('exit', (c, signal) => resolve(c ?? (signal ? 1 : 0)));
+  });
+  return code;
+});

@@ -1,0 +1,61 @@
+/**
+ * Names of the methods, as carried in every result so that the UI and exports can say how a
+ * number was made. Published methods keep their published names.
+ *
+ * @example
+ * METHODS.irrExact // "exact conditional (Clopper–Pearson on the binomial of exposed cases given the total)"
+ */
+export const METHODS = {
+  rateExact: 'exact Poisson (Garwood 1936)',
+  rateMidP: 'mid-p exact Poisson',
+  rateByar: 'Byar approximation (Rothman & Boice 1979)',
+  irrWald: 'Wald on the log scale',
+  irrExact: 'exact conditional (Clopper–Pearson on the binomial of exposed cases given the total)',
+  irrMidP: 'mid-p exact conditional (binomial of exposed cases given the total)',
+  pExact: 'exact conditional, twice the smaller one-sided tail',
+  pExactMinLikelihood: 'exact conditional, minimum-likelihood two-sided',
+  pMidP: 'mid-p, twice the smaller one-sided mid-p tail',
+  pWald: 'Wald z on the log rate ratio',
+  pScore: 'conditional score chi-square (1 df)',
+  irdWald: 'Wald',
+  afExposed: '(IRR − 1)/IRR with limits from the exact conditional IRR limits',
+  afPopulation: 'Miettinen: proportion of cases exposed × (IRR − 1)/IRR',
+  mhIrr: 'Mantel–Haenszel rate ratio with Greenland–Robins (1985) variance',
+  mhIrd: 'Mantel–Haenszel rate difference with Greenland–Robins (1985) variance',
+  mhRateTest: 'Mantel–Haenszel chi-square for person-time (1 df)',
+  rateHomogeneity: 'score test under the common Mantel–Haenszel rate ratio (K − 1 df)',
+  rateHomogeneityWoolf: 'Woolf test on log rate ratios (K − 1 df)',
+  trend: 'score test for trend in rates (1 df; Breslow & Day 1987)',
+  sirExact: 'exact (Ulm 1990; Garwood limits on the observed count)',
+  sirByar: 'Byar approximation (Rothman & Boice 1979)',
+  sirMidP: 'mid-p exact Poisson',
+  rdWald: 'Wald',
+  rdNewcombe: 'Newcombe (1998) hybrid score, method 10',
+  rdMee: 'Mee (1984) score',
+  rdMiettinenNurminen: 'Miettinen–Nurminen (1985) score',
+  wilson: 'Wilson score',
+  rrKatz: 'Katz log',
+  orWoolf: 'Woolf logit',
+  orExact: 'conditional maximum likelihood with exact conditional limits (Cornfield/Fisher)',
+  chiSquare: 'Pearson chi-square without continuity correction',
+  chiSquareYates: 'Pearson chi-square with Yates continuity correction',
+  fisher: 'Fisher exact, minimum-likelihood two-sided',
+  nnt: 'Altman (1998): inverted and exchanged Newcombe risk-difference limits',
+  nntWald: 'Altman (1998): inverted and exchanged Wald risk-difference limits',
+  afExposedRisk: '(RR − 1)/RR with limits from the Katz RR limits',
+  pafLevin: 'Levin, with the Walter/Jewell log(1 − PAF) interval',
+  mhRr: 'Mantel–Haenszel risk ratio with Greenland–Robins (1985) variance',
+  mhOr: 'Mantel–Haenszel odds ratio with Robins–Breslow–Greenland (1986) variance',
+  mhRd: 'Mantel–Haenszel risk difference with Greenland–Robins (1985) variance',
+  cmh: 'Cochran–Mantel–Haenszel chi-square without continuity correction (1 df)',
+  cmhCorrected: 'Cochran–Mantel–Haenszel chi-square with continuity correction (1 df)',
+  breslowDay: 'Breslow–Day test of homogeneity of odds ratios (K − 1 df)',
+  breslowDayTarone: 'Breslow–Day test with Tarone correction (K − 1 df)',
+  woolfOrHomogeneity: 'Woolf test of homogeneity of odds ratios (K − 1 df)',
+  woolfOrHomogeneityHaldane: 'Woolf test of homogeneity of odds ratios, Haldane–Anscombe 0.5 added to every cell (K − 1 df)',
+  uChart: 'u-chart, centre line and 3-sigma limits (Montgomery)',
+  uChartExact: 'u-chart with exact Poisson probability limits (0.00135 and 0.99865 quantiles)',
+  benjaminiHochberg: 'Benjamini–Hochberg (1995) step-up adjusted p-values',
+} as const;
+
+export type MethodKey = keyof typeof METHODS;

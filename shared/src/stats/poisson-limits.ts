@@ -1,0 +1,74 @@
+/**
+ * Confidence limits for the mean μ of a Poisson count x. These are the building blocks of
+ * the single-group rate (divide by person-time) and the SIR (divide by the expected count).
+ *
+ * @example
+ * poissonExactLimits(10, 0.95) // { lower: 4.795389..., upper: 18.390356... }
+ */
+import { chiSquareQuantile, poissonLowerTail, poissonPmf, poissonUpperTail, zForConfidence } from './distributions';
+import { brentRoot } from './root-finding';
+import { assertConfidence, assertCount } from './validation';
+
+/** Limits of a Poisson mean; the exact limits always exist (upper is finite for finite x). */
+export interface PoissonLimits {
+  lower: number;
+  upper: number;
+}
+
+/**
+ * Exact (Garwood) limits for a Poisson mean.
+ * lower = χ²_{α/2}(2x)/2 (0 when x = 0), upper = χ²_{1−α/2}(2x + 2)/2.
+ *
+ * @example
+ * poissonExactLimits(0, 0.95) // { lower: 0, upper: 3.6888794541139354 }
+ */
+export function poissonExactLimits(count: number, confidence: number): PoissonLimits {
+  assertCount('count', count);
+  assertConfidence(confidence);
+  const alpha = 1 - confidence;
+  // Garwood F. Biometrika 1936;28:437–42: limits as chi-square quantiles.
+  const lower = count === 0 ? 0 : chiSquareQuantile(alpha / 2, 2 * count) / 2;
+  const upper = chiSquareQuantile(1 - alpha / 2, 2 * count + 2) / 2; // Garwood 1936
+  return { lower, upper };
+}
+
+/**
+ * Mid-p exact limits for a Poisson mean, solving
+ * lower: P(X > x) + ½P(X = x) = α/2 and upper: P(X < x) + ½P(X = x) = α/2.
+ * The mid-p limits lie inside the exact limits, which therefore bracket the roots.
+ *
+ * @example
+ * poissonMidPLimits(0, 0.95) // { lower: 0, upper: 2.995732273553991 }  (= −ln 0.05)
+ */
+export function poissonMidPLimits(count: number, confidence: number): PoissonLimits {
+  assertCount('count', count);
+  assertConfidence(confidence);
+  const halfAlpha = (1 - confidence) / 2;
+  const exact = poissonExactLimits(count, confidence);
+  // Lancaster HO. J Am Stat Assoc 1961;56:223–34 (mid-p); the equations as in METHODS §1.
+  const lowerEq = (mu: number) => poissonUpperTail(count + 1, mu) + poissonPmf(count, mu) / 2 - halfAlpha;
+  const upperEq = (mu: number) => poissonLowerTail(count - 1, mu) + poissonPmf(count, mu) / 2 - halfAlpha;
+  const lower = count === 0 ? 0 : brentRoot(lowerEq, exact.lower, count);
+  const upper = brentRoot(upperEq, Math.max(count, Number.MIN_VALUE), exact.upper);
+  return { lower, upper };
+}
+
+/**
+ * Byar's approximation to the exact Poisson limits.
+ * lower = x(1 − 1/(9x) − z/(3√x))³, upper = (x+1)(1 − 1/(9(x+1)) + z/(3√(x+1)))³.
+ * It is within about 0.2% of the exact limits for x ≥ 10.
+ *
+ * @example
+ * poissonByarLimits(10, 0.95) // { lower: 4.7954..., upper: 18.3904... }
+ */
+export function poissonByarLimits(count: number, confidence: number): PoissonLimits {
+  assertCount('count', count);
+  assertConfidence(confidence);
+  const z = zForConfidence(confidence);
+  const x1 = count + 1;
+  // Byar, in Rothman KJ, Boice JD. NIH Publ 79-1649, 1979; Breslow & Day 1987 Vol II.
+  // The cube can go below 0 for very low confidence at tiny x; a mean cannot, so clamp at 0.
+  const lower = count === 0 ? 0 : Math.max(0, count * (1 - 1 / (9 * count) - z / (3 * Math.sqrt(count))) ** 3);
+  const upper = x1 * (1 - 1 / (9 * x1) + z / (3 * Math.sqrt(x1))) ** 3; // Byar (Rothman & Boice 1979)
+  return { lower, upper };
+}
