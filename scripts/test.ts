@@ -17,7 +17,7 @@ const TEST_DB = 'ratewarden_test';
 runMain(async () => {
   const settings = readSettings();
   ensureSystemPackages(testRequirements);
-  const db = await startPostgres({ folder: join(root, '.data', 'test-postgres'), port: settings.TEST_PGPORT, database: 'postgres', durable: false });
+  const db = await startPostgres({ folder: join(root, '.data', `test-postgres-${settings.TEST_PGPORT}`), port: settings.TEST_PGPORT, database: 'postgres', durable: false });
   const stopDb = () => db.stop();
   process.on('exit', stopDb);
   for (const signal of ['SIGINT', 'SIGTERM'] as const) process.on(signal, () => process.exit(130));
@@ -26,7 +26,8 @@ runMain(async () => {
   const url = `postgres://ratewarden@127.0.0.1:${settings.TEST_PGPORT}/${TEST_DB}`;
   await migrate(url);
   say(`test database ready on 127.0.0.1:${settings.TEST_PGPORT}`);
-  buildWebIfStale(root);
+  // Parallel partial runs (several people or agents in one tree) may skip the shared web build.
+  if (process.env.RATEWARDEN_SKIP_WEB_BUILD !== '1') buildWebIfStale(root);
 
   const code = await new Promise<number>((resolve) => {
     const vitest = spawn(process.execPath, [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', ...process.argv.slice(2)], {

@@ -1,0 +1,32 @@
+import { EntitySchema } from 'typeorm';
+import type { CaseStatus } from '@ratewarden/shared/intake';
+
+/** One health-outcome case of one worker, as brought by one intake. Case-level: physician only. */
+export interface CaseEvent {
+  id: string;
+  intakeId: string;
+  /** The case's identifier in the source system, stable across corrections. */
+  caseRef: string;
+  workerId: string;
+  outcomeId: number;
+  onsetDate: string;
+  status: CaseStatus;
+  supersededBy: string | null;
+  createdAt: Date;
+}
+
+export const CaseEventEntity = new EntitySchema<CaseEvent>({
+  name: 'CaseEvent',
+  tableName: 'case_events',
+  columns: {
+    id: { type: 'bigint', primary: true, generated: 'increment' },
+    intakeId: { name: 'intake_id', type: 'uuid' },
+    caseRef: { name: 'case_ref', type: 'text' },
+    workerId: { name: 'worker_id', type: 'bigint' },
+    outcomeId: { name: 'outcome_id', type: 'integer' },
+    onsetDate: { name: 'onset_date', type: 'date' },
+    status: { type: 'text' },
+    supersededBy: { name: 'superseded_by', type: 'uuid', nullable: true },
+    createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
+  },
+});

@@ -1,0 +1,39 @@
+import type { Role } from './domain';
+
+/**
+ * What each role may do: the one table the API enforces on every route and the web app reads to
+ * hide what a role cannot use. Case-level data (`cases:*`) is the physician's alone.
+ */
+export const rolePermissions = {
+  'aggregates:read': ['hygienist', 'safety_manager', 'physician'],
+  'config:read': ['hygienist', 'safety_manager', 'physician', 'administrator'],
+  'groups:write': ['hygienist'],
+  'intake:read': ['hygienist'],
+  'intake:write': ['hygienist'],
+  'runs:read': ['hygienist', 'safety_manager', 'physician'],
+  'runs:trigger': ['hygienist'],
+  'rules:read': ['hygienist', 'safety_manager', 'physician'],
+  'rules:write': ['hygienist', 'safety_manager'],
+  'flags:read': ['hygienist', 'safety_manager', 'physician'],
+  'flags:review': ['safety_manager'],
+  'cases:read': ['physician'],
+  'cases:review': ['physician'],
+  'users:manage': ['administrator'],
+  'clients:manage': ['administrator'],
+  'audit:read': ['administrator'],
+  'mailbox:read': ['administrator'],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof rolePermissions;
+
+/** Integration clients (machines with a client-credentials token) may only push intakes. */
+export const clientPermissions: readonly Permission[] = ['intake:write'];
+
+export function roleMay(role: Role | null | undefined, permission: Permission): boolean {
+  return role != null && (rolePermissions[permission] as readonly Role[]).includes(role);
+}
+
+/** Who is making a request: a signed-in person or an integration client. */
+export type Principal =
+  | { kind: 'user'; id: string; email: string; name: string; role: Role | null; siteIds: number[] }
+  | { kind: 'client'; clientId: string };
