@@ -3,6 +3,17 @@ import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
 import type { ApiConfig } from './config';
+import { authRouter, sessionRouter } from './auth/auth-routes';
+import { csrfProtection } from './auth/csrf';
+import { principalMiddleware } from './auth/principal';
+import { sessionMiddleware } from './auth/sessions';
+import { adminRouter } from './features/admin/admin-routes';
+import { groupsRouter } from './features/groups/groups-routes';
+import { intakeRouter } from './features/intake/intake-routes';
+import { flagsRouter } from './features/flags/flags-routes';
+import { mailboxRouter } from './features/mailbox/mailbox-routes';
+import { rulesRouter } from './features/rules/rules-routes';
+import { runsRouter } from './features/runs/runs-routes';
 import { errorHandler, notFound } from './middleware/error-handler';
 import { healthRouter } from './routes/health';
 import { webAppRouter } from './routes/web-app';
@@ -20,13 +31,30 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use(
     helmet({
       contentSecurityPolicy: {
-        directives: { 'img-src': ["'self'", 'data:'], 'style-src': ["'self'", "'unsafe-inline'"] },
+        directives: {
+          'img-src': ["'self'", 'data:'],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          // Sign-out posts to /auth/logout, which redirects to the identity provider's end-session page.
+          'form-action': ["'self'", new URL(config.OIDC_ISSUER).origin],
+        },
       },
     }),
   );
   app.use(express.json({ limit: '1mb' }));
+  app.use(express.urlencoded({ extended: false, limit: '16kb' }));
 
   app.use('/api/health', healthRouter(dataSource));
+  app.use(['/api', '/auth'], sessionMiddleware(dataSource, config), principalMiddleware(dataSource, config));
+  app.use('/auth', authRouter(dataSource, config));
+  app.use('/api', csrfProtection);
+  app.use('/api/session', sessionRouter());
+  app.use('/api/admin', adminRouter(dataSource));
+  app.use('/api/intakes', intakeRouter({ dataSource }));
+  app.use('/api', groupsRouter({ dataSource }));
+  app.use('/api/runs', runsRouter({ dataSource }));
+  app.use('/api/rules', rulesRouter({ dataSource }));
+  app.use('/api/flags', flagsRouter({ dataSource }));
+  app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
   app.use('/api', notFound);
   app.use(webAppRouter(config.WEB_DIST ?? join(import.meta.dirname, '..', '..', 'web', 'dist')));
   app.use(errorHandler);

@@ -1,15 +1,36 @@
 import { z } from 'zod';
 
+const DEMO_SESSION_SECRET = 'ratewarden-demo-session-secret';
+const DEMO_CLIENT_SECRET = 'ratewarden-web-demo-secret';
+
 /** API settings, parsed once at start; nothing else reads process.env. */
 const schema = z.object({
   PORT: z.coerce.number().int().min(1).max(65535).default(3000).describe('port of the web app and API on 127.0.0.1'),
   HOST: z.string().default('127.0.0.1').describe('address to listen on'),
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   WEB_DIST: z.string().optional().describe('folder of the built web app (default web/dist)'),
+  APP_BASE_URL: z.string().url().default('http://127.0.0.1:3000/').describe('public address of the web app, for links and redirects'),
+  OIDC_ISSUER: z.string().url().default('http://127.0.0.1:3001').describe('OpenID Connect issuer (discovery at /.well-known/openid-configuration)'),
+  OIDC_CLIENT_ID: z.string().default('ratewarden-web'),
+  OIDC_CLIENT_SECRET: z.string().min(8).default(DEMO_CLIENT_SECRET),
+  OIDC_REDIRECT_URI: z.string().url().default('http://127.0.0.1:3000/auth/callback'),
+  OIDC_API_AUDIENCE: z.string().default('urn:ratewarden:api').describe('audience integration clients\' access tokens must carry'),
+  SESSION_SECRET: z.string().min(16).default(DEMO_SESSION_SECRET),
+  SESSION_HOURS: z.coerce.number().positive().default(8),
+  AUTH_RATE_LIMIT: z.coerce.number().int().positive().default(60).describe('sign-in attempts per IP per 15 minutes'),
+  INTAKE_RATE_LIMIT: z.coerce.number().int().positive().default(120).describe('intake requests per client per 15 minutes'),
 });
 
 export type ApiConfig = z.infer<typeof schema>;
 
 export function readApiConfig(env: NodeJS.ProcessEnv = process.env): ApiConfig {
-  return schema.parse(env);
+  const config = schema.parse(env);
+  if (config.NODE_ENV === 'production' && usesDemoSecrets(config)) {
+    throw new Error('refusing to start in production with the documented demo secrets: set SESSION_SECRET and OIDC_CLIENT_SECRET');
+  }
+  return config;
+}
+
+export function usesDemoSecrets(c: Pick<ApiConfig, 'SESSION_SECRET' | 'OIDC_CLIENT_SECRET'>): boolean {
+  return c.SESSION_SECRET === DEMO_SESSION_SECRET || c.OIDC_CLIENT_SECRET === DEMO_CLIENT_SECRET;
 }

@@ -1,5 +1,6 @@
 export { createDataSource } from './data-source';
 export { readDbConfig, type DbConfig } from './config';
 export { migrate } from './migrate';
+export { rows } from './sql';
 export * from './entities';
 export { seedDemo } from './seed/seed-demo';

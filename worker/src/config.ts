@@ -1,5 +1,7 @@
 import cron from 'node-cron';
 import { z } from 'zod';
+import { caseStatusSchema, type CaseStatus } from '@ratewarden/shared/intake';
+import { personTimeBasisSchema } from '@ratewarden/shared/runs';
 
 /** Worker settings, parsed once at start. */
 const schema = z.object({
@@ -9,6 +11,33 @@ const schema = z.object({
     .refine((s) => cron.validate(s), 'RUN_SCHEDULE is not a valid cron expression')
     .describe('when the nightly run starts (cron syntax, minute first)'),
   RUN_TIMEZONE: z.string().default('UTC').describe('IANA time zone of RUN_SCHEDULE, e.g. Europe/Berlin'),
+  RUN_POLL_MS: z.coerce.number().int().min(50).default(5_000).describe('how often the worker looks for run requests (after an intake, the run button)'),
+  RUN_PERSON_TIME_BASIS: personTimeBasisSchema.default('person_years').describe('person_years (2,000 h) or hours_200k (OSHA/BLS 200,000 hours)'),
+  RUN_PER: z.coerce.number().positive().default(1000).describe('rate multiplier: 1000 = per 1,000 person-years; 1 with hours_200k = the OSHA rate'),
+  RUN_CONFIDENCE: z.coerce.number().gt(0).lt(1).default(0.95).describe('confidence level of every interval'),
+  RUN_COUNTED_STATUSES: z
+    .string()
+    .default('confirmed')
+    .transform((s, ctx): CaseStatus[] => {
+      const parsed = z.array(caseStatusSchema).min(1).safeParse(s.split(',').map((x) => x.trim()).filter(Boolean));
+      if (!parsed.success) {
+        ctx.addIssue({ code: 'custom', message: 'RUN_COUNTED_STATUSES must list suspected, confirmed and/or ruled_out' });
+        return z.NEVER;
+      }
+      return parsed.data;
+    })
+    .describe('case statuses a run counts, comma-separated'),
+  SMTP_HOST: z.string().default('127.0.0.1').describe('SMTP server the notices go to (the local fake in development)'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525).describe('port of the SMTP server'),
+  SMTP_SECURE: z.enum(['true', 'false']).default('false').transform((s) => s === 'true').describe('TLS from the first byte (port 465 style)'),
+  SMTP_USER: z.string().optional().describe('SMTP user name, when the server wants one'),
+  SMTP_PASS: z.string().optional().describe('SMTP password'),
+  NOTICE_FROM: z.string().default('Ratewarden <notices@ratewarden.invalid>').describe('From address of threshold notices'),
+  APP_URL: z.string().url().default('http://127.0.0.1:3000').describe('address of the web app, for the sign-in link in notices'),
+  NOTICE_POLL_MS: z.coerce.number().int().min(50).default(5_000).describe('how often the sender looks at the outbox'),
+  NOTICE_RETRY_BASE_MS: z.coerce.number().int().min(10).default(30_000).describe('first retry delay; doubles with every failed attempt'),
+  NOTICE_RETRY_MAX_MS: z.coerce.number().int().min(10).default(3_600_000).describe('longest delay between attempts'),
+  NOTICE_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(20).describe('attempts before a notice is marked failed'),
 });
 
 export type WorkerConfig = z.infer<typeof schema>;

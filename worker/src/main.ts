@@ -1,25 +1,58 @@
 import { createDataSource } from '@ratewarden/db';
 import { exitWithParent } from '@ratewarden/shared/runtime/exit-with-parent';
 import { readWorkerConfig } from './config';
+import { startLoop } from './loop';
+import { createTransport, sendDueNotices, type SenderSettings } from './notices/notice-sender';
+import { describeOutcome } from './runs/describe-outcome';
+import { performRun } from './runs/perform-run';
+import { runIfRequested } from './runs/request-poller';
+import { runSettingsOf } from './runs/run-settings';
 import { startSchedule } from './schedule';
 
 const config = readWorkerConfig();
-const dataSource = createDataSource(undefined, 2);
+// Two pooled connections for the loops plus the run's dedicated one (it holds the advisory lock).
+const dataSource = createDataSource(undefined, 3);
 await dataSource.initialize();
 console.log('connected to the database');
+const settings = runSettingsOf(config);
 
 const task = startSchedule(config, async () => {
-  const started = new Date();
-  await dataSource.query('SELECT 1');
-  console.log(`scheduled tick at ${started.toISOString()}`);
+  const tick = new Date();
+  tick.setSeconds(0, 0); // every worker sees the same minute, so only the first one runs
+  console.log(describeOutcome(await performRun(dataSource, { trigger: 'schedule', reason: 'nightly schedule', settings, appUrl: config.APP_URL, notBefore: tick, consumeRequests: true })));
 });
 console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}`);
+
+const requests = startLoop('run request check', config.RUN_POLL_MS, async () => {
+  const outcome = await runIfRequested(dataSource, settings, config.APP_URL);
+  if (outcome) console.log(describeOutcome(outcome));
+});
+
+const sender: SenderSettings = {
+  smtpHost: config.SMTP_HOST,
+  smtpPort: config.SMTP_PORT,
+  smtpSecure: config.SMTP_SECURE,
+  smtpUser: config.SMTP_USER,
+  smtpPass: config.SMTP_PASS,
+  from: config.NOTICE_FROM,
+  retryBaseMs: config.NOTICE_RETRY_BASE_MS,
+  retryMaxMs: config.NOTICE_RETRY_MAX_MS,
+  maxAttempts: config.NOTICE_MAX_ATTEMPTS,
+};
+const transport = createTransport(sender);
+const notices = startLoop('notice sender', config.NOTICE_POLL_MS, async () => {
+  const { sent, failed } = await sendDueNotices(dataSource, transport, sender);
+  if (sent || failed) console.log(`threshold notices: ${sent} sent, ${failed} attempts failed`);
+});
+console.log(`threshold notices go to ${config.SMTP_HOST}:${config.SMTP_PORT}`);
 
 let closing = false;
 async function shutdown(): Promise<void> {
   if (closing) return;
   closing = true;
   await task.stop();
+  await Promise.all([requests.stop(), notices.stop()]);
+  transport.close();
   await dataSource.destroy().catch(() => {});
   console.log('worker stopped');
   process.exit(0);

@@ -9,15 +9,19 @@ declare module 'express-serve-static-core' {
   }
 }
 
+/** A guard carries its permission so the route table can be read back from the app (see route-table.ts). */
+export type Guard = RequestHandler & { permission: Permission };
+
 /** Route guard: 401 without a principal, 403 when its role (or client status) lacks the permission. */
-export function authorize(permission: Permission): RequestHandler {
-  return (req, _res, next) => {
+export function authorize(permission: Permission): Guard {
+  const guard: RequestHandler = (req, _res, next) => {
     const p = req.principal;
     if (!p) return next(new AppError('unauthenticated', 'sign in first'));
     const allowed = p.kind === 'client' ? clientPermissions.includes(permission) : roleMay(p.role, permission);
     if (!allowed) return next(new AppError('forbidden', 'your role does not allow this'));
     next();
   };
+  return Object.assign(guard, { permission });
 }
 
 /** The signed-in person, for routes that only people (not integration clients) reach. */

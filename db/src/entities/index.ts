@@ -1,6 +1,7 @@
 import { AuditEventEntity } from './audit-event';
 import { CaseEventEntity } from './case-event';
 import { IntakeEntity } from './intake';
+import { IntegrationClientEntity } from './integration-client';
 import { RosterEntryEntity } from './roster-entry';
 import { RosterSliceEntity } from './roster-slice';
 import { WorkerEntity } from './worker';
@@ -9,13 +10,24 @@ import { OutcomeEntity } from './outcome';
 import { SiteEntity } from './site';
 import { UserEntity } from './user';
 import { UserSiteEntity } from './user-site';
+import { CurrentRunEntity } from './current-run';
+import { DevMailboxMessageEntity } from './dev-mailbox-message';
+import { FlagEntity } from './flag';
+import { FlagEventEntity } from './flag-event';
+import { NoticeEntity } from './notice';
+import { RunEntity } from './run';
+import { RunResultEntity } from './run-result';
+import { RunTrendEntity } from './run-trend';
+import { WatchRuleEntity } from './watch-rule';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
-  IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity];
+  IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
+  RunEntity, CurrentRunEntity, RunResultEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
 export type { Intake } from './intake';
+export type { IntegrationClient } from './integration-client';
 export type { RosterEntry } from './roster-entry';
 export type { RosterSlice } from './roster-slice';
 export type { Worker } from './worker';
@@ -24,4 +36,14 @@ export type { Outcome } from './outcome';
 export type { Site } from './site';
 export type { User } from './user';
 export type { UserSite } from './user-site';
-export { AuditEventEntity, CaseEventEntity, IntakeEntity, RosterEntryEntity, RosterSliceEntity, WorkerEntity, ExposureGroupEntity, OutcomeEntity, SiteEntity, UserEntity, UserSiteEntity };
+export { AuditEventEntity, CaseEventEntity, IntakeEntity, IntegrationClientEntity, RosterEntryEntity, RosterSliceEntity, WorkerEntity, ExposureGroupEntity, OutcomeEntity, SiteEntity, UserEntity, UserSiteEntity };
+export type { Run } from './run';
+export type { CurrentRun } from './current-run';
+export type { RunResultRow } from './run-result';
+export type { RunTrend } from './run-trend';
+export type { WatchRuleRow } from './watch-rule';
+export type { FlagRow } from './flag';
+export type { FlagEventRow } from './flag-event';
+export type { NoticeRow } from './notice';
+export type { DevMailboxMessage } from './dev-mailbox-message';
+export { RunEntity, CurrentRunEntity, RunResultEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity };

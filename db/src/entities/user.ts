@@ -6,7 +6,7 @@ import { timestampColumns, type Timestamps } from './base';
 export interface User extends Timestamps {
   id: string;
   /** Issuer and subject from the identity provider, `iss|sub`. */
-  subject: string;
+  subject: string | null;
   email: string;
   name: string;
   role: Role | null;
@@ -18,7 +18,7 @@ export const UserEntity = new EntitySchema<User>({
   tableName: 'users',
   columns: {
     id: { type: 'uuid', primary: true, generated: 'uuid' },
-    subject: { type: 'text', unique: true },
+    subject: { type: 'text', unique: true, nullable: true },
     email: { type: 'text' },
     name: { type: 'text' },
     role: { type: 'text', nullable: true },

@@ -1,5 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { ExposureGroupEntity, OutcomeEntity, SiteEntity } from '../entities';
+import { demoCohortShape } from './demo-generator';
+import { loadDemoCohort } from './demo-generator-load';
 import { demoExposureGroups, demoOutcomes, demoSites } from './demo-scenario';
 
 /** Loads the demo scenario into an empty database. Returns false when data is already there. */
@@ -9,6 +11,8 @@ export async function seedDemo(ds: DataSource): Promise<boolean> {
     await em.insert(SiteEntity, demoSites.map((s) => ({ ...s })));
     await em.insert(ExposureGroupEntity, demoExposureGroups.map((g) => ({ ...g, description: null })));
     await em.insert(OutcomeEntity, demoOutcomes.map((o) => ({ ...o, lagMonths: 0, referenceGroupId: null })));
+    // The generated cohort: monthly rosters since 2020 and the cases they produced (demo-generator.ts).
+    await loadDemoCohort(em, demoCohortShape(demoSites.map((s) => s.code)));
     return true;
   });
 }

@@ -4,7 +4,8 @@
  *
  * @example
  * binomialPValues(41, 56, 28010 / 47027)
- * // { lowerTail: ..., upperTail: ..., pExact: 0.04766024675..., pMidP: 0.035457421..., pMinLikelihood: 0.040852026... }
+ * // { lowerTail: 0.9883727016050208, upperTail: 0.023830123377282932, pExact: 0.047660246754565865,
+ * //   pMidP: 0.03545742177226213, pMinLikelihood: 0.04085202628650178 }
  */
 import { binomialLowerTail, binomialPmf, binomialUpperTail } from './distributions';
 

@@ -4,8 +4,10 @@
  *
  * @example
  * incidenceRate({ cases: 10, personTime: 1000 }, { per: 1000 })
- * // { estimate: 10, exact: { lower: 4.795388..., upper: 18.390356... }, midP: {...}, byar: {...},
- * //   confidence: 0.95, per: 1000, methods: {...}, reasons: [] }
+ * // { estimate: 10, exact: { lower: 4.795388696132435, upper: 18.39035604201778 },
+ * //   midP: { lower: 5.079521847217346, upper: 17.82485369656968 },
+ * //   byar: { lower: 4.787449913967564, upper: 18.391458605756473 },
+ * //   confidence: 0.95, per: 1000, methods: { exact: 'exact Poisson (Garwood 1936)', ... }, reasons: [] }
  */
 import { METHODS } from './methods';
 import { poissonByarLimits, poissonExactLimits, poissonMidPLimits, type PoissonLimits } from './poisson-limits';

@@ -60,7 +60,7 @@ export interface OshaRateResult {
  * rate = N × 200,000 / EH (29 CFR 1904; BLS); limits = Garwood limits on N × 200,000/EH.
  *
  * @example
- * oshaRate(1, 50000) // { estimate: 4, exact: { lower: 0.10127..., upper: 22.2865... }, ... }
+ * oshaRate(1, 50000).exact // { lower: 0.10127123193715959, upper: 22.286573563755592 }
  */
 export function oshaRate(cases: number, hours: number, confidence = 0.95): OshaRateResult {
   assertCount('cases', cases);

@@ -3,10 +3,10 @@
  * the single-group rate (divide by person-time) and the SIR (divide by the expected count).
  *
  * @example
- * poissonExactLimits(10, 0.95) // { lower: 4.795389..., upper: 18.390356... }
+ * poissonExactLimits(10, 0.95) // { lower: 4.795388696132435, upper: 18.39035604201778 }
  */
-import { chiSquareQuantile, poissonLowerTail, poissonPmf, poissonUpperTail, zForConfidence } from './distributions';
-import { brentRoot } from './root-finding';
+import { chiSquareQuantile, GAMMAINC_RELIABLE_SHAPE, poissonLowerTail, poissonPmf, poissonUpperTail, zForConfidence } from './distributions';
+import { brentRoot, increasingRoot } from './root-finding';
 import { assertConfidence, assertCount } from './validation';
 
 /** Limits of a Poisson mean; the exact limits always exist (upper is finite for finite x). */
@@ -27,8 +27,16 @@ export function poissonExactLimits(count: number, confidence: number): PoissonLi
   assertConfidence(confidence);
   const alpha = 1 - confidence;
   // Garwood F. Biometrika 1936;28:437–42: limits as chi-square quantiles.
-  const lower = count === 0 ? 0 : chiSquareQuantile(alpha / 2, 2 * count) / 2;
-  const upper = chiSquareQuantile(1 - alpha / 2, 2 * count + 2) / 2; // Garwood 1936
+  let lower = count === 0 ? 0 : chiSquareQuantile(alpha / 2, 2 * count) / 2;
+  let upper = chiSquareQuantile(1 - alpha / 2, 2 * count + 2) / 2; // Garwood 1936
+  if (count + 1 > GAMMAINC_RELIABLE_SHAPE) {
+    // The stdlib chi-square quantile inherits the incomplete-gamma error at large shapes; solve
+    // the defining tail equations P(X ≥ x; μ_L) = α/2 and P(X ≤ x; μ_U) = α/2 on accurate tails,
+    // starting from the stdlib quantiles (on the log scale, so the solution keeps relative precision).
+    const polish = (eq: (mu: number) => number, start: number) => Math.exp(increasingRoot((t) => eq(Math.exp(t)), Math.log(start), 1e-3));
+    lower = polish((mu) => poissonUpperTail(count, mu) - alpha / 2, lower);
+    upper = polish((mu) => alpha / 2 - poissonLowerTail(count, mu), upper);
+  }
   return { lower, upper };
 }
 
@@ -38,7 +46,7 @@ export function poissonExactLimits(count: number, confidence: number): PoissonLi
  * The mid-p limits lie inside the exact limits, which therefore bracket the roots.
  *
  * @example
- * poissonMidPLimits(0, 0.95) // { lower: 0, upper: 2.995732273553991 }  (= −ln 0.05)
+ * poissonMidPLimits(0, 0.95) // { lower: 0, upper: 2.99573227355399 }  (= −ln 0.05)
  */
 export function poissonMidPLimits(count: number, confidence: number): PoissonLimits {
   assertCount('count', count);
@@ -59,7 +67,7 @@ export function poissonMidPLimits(count: number, confidence: number): PoissonLim
  * It is within about 0.2% of the exact limits for x ≥ 10.
  *
  * @example
- * poissonByarLimits(10, 0.95) // { lower: 4.7954..., upper: 18.3904... }
+ * poissonByarLimits(10, 0.95) // { lower: 4.787449913967564, upper: 18.391458605756473 }
  */
 export function poissonByarLimits(count: number, confidence: number): PoissonLimits {
   assertCount('count', count);

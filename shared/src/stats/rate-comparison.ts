@@ -8,9 +8,10 @@
  * - Excess cases = a − b·T1/T0, the exposed cases beyond those expected at the reference rate.
  *
  * @example
- * compareRates({ cases: 41, personTime: 28010 }, { cases: 15, personTime: 19017 }).irr.estimate // 1.855758658...
+ * compareRates({ cases: 41, personTime: 28010 }, { cases: 15, personTime: 19017 }).irr.estimate // 1.8557586576222778
  */
 import { incidenceRate, type IncidenceRateResult, type RateGroup, type RateOptions, resolveRateOptions, validateRateGroup } from './incidence-rate';
+import { attributableFractionOf } from './attributable-fraction';
 import { METHODS } from './methods';
 import { rateDifference, type RateDifferenceResult } from './rate-difference';
 import { rateRatio, type RateRatioResult } from './rate-ratio';
@@ -34,17 +35,6 @@ export interface RateComparisonResult {
   per: number;
   methods: { afExposed: string; afPopulation: string };
   reasons: Reason[];
-}
-
-/**
- * (R − 1)/R for a ratio R, with R = ∞ → 1 and R = 0 → −∞ (an infinite preventive excess).
- * @example attributableFractionOf(4) // 0.75
- */
-export function attributableFractionOf(ratio: number | null): number | null {
-  if (ratio === null) return null;
-  if (ratio === Infinity) return 1;
-  if (ratio === 0) return -Infinity;
-  return (ratio - 1) / ratio; // AF = (RR − 1)/RR (METHODS §10)
 }
 
 /**

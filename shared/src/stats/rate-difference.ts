@@ -5,7 +5,8 @@
  *
  * @example
  * rateDifference({ cases: 41, personTime: 28010 }, { cases: 15, personTime: 19017 }, 0.9, 10000)
- * // { estimate: 6.749949973..., wald: { lower: 1.714022326..., upper: 11.78587762... }, p: 0.02747557129..., ... }
+ * // { estimate: 6.7499499733576105, wald: { lower: 1.714022326115157, upper: 11.785877620600065 },
+ * //   p: 0.02747557128750907, confidence: 0.9, per: 10000, methods: { wald: 'Wald' }, reasons: [] }
  */
 import { twoSidedNormalP, zForConfidence } from './distributions';
 import { type RateGroup, resolveRateOptions, validateRateGroup } from './incidence-rate';

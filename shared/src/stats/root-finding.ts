@@ -5,7 +5,7 @@
  * Derivatives, 1973, ch. 4 (the "zeroin" algorithm).
  *
  * @example
- * brentRoot((x) => x * x - 2, 0, 2) // 1.4142135623730951
+ * brentRoot((x) => x * x - 2, 0, 2) // 1.414213562373095
  */
 export function brentRoot(
   f: (x: number) => number,

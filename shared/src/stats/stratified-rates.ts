@@ -14,7 +14,7 @@
  * stratifiedRates([
  *   { exposed: { cases: 1308, personTime: 4325264 }, reference: { cases: 884, personTime: 13142619 } },
  *   { exposed: { cases: 200, personTime: 1530342 }, reference: { cases: 190, personTime: 5586741 } },
- * ]).mhIrr // { estimate: 4.393244481..., lower: 4.061988806..., upper: 4.751514095..., p: ... }
+ * ]).mhIrr // { estimate: 4.393244480716163, lower: 4.061988805977269, upper: 4.7515140954947865, p: 0, chi2: 1638.177537384984 }
  */
 import { chiSquareUpperTail, twoSidedNormalP, zForConfidence } from './distributions';
 import { compareRates, type RateComparisonResult } from './rate-comparison';
@@ -188,7 +188,10 @@ function mhRateDifference(strata: RateStratum[], z: number, per: number, reasons
  * χ² = Σ (a − M p̂)² / (M p̂ (1 − p̂)), p̂ = IRR_MH T1/(IRR_MH T1 + T0) (Breslow & Day 1987 Vol II).
  *
  * @example
- * rateHomogeneityScore([s1, s2], 4.39, []) // { chi2: ..., df: 1, p: ... }
+ * rateHomogeneityScore([
+ *   { exposed: { cases: 1308, personTime: 4325264 }, reference: { cases: 884, personTime: 13142619 } },
+ *   { exposed: { cases: 200, personTime: 1530342 }, reference: { cases: 190, personTime: 5586741 } },
+ * ], 4.393244480716163, []) // { chi2: 2.0306655080287954, df: 1, p: 0.1541530925867363 }
  */
 export function rateHomogeneityScore(strata: RateStratum[], commonIrr: number | null, reasons: Reason[]): ChiSquareTest {
   const none = (why: string): ChiSquareTest => {

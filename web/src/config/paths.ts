@@ -3,4 +3,22 @@ export const paths = {
   home: '/',
   signIn: '/auth/login',
   signOut: '/auth/logout',
+  noRole: '/no-role',
+  overview: '/overview',
+  trends: '/trends',
+  comparison: '/comparison',
+  adjusted: '/adjusted',
+  flags: '/flags',
+  flag: (id: string | number) => `/flags/${id}`,
+  intakes: '/intakes',
+  intake: (id: string | number) => `/intakes/${id}`,
+  runs: '/runs',
+  adHoc: '/ad-hoc',
+  admin: '/admin',
+  mailbox: '/mailbox',
+} as const;
+
+/** API endpoints, relative to the app's own origin. */
+export const apiPaths = {
+  session: '/api/session',
 } as const;

@@ -1,0 +1,127 @@
+import type { DataSource } from 'typeorm';
+import type { Principal } from '@ratewarden/shared/permissions';
+import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
+import { recordAudit } from '../../audit/audit-log';
+import { siteScope } from '../../auth/authorize';
+import { AppError } from '../../lib/app-error';
+
+type Row = Record<string, any>;
+const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
+
+const flagSelect = `SELECT f.*, to_char(f.period, 'YYYY-MM-DD') AS period_iso, r.name AS rule_name, g.name AS group_name
+  FROM flags f JOIN watch_rules r ON r.id = f.rule_id JOIN exposure_groups g ON g.id = f.exposure_group_id`;
+
+function flagOf(r: Row): Flag {
+  return {
+    id: r.id,
+    ruleId: r.rule_id,
+    ruleName: r.rule_name,
+    outcomeId: r.outcome_id,
+    exposureGroupId: r.exposure_group_id,
+    exposureGroupName: r.group_name,
+    state: r.state,
+    closeReason: r.close_reason,
+    closeComment: r.close_comment,
+    period: r.period_iso,
+    value: r.value,
+    worstValue: r.worst_value,
+    crossing: r.crossing,
+    figures: r.detail,
+    raisedAt: iso(r.raised_at)!,
+    updatedAt: iso(r.updated_at)!,
+    closedAt: iso(r.closed_at),
+  };
+}
+
+export async function listFlags(ds: DataSource, q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number }): Promise<Flag[]> {
+  const rows: Row[] = await ds.query(
+    `${flagSelect} WHERE ($1::text IS NULL OR f.state = $1) AND ($2::int IS NULL OR f.outcome_id = $2) AND ($3::int IS NULL OR f.exposure_group_id = $3)
+     ORDER BY (f.state = 'closed'), f.raised_at DESC LIMIT 500`,
+    [q.state ?? null, q.outcomeId ?? null, q.exposureGroupId ?? null],
+  );
+  return rows.map(flagOf);
+}
+
+export async function getFlag(ds: DataSource, id: string): Promise<FlagDetail> {
+  const rows: Row[] = await ds.query(`${flagSelect} WHERE f.id = $1`, [id]);
+  if (!rows[0]) throw new AppError('not_found', 'no such flag');
+  const events: Row[] = await ds.query(`SELECT id::text, at, kind, actor_id, run_id, detail FROM flag_events WHERE flag_id = $1 ORDER BY at, id`, [id]);
+  const notices: Row[] = await ds.query(`SELECT id, recipient, state, attempts, last_error, created_at, sent_at FROM notices WHERE flag_id = $1 ORDER BY created_at, recipient`, [id]);
+  return {
+    ...flagOf(rows[0]),
+    events: events.map((e) => ({ id: e.id, at: iso(e.at)!, kind: e.kind, actorId: e.actor_id, runId: e.run_id, detail: e.detail })),
+    notices: notices.map((n) => ({ id: n.id, recipient: n.recipient, state: n.state, attempts: n.attempts, lastError: n.last_error, createdAt: iso(n.created_at)!, sentAt: iso(n.sent_at) })),
+  };
+}
+
+const actorId = (p: Principal) => (p.kind === 'user' ? p.id : null);
+
+/** raised → in review. */
+export async function startReview(ds: DataSource, principal: Principal, id: string, comment: string | undefined, ip?: string): Promise<FlagDetail> {
+  await ds.transaction(async (em) => {
+    const [f]: Row[] = await em.query(`SELECT state FROM flags WHERE id = $1 FOR UPDATE`, [id]);
+    if (!f) throw new AppError('not_found', 'no such flag');
+    if (f.state !== 'raised') throw new AppError('conflict', `the flag is ${f.state.replace('_', ' ')}, not raised`);
+    await em.query(`UPDATE flags SET state = 'in_review', updated_at = now() WHERE id = $1`, [id]);
+    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'review_started', $2, $3)`, [id, actorId(principal), JSON.stringify({ comment: comment ?? null })]);
+    await recordAudit(em, { actor: principal, action: 'flag.review', target: `flag:${id}`, detail: { comment: comment ?? null }, ip });
+  });
+  return getFlag(ds, id);
+}
+
+/** raised or in review → closed, with a reason and a comment. */
+export async function closeFlag(ds: DataSource, principal: Principal, id: string, input: FlagCloseInput, ip?: string): Promise<FlagDetail> {
+  await ds.transaction(async (em) => {
+    const [f]: Row[] = await em.query(`SELECT state FROM flags WHERE id = $1 FOR UPDATE`, [id]);
+    if (!f) throw new AppError('not_found', 'no such flag');
+    if (f.state === 'closed') throw new AppError('conflict', 'the flag is already closed');
+    await em.query(
+      `UPDATE flags SET state = 'closed', close_reason = $2, close_comment = $3, closed_at = now(), closed_by = $4, updated_at = now() WHERE id = $1`,
+      [id, input.reason, input.comment, actorId(principal)],
+    );
+    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'closed', $2, $3)`, [id, actorId(principal), JSON.stringify(input)]);
+    await recordAudit(em, { actor: principal, action: 'flag.close', target: `flag:${id}`, detail: { ...input, from: f.state }, ip });
+  });
+  return getFlag(ds, id);
+}
+
+/**
+ * The cases counted in a flag's group and window, as the run counted them (same counted
+ * statuses, lag and first-event rule; attributed to the worker's roster row of the onset month
+ * minus the lag). Case-level data: the route lets only the physician in, within their sites, and
+ * every read is audited.
+ */
+export async function flagCases(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<FlagCase[]> {
+  const [f]: Row[] = await ds.query(
+    `SELECT f.outcome_id, f.exposure_group_id, f.period, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
+     FROM flags f JOIN runs r ON r.id = f.last_run_id WHERE f.id = $1`,
+    [id],
+  );
+  if (!f) throw new AppError('not_found', 'no such flag');
+  const months = f.window_kind === 'rolling12' ? 12 : 1;
+  const scope = siteScope(principal);
+  const rows: Row[] = await ds.query(
+    `SELECT c.case_ref, w.worker_key, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, c.status, a.site_id
+     FROM case_events c
+     JOIN outcomes o ON o.id = c.outcome_id
+     JOIN workers w ON w.id = c.worker_id
+     JOIN LATERAL (
+       SELECT r.site_id, r.exposure_group_id FROM roster_entries r
+       JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+       WHERE r.worker_id = c.worker_id AND r.month = (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AND r.hours > 0
+       ORDER BY r.hours DESC, r.site_id LIMIT 1
+     ) a ON true
+     WHERE c.superseded_by IS NULL AND c.outcome_id = $1 AND c.status = ANY(ARRAY(SELECT jsonb_array_elements_text($2::jsonb)))
+       AND a.exposure_group_id = $3
+       AND date_trunc('month', c.onset_date) BETWEEN ($4::date - make_interval(months => $5 - 1)) AND $4::date
+       AND ($6::int[] IS NULL OR a.site_id = ANY($6::int[]))
+       AND (o.counting_rule = 'recurrent' OR NOT EXISTS (
+         SELECT 1 FROM case_events e WHERE e.superseded_by IS NULL AND e.worker_id = c.worker_id AND e.outcome_id = c.outcome_id
+           AND e.status = ANY(ARRAY(SELECT jsonb_array_elements_text($2::jsonb)))
+           AND date_trunc('month', e.onset_date) < date_trunc('month', c.onset_date)))
+     ORDER BY c.onset_date, c.case_ref`,
+    [f.outcome_id, JSON.stringify(f.statuses), f.exposure_group_id, f.period, months, scope === 'all' ? null : scope],
+  );
+  await recordAudit(ds, { actor: principal, action: 'cases.read', target: `flag:${id}`, detail: { count: rows.length }, ip });
+  return rows.map((r) => ({ caseRef: r.case_ref, workerKey: r.worker_key, onsetDate: r.onset, status: r.status, siteId: r.site_id }));
+}

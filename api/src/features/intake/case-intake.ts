@@ -1,0 +1,119 @@
+import type { PoolClient } from 'pg';
+import { caseColumns, reasons } from '@ratewarden/shared/intake-columns';
+import type { IntakeDiff } from '@ratewarden/shared/intake-schemas';
+import { cell, cellChecksInsertSql, isCalendarDateSql, lit } from './sql-checks';
+
+const current = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month`;
+
+/**
+ * Every case-list check over the staging table. Leaves `intake_cases`: the well-formed rows typed
+ * and resolved to worker and outcome ids, with the current stored version of the same case_ref.
+ */
+export async function checkCases(client: PoolClient, stg: string): Promise<void> {
+  const outcomes = (await client.query<{ code: string }>(`SELECT upper(code) AS code FROM outcomes`)).rows.map((r) => r.code);
+  await client.query(cellChecksInsertSql(stg, caseColumns, { outcome: '$1' }), [outcomes]);
+
+  await client.query(`
+    INSERT INTO intake_problems (line, col, val, reason)
+    SELECT s.line_no + 1, 'case_ref', ${cell('s', 'case_ref')}, ${lit(reasons.caseRefTwice)}
+    FROM ${stg} s JOIN (SELECT ${cell('x', 'case_ref')} AS r FROM ${stg} x GROUP BY 1 HAVING count(*) > 1) d ON d.r = ${cell('s', 'case_ref')}`);
+
+  await client.query(`DROP TABLE IF EXISTS pg_temp.intake_cases`);
+  await client.query(`
+    CREATE TEMP TABLE intake_cases ON COMMIT DROP AS
+    SELECT s.line_no, ${cell('s', 'case_ref')} AS case_ref, ${cell('s', 'worker_key')} AS worker_key, w.id AS worker_id, o.id AS outcome_id,
+           upper(o.code) AS outcome_code, ${cell('s', 'onset_date')}::date AS onset_date, lower(${cell('s', 'status')}) AS status,
+           ce.id AS stored_id, ce.worker_id AS stored_worker, ce.outcome_id AS stored_outcome, ce.onset_date AS stored_onset, ce.status AS stored_status
+    FROM ${stg} s
+    JOIN outcomes o ON upper(o.code) = upper(${cell('s', 'outcome')})
+    LEFT JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
+    LEFT JOIN case_events ce ON ce.case_ref = ${cell('s', 'case_ref')} AND ce.superseded_by IS NULL
+    WHERE ${isCalendarDateSql(cell('s', 'onset_date'))}`);
+
+  await client.query(`
+    INSERT INTO intake_problems (line, col, val, reason)
+    SELECT c.line_no + 1, 'worker_key', c.worker_key, ${lit(reasons.caseWorkerNotRostered)}
+    FROM intake_cases c
+    WHERE c.worker_id IS NULL OR NOT EXISTS (
+      SELECT 1 FROM roster_entries re JOIN roster_slices rs ON ${current} WHERE re.worker_id = c.worker_id)`);
+  await client.query(`
+    INSERT INTO intake_problems (line, col, val, reason)
+    SELECT c.line_no + 1, 'onset_date', c.onset_date::text, ${lit(reasons.caseOutsideRoster)}
+    FROM intake_cases c
+    WHERE c.worker_id IS NOT NULL
+      AND EXISTS (SELECT 1 FROM roster_entries re JOIN roster_slices rs ON ${current} WHERE re.worker_id = c.worker_id)
+      AND NOT EXISTS (SELECT 1 FROM roster_entries re JOIN roster_slices rs ON ${current}
+                      WHERE re.worker_id = c.worker_id AND re.month = date_trunc('month', c.onset_date)::date)`);
+
+  // The same worker × outcome × onset under two case references: within the file or against the store.
+  await client.query(`
+    INSERT INTO intake_problems (line, col, val, reason)
+    SELECT c.line_no + 1, 'case_ref', c.case_ref, ${lit(reasons.caseDuplicateEvent)}
+    FROM intake_cases c
+    WHERE c.worker_id IS NOT NULL AND (
+      EXISTS (SELECT 1 FROM intake_cases d WHERE d.worker_id = c.worker_id AND d.outcome_id = c.outcome_id AND d.onset_date = c.onset_date AND d.case_ref <> c.case_ref)
+      OR EXISTS (SELECT 1 FROM case_events e WHERE e.superseded_by IS NULL AND e.worker_id = c.worker_id AND e.outcome_id = c.outcome_id
+                 AND e.onset_date = c.onset_date AND e.case_ref <> c.case_ref
+                 AND e.case_ref NOT IN (SELECT case_ref FROM intake_cases)))`);
+}
+
+/** Sites of the rostered months the cases fall in, for site scoping. */
+export async function caseScope(client: PoolClient): Promise<{ siteIds: number[]; monthFrom: string | null; monthTo: string | null }> {
+  const { rows } = await client.query<{ site_ids: number[] | null; month_from: string | null; month_to: string | null }>(`
+    SELECT (SELECT array_agg(DISTINCT re.site_id ORDER BY re.site_id) FROM intake_cases c
+            JOIN roster_entries re ON re.worker_id = c.worker_id AND re.month = date_trunc('month', c.onset_date)::date
+            JOIN roster_slices rs ON ${current}) AS site_ids,
+           to_char(date_trunc('month', min(onset_date)), 'YYYY-MM-DD') AS month_from, to_char(date_trunc('month', max(onset_date)), 'YYYY-MM-DD') AS month_to
+    FROM intake_cases`);
+  const r = rows[0]!;
+  return { siteIds: r.site_ids ?? [], monthFrom: r.month_from, monthTo: r.month_to };
+}
+
+const changedWhere = `stored_id IS NOT NULL AND (stored_worker <> worker_id OR stored_outcome <> outcome_id OR stored_onset <> onset_date OR stored_status <> status)`;
+
+export async function caseDiff(client: PoolClient): Promise<IntakeDiff> {
+  const { rows } = await client.query<{ outcome_code: string; new: string; changed: string; unchanged: string }>(`
+    SELECT outcome_code, count(*) FILTER (WHERE stored_id IS NULL) AS new, count(*) FILTER (WHERE ${changedWhere}) AS changed,
+           count(*) FILTER (WHERE stored_id IS NOT NULL AND NOT (${changedWhere})) AS unchanged
+    FROM intake_cases GROUP BY outcome_code ORDER BY outcome_code`);
+  const n = (k: 'new' | 'changed' | 'unchanged') => rows.reduce((t, r) => t + Number(r[k]), 0);
+  return { kind: 'cases', new: n('new'), changed: n('changed'), unchanged: n('unchanged'), byOutcome: rows.map((r) => ({ outcomeCode: r.outcome_code, new: Number(r.new), changed: Number(r.changed) })) };
+}
+
+/**
+ * Stores new and changed cases as events of this intake; the version a change replaces stays,
+ * marked as superseded by this intake. Unchanged cases are not stored again.
+ */
+export async function applyCases(client: PoolClient, intakeId: string): Promise<{ superseded: string[] }> {
+  const { rows: prev } = await client.query<{ intake_id: string }>(`
+    UPDATE case_events e SET superseded_by = $1 FROM intake_cases c
+    WHERE e.id = c.stored_id AND (c.stored_worker <> c.worker_id OR c.stored_outcome <> c.outcome_id OR c.stored_onset <> c.onset_date OR c.stored_status <> c.status)
+    RETURNING e.intake_id`, [intakeId]);
+  await client.query(`
+    INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status)
+    SELECT $1, case_ref, worker_id, outcome_id, onset_date, status FROM intake_cases
+    WHERE stored_id IS NULL OR ${changedWhere}`, [intakeId]);
+  return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };
+}
+
+/** Applied case intakes among `candidates` with no current event left become superseded. */
+export async function markSupersededCases(client: PoolClient, candidates: string[]): Promise<string[]> {
+  if (!candidates.length) return [];
+  const { rows } = await client.query<{ id: string }>(`
+    UPDATE intakes i SET state = 'superseded', superseded_at = now()
+    WHERE i.id = ANY($1::uuid[]) AND i.state = 'applied'
+      AND NOT EXISTS (SELECT 1 FROM case_events e WHERE e.intake_id = i.id AND e.superseded_by IS NULL)
+    RETURNING i.id`, [candidates]);
+  return rows.map((r) => r.id);
+}
+
+/** Makes every case version of a superseded case intake current again. */
+export async function restoreCases(client: PoolClient, intakeId: string): Promise<{ superseded: string[] }> {
+  const { rows: prev } = await client.query<{ intake_id: string }>(`
+    UPDATE case_events cur SET superseded_by = $1
+    FROM case_events mine
+    WHERE mine.intake_id = $1 AND cur.case_ref = mine.case_ref AND cur.superseded_by IS NULL AND cur.intake_id <> $1
+    RETURNING cur.intake_id`, [intakeId]);
+  await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1`, [intakeId]);
+  return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };
+}

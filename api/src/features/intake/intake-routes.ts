@@ -1,0 +1,78 @@
+import { Router, type RequestHandler } from 'express';
+import type { DataSource } from 'typeorm';
+import { intakeKindSchema } from '@ratewarden/shared/intake';
+import { intakeColumns, templateCsv } from '@ratewarden/shared/intake-columns';
+import { intakeListQuerySchema, intakeUploadQuerySchema } from '@ratewarden/shared/intake-schemas';
+import { authorize } from '../../auth/authorize';
+import { AppError } from '../../lib/app-error';
+import { tooLarge } from './byte-meter';
+import { getIntake, listIntakes } from './intake-queries';
+import { applyIntake, DEFAULT_MAX_BYTES, discardIntake, receiveIntake, restoreIntake } from './intake-service';
+import { firstFile } from './multipart-file';
+
+export interface IntakeRouterDeps {
+  dataSource: DataSource;
+  /** Largest file accepted, in bytes (default 512 MiB). */
+  maxBytes?: number;
+}
+
+const signedIn: RequestHandler = (req, _res, next) => next(req.principal ? undefined : new AppError('unauthenticated', 'sign in first'));
+
+/** Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore. */
+export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES }: IntakeRouterDeps): Router {
+  const router = Router();
+
+  router.get('/templates/:file', signedIn, (req, res) => {
+    const kind = intakeKindSchema.safeParse(String(req.params.file).replace(/\.csv$/, ''));
+    if (!kind.success) throw new AppError('not_found', 'templates are roster.csv and cases.csv');
+    res.type('text/csv; charset=utf-8').attachment(`ratewarden-${kind.data}-template.csv`).send(templateCsv(kind.data));
+  });
+
+  router.get('/formats', signedIn, (_req, res) => {
+    res.json(intakeColumns);
+  });
+
+  router.post('/', authorize('intake:write'), async (req, res) => {
+    const q = intakeUploadQuerySchema.parse(req.query);
+    // Refuse an announced oversize body before reading it, and close the connection after answering.
+    if (Number(req.get('content-length') ?? 0) > maxBytes + 1024 * 1024) {
+      res.set('connection', 'close');
+      req.resume();
+      throw tooLarge(maxBytes);
+    }
+    const file = await firstFile(req, maxBytes);
+    try {
+      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip });
+      if (result.intake.state === 'rejected') {
+        const first = result.intake.problems[0]?.reason ?? 'the file has problems';
+        const more = result.intake.problemCount > 1 ? ` (and ${result.intake.problemCount - 1} more problems)` : '';
+        throw new AppError('validation_failed', `the file was rejected: ${first}${more}`, result);
+      }
+      res.status(result.duplicate ? 200 : 201).json(result);
+    } catch (err) {
+      // Whatever is left of the upload is read and dropped, so the answer reaches the client.
+      res.set('connection', 'close');
+      file.stream.resume();
+      throw err;
+    }
+  });
+
+  router.get('/', authorize('intake:read'), async (req, res) => {
+    res.json(await listIntakes(ds, req.principal!, intakeListQuerySchema.parse(req.query)));
+  });
+  router.get('/:id', authorize('intake:read'), async (req, res) => {
+    res.json(await getIntake(ds, req.principal!, String(req.params.id)));
+  });
+  router.post('/:id/apply', authorize('intake:write'), async (req, res) => {
+    const intake = await applyIntake(ds, req.principal!, String(req.params.id), req.ip);
+    if (intake.state === 'rejected') throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake });
+    res.json(intake);
+  });
+  router.post('/:id/discard', authorize('intake:write'), async (req, res) => {
+    res.json(await discardIntake(ds, req.principal!, String(req.params.id), req.ip));
+  });
+  router.post('/:id/restore', authorize('intake:write'), async (req, res) => {
+    res.json(await restoreIntake(ds, req.principal!, String(req.params.id), req.ip));
+  });
+  return router;
+}

@@ -1,0 +1,139 @@
+import type { PoolClient } from 'pg';
+import type { IntakeDiff, RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
+import { columnPattern } from '@ratewarden/shared/intake-columns';
+import { cell, lit } from './sql-checks';
+
+const sliceJoin = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month`;
+
+/** Site ids and month range of a checked roster (from `intake_slices`). */
+export async function rosterScope(client: PoolClient): Promise<{ siteIds: number[]; monthFrom: string | null; monthTo: string | null }> {
+  const { rows } = await client.query<{ site_ids: number[] | null; month_from: string | null; month_to: string | null }>(`
+    SELECT array_agg(DISTINCT si.id ORDER BY si.id) AS site_ids, min(sl.m) || '-01' AS month_from, max(sl.m) || '-01' AS month_to
+    FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
+    WHERE sl.m ~ ${lit(columnPattern({ type: 'month' })!)}`);
+  const r = rows[0]!;
+  return { siteIds: r.site_ids ?? [], monthFrom: r.month_from, monthTo: r.month_to };
+}
+
+/**
+ * What applying the roster would change, per site × month already stored: workers added, removed,
+ * moved to another group, hours changed. Only the stored slices are compared row by row; a slice
+ * that is new is summarized from `intake_slices`.
+ */
+export async function rosterDiff(client: PoolClient, stg: string): Promise<IntakeDiff> {
+  await client.query(`DROP TABLE IF EXISTS pg_temp.intake_stored_slices`);
+  await client.query(`
+    CREATE TEMP TABLE intake_stored_slices ON COMMIT DROP AS
+    SELECT sl.site_code, sl.m, si.id AS site_id, (sl.m || '-01')::date AS month, rs.intake_id
+    FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
+    JOIN roster_slices rs ON rs.site_id = si.id AND rs.month = (sl.m || '-01')::date`);
+  const { rows: changed } = await client.query<{
+    site_code: string; m: string; added: string; removed: string; moved: string; hours_changed: string; unchanged: string; stored_hours: string | null; new_hours: string | null;
+    ex_added: string[] | null; ex_removed: string[] | null; ex_moved: string[] | null; ex_hours: string[] | null;
+  }>(`
+    WITH f AS (
+      SELECT ${cell('s', 'worker_key')} AS k, ss.site_code, ss.m, upper(${cell('s', 'exposure_group')}) AS g, replace(${cell('s', 'hours')}, ',', '.')::numeric AS h
+      FROM ${stg} s JOIN intake_stored_slices ss ON ss.site_code = upper(${cell('s', 'site')}) AND ss.m = ${cell('s', 'month')}
+    ), o AS (
+      SELECT w.worker_key AS k, ss.site_code, ss.m, upper(eg.code) AS g, re.hours AS h
+      FROM intake_stored_slices ss
+      JOIN roster_entries re ON re.intake_id = ss.intake_id AND re.site_id = ss.site_id AND re.month = ss.month
+      JOIN workers w ON w.id = re.worker_id JOIN exposure_groups eg ON eg.id = re.exposure_group_id
+    ), j AS (
+      SELECT coalesce(f.site_code, o.site_code) AS site_code, coalesce(f.m, o.m) AS m, coalesce(f.k, o.k) AS k, f.h AS fh, o.h AS oh,
+             CASE WHEN o.k IS NULL THEN 'added' WHEN f.k IS NULL THEN 'removed' WHEN f.g <> o.g THEN 'moved' WHEN f.h <> o.h THEN 'hours' ELSE 'same' END AS change
+      FROM f FULL JOIN o ON f.k = o.k AND f.site_code = o.site_code AND f.m = o.m
+    )
+    SELECT site_code, m,
+      count(*) FILTER (WHERE change = 'added') AS added, count(*) FILTER (WHERE change = 'removed') AS removed,
+      count(*) FILTER (WHERE change = 'moved') AS moved, count(*) FILTER (WHERE change = 'hours') AS hours_changed,
+      count(*) FILTER (WHERE change = 'same') AS unchanged, sum(oh) AS stored_hours, sum(fh) AS new_hours,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'added'))[1:10] AS ex_added,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'removed'))[1:10] AS ex_removed,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'moved'))[1:10] AS ex_moved,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'hours'))[1:10] AS ex_hours
+    FROM j GROUP BY site_code, m`);
+  const { rows: fresh } = await client.query<{ site_code: string; m: string; n: string; hours: string | null }>(`
+    SELECT sl.site_code, sl.m, sl.n, sl.hours FROM intake_slices sl
+    WHERE NOT EXISTS (SELECT 1 FROM intake_stored_slices ss WHERE ss.site_code = sl.site_code AND ss.m = sl.m)`);
+  const { rows: nw } = await client.query<{ n: string }>(`SELECT count(*) AS n FROM intake_workers iw WHERE NOT EXISTS (SELECT 1 FROM workers w WHERE w.worker_key = iw.k)`);
+
+  const slices: RosterSliceDiff[] = [
+    ...changed.map((r) => ({
+      siteCode: r.site_code, month: r.m, stored: true,
+      rows: Number(r.added) + Number(r.moved) + Number(r.hours_changed) + Number(r.unchanged),
+      added: Number(r.added), removed: Number(r.removed), moved: Number(r.moved), hoursChanged: Number(r.hours_changed), unchanged: Number(r.unchanged),
+      storedHours: Number(r.stored_hours ?? 0), newHours: Number(r.new_hours ?? 0),
+      examples: { added: r.ex_added ?? [], removed: r.ex_removed ?? [], moved: r.ex_moved ?? [], hoursChanged: r.ex_hours ?? [] },
+    })),
+    ...fresh.map((r) => ({
+      siteCode: r.site_code, month: r.m, stored: false, rows: Number(r.n), added: Number(r.n), removed: 0, moved: 0, hoursChanged: 0, unchanged: 0,
+      storedHours: 0, newHours: Number(r.hours ?? 0), examples: { added: [], removed: [], moved: [], hoursChanged: [] },
+    })),
+  ].sort((a, b) => a.siteCode.localeCompare(b.siteCode) || a.month.localeCompare(b.month));
+  const sum = (k: 'added' | 'removed' | 'moved' | 'hoursChanged' | 'unchanged') => slices.reduce((t, s) => t + s[k], 0);
+  return {
+    kind: 'roster',
+    newWorkers: Number(nw[0]!.n),
+    slices,
+    totals: { added: sum('added'), removed: sum('removed'), moved: sum('moved'), hoursChanged: sum('hoursChanged'), unchanged: sum('unchanged'), newSlices: fresh.length, replacedSlices: changed.length },
+  };
+}
+
+/**
+ * Stores a checked roster: new workers, every row as a roster entry of this intake, and the
+ * site × month pointers moved to it. Intakes left holding no current slice become superseded.
+ * Runs inside the caller's transaction; the checks have passed, so the casts cannot fail.
+ */
+export async function applyRoster(client: PoolClient, stg: string, intakeId: string): Promise<{ superseded: string[] }> {
+  await client.query(`
+    INSERT INTO workers (worker_key, birth_year, sex, first_intake_id)
+    SELECT iw.k, iw.by_min::int, iw.sex_min, $1 FROM intake_workers iw
+    ON CONFLICT (worker_key) DO NOTHING`, [intakeId]);
+  await client.query(`
+    INSERT INTO roster_entries (intake_id, worker_id, month, site_id, exposure_group_id, hours, job_title)
+    SELECT $1, w.id, (${cell('s', 'month')} || '-01')::date, si.id, g.id, replace(${cell('s', 'hours')}, ',', '.')::numeric, nullif(${cell('s', 'job_title')}, '')
+    FROM ${stg} s
+    JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
+    JOIN sites si ON upper(si.code) = upper(${cell('s', 'site')})
+    JOIN exposure_groups g ON upper(g.code) = upper(${cell('s', 'exposure_group')})`, [intakeId]);
+  const { rows: prev } = await client.query<{ intake_id: string }>(`
+    SELECT DISTINCT rs.intake_id FROM roster_slices rs JOIN sites si ON si.id = rs.site_id
+    JOIN intake_slices sl ON sl.site_code = upper(si.code) AND rs.month = (sl.m || '-01')::date`);
+  await client.query(`
+    INSERT INTO roster_slices (site_id, month, intake_id)
+    SELECT si.id, (sl.m || '-01')::date, $1 FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
+    ON CONFLICT (site_id, month) DO UPDATE SET intake_id = EXCLUDED.intake_id`, [intakeId]);
+  return { superseded: await markSupersededRosters(client, prev.map((r) => r.intake_id)) };
+}
+
+/** Applied roster intakes among `candidates` that no longer hold any current slice become superseded. */
+export async function markSupersededRosters(client: PoolClient, candidates: string[]): Promise<string[]> {
+  if (!candidates.length) return [];
+  const { rows } = await client.query<{ id: string }>(`
+    UPDATE intakes i SET state = 'superseded', superseded_at = now()
+    WHERE i.id = ANY($1::uuid[]) AND i.state = 'applied' AND NOT EXISTS (SELECT 1 FROM roster_slices rs WHERE rs.intake_id = i.id)
+    RETURNING i.id`, [candidates]);
+  return rows.map((r) => r.id);
+}
+
+/**
+ * Makes a superseded roster intake current again: every site × month it brought points back at it.
+ * Refuses (returns the clashes) when that would put a worker on two sites in one month.
+ */
+export async function restoreRoster(client: PoolClient, intakeId: string): Promise<{ superseded: string[]; clashes: number }> {
+  const { rows: prev } = await client.query<{ intake_id: string }>(`
+    SELECT DISTINCT rs.intake_id FROM roster_slices rs
+    JOIN (SELECT DISTINCT site_id, month FROM roster_entries WHERE intake_id = $1) mine ON mine.site_id = rs.site_id AND mine.month = rs.month
+    WHERE rs.intake_id <> $1`, [intakeId]);
+  await client.query(`
+    INSERT INTO roster_slices (site_id, month, intake_id)
+    SELECT DISTINCT site_id, month, intake_id FROM roster_entries WHERE intake_id = $1
+    ON CONFLICT (site_id, month) DO UPDATE SET intake_id = EXCLUDED.intake_id`, [intakeId]);
+  const { rows: clash } = await client.query<{ n: string }>(`
+    SELECT count(*) AS n FROM (
+      SELECT re.worker_id, re.month FROM roster_entries re JOIN roster_slices rs ON ${sliceJoin}
+      WHERE re.worker_id IN (SELECT worker_id FROM roster_entries WHERE intake_id = $1)
+      GROUP BY re.worker_id, re.month HAVING count(*) > 1) d`, [intakeId]);
+  return { superseded: await markSupersededRosters(client, prev.map((r) => r.intake_id)), clashes: Number(clash[0]!.n) };
+}

@@ -1,0 +1,88 @@
+import { columnPattern, reasons, type ColumnDef } from '@ratewarden/shared/intake-columns';
+
+/** A SQL string literal of a value from our own column definitions (never from a file). */
+export function lit(s: string): string {
+  return `'${s.replace(/'/g, "''")}'`;
+}
+
+/** The trimmed text of a staged cell; NULL (no such column in the file) reads as empty. */
+export function cell(alias: string, col: string): string {
+  return `btrim(coalesce(${alias}.${col}, ''))`;
+}
+
+/** The cell as compared: codes upper-cased, choices in the case they are listed in (as normalizeCell does). */
+export function normalized(alias: string, def: ColumnDef): string {
+  const v = cell(alias, def.name);
+  if (def.rule.type === 'code') return `upper(${v})`;
+  if (def.rule.type === 'choice') return def.rule.values.every((x) => x === x.toUpperCase()) ? `upper(${v})` : `lower(${v})`;
+  return v;
+}
+
+/** True for a YYYY-MM-DD text that is a day of the calendar; never raises on other text. */
+export function isCalendarDateSql(v: string): string {
+  return `CASE WHEN ${v} ~ ${lit(columnPattern({ type: 'date' })!)} THEN substr(${v}, 9, 2)::int <= extract(day FROM (substr(${v}, 1, 7) || '-01')::date + interval '1 month' - interval '1 day') ELSE false END`;
+}
+
+/** Known codes of sites, groups or outcomes, passed as query parameters by position. */
+export interface CodeParams {
+  site?: string;
+  exposure_group?: string;
+  outcome?: string;
+}
+
+/**
+ * The SQL expression that yields the reason a staged cell is wrong, or NULL when it is fine:
+ * the same rule, the same order and the same words as `cellSchema` in shared/intake-schemas.ts.
+ * CASE evaluates its branches in order, so a cast only runs once the pattern has matched.
+ */
+export function cellCheckSql(alias: string, def: ColumnDef, codes: CodeParams): string {
+  const v = cell(alias, def.name);
+  const nv = normalized(alias, def);
+  const rule = def.rule;
+  const branches: string[] = [`WHEN ${v} = '' THEN ${def.required ? lit(reasons.empty(def.name)) : 'NULL'}`];
+  const pattern = columnPattern(rule);
+  if (pattern) branches.push(`WHEN NOT (${v} ~ ${lit(pattern)}) THEN ${lit(reasons.shape(def.name, rule))}`);
+  switch (rule.type) {
+    case 'decimal':
+    case 'integer':
+      branches.push(`WHEN replace(${v}, ',', '.')::numeric NOT BETWEEN ${rule.min} AND ${rule.max} THEN ${lit(reasons.range(def.name, rule.min, rule.max))}`);
+      break;
+    case 'date':
+      // Day of month against the month's length, the same rule as isCalendarDate.
+      branches.push(
+        `WHEN substr(${v}, 9, 2)::int > extract(day FROM (substr(${v}, 1, 7) || '-01')::date + interval '1 month' - interval '1 day') THEN ${lit(reasons.noSuchDay(def.name))}`,
+      );
+      break;
+    case 'choice':
+      branches.push(`WHEN ${nv} NOT IN (${rule.values.map(lit).join(', ')}) THEN ${lit(reasons.shape(def.name, rule))}`);
+      break;
+    case 'text':
+      branches.push(`WHEN length(${v}) > ${rule.maxLength} THEN ${lit(reasons.shape(def.name, rule))}`);
+      break;
+    case 'code': {
+      const param = codes[rule.ref];
+      if (!param) throw new Error(`no code list for ${rule.ref}`);
+      branches.push(`WHEN NOT (${nv} = ANY(${param}::text[])) THEN ${lit(reasons.unknownCode(def.name, rule.ref))}`);
+      break;
+    }
+    case 'key':
+      break;
+  }
+  return `CASE ${branches.join(' ')} ELSE NULL END`;
+}
+
+/**
+ * Inserts one problem per wrong cell into the transaction's `intake_problems` table. One scan of
+ * the staging table computes every column's check; only rows with a problem are expanded.
+ */
+export function cellChecksInsertSql(table: string, defs: readonly ColumnDef[], codes: CodeParams): string {
+  const checks = defs.map((d, i) => `${cellCheckSql('s', d, codes)} AS r${i}`);
+  const any = defs.map((_d, i) => `r${i} IS NOT NULL`).join(' OR ');
+  const expand = defs.map((d, i) => `(${lit(d.name)}, b.${d.name}, b.r${i})`).join(', ');
+  return `
+    INSERT INTO intake_problems (line, col, val, reason)
+    SELECT b.line_no + 1, p.col, left(p.val, 200), p.reason
+    FROM (SELECT * FROM (SELECT s.*, ${checks.join(', ')} FROM ${table} s) t WHERE ${any}) b
+    CROSS JOIN LATERAL (VALUES ${expand}) p(col, val, reason)
+    WHERE p.reason IS NOT NULL`;
+}

@@ -1,0 +1,88 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import type { Principal } from '@ratewarden/shared/permissions';
+import { watchRuleCompleteSchema, watchRuleInputSchema, type WatchRule, type WatchRuleInput, type WatchRulePatch } from '@ratewarden/shared/rules';
+import { recordAudit } from '../../audit/audit-log';
+import { AppError } from '../../lib/app-error';
+
+const cols = `id, name, outcome_id AS "outcomeId", exposure_group_id AS "exposureGroupId", measure, threshold_on AS "thresholdOn",
+  threshold, min_cases AS "minCases", min_expected AS "minExpected", window_kind AS "window", consecutive_periods AS "consecutivePeriods",
+  fdr_control AS "fdrControl", fdr_level AS "fdrLevel", recipients, active, created_at AS "createdAt", updated_at AS "updatedAt"`;
+
+type Row = Omit<WatchRule, 'createdAt' | 'updatedAt'> & { createdAt: Date; updatedAt: Date };
+const dto = (r: Row): WatchRule => ({ ...r, createdAt: r.createdAt.toISOString(), updatedAt: r.updatedAt.toISOString() });
+
+export async function listRules(ds: DataSource): Promise<WatchRule[]> {
+  const rows: Row[] = await ds.query(`SELECT ${cols} FROM watch_rules ORDER BY created_at`);
+  return rows.map(dto);
+}
+
+async function ruleById(db: DataSource | EntityManager, id: string, lock = false): Promise<WatchRule> {
+  const rows: Row[] = await db.query(`SELECT ${cols} FROM watch_rules WHERE id = $1${lock ? ' FOR UPDATE' : ''}`, [id]);
+  if (!rows[0]) throw new AppError('not_found', 'no such watch rule');
+  return dto(rows[0]);
+}
+
+export const getRule = (ds: DataSource, id: string) => ruleById(ds, id);
+
+/** The outcome and exposure group a rule names must exist. */
+async function assertTargets(em: EntityManager, outcomeId: number, groupId: number | null): Promise<void> {
+  const problems: Array<{ path: string; message: string }> = [];
+  if (!(await em.query(`SELECT 1 FROM outcomes WHERE id = $1`, [outcomeId])).length) problems.push({ path: 'outcomeId', message: 'no such outcome' });
+  if (groupId !== null && !(await em.query(`SELECT 1 FROM exposure_groups WHERE id = $1`, [groupId])).length) problems.push({ path: 'exposureGroupId', message: 'no such exposure group' });
+  if (problems.length) throw new AppError('validation_failed', 'the watch rule is not valid', problems);
+}
+
+export async function createRule(ds: DataSource, principal: Principal, input: WatchRuleInput, ip?: string): Promise<WatchRule> {
+  const r = watchRuleInputSchema.parse(input);
+  return ds.transaction(async (em) => {
+    await assertTargets(em, r.outcomeId, r.exposureGroupId);
+    const [row]: Array<{ id: string }> = await em.query(
+      `INSERT INTO watch_rules (name, outcome_id, exposure_group_id, measure, threshold_on, threshold, min_cases, min_expected, window_kind,
+         consecutive_periods, fdr_control, fdr_level, recipients, active, created_by)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15) RETURNING id`,
+      [r.name, r.outcomeId, r.exposureGroupId, r.measure, r.thresholdOn, r.threshold, r.minCases, r.minExpected, r.window,
+        r.consecutivePeriods, r.fdrControl, r.fdrLevel, r.recipients, r.active, principal.kind === 'user' ? principal.id : null],
+    );
+    const rule = await ruleById(em, row!.id);
+    await recordAudit(em, { actor: principal, action: 'rule.create', target: `watch_rule:${rule.id}`, detail: { rule }, ip });
+    return rule;
+  });
+}
+
+const columnOf: Record<keyof WatchRulePatch, string> = {
+  name: 'name', outcomeId: 'outcome_id', exposureGroupId: 'exposure_group_id', measure: 'measure', thresholdOn: 'threshold_on',
+  threshold: 'threshold', minCases: 'min_cases', minExpected: 'min_expected', window: 'window_kind', consecutivePeriods: 'consecutive_periods',
+  fdrControl: 'fdr_control', fdrLevel: 'fdr_level', recipients: 'recipients', active: 'active',
+};
+
+/** Applies a partial change; the merged rule is validated as a whole before it is stored. */
+export async function updateRule(ds: DataSource, principal: Principal, id: string, patch: WatchRulePatch, ip?: string): Promise<WatchRule> {
+  return ds.transaction(async (em) => {
+    const before = await ruleById(em, id, true);
+    const merged = { ...before, ...patch };
+    watchRuleCompleteSchema.parse(merged);
+    await assertTargets(em, merged.outcomeId, merged.exposureGroupId);
+    const keys = Object.keys(patch).filter((k) => (patch as Record<string, unknown>)[k] !== undefined) as Array<keyof WatchRulePatch>;
+    if (keys.length) {
+      await em.query(
+        `UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`,
+        [id, ...keys.map((k) => (patch as Record<string, unknown>)[k])],
+      );
+    }
+    const after = await ruleById(em, id);
+    await recordAudit(em, { actor: principal, action: 'rule.update', target: `watch_rule:${id}`, detail: { before, after }, ip });
+    return after;
+  });
+}
+
+/** Deletes a rule that never raised a flag; one with flags keeps its history and can only be deactivated. */
+export async function deleteRule(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<void> {
+  await ds.transaction(async (em) => {
+    const before = await ruleById(em, id, true);
+    if ((await em.query(`SELECT 1 FROM flags WHERE rule_id = $1 LIMIT 1`, [id])).length) {
+      throw new AppError('conflict', 'this watch rule has raised flags; deactivate it instead so that their history stays');
+    }
+    await em.query(`DELETE FROM watch_rules WHERE id = $1`, [id]);
+    await recordAudit(em, { actor: principal, action: 'rule.delete', target: `watch_rule:${id}`, detail: { before }, ip });
+  });
+}

@@ -1,0 +1,52 @@
+import { EntitySchema } from 'typeorm';
+import type { CloseReason, FlagFigures, FlagState } from '@ratewarden/shared/flags';
+
+/** What a watch rule raised for one exposure group × outcome; at most one open per rule × group × outcome. */
+export interface FlagRow {
+  id: string;
+  ruleId: string;
+  outcomeId: number;
+  exposureGroupId: number;
+  state: FlagState;
+  closeReason: CloseReason | null;
+  closeComment: string | null;
+  raisedRunId: string;
+  lastRunId: string;
+  period: string;
+  /** The measure compared with the rule (estimate or lower bound) in the latest run. */
+  value: number;
+  /** The worst value seen while the flag was open; a closed flag re-raises only past it. */
+  worstValue: number;
+  /** Whether the latest run still crosses the rule. */
+  crossing: boolean;
+  detail: FlagFigures;
+  raisedAt: Date;
+  updatedAt: Date;
+  closedAt: Date | null;
+  closedBy: string | null;
+}
+
+export const FlagEntity = new EntitySchema<FlagRow>({
+  name: 'Flag',
+  tableName: 'flags',
+  columns: {
+    id: { type: 'uuid', primary: true, generated: 'uuid' },
+    ruleId: { name: 'rule_id', type: 'uuid' },
+    outcomeId: { name: 'outcome_id', type: 'integer' },
+    exposureGroupId: { name: 'exposure_group_id', type: 'integer' },
+    state: { type: 'text', default: 'raised' },
+    closeReason: { name: 'close_reason', type: 'text', nullable: true },
+    closeComment: { name: 'close_comment', type: 'text', nullable: true },
+    raisedRunId: { name: 'raised_run_id', type: 'uuid' },
+    lastRunId: { name: 'last_run_id', type: 'uuid' },
+    period: { type: 'date' },
+    value: { type: 'double precision' },
+    worstValue: { name: 'worst_value', type: 'double precision' },
+    crossing: { type: 'boolean', default: true },
+    detail: { type: 'jsonb' },
+    raisedAt: { name: 'raised_at', type: 'timestamptz', createDate: true },
+    updatedAt: { name: 'updated_at', type: 'timestamptz', updateDate: true },
+    closedAt: { name: 'closed_at', type: 'timestamptz', nullable: true },
+    closedBy: { name: 'closed_by', type: 'uuid', nullable: true },
+  },
+});

@@ -1,0 +1,40 @@
+import { EntitySchema } from 'typeorm';
+import type { RunInputs, RunSettings, RunState, RunTrigger } from '@ratewarden/shared/runs';
+
+/** One computation run: its inputs, settings, code version and outcome. */
+export interface Run {
+  id: string;
+  number: string;
+  trigger: RunTrigger;
+  reason: string | null;
+  state: RunState;
+  startedAt: Date;
+  finishedAt: Date | null;
+  error: string | null;
+  inputs: RunInputs;
+  settings: RunSettings;
+  codeVersion: string;
+  /** host:pid of the process that ran it. */
+  worker: string;
+  summary: Record<string, unknown>;
+}
+
+export const RunEntity = new EntitySchema<Run>({
+  name: 'Run',
+  tableName: 'runs',
+  columns: {
+    id: { type: 'uuid', primary: true, generated: 'uuid' },
+    number: { type: 'bigint', generated: 'increment', unique: true },
+    trigger: { type: 'text' },
+    reason: { type: 'text', nullable: true },
+    state: { type: 'text', default: 'running' },
+    startedAt: { name: 'started_at', type: 'timestamptz', createDate: true },
+    finishedAt: { name: 'finished_at', type: 'timestamptz', nullable: true },
+    error: { type: 'text', nullable: true },
+    inputs: { type: 'jsonb', default: () => "'{}'" },
+    settings: { type: 'jsonb' },
+    codeVersion: { name: 'code_version', type: 'text' },
+    worker: { type: 'text' },
+    summary: { type: 'jsonb', default: () => "'{}'" },
+  },
+});

@@ -1,0 +1,159 @@
+import { z } from 'zod';
+import { caseStatusSchema, intakeKindSchema, intakeStateSchema, type IntakeKind } from './intake';
+import { columnPattern, intakeColumns, normalizeCell, reasons, type ColumnDef, type ColumnRule } from './intake-columns';
+
+/** Days in a month of the Gregorian calendar; the same rule the SQL check uses. */
+export function isCalendarDate(iso: string): boolean {
+  const [y, m, d] = iso.split('-').map(Number) as [number, number, number];
+  return d <= new Date(Date.UTC(y, m, 0)).getUTCDate();
+}
+
+/** The zod schema of one cell, derived from the column's rule (see intake-columns.ts). */
+export function cellSchema(col: ColumnDef): z.ZodType<string | number | null> {
+  const rule: ColumnRule = col.rule;
+  const pattern = columnPattern(rule);
+  return z.string().transform((raw, ctx) => {
+    const v = normalizeCell(rule, raw);
+    if (v === '') {
+      if (col.required) ctx.addIssue({ code: 'custom', message: reasons.empty(col.name) });
+      return null;
+    }
+    if (pattern && !new RegExp(pattern).test(v)) {
+      ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
+      return z.NEVER;
+    }
+    switch (rule.type) {
+      case 'decimal':
+      case 'integer': {
+        const n = Number(v.replace(',', '.'));
+        if (n < rule.min || n > rule.max) ctx.addIssue({ code: 'custom', message: reasons.range(col.name, rule.min, rule.max) });
+        return n;
+      }
+      case 'date':
+        if (!isCalendarDate(v)) ctx.addIssue({ code: 'custom', message: reasons.noSuchDay(col.name) });
+        return v;
+      case 'choice':
+        if (!rule.values.includes(v)) ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
+        return v;
+      case 'text':
+        if (v.length > rule.maxLength) ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
+        return v;
+      default:
+        return v;
+    }
+  });
+}
+
+/** Row schema for small files, the web page's preview and JSON bodies: header name → cell. */
+export function rowSchema(kind: IntakeKind) {
+  const shape: Record<string, z.ZodType<string | number | null>> = {};
+  for (const col of intakeColumns[kind]) shape[col.name] = col.required ? cellSchema(col) : cellSchema(col).optional().transform((v) => v ?? null);
+  return z.object(shape).strict();
+}
+
+// ---- API shapes -------------------------------------------------------------------------------
+
+/** One problem found in a file: row/line and column, with a reason in the hygienist's words. */
+export const intakeProblemSchema = z.object({
+  /** Line of the file, the header being line 1 (null for problems of the file as a whole). */
+  line: z.number().int().nullable(),
+  column: z.string().nullable(),
+  value: z.string().nullable(),
+  reason: z.string(),
+});
+export type IntakeProblem = z.infer<typeof intakeProblemSchema>;
+
+export const rosterSliceDiffSchema = z.object({
+  siteCode: z.string(),
+  month: z.string(),
+  /** Whether a version of this site × month is already stored (false: the whole slice is new). */
+  stored: z.boolean(),
+  rows: z.number().int(),
+  added: z.number().int(),
+  removed: z.number().int(),
+  moved: z.number().int(),
+  hoursChanged: z.number().int(),
+  unchanged: z.number().int(),
+  storedHours: z.number(),
+  newHours: z.number(),
+  /** Up to 10 worker keys of each kind, to spot-check. */
+  examples: z.object({ added: z.array(z.string()), removed: z.array(z.string()), moved: z.array(z.string()), hoursChanged: z.array(z.string()) }),
+});
+export type RosterSliceDiff = z.infer<typeof rosterSliceDiffSchema>;
+
+export const rosterDiffSchema = z.object({
+  kind: z.literal('roster'),
+  newWorkers: z.number().int(),
+  slices: z.array(rosterSliceDiffSchema),
+  totals: z.object({ added: z.number().int(), removed: z.number().int(), moved: z.number().int(), hoursChanged: z.number().int(), unchanged: z.number().int(), newSlices: z.number().int(), replacedSlices: z.number().int() }),
+});
+
+export const caseDiffSchema = z.object({
+  kind: z.literal('cases'),
+  new: z.number().int(),
+  changed: z.number().int(),
+  unchanged: z.number().int(),
+  byOutcome: z.array(z.object({ outcomeCode: z.string(), new: z.number().int(), changed: z.number().int() })),
+});
+
+export const intakeDiffSchema = z.discriminatedUnion('kind', [rosterDiffSchema, caseDiffSchema]);
+export type IntakeDiff = z.infer<typeof intakeDiffSchema>;
+
+export const intakeSummarySchema = z.object({
+  id: z.string().uuid(),
+  kind: intakeKindSchema,
+  state: intakeStateSchema,
+  fileName: z.string(),
+  checksum: z.string(),
+  sizeBytes: z.number().int(),
+  siteIds: z.array(z.number().int()),
+  monthFrom: z.string().nullable(),
+  monthTo: z.string().nullable(),
+  rowCount: z.number().int(),
+  problemCount: z.number().int(),
+  submittedBy: z.string().nullable(),
+  createdAt: z.string(),
+  checkedAt: z.string().nullable(),
+  appliedAt: z.string().nullable(),
+  supersededAt: z.string().nullable(),
+  /** Whether staged rows are waiting for apply (state checked). */
+  staged: z.boolean(),
+});
+export type IntakeSummary = z.infer<typeof intakeSummarySchema>;
+
+export const runRequestSchema = z.object({ id: z.number().int(), requestedAt: z.string(), pickedAt: z.string().nullable(), reason: z.string() });
+
+export const intakeDetailSchema = intakeSummarySchema.extend({
+  /** The first 1,000 problems, ordered by line; `problemCount` counts them all. */
+  problems: z.array(intakeProblemSchema),
+  diff: intakeDiffSchema.nullable(),
+  runRequest: runRequestSchema.nullable(),
+});
+export type IntakeDetail = z.infer<typeof intakeDetailSchema>;
+
+/** Query of POST /api/intakes (multipart body with one file field, any name). */
+export const intakeUploadQuerySchema = z.object({
+  kind: intakeKindSchema,
+  /** check: stop after checking, the hygienist applies or discards later; apply: apply when no problem is found. */
+  mode: z.enum(['check', 'apply']).default('check'),
+});
+
+/** Response of POST /api/intakes: the intake, and whether the file was already known (checksum). */
+export const intakeUploadResponseSchema = z.object({
+  intake: intakeDetailSchema,
+  /** True when the same file (same checksum) was taken in before; nothing changed. */
+  duplicate: z.boolean(),
+});
+export type IntakeUploadResponse = z.infer<typeof intakeUploadResponseSchema>;
+
+export const intakeListQuerySchema = z.object({
+  kind: intakeKindSchema.optional(),
+  state: intakeStateSchema.optional(),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+export const intakeListResponseSchema = z.object({ items: z.array(intakeSummarySchema), total: z.number().int() });
+export type IntakeListResponse = z.infer<typeof intakeListResponseSchema>;
+
+/** Case status, re-exported for pages that show the case template. */
+export { caseStatusSchema };

@@ -1,0 +1,92 @@
+import { z } from 'zod';
+
+/**
+ * Watch rules: what a run's results are compared with to raise flags.
+ *
+ * - `measure`: the IRR or IRD against the reference group, the group's own rate, or a u-chart
+ *   point above its upper control limit.
+ * - `thresholdOn`: the point estimate, or the lower bound of its interval (exact conditional for
+ *   the IRR, exact Poisson for the rate, Wald for the IRD), e.g. "IRR lower 95% bound above 1.0".
+ *   Rates and IRDs are in the run's units (its person-time basis and multiplier).
+ * - `minCases`, `minExpected`: the group must have at least this many cases and this many
+ *   expected at the reference rate (the u-chart centre line for `uchart`) before a flag is raised.
+ * - `consecutivePeriods`: the rule must hold in this many consecutive periods ending at the
+ *   latest one.
+ * - `fdrControl`: Benjamini–Hochberg across the groups the rule covers, at `fdrLevel` (on by
+ *   default); it does not apply to u-chart rules, whose 3-sigma limits already fix the
+ *   false-alarm rate per point.
+ */
+export const ruleMeasureSchema = z.enum(['irr', 'ird', 'rate', 'uchart']);
+export type RuleMeasure = z.infer<typeof ruleMeasureSchema>;
+
+export const thresholdOnSchema = z.enum(['estimate', 'lower_bound']);
+export type ThresholdOn = z.infer<typeof thresholdOnSchema>;
+
+export const windowKindSchema = z.enum(['month', 'rolling12']);
+export type WindowKind = z.infer<typeof windowKindSchema>;
+
+const ruleFields = z.strictObject({
+  name: z.string().trim().min(1).max(120),
+  outcomeId: z.number().int().positive(),
+  /** null: every exposure group except the reference group. */
+  exposureGroupId: z.number().int().positive().nullable().default(null),
+  measure: ruleMeasureSchema,
+  thresholdOn: thresholdOnSchema.default('lower_bound'),
+  /** Required except for `uchart`, whose threshold is the upper control limit itself. */
+  threshold: z.number().finite().nullable().default(null),
+  minCases: z.number().int().min(0).max(100_000).default(3),
+  minExpected: z.number().min(0).max(100_000).default(0),
+  window: windowKindSchema.default('rolling12'),
+  consecutivePeriods: z.number().int().min(1).max(24).default(1),
+  fdrControl: z.boolean().default(true),
+  fdrLevel: z.number().gt(0).lt(1).default(0.05),
+  recipients: z.array(z.string().trim().toLowerCase().pipe(z.email())).max(50).default([]),
+  active: z.boolean().default(true),
+});
+
+function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: WindowKind }, ctx: z.RefinementCtx): void {
+  if (r.measure !== 'uchart' && r.threshold === null) {
+    ctx.addIssue({ code: 'custom', path: ['threshold'], message: 'a threshold is required for this measure' });
+  }
+  if (r.measure === 'irr' && r.threshold !== null && r.threshold < 0) {
+    ctx.addIssue({ code: 'custom', path: ['threshold'], message: 'a rate ratio threshold cannot be negative' });
+  }
+  if (r.measure === 'uchart' && r.window !== 'month') {
+    ctx.addIssue({ code: 'custom', path: ['window'], message: 'u-chart rules work on single months' });
+  }
+}
+
+/** Body of POST /api/rules. */
+export const watchRuleInputSchema = ruleFields.superRefine(checkRule);
+export type WatchRuleInput = z.input<typeof watchRuleInputSchema>;
+
+/** Body of PATCH /api/rules/:id: any subset; the merged rule is validated again. */
+export const watchRulePatchSchema = ruleFields.partial();
+export type WatchRulePatch = z.input<typeof watchRulePatchSchema>;
+
+/** Checks a complete rule after a patch has been merged into it. */
+export const watchRuleCompleteSchema = z
+  .object({ measure: ruleMeasureSchema, threshold: z.number().nullable(), window: windowKindSchema })
+  .superRefine(checkRule);
+
+/** A stored rule as the API returns it. */
+export const watchRuleSchema = z.object({
+  id: z.string().uuid(),
+  name: z.string(),
+  outcomeId: z.number().int(),
+  exposureGroupId: z.number().int().nullable(),
+  measure: ruleMeasureSchema,
+  thresholdOn: thresholdOnSchema,
+  threshold: z.number().nullable(),
+  minCases: z.number().int(),
+  minExpected: z.number(),
+  window: windowKindSchema,
+  consecutivePeriods: z.number().int(),
+  fdrControl: z.boolean(),
+  fdrLevel: z.number(),
+  recipients: z.array(z.string()),
+  active: z.boolean(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+});
+export type WatchRule = z.infer<typeof watchRuleSchema>;

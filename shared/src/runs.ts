@@ -1,0 +1,123 @@
+import { z } from 'zod';
+import { caseStatusSchema } from './intake';
+import { windowKindSchema } from './rules';
+
+/**
+ * Runs and their results as the API returns them. Numbers that the statistics core may make
+ * infinite (an IRR with no reference cases, an exact upper limit) travel as the strings
+ * "Infinity" / "-Infinity" (the core's JSON convention); null means undefined.
+ */
+export const jsonNumberSchema = z.union([z.number(), z.literal('Infinity'), z.literal('-Infinity')]);
+
+/**
+ * How a run turns hours into person-time: person-years at 2,000 h, or units of 200,000 hours
+ * (the OSHA/BLS convention: 100 full-time workers for a year). `per` multiplies the rate
+ * (1,000 → per 1,000 person-years; 1 with the 200,000-hour basis → the OSHA rate).
+ */
+export const personTimeBasisSchema = z.enum(['person_years', 'hours_200k']);
+export type PersonTimeBasis = z.infer<typeof personTimeBasisSchema>;
+
+export const runSettingsSchema = z.object({
+  personTimeBasis: personTimeBasisSchema.default('person_years'),
+  per: z.number().positive().default(1000),
+  confidence: z.number().gt(0).lt(1).default(0.95),
+  countedStatuses: z.array(caseStatusSchema).min(1).default(['confirmed']),
+});
+export type RunSettings = z.infer<typeof runSettingsSchema>;
+
+export const runTriggerSchema = z.enum(['schedule', 'request', 'cli', 'bench']);
+export type RunTrigger = z.infer<typeof runTriggerSchema>;
+
+export const runStateSchema = z.enum(['running', 'succeeded', 'failed']);
+export type RunState = z.infer<typeof runStateSchema>;
+
+export const runInputsSchema = z.object({
+  rosterIntakeIds: z.array(z.string()),
+  caseIntakeIds: z.array(z.string()),
+  requestIds: z.array(z.string()),
+});
+export type RunInputs = z.infer<typeof runInputsSchema>;
+
+export const runSummarySchema = z.object({
+  id: z.string().uuid(),
+  number: z.number().int(),
+  trigger: runTriggerSchema,
+  reason: z.string().nullable(),
+  state: runStateSchema,
+  isCurrent: z.boolean(),
+  startedAt: z.string(),
+  finishedAt: z.string().nullable(),
+  error: z.string().nullable(),
+  codeVersion: z.string(),
+  resultCount: z.number().int().nullable(),
+});
+export type RunSummary = z.infer<typeof runSummarySchema>;
+
+export const runDetailSchema = runSummarySchema.extend({
+  inputs: runInputsSchema,
+  settings: runSettingsSchema,
+  worker: z.string(),
+  /** Counts and timings: cells, results, flags raised, cases that matched no roster row, seconds. */
+  summary: z.record(z.string(), z.unknown()),
+});
+export type RunDetail = z.infer<typeof runDetailSchema>;
+
+const limits = { estimate: jsonNumberSchema.nullable(), lower: jsonNumberSchema.nullable(), upper: jsonNumberSchema.nullable() };
+
+export const runResultSchema = z.object({
+  outcomeId: z.number().int(),
+  exposureGroupId: z.number().int(),
+  window: windowKindSchema,
+  /** The month, or the last month of the rolling window (ISO date, first of the month). */
+  period: z.string(),
+  monthsCovered: z.number().int(),
+  isReference: z.boolean(),
+  referenceGroupId: z.number().int().nullable(),
+  cases: z.number().int(),
+  hours: z.string(),
+  personTime: z.number(),
+  rate: z.object(limits),
+  expected: z.number().nullable(),
+  irr: z.object({ ...limits, p: z.number().nullable(), waldLower: jsonNumberSchema.nullable(), waldUpper: jsonNumberSchema.nullable() }),
+  ird: z.object({ ...limits, p: z.number().nullable() }),
+  mhAge: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
+  mhSite: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
+  uChart: z.object({ centre: z.number().nullable(), lcl: z.number().nullable(), ucl: z.number().nullable(), signal: z.enum(['above', 'below', 'within']).nullable() }),
+  detail: z.record(z.string(), z.unknown()),
+});
+export type RunResult = z.infer<typeof runResultSchema>;
+
+/** Query of GET /api/runs/:id/results. */
+export const runResultsQuerySchema = z.object({
+  outcomeId: z.coerce.number().int().positive().optional(),
+  exposureGroupId: z.coerce.number().int().positive().optional(),
+  window: windowKindSchema.optional(),
+  from: z.iso.date().optional(),
+  to: z.iso.date().optional(),
+});
+export type RunResultsQuery = z.infer<typeof runResultsQuerySchema>;
+
+/** Query of GET /api/runs/diff. */
+export const runDiffQuerySchema = z.object({ from: z.string().uuid(), to: z.string().uuid() });
+
+export const runDiffRowSchema = z.object({
+  outcomeId: z.number().int(),
+  exposureGroupId: z.number().int(),
+  window: windowKindSchema,
+  period: z.string(),
+  change: z.enum(['added', 'removed', 'changed']),
+  before: z.object({ cases: z.number().int(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
+  after: z.object({ cases: z.number().int(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
+});
+export const runDiffSchema = z.object({
+  from: runSummarySchema,
+  to: runSummarySchema,
+  settingsChanged: z.boolean(),
+  unchangedCount: z.number().int(),
+  rows: z.array(runDiffRowSchema),
+});
+export type RunDiff = z.infer<typeof runDiffSchema>;
+
+/** Answer of POST /api/runs: the request the worker will pick up. */
+export const runRequestedSchema = z.object({ requestId: z.string(), requestedAt: z.string() });
+export type RunRequested = z.infer<typeof runRequestedSchema>;

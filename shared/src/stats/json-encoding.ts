@@ -1,0 +1,38 @@
+/**
+ * JSON encoding of results: JSON has no infinity, so ±∞ become the strings "Infinity" and
+ * "-Infinity" (the convention of the published-examples file and of the CLI); undefined values
+ * are already null. Numbers keep full double precision (rounding is the UI's job).
+ *
+ * @example
+ * toJsonValue({ upper: Infinity, lower: 0.5 }) // { upper: 'Infinity', lower: 0.5 }
+ */
+export type JsonValue = null | boolean | number | string | JsonValue[] | { [key: string]: JsonValue };
+
+/** Recursively replace ±∞ with strings (and, defensively, NaN with null). @example toJsonValue([-Infinity]) // ['-Infinity'] */
+export function toJsonValue(value: unknown): JsonValue {
+  if (value === null || value === undefined) return null;
+  if (typeof value === 'number') {
+    if (Number.isNaN(value)) return null;
+    if (value === Infinity) return 'Infinity';
+    if (value === -Infinity) return '-Infinity';
+    return value;
+  }
+  if (typeof value === 'string' || typeof value === 'boolean') return value;
+  if (Array.isArray(value)) return value.map(toJsonValue);
+  if (typeof value === 'object') {
+    const out: { [key: string]: JsonValue } = {};
+    for (const [k, v] of Object.entries(value as Record<string, unknown>)) {
+      if (v !== undefined) out[k] = toJsonValue(v);
+    }
+    return out;
+  }
+  return null;
+}
+
+/** Inverse for numbers read back: "Infinity"/"-Infinity" → ±∞. @example fromJsonNumber('Infinity') // Infinity */
+export function fromJsonNumber(value: number | string | null): number | null {
+  if (value === 'Infinity') return Infinity;
+  if (value === '-Infinity') return -Infinity;
+  if (typeof value === 'string') return Number(value);
+  return value;
+}

@@ -1,0 +1,89 @@
+import type { Express } from 'express';
+import request from 'supertest';
+import type TestAgent from 'supertest/lib/agent';
+import type { DataSource } from 'typeorm';
+import type { Role } from '@ratewarden/shared/domain';
+
+export const DEMO_PASSWORD = 'demo-password';
+
+/** Cookie jar for the identity provider's side of the round trip. */
+class Jar {
+  private cookies = new Map<string, string>();
+  take(res: Response): void {
+    for (const c of res.headers.getSetCookie()) {
+      const [pair] = c.split(';');
+      const i = pair!.indexOf('=');
+      this.cookies.set(pair!.slice(0, i), pair!.slice(i + 1));
+    }
+  }
+  header(): string {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
+  }
+}
+
+export interface SignedInAgent {
+  agent: InstanceType<typeof TestAgent>;
+  csrf: string;
+}
+
+/**
+ * Signs a demo person in through the real OpenID Connect round trip: the app's /auth/login, the
+ * identity provider's sign-in form, and back to the app's callback, all without a browser.
+ */
+export async function signIn(app: Express, email: string, password = DEMO_PASSWORD): Promise<SignedInAgent> {
+  const agent = request.agent(app);
+  const login = await agent.get('/auth/login').expect(302);
+  const jar = new Jar();
+  let url = new URL(login.headers.location as string);
+  for (let hop = 0; hop < 12; hop++) {
+    const res = await fetch(url, { redirect: 'manual', headers: { cookie: jar.header() } });
+    jar.take(res);
+    if (res.status >= 300 && res.status < 400) {
+      const next = new URL(res.headers.get('location')!, url);
+      if (next.pathname === '/auth/callback') {
+        await agent.get(`${next.pathname}${next.search}`).expect(302);
+        const session = await agent.get('/api/session').expect(200);
+        if (!session.body.user) throw new Error(`sign-in of ${email} did not produce a session`);
+        return { agent, csrf: session.body.csrfToken as string };
+      }
+      url = next;
+      continue;
+    }
+    const html = await res.text();
+    const action = /<form method="post" action="([^"]+)"/.exec(html)?.[1];
+    if (!action) throw new Error(`unexpected page from the identity provider (${res.status}): ${html.slice(0, 200)}`);
+    const posted = await fetch(new URL(action, url), {
+      method: 'POST',
+      redirect: 'manual',
+      headers: { cookie: jar.header(), 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ email, password }),
+    });
+    jar.take(posted);
+    if (posted.status === 401) throw new Error(`the identity provider refused ${email}`);
+    url = new URL(posted.headers.get('location')!, url);
+  }
+  throw new Error('sign-in did not finish within 12 redirects');
+}
+
+/** Gives a person a role and sites before they first sign in (as an administrator would). */
+export async function provisionUser(ds: DataSource, email: string, role: Role | null, siteIds: number[] = []): Promise<string> {
+  const [row] = (await ds.query(
+    `INSERT INTO users (email, name, role) VALUES ($1, $1, $2)
+     ON CONFLICT (lower(email)) WHERE subject IS NULL DO UPDATE SET role = EXCLUDED.role RETURNING id`,
+    [email, role],
+  )) as { id: string }[];
+  await ds.query(`DELETE FROM user_sites WHERE user_id = $1`, [row!.id]);
+  if (siteIds.length) await ds.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, unnest($2::int[])`, [row!.id, siteIds]);
+  return row!.id;
+}
+
+/** Access token for the demo HR integration client, straight from the identity provider. */
+export async function clientToken(issuer: string, clientId = 'hr-sync-demo', secret = 'demo-secret'): Promise<string> {
+  const res = await fetch(new URL('/token', issuer), {
+    method: 'POST',
+    headers: { authorization: `Basic ${Buffer.from(`${clientId}:${secret}`).toString('base64')}`, 'content-type': 'application/x-www-form-urlencoded' },
+    body: new URLSearchParams({ grant_type: 'client_credentials', scope: 'intake:write' }),
+  });
+  if (!res.ok) throw new Error(`token request failed: ${res.status} ${await res.text()}`);
+  return ((await res.json()) as { access_token: string }).access_token;
+}

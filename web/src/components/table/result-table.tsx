@@ -1,0 +1,61 @@
+import type { ReactNode } from 'react';
+import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
+
+/**
+ * A small table of results: the first column names the row (a row header), the rest are figures.
+ * `csv` gives the raw numbers behind the formatted cells for the export.
+ */
+export interface ResultRow {
+  key: string;
+  cells: ReactNode[];
+  csv: CsvCell[];
+}
+
+export function ResultTable({ caption, columns, rows, exportName }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string }) {
+  return (
+    <div className="mt-4 overflow-x-auto">
+      <table className="w-full border-collapse bg-panel text-sm">
+        <caption className="pb-2 text-left">
+          <span className="flex flex-wrap items-baseline justify-between gap-2">
+            <span className="text-base font-semibold">{caption}</span>
+            {exportName && (
+              <button
+                type="button"
+                className="no-print rounded-sm border border-rule px-2 py-0.5 text-xs font-medium hover:bg-moss-soft"
+                onClick={() => downloadCsv(`${exportName}.csv`, toCsv(columns, rows.map((r) => r.csv)))}
+              >
+                Export CSV<span className="sr-only">: {caption}</span>
+              </button>
+            )}
+          </span>
+        </caption>
+        <thead>
+          <tr className="border-b-2 border-ink text-left">
+            {columns.map((c) => (
+              <th key={c} scope="col" className="px-2 py-1.5 font-semibold">
+                {c}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+            <tr key={r.key} className="border-b border-rule align-top">
+              {r.cells.map((c, i) =>
+                i === 0 ? (
+                  <th key={i} scope="row" className="px-2 py-1.5 text-left font-medium">
+                    {c}
+                  </th>
+                ) : (
+                  <td key={i} className="px-2 py-1.5 tabular-nums">
+                    {c}
+                  </td>
+                ),
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

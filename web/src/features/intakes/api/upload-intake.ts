@@ -1,0 +1,23 @@
+import type { IntakeKind } from '@ratewarden/shared/intake';
+import { intakeUploadResponseSchema } from '@ratewarden/shared/intake-schemas';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { uploadWithProgress } from '../../../lib/upload-with-progress';
+import { intakeKeys } from './intake-keys';
+
+export interface UploadVars {
+  file: File;
+  kind: IntakeKind;
+  mode: 'check' | 'apply';
+  onProgress: (fraction: number) => void;
+}
+
+export function uploadIntake({ file, kind, mode, onProgress }: UploadVars) {
+  const form = new FormData();
+  form.append('file', file, file.name);
+  return uploadWithProgress(`/api/intakes?${new URLSearchParams({ kind, mode })}`, form, intakeUploadResponseSchema, onProgress);
+}
+
+export function useUploadIntake() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: uploadIntake, onSettled: () => qc.invalidateQueries({ queryKey: intakeKeys.all }) });
+}

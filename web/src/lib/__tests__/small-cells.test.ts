@@ -1,0 +1,30 @@
+import { describe, expect, it } from 'vitest';
+import { exportCount, showCount } from '../small-cells';
+
+// The rule (suppress counts under the threshold for everyone but the physician) is Ratewarden's
+// own, from DESIGN.md; 5 as the default threshold is common practice in health-statistics releases.
+describe('small-cell suppression', () => {
+  it.each(['hygienist', 'safety_manager', 'administrator', null] as const)('hides counts 0 to 4 from %s', (role) => {
+    for (const n of [0, 1, 4]) expect(showCount(n, role)).toEqual({ text: '<5', value: null, suppressed: true });
+    expect(showCount(5, role)).toEqual({ text: '5', value: 5, suppressed: false });
+  });
+
+  it('shows the physician every count', () => {
+    expect(showCount(1, 'physician')).toEqual({ text: '1', value: 1, suppressed: false });
+    expect(showCount(0, 'physician').text).toBe('0');
+  });
+
+  it('takes a configurable threshold', () => {
+    expect(showCount(9, 'hygienist', 10).text).toBe('<10');
+    expect(showCount(10, 'hygienist', 10).text).toBe('10');
+    expect(showCount(2, 'hygienist', 3).text).toBe('<3');
+    expect(showCount(3, 'hygienist', 3).text).toBe('3');
+  });
+
+  it('groups thousands and exports the suppressed text, never the number', () => {
+    expect(showCount(12345, 'safety_manager').text).toBe('12,345');
+    expect(exportCount(3, 'safety_manager')).toBe('<5');
+    expect(exportCount(3, 'physician')).toBe(3);
+    expect(exportCount(null, 'hygienist')).toBeNull();
+  });
+});

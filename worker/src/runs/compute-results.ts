@@ -1,0 +1,257 @@
+import {
+  compareRates,
+  hoursToOshaUnits,
+  hoursToPersonYears,
+  incidenceRate,
+  rateTrend,
+  stratifiedRates,
+  uChart,
+  type RateGroup,
+  type RateStratum,
+  type StratifiedRatesResult,
+  type UChartPoint,
+} from '@ratewarden/shared/stats';
+import type { RunSettings } from '@ratewarden/shared/runs';
+import type { WindowKind } from '@ratewarden/shared/rules';
+import { buildSeries, windowTally, type OutcomeSeries, type Tally } from './cell-series';
+import type { Cell } from './cells-query';
+import { monthIso } from './month-index';
+
+export interface OutcomeInfo {
+  id: number;
+  /** The outcome's own reference group, else null (then the global one is used). */
+  referenceGroupId: number | null;
+}
+
+export interface GroupInfo {
+  id: number;
+  exposureLevel: number | null;
+  isReference: boolean;
+}
+
+/** One row of `run_results`, keyed by its column names. */
+export interface ResultRow {
+  outcome_id: number;
+  exposure_group_id: number;
+  window_kind: WindowKind;
+  period: string;
+  /** Month index of the period, kept for rule evaluation (not stored). */
+  periodIndex: number;
+  months_covered: number;
+  is_reference: boolean;
+  reference_group_id: number | null;
+  cases: number;
+  hours: string;
+  person_time: number;
+  rate: number | null;
+  rate_lower: number | null;
+  rate_upper: number | null;
+  expected: number | null;
+  irr: number | null;
+  irr_lower: number | null;
+  irr_upper: number | null;
+  irr_p: number | null;
+  irr_wald_lower: number | null;
+  irr_wald_upper: number | null;
+  ird: number | null;
+  ird_lower: number | null;
+  ird_upper: number | null;
+  ird_p: number | null;
+  mh_age_irr: number | null;
+  mh_age_irr_lower: number | null;
+  mh_age_irr_upper: number | null;
+  mh_age_irr_p: number | null;
+  mh_age_ird: number | null;
+  mh_age_ird_lower: number | null;
+  mh_age_ird_upper: number | null;
+  mh_site_irr: number | null;
+  mh_site_irr_lower: number | null;
+  mh_site_irr_upper: number | null;
+  mh_site_irr_p: number | null;
+  mh_site_ird: number | null;
+  mh_site_ird_lower: number | null;
+  mh_site_ird_upper: number | null;
+  u_centre: number | null;
+  u_lcl: number | null;
+  u_ucl: number | null;
+  u_signal: 'above' | 'below' | 'within' | null;
+  detail: Record<string, unknown>;
+}
+
+export interface TrendRow {
+  outcome_id: number;
+  window_kind: WindowKind;
+  period: string;
+  chi2: number | null;
+  p: number | null;
+  u: number | null;
+  levels: Array<{ level: number; cases: number; personTime: number; rate: number | null }>;
+}
+
+export interface ComputedResults {
+  results: ResultRow[];
+  trends: TrendRow[];
+  /** Outcomes for which no reference group exists (comparisons left empty). */
+  outcomesWithoutReference: number[];
+}
+
+export const WINDOWS: Array<{ kind: WindowKind; length: number }> = [
+  { kind: 'month', length: 1 },
+  { kind: 'rolling12', length: 12 },
+];
+
+/** Turns hundredths of hours into the run's person-time unit. */
+export function personTimeOf(cents: number, settings: RunSettings): number {
+  const hours = cents / 100;
+  return settings.personTimeBasis === 'person_years' ? hoursToPersonYears(hours) : hoursToOshaUnits(hours);
+}
+
+function strata(exposed: Tally, reference: Tally, pick: (t: Tally) => Map<string, { cases: number; cents: number }>, settings: RunSettings): RateStratum[] {
+  const keys = new Set([...pick(exposed).keys(), ...pick(reference).keys()]);
+  const group = (t: { cases: number; cents: number } | undefined): RateGroup => ({ cases: t?.cases ?? 0, personTime: personTimeOf(t?.cents ?? 0, settings) });
+  return [...keys].sort().map((k) => ({ exposed: group(pick(exposed).get(k)), reference: group(pick(reference).get(k)) }));
+}
+
+function mh(s: RateStratum[], settings: RunSettings): StratifiedRatesResult | null {
+  return s.length === 0 ? null : stratifiedRates(s, { confidence: settings.confidence, per: settings.per });
+}
+
+function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSettings): { centre: number | null; points: Map<number, UChartPoint> } {
+  const months = series.groups.get(groupId);
+  const indices: number[] = [];
+  for (let m = series.firstMonth; m <= series.lastMonth; m++) indices.push(m);
+  const chart = uChart(indices.map((m) => ({ count: months?.get(m)?.cases ?? 0, exposure: personTimeOf(months?.get(m)?.cents ?? 0, settings) })));
+  const points = new Map<number, UChartPoint>();
+  indices.forEach((m, i) => points.set(m, chart.points[i]!));
+  return { centre: chart.centre, points };
+}
+
+/**
+ * Every result of a run from its cells: for each outcome, exposure group, window and month, the
+ * rate with exact limits, and against the reference group the IRR (exact conditional, mid-p,
+ * Wald) and IRD with their tests, Mantel–Haenszel IRR and IRD by age band and by site, the
+ * u-chart limits of single months, and the trend test across exposure levels. All statistics come
+ * from the shared core.
+ */
+export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings): ComputedResults {
+  const series = buildSeries(cells);
+  const globalReference = groups.find((g) => g.isReference)?.id ?? null;
+  const levelOf = new Map(groups.map((g) => [g.id, g.exposureLevel]));
+  const opts = { confidence: settings.confidence, per: settings.per };
+  const results: ResultRow[] = [];
+  const trends: TrendRow[] = [];
+  const outcomesWithoutReference: number[] = [];
+
+  for (const outcome of outcomes) {
+    const s = series.get(outcome.id);
+    if (!s) continue;
+    const referenceId = outcome.referenceGroupId ?? globalReference;
+    if (referenceId === null) outcomesWithoutReference.push(outcome.id);
+    const groupIds = [...s.groups.keys()].sort((a, b) => a - b);
+    const charts = new Map(groupIds.map((g) => [g, uChartPoints(s, g, settings)]));
+
+    for (const w of WINDOWS) {
+      for (let p = s.firstMonth; p <= s.lastMonth; p++) {
+        const period = monthIso(p);
+        const ref = referenceId === null ? null : windowTally(s.groups.get(referenceId), p, w.length);
+        const refGroup: RateGroup | null = ref ? { cases: ref.cases, personTime: personTimeOf(ref.cents, settings) } : null;
+        const levelTotals = new Map<number, { cases: number; cents: number }>();
+
+        for (const g of groupIds) {
+          const t = windowTally(s.groups.get(g), p, w.length);
+          if (t.cents === 0 && t.cases === 0) continue;
+          const exposed: RateGroup = { cases: t.cases, personTime: personTimeOf(t.cents, settings) };
+          const level = levelOf.get(g);
+          if (level !== null && level !== undefined) {
+            const lt = levelTotals.get(level) ?? { cases: 0, cents: 0 };
+            lt.cases += t.cases;
+            lt.cents += t.cents;
+            levelTotals.set(level, lt);
+          }
+          const isReference = g === referenceId;
+          const compare = refGroup && !isReference ? compareRates(exposed, refGroup, opts) : null;
+          const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
+          const mhAge = compare && ref ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
+          const mhSite = compare && ref ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
+          const point = w.kind === 'month' ? charts.get(g)!.points.get(p) ?? null : null;
+          const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
+          results.push({
+            outcome_id: outcome.id,
+            exposure_group_id: g,
+            window_kind: w.kind,
+            period,
+            periodIndex: p,
+            months_covered: t.months,
+            is_reference: isReference,
+            reference_group_id: referenceId,
+            cases: t.cases,
+            hours: (t.cents / 100).toFixed(2),
+            person_time: exposed.personTime,
+            rate: rate.estimate,
+            rate_lower: rate.exact.lower,
+            rate_upper: rate.exact.upper,
+            expected,
+            irr: compare?.irr.estimate ?? null,
+            irr_lower: compare?.irr.exact.lower ?? null,
+            irr_upper: compare?.irr.exact.upper ?? null,
+            irr_p: compare?.irr.pExact ?? null,
+            irr_wald_lower: compare?.irr.wald.lower ?? null,
+            irr_wald_upper: compare?.irr.wald.upper ?? null,
+            ird: compare?.ird.estimate ?? null,
+            ird_lower: compare?.ird.wald.lower ?? null,
+            ird_upper: compare?.ird.wald.upper ?? null,
+            ird_p: compare?.ird.p ?? null,
+            mh_age_irr: mhAge?.mhIrr.estimate ?? null,
+            mh_age_irr_lower: mhAge?.mhIrr.lower ?? null,
+            mh_age_irr_upper: mhAge?.mhIrr.upper ?? null,
+            mh_age_irr_p: mhAge?.mhIrr.p ?? null,
+            mh_age_ird: mhAge?.mhIrd.estimate ?? null,
+            mh_age_ird_lower: mhAge?.mhIrd.lower ?? null,
+            mh_age_ird_upper: mhAge?.mhIrd.upper ?? null,
+            mh_site_irr: mhSite?.mhIrr.estimate ?? null,
+            mh_site_irr_lower: mhSite?.mhIrr.lower ?? null,
+            mh_site_irr_upper: mhSite?.mhIrr.upper ?? null,
+            mh_site_irr_p: mhSite?.mhIrr.p ?? null,
+            mh_site_ird: mhSite?.mhIrd.estimate ?? null,
+            mh_site_ird_lower: mhSite?.mhIrd.lower ?? null,
+            mh_site_ird_upper: mhSite?.mhIrd.upper ?? null,
+            u_centre: point ? charts.get(g)!.centre : null,
+            u_lcl: point?.lcl ?? null,
+            u_ucl: point?.ucl ?? null,
+            u_signal: point?.signal ?? null,
+            detail: {
+              rateMidP: rate.midP,
+              ...(compare && {
+                irrMidP: compare.irr.midP,
+                irrPMidP: compare.irr.pMidP,
+                irrPWald: compare.irr.pWald,
+                irrPScore: compare.irr.pScore,
+                excessCases: compare.excessCases,
+                afExposed: compare.afExposed.estimate,
+              }),
+              ...(mhAge && { mhAgeHomogeneity: mhAge.homogeneity, mhAgeStrataUsed: mhAge.strataUsed }),
+              ...(mhSite && { mhSiteHomogeneity: mhSite.homogeneity, mhSiteStrataUsed: mhSite.strataUsed }),
+              ...(point && { uExactLcl: point.exactLcl, uExactUcl: point.exactUcl, u: point.u }),
+              reasons: compare ? compare.reasons : rate.reasons,
+            },
+          });
+        }
+
+        if (levelTotals.size >= 2) {
+          const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
+          const trend = rateTrend(levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })), opts);
+          trends.push({
+            outcome_id: outcome.id,
+            window_kind: w.kind,
+            period,
+            chi2: trend.chi2,
+            p: trend.p,
+            u: trend.u,
+            levels: levels.map(([level, lt], i) => ({ level, cases: lt.cases, personTime: personTimeOf(lt.cents, settings), rate: trend.levels[i]!.rate.estimate })),
+          });
+        }
+      }
+    }
+  }
+  return { results, trends, outcomesWithoutReference };
+}

@@ -1,0 +1,188 @@
+import { hostname } from 'node:os';
+import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
+import { toJsonValue } from '@ratewarden/shared/stats';
+import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
+import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
+import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
+import { loadCaseTotals, loadCells } from './cells-query';
+import { RUN_CODE_VERSION } from './code-version';
+import { computeResults, type GroupInfo, type OutcomeInfo } from './compute-results';
+import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
+import { storeResults } from './store-results';
+
+export interface PerformRunOptions {
+  trigger: RunTrigger;
+  reason?: string;
+  settings: RunSettings;
+  /** Address of the web app, for the sign-in link in notices. */
+  appUrl: string;
+  /** Consume pending run requests; with trigger 'request', skip when there are none. */
+  consumeRequests?: boolean;
+  /** Skip when a run already started at or after this time (a nightly tick seen by several workers). */
+  notBefore?: Date;
+  /** Wait up to this long for a run in progress elsewhere instead of skipping. */
+  waitForLockMs?: number;
+}
+
+export type RunOutcome =
+  | { status: 'succeeded'; runId: string; resultCount: number; flags: FlagTally; seconds: number }
+  | { status: 'failed'; runId: string; error: string }
+  | { status: 'skipped'; reason: 'busy' | 'nothing requested' | 'already ran' };
+
+const INTERRUPTED = 'interrupted: the process running it stopped before it finished';
+
+/**
+ * One run, at most one at a time across every worker: takes the advisory lock on a dedicated
+ * connection, reads a consistent snapshot (REPEATABLE READ) of the current roster and cases,
+ * aggregates in SQL, computes with the shared statistics core, then in ONE transaction stores the
+ * complete result set, marks the run succeeded, switches the current-run pointer and applies the
+ * watch rules (flags and their notices). If anything fails, that transaction rolls back: the
+ * previous results stay current and the run is recorded as failed with its error.
+ */
+export async function performRun(ds: DataSource, options: PerformRunOptions): Promise<RunOutcome> {
+  const qr = ds.createQueryRunner();
+  await qr.connect();
+  try {
+    const locked = options.waitForLockMs ? await waitRunLock(qr, options.waitForLockMs) : await tryRunLock(qr);
+    if (!locked) return { status: 'skipped', reason: 'busy' };
+    try {
+      return await runLocked(qr, options);
+    } finally {
+      await releaseRunLock(qr).catch(() => undefined);
+    }
+  } finally {
+    await qr.release();
+  }
+}
+
+async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<RunOutcome> {
+  // Holding the lock, any run still "running" belongs to a process that died mid-run.
+  await qr.query(`UPDATE runs SET state = 'failed', finished_at = now(), error = $1 WHERE state = 'running'`, [INTERRUPTED]);
+  if (options.notBefore) {
+    const ran: unknown[] = await qr.query(`SELECT 1 FROM runs WHERE started_at >= $1 LIMIT 1`, [options.notBefore]);
+    if (ran.length) return { status: 'skipped', reason: 'already ran' };
+  }
+  let requests: Array<{ id: string; reason: string }> = [];
+  if (options.consumeRequests) {
+    requests = await qr.query(`SELECT id::text AS id, reason FROM run_requests WHERE picked_at IS NULL ORDER BY requested_at`);
+    if (requests.length === 0 && options.trigger === 'request') return { status: 'skipped', reason: 'nothing requested' };
+  }
+  const requestIds = requests.map((r) => r.id);
+  const reason = options.reason ?? (requests.length ? requests.map((r) => r.reason).join('; ').slice(0, 500) : null);
+  const started = performance.now();
+  const [run]: Array<{ id: string }> = await qr.query(
+    `INSERT INTO runs (trigger, reason, settings, code_version, worker, inputs) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`,
+    [options.trigger, reason, JSON.stringify(options.settings), RUN_CODE_VERSION, `${hostname()}:${process.pid}`, JSON.stringify({ requestIds })],
+  );
+  const runId = run!.id;
+  const markPicked = (em: EntityManager | QueryRunner) =>
+    requestIds.length ? em.query(`UPDATE run_requests SET picked_at = now() WHERE id::text = ANY($1::text[]) AND picked_at IS NULL`, [requestIds]) : Promise.resolve();
+
+  try {
+    const t0 = performance.now();
+    const snapshot = await readSnapshot(qr, options.settings);
+    const t1 = performance.now();
+    const computed = computeResults(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings);
+    const t2 = performance.now();
+    const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, computed.results));
+    const inputs: RunInputs = { ...snapshot.inputs, requestIds };
+
+    let flags: FlagTally | undefined;
+    await qr.manager.transaction(async (em) => {
+      await storeResults(em, runId, computed.results, computed.trends);
+      const summary = {
+        cells: snapshot.cells.length,
+        results: computed.results.length,
+        trends: computed.trends.length,
+        cases: snapshot.caseTotals,
+        outcomesWithoutReference: computed.outcomesWithoutReference,
+        seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000 },
+      };
+      await em.query(`UPDATE runs SET inputs = $2, summary = $3 WHERE id = $1`, [runId, JSON.stringify(inputs), JSON.stringify(toJsonValue(summary))]);
+      await em.query(
+        `INSERT INTO current_run (singleton, run_id, switched_at) VALUES (true, $1, now())
+         ON CONFLICT (singleton) DO UPDATE SET run_id = EXCLUDED.run_id, switched_at = EXCLUDED.switched_at`,
+        [runId],
+      );
+      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts);
+      await markPicked(em);
+      const seconds = (performance.now() - started) / 1000;
+      await em.query(
+        `UPDATE runs SET state = 'succeeded', finished_at = now(), summary = summary || $2::jsonb WHERE id = $1`,
+        [runId, JSON.stringify({ flags, seconds: { ...summary.seconds, total: seconds } })],
+      );
+    });
+    return { status: 'succeeded', runId, resultCount: computed.results.length, flags: flags!, seconds: (performance.now() - started) / 1000 };
+  } catch (err) {
+    const message = err instanceof Error ? err.message : String(err);
+    await qr.query(`UPDATE runs SET state = 'failed', finished_at = now(), error = $2 WHERE id = $1`, [runId, message.slice(0, 2000)]);
+    await markPicked(qr);
+    return { status: 'failed', runId, error: message };
+  }
+}
+
+interface Snapshot {
+  outcomes: OutcomeInfo[];
+  groups: GroupInfo[];
+  inputs: Omit<RunInputs, 'requestIds'>;
+  cells: Awaited<ReturnType<typeof loadCells>>;
+  caseTotals: Awaited<ReturnType<typeof loadCaseTotals>>;
+  rules: RuleToEvaluate[];
+  ruleInfo: Map<string, RuleForFlags>;
+}
+
+/** Everything a run reads, from one snapshot so that cells, inputs and rules agree. */
+async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Snapshot> {
+  await qr.startTransaction('REPEATABLE READ');
+  try {
+    await qr.query(`SET TRANSACTION READ ONLY`);
+    const outcomes: Array<{ id: number; reference_group_id: number | null }> = await qr.query(`SELECT id, reference_group_id FROM outcomes ORDER BY id`);
+    const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(`SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`);
+    const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
+    const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
+    const cells = await loadCells(qr, settings.countedStatuses);
+    const caseTotals = await loadCaseTotals(qr, settings.countedStatuses);
+    const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
+    await qr.commitTransaction();
+    const rules: RuleToEvaluate[] = ruleRows.map((r) => ({
+      id: r.id as string,
+      outcomeId: r.outcome_id as number,
+      exposureGroupId: r.exposure_group_id as number | null,
+      measure: r.measure as RuleToEvaluate['measure'],
+      thresholdOn: r.threshold_on as RuleToEvaluate['thresholdOn'],
+      threshold: r.threshold as number | null,
+      minCases: r.min_cases as number,
+      minExpected: r.min_expected as number,
+      windowKind: r.window_kind as RuleToEvaluate['windowKind'],
+      consecutivePeriods: r.consecutive_periods as number,
+      fdrControl: r.fdr_control as boolean,
+      fdrLevel: r.fdr_level as number,
+    }));
+    const ruleInfo = new Map<string, RuleForFlags>(
+      ruleRows.map((r) => [
+        r.id as string,
+        {
+          id: r.id as string,
+          name: r.name as string,
+          measure: r.measure as RuleForFlags['measure'],
+          thresholdOn: r.threshold_on as RuleForFlags['thresholdOn'],
+          threshold: r.threshold as number | null,
+          windowKind: r.window_kind as RuleForFlags['windowKind'],
+          recipients: r.recipients as string[],
+        },
+      ]),
+    );
+    return {
+      outcomes: outcomes.map((o) => ({ id: o.id, referenceGroupId: o.reference_group_id })),
+      groups: groups.map((g) => ({ id: g.id, exposureLevel: g.exposure_level, isReference: g.is_reference })),
+      inputs: { rosterIntakeIds: roster.map((r) => r.id), caseIntakeIds: cases.map((r) => r.id) },
+      cells,
+      caseTotals,
+      rules,
+      ruleInfo,
+    };
+  } catch (err) {
+    if (qr.isTransactionActive) await qr.rollbackTransaction();
+    throw err;
+  }
+}
