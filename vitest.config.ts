@@ -1,12 +1,39 @@
 import { defineConfig } from 'vitest/config';
 
 // One test command for the whole repository; each workspace keeps its tests beside its code.
+// One identity provider for every project (one issuer, so accounts bind the same way everywhere),
+// and the browser tests run after the integration tests: both use the one test database.
 export default defineConfig({
   test: {
+    globalSetup: ['tests/support/global-setup.ts'],
     projects: [
-      { test: { name: 'unit', include: ['shared/src/**/*.test.ts', 'api/src/**/*.test.ts', 'worker/src/**/*.test.ts', 'db/src/**/*.test.ts', 'web/src/**/*.test.ts'] } },
-      { test: { name: 'integration', include: ['tests/integration/**/*.test.ts'], globalSetup: ['tests/support/global-setup.ts'], fileParallelism: false, testTimeout: 60_000, hookTimeout: 60_000 } },
-      { test: { name: 'browser', include: ['tests/browser/**/*.test.ts'], globalSetup: ['tests/support/global-setup.ts'], fileParallelism: false, testTimeout: 120_000, hookTimeout: 120_000 } },
+      {
+        test: {
+          name: 'unit',
+          include: ['shared/src/**/*.test.ts', 'api/src/**/*.test.ts', 'worker/src/**/*.test.ts', 'db/src/**/*.test.ts', 'web/src/**/*.test.ts'],
+          sequence: { groupOrder: 0 },
+        },
+      },
+      {
+        test: {
+          name: 'integration',
+          include: ['tests/integration/**/*.test.ts'],
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+          sequence: { groupOrder: 0 },
+        },
+      },
+      {
+        test: {
+          name: 'browser',
+          include: ['tests/browser/**/*.test.ts'],
+          fileParallelism: false,
+          testTimeout: 120_000,
+          hookTimeout: 120_000,
+          sequence: { groupOrder: 1 },
+        },
+      },
     ],
   },
 });

@@ -1,6 +1,8 @@
 import { join } from 'node:path';
 import { createDataSource, migrate, seedDemo } from '@ratewarden/db';
-import { say, runMain } from './lib/log';
+import { demoIntegrationClient, demoPeople } from '@ratewarden/db/seed/demo-access';
+import { DEMO_PASSWORD } from '@ratewarden/api/stand-ins/identity-provider/demo-accounts';
+import { say, runMain, SetupError } from './lib/log';
 import { assertPortFree } from './lib/ports';
 import { startPostgres } from './lib/postgres';
 import { readSettings } from './lib/settings';
@@ -9,9 +11,17 @@ import { buildWebIfStale } from './lib/web-build';
 
 const root = join(import.meta.dirname, '..');
 
-/** `npm start`: database, migrations, demo data on first run, web build, API and worker. */
+/**
+ * `npm start`: database, migrations, demo data on first run, web build, identity provider, SMTP
+ * fake, API and worker. `npm run dev` (scripts/dev.ts) passes `--dev` to add Vite's dev server.
+ */
+const dev = process.argv.includes('--dev');
+
 runMain(async () => {
   const settings = readSettings();
+  if (settings.NODE_ENV === 'production' && !process.env.OIDC_ISSUER) {
+    throw new SetupError('NODE_ENV=production needs a real identity provider: set OIDC_ISSUER, OIDC_CLIENT_ID, OIDC_CLIENT_SECRET and SESSION_SECRET (the demo ones are refused)');
+  }
   await assertPortFree(settings.PORT, 'web app and API', 'PORT');
   const supervisor = new Supervisor(root);
 
@@ -28,10 +38,38 @@ runMain(async () => {
 
   buildWebIfStale(root);
 
-  const env = { DATABASE_URL: db.url, PORT: String(settings.PORT), NODE_ENV: settings.NODE_ENV };
-  supervisor.start('api', 'api/src/server.ts', env);
+  const appUrl = `http://127.0.0.1:${settings.PORT}/`;
+  const env = {
+    DATABASE_URL: db.url,
+    PORT: String(settings.PORT),
+    NODE_ENV: settings.NODE_ENV,
+    IDP_PORT: String(settings.IDP_PORT),
+    SMTP_PORT: String(settings.SMTP_PORT),
+    APP_BASE_URL: process.env.APP_BASE_URL ?? appUrl,
+    OIDC_REDIRECT_URI: process.env.OIDC_REDIRECT_URI ?? `${appUrl}auth/callback`,
+  };
+  if (!process.env.OIDC_ISSUER) {
+    // No hosted identity service configured: start the local stand-in.
+    await assertPortFree(settings.IDP_PORT, 'identity provider', 'IDP_PORT');
+    supervisor.start('idp', 'api/src/stand-ins/identity-provider/main.ts', env);
+    await waitForHttp(`http://127.0.0.1:${settings.IDP_PORT}/.well-known/openid-configuration`);
+  }
+  supervisor.start('api', 'api/src/server.ts', { ...env, OIDC_ISSUER: process.env.OIDC_ISSUER ?? `http://127.0.0.1:${settings.IDP_PORT}` });
+  if (settings.NODE_ENV !== 'production') {
+    // The local SMTP fake receives the threshold notices; the mailbox page shows them.
+    await assertPortFree(settings.SMTP_PORT, 'development SMTP fake', 'SMTP_PORT');
+    supervisor.start('smtp', 'worker/src/smtp-fake/main.ts', env);
+  }
   supervisor.start('worker', 'worker/src/main.ts', env);
   await waitForHttp(`http://127.0.0.1:${settings.PORT}/api/health`);
+  if (dev) {
+    supervisor.startNode('vite', [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), '--config', join(root, 'web', 'vite.config.ts'), join(root, 'web')], env);
+    say('hot reload at http://127.0.0.1:5173/ (Vite, in front of the API)');
+  }
   say(`Ratewarden is running at http://127.0.0.1:${settings.PORT}/  (Ctrl-C stops everything)`);
+  if (!process.env.OIDC_ISSUER) {
+    say(`demo accounts (password ${DEMO_PASSWORD}): ${demoPeople.map((p) => `${p.email} (${p.role})`).join(', ')}`);
+    say(`demo integration client: ${demoIntegrationClient.clientId} / demo-secret, tokens from http://127.0.0.1:${settings.IDP_PORT}/token`);
+  }
   await new Promise<never>(() => {});
 });

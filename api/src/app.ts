@@ -15,6 +15,7 @@ import { mailboxRouter } from './features/mailbox/mailbox-routes';
 import { rulesRouter } from './features/rules/rules-routes';
 import { runsRouter } from './features/runs/runs-routes';
 import { errorHandler, notFound } from './middleware/error-handler';
+import { intakeRateLimit } from './middleware/rate-limits';
 import { healthRouter } from './routes/health';
 import { webAppRouter } from './routes/web-app';
 
@@ -49,7 +50,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use('/api', csrfProtection);
   app.use('/api/session', sessionRouter());
   app.use('/api/admin', adminRouter(dataSource));
-  app.use('/api/intakes', intakeRouter({ dataSource }));
+  app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource }));
   app.use('/api', groupsRouter({ dataSource }));
   app.use('/api/runs', runsRouter({ dataSource }));
   app.use('/api/rules', rulesRouter({ dataSource }));

@@ -30,7 +30,12 @@ export class Supervisor {
 
   /** Starts a TypeScript entry point under tsx as a supervised service. */
   start(name: string, entry: string, env: NodeJS.ProcessEnv): ChildProcess {
-    const child = spawn(process.execPath, ['--import', 'tsx', entry], {
+    return this.startNode(name, ['--import', 'tsx', entry], env);
+  }
+
+  /** Starts `node <args>` as a supervised service (e.g. Vite's dev server). */
+  startNode(name: string, args: string[], env: NodeJS.ProcessEnv): ChildProcess {
+    const child = spawn(process.execPath, args, {
       cwd: this.root,
       env: { ...process.env, ...env, RATEWARDEN_SUPERVISED: '1' },
       detached: true,

@@ -1,46 +1,20 @@
 import { z } from 'zod';
 import { caseStatusSchema, intakeKindSchema, intakeStateSchema, type IntakeKind } from './intake';
-import { columnPattern, intakeColumns, normalizeCell, reasons, type ColumnDef, type ColumnRule } from './intake-columns';
+import { cellJudge, isCalendarDate } from './intake-cell';
+import { intakeColumns, type ColumnDef } from './intake-columns';
 
-/** Days in a month of the Gregorian calendar; the same rule the SQL check uses. */
-export function isCalendarDate(iso: string): boolean {
-  const [y, m, d] = iso.split('-').map(Number) as [number, number, number];
-  return d <= new Date(Date.UTC(y, m, 0)).getUTCDate();
-}
+export { isCalendarDate };
 
-/** The zod schema of one cell, derived from the column's rule (see intake-columns.ts). */
+/** The zod schema of one cell, derived from the column's rule through the shared cell judge. */
 export function cellSchema(col: ColumnDef): z.ZodType<string | number | null> {
-  const rule: ColumnRule = col.rule;
-  const pattern = columnPattern(rule);
+  const judge = cellJudge(col);
   return z.string().transform((raw, ctx) => {
-    const v = normalizeCell(rule, raw);
-    if (v === '') {
-      if (col.required) ctx.addIssue({ code: 'custom', message: reasons.empty(col.name) });
-      return null;
+    const verdict = judge(raw);
+    if (verdict.reason) {
+      ctx.addIssue({ code: 'custom', message: verdict.reason });
+      return verdict.value ?? z.NEVER;
     }
-    if (pattern && !new RegExp(pattern).test(v)) {
-      ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
-      return z.NEVER;
-    }
-    switch (rule.type) {
-      case 'decimal':
-      case 'integer': {
-        const n = Number(v.replace(',', '.'));
-        if (n < rule.min || n > rule.max) ctx.addIssue({ code: 'custom', message: reasons.range(col.name, rule.min, rule.max) });
-        return n;
-      }
-      case 'date':
-        if (!isCalendarDate(v)) ctx.addIssue({ code: 'custom', message: reasons.noSuchDay(col.name) });
-        return v;
-      case 'choice':
-        if (!rule.values.includes(v)) ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
-        return v;
-      case 'text':
-        if (v.length > rule.maxLength) ctx.addIssue({ code: 'custom', message: reasons.shape(col.name, rule) });
-        return v;
-      default:
-        return v;
-    }
+    return verdict.value;
   });
 }
 

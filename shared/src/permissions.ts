@@ -8,6 +8,7 @@ export const rolePermissions = {
   'aggregates:read': ['hygienist', 'safety_manager', 'physician'],
   'config:read': ['hygienist', 'safety_manager', 'physician', 'administrator'],
   'groups:write': ['hygienist'],
+  'intake:formats': ['hygienist', 'safety_manager', 'physician', 'administrator'],
   'intake:read': ['hygienist'],
   'intake:write': ['hygienist'],
   'runs:read': ['hygienist', 'safety_manager', 'physician'],
@@ -27,7 +28,7 @@ export const rolePermissions = {
 export type Permission = keyof typeof rolePermissions;
 
 /** Integration clients (machines with a client-credentials token) may only push intakes. */
-export const clientPermissions: readonly Permission[] = ['intake:write'];
+export const clientPermissions: readonly Permission[] = ['intake:write', 'intake:formats'];
 
 export function roleMay(role: Role | null | undefined, permission: Permission): boolean {
   return role != null && (rolePermissions[permission] as readonly Role[]).includes(role);

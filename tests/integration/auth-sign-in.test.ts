@@ -53,7 +53,7 @@ describe('sign-in through the OpenID Connect provider', () => {
     expect(cookie).toMatch(/rw\.sid=/);
     expect(cookie).toMatch(/HttpOnly/);
     expect(cookie).toMatch(/SameSite=Lax/);
-    const [{ count }] = (await ds.query(`SELECT count(*)::int AS count FROM user_sessions`)) as { count: number }[];
+    const [{ count }] = (await ds.query(`SELECT count(*)::int AS count FROM user_sessions`)) as [{ count: number }];
     expect(count).toBeGreaterThan(0);
   });
 

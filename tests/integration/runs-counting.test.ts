@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { openTestDataSource } from '../support/test-db';
-import { makeCohort, settings, storedResults, type Cohort } from './runs-fixture';
+import { clearCohortData, makeCohort, settings, storedResults, type Cohort } from './runs-fixture';
 
 /**
  * Hand-built example of the counting rules (numbers worked out by hand beside each check):
@@ -22,6 +22,7 @@ describe('counting rules and exposure lag', () => {
 
   beforeAll(async () => {
     ds = await openTestDataSource();
+    await clearCohortData(ds);
     c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 2]], reference: 'REF', outcomes: [['HEAR', 'first_event'], ['LAG', 'recurrent', 1]] });
     const [e1, e2, e3, w1, r1] = [await c.worker('e1', 1980, 'M'), await c.worker('e2', 1980, 'F'), await c.worker('e3', 1970, 'M'), await c.worker('w1', 1990, 'F'), await c.worker('r1', 1985, 'F')];
     const months = ['2031-01-01', '2031-02-01', '2031-03-01', '2031-04-01'];

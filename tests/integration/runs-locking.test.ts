@@ -4,7 +4,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { openTestDataSource, testDatabaseUrl } from '../support/test-db';
-import { currentRunId, makeCohort, settings } from './runs-fixture';
+import { currentRunId, makeCohort, settings, clearCohortData } from './runs-fixture';
 
 const root = join(import.meta.dirname, '..', '..');
 const children: ChildProcess[] = [];
@@ -35,6 +35,7 @@ describe('one run at a time across workers', () => {
   let ds: DataSource;
   beforeAll(async () => {
     ds = await openTestDataSource();
+    await clearCohortData(ds);
     const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['LOCK', 'recurrent']] });
     const w = await c.worker('w', 1980, 'F');
     await c.roster([[w, '2031-01-01', c.sites[0]!, c.groups.EXP!, 100]]);
@@ -92,8 +93,8 @@ describe('one run at a time across workers', () => {
     await holder.release();
 
     expect(await currentRunId(ds)).toBe(previous);
-    const [{ n }] = (await ds.query(`SELECT count(*)::int AS n FROM run_results WHERE run_id = $1`, [killed])) as Array<{ n: number }>;
-    expect(n).toBe(0);
+    const [stored] = (await ds.query(`SELECT count(*)::int AS n FROM run_results WHERE run_id = $1`, [killed])) as Array<{ n: number }>;
+    expect(stored!.n).toBe(0);
 
     const next = await performRun(ds, { trigger: 'cli', settings, appUrl: 'x', waitForLockMs: 20_000 });
     expect(next.status).toBe('succeeded');

@@ -1,6 +1,8 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import { join } from 'node:path';
 import type { TestProject } from 'vitest/node';
+
+// Runs once for the whole test run (root config), before every project.
 import { freePort } from './free-port';
 
 declare module 'vitest' {

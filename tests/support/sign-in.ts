@@ -65,16 +65,16 @@ export async function signIn(app: Express, email: string, password = DEMO_PASSWO
   throw new Error('sign-in did not finish within 12 redirects');
 }
 
-/** Gives a person a role and sites before they first sign in (as an administrator would). */
+/** Gives a person a role and sites (as an administrator would), whether or not they have signed in before. */
 export async function provisionUser(ds: DataSource, email: string, role: Role | null, siteIds: number[] = []): Promise<string> {
-  const [row] = (await ds.query(
-    `INSERT INTO users (email, name, role) VALUES ($1, $1, $2)
-     ON CONFLICT (lower(email)) WHERE subject IS NULL DO UPDATE SET role = EXCLUDED.role RETURNING id`,
-    [email, role],
-  )) as { id: string }[];
-  await ds.query(`DELETE FROM user_sites WHERE user_id = $1`, [row!.id]);
-  if (siteIds.length) await ds.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, unnest($2::int[])`, [row!.id, siteIds]);
-  return row!.id;
+  const existing = (await ds.query(`SELECT id FROM users WHERE lower(email) = lower($1)`, [email])) as { id: string }[];
+  const id = existing[0]
+    ? existing[0].id
+    : ((await ds.query(`INSERT INTO users (email, name, role) VALUES ($1, $1, $2) RETURNING id`, [email, role])) as { id: string }[])[0]!.id;
+  await ds.query(`UPDATE users SET role = $2 WHERE id = $1`, [id, role]);
+  await ds.query(`DELETE FROM user_sites WHERE user_id = $1`, [id]);
+  if (siteIds.length) await ds.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, unnest($2::int[])`, [id, siteIds]);
+  return id;
 }
 
 /** Access token for the demo HR integration client, straight from the identity provider. */

@@ -10,6 +10,7 @@ export function testApiConfig(overrides: NodeJS.ProcessEnv = {}): ApiConfig {
     OIDC_REDIRECT_URI: `http://127.0.0.1:${appPort}/auth/callback`,
     APP_BASE_URL: `http://127.0.0.1:${appPort}/`,
     AUTH_RATE_LIMIT: '10000',
+    INTAKE_RATE_LIMIT: '10000',
     ...overrides,
   });
 }

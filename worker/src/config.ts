@@ -33,7 +33,7 @@ const schema = z.object({
   SMTP_USER: z.string().optional().describe('SMTP user name, when the server wants one'),
   SMTP_PASS: z.string().optional().describe('SMTP password'),
   NOTICE_FROM: z.string().default('Ratewarden <notices@ratewarden.invalid>').describe('From address of threshold notices'),
-  APP_URL: z.string().url().default('http://127.0.0.1:3000').describe('address of the web app, for the sign-in link in notices'),
+  APP_BASE_URL: z.string().url().default('http://127.0.0.1:3000/').describe('address of the web app, for the sign-in link in notices'),
   NOTICE_POLL_MS: z.coerce.number().int().min(50).default(5_000).describe('how often the sender looks at the outbox'),
   NOTICE_RETRY_BASE_MS: z.coerce.number().int().min(10).default(30_000).describe('first retry delay; doubles with every failed attempt'),
   NOTICE_RETRY_MAX_MS: z.coerce.number().int().min(10).default(3_600_000).describe('longest delay between attempts'),

@@ -11,11 +11,12 @@ export function csrfTokenOf(req: Request): string {
 }
 
 /**
- * Every state-changing request that rides on the session cookie must carry the session's token in
- * `x-csrf-token` (or a `_csrf` form field). Bearer-token requests carry no cookie and are exempt.
+ * Every state-changing request that rides on a signed-in session must carry the session's token in
+ * `x-csrf-token` (or a `_csrf` form field). Without a signed-in person there is nothing to forge
+ * (the route's guard answers 401); bearer-token requests carry no cookie and are exempt.
  */
 export const csrfProtection: RequestHandler = (req, _res, next) => {
-  if (SAFE.has(req.method) || req.principal?.kind === 'client') return next();
+  if (SAFE.has(req.method) || req.principal?.kind !== 'user') return next();
   const expected = req.session?.csrfToken;
   const given = req.get('x-csrf-token') ?? (typeof req.body?._csrf === 'string' ? req.body._csrf : undefined);
   if (!expected || !given || given.length !== expected.length || !timingSafeEqual(Buffer.from(given), Buffer.from(expected))) {

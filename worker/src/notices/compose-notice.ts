@@ -65,7 +65,7 @@ export function composeNotice(f: NoticeFacts): { subject: string; text: string }
       ? `Value: ${num(f.value)} times the upper control limit`
       : `Value: ${num(f.value)} (estimate ${num(f.estimate)}, ${pct}% interval ${num(f.lower)} to ${num(f.upper)})`,
     `Cases in the group: ${f.cases}; expected at the reference rate: ${num(f.expected, 1)}`,
-    `Person-time: ${num(f.personTime, 1)} units; rates ${unit(f.settings)}`,
+    `Person-time: ${num(f.personTime, 1)} ${f.settings.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 hours'}; rates ${unit(f.settings)}`,
     '',
     `Sign in to review the flag: ${f.appUrl.replace(/\/$/, '')}/flags/${f.flagId}`,
     '',

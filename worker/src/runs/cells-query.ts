@@ -17,17 +17,13 @@ import type { CaseStatus } from '@ratewarden/shared/intake';
  *   apart as unattributed.
  * - Age band: 10-year bands of (calendar year of the month − birth year); null when unknown.
  */
+const SHIFT = (col: string) => `(${col} + make_interval(months => o.lag_months))::date`;
+
 const CTES = `
   o AS (
     SELECT id AS outcome_id, lag_months, counting_rule = 'first_event' AS first_only FROM outcomes
   ),
   last_month AS (SELECT max(month) AS month FROM roster_slices),
-  cur AS (
-    SELECT r.worker_id, r.month, r.site_id, r.exposure_group_id, r.hours, w.birth_year, w.sex
-    FROM roster_entries r
-    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
-    JOIN workers w ON w.id = r.worker_id
-  ),
   counted AS (
     SELECT c.worker_id, c.outcome_id, date_trunc('month', c.onset_date)::date AS month
     FROM case_events c
@@ -60,38 +56,62 @@ const CTES = `
     ) a ON true
     WHERE cc.month <= lm.month
   ),
+  base AS (
+    SELECT r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
+    FROM roster_entries r
+    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+    JOIN workers w ON w.id = r.worker_id
+    GROUP BY r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex
+  ),
+  removed AS (
+    SELECT f.outcome_id, r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
+    FROM first_case f
+    JOIN o ON o.outcome_id = f.outcome_id AND o.first_only
+    JOIN roster_entries r ON r.worker_id = f.worker_id AND ${SHIFT('r.month')} > f.month
+    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+    JOIN workers w ON w.id = r.worker_id
+    GROUP BY f.outcome_id, r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex
+  ),
   pt AS (
-    SELECT o.outcome_id, (cur.month + make_interval(months => o.lag_months))::date AS month,
-           cur.site_id, cur.exposure_group_id, cur.birth_year, cur.sex, cur.hours
-    FROM cur
-    CROSS JOIN o
-    CROSS JOIN last_month lm
-    LEFT JOIN first_case f ON o.first_only AND f.worker_id = cur.worker_id AND f.outcome_id = o.outcome_id
-    WHERE (cur.month + make_interval(months => o.lag_months))::date <= lm.month
-      AND (f.month IS NULL OR (cur.month + make_interval(months => o.lag_months))::date <= f.month)
+    SELECT o.outcome_id, ${SHIFT('b.month')} AS month, b.site_id, b.exposure_group_id, b.birth_year, b.sex, b.hours
+    FROM base b CROSS JOIN o CROSS JOIN last_month lm
+    WHERE ${SHIFT('b.month')} <= lm.month
+    UNION ALL
+    SELECT x.outcome_id, ${SHIFT('x.month')}, x.site_id, x.exposure_group_id, x.birth_year, x.sex, -x.hours
+    FROM removed x JOIN o USING (outcome_id) CROSS JOIN last_month lm
+    WHERE ${SHIFT('x.month')} <= lm.month
   )`;
 
+/**
+ * The roster is read once: its hours are summed per month × site × group × birth year × sex
+ * (`base`), credited to every outcome at the outcome's lag, and for first-event outcomes the
+ * hours after each worker's first case (`removed`, read through the worker index) are
+ * subtracted. The age band is derived from the birth year after that aggregation.
+ */
 export const CELLS_SQL = `
   WITH ${CTES},
   both_sides AS (
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, hours, 0 AS n FROM pt
     UNION ALL
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, 0, n FROM case_cells
+  ),
+  fine AS (
+    SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, sum(hours) AS hours, sum(n) AS cases
+    FROM both_sides
+    GROUP BY outcome_id, month, site_id, exposure_group_id, birth_year, sex
   )
   SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id,
          CASE WHEN birth_year IS NULL THEN NULL
               ELSE (floor((extract(year FROM month) - birth_year) / 10) * 10)::int END AS age_band,
-         sex, sum(hours)::text AS hours, sum(n)::int AS cases
-  FROM both_sides
-  GROUP BY 1, 2, 3, 4, 5, 6`;
+         sex, sum(hours)::text AS hours, sum(cases)::int AS cases
+  FROM fine
+  GROUP BY 1, 2, 3, 4, 5, 6
+  HAVING sum(hours) > 0 OR sum(cases) > 0`;
 
-/** Counted cases per outcome after the counting rule, and how many found a roster row. */
-export const CASE_TOTALS_SQL = `
+/** Counted cases per outcome after the counting rule (those matching a roster row are in the cells). */
+export const COUNTED_CASES_SQL = `
   WITH ${CTES}
-  SELECT o.outcome_id,
-         coalesce((SELECT sum(n) FROM case_counts cc WHERE cc.outcome_id = o.outcome_id), 0)::int AS counted,
-         coalesce((SELECT sum(n) FROM case_cells ce WHERE ce.outcome_id = o.outcome_id), 0)::int AS attributed
-  FROM o`;
+  SELECT outcome_id, sum(n)::int AS counted FROM case_counts GROUP BY outcome_id`;
 
 export interface Cell {
   outcomeId: number;
@@ -131,7 +151,10 @@ export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[]): 
   }));
 }
 
-export async function loadCaseTotals(q: QueryRunner, countedStatuses: CaseStatus[]): Promise<Array<{ outcomeId: number; counted: number; attributed: number }>> {
-  const rows: Array<{ outcome_id: number; counted: number; attributed: number }> = await q.query(CASE_TOTALS_SQL, [countedStatuses]);
-  return rows.map((r) => ({ outcomeId: r.outcome_id, counted: r.counted, attributed: r.attributed }));
+/** Cases counted per outcome, and how many of them the cells hold (the rest matched no roster row). */
+export async function loadCaseTotals(q: QueryRunner, countedStatuses: CaseStatus[], cells: Cell[]): Promise<Array<{ outcomeId: number; counted: number; attributed: number }>> {
+  const rows: Array<{ outcome_id: number; counted: number }> = await q.query(COUNTED_CASES_SQL, [countedStatuses]);
+  const attributed = new Map<number, number>();
+  for (const c of cells) attributed.set(c.outcomeId, (attributed.get(c.outcomeId) ?? 0) + c.cases);
+  return rows.map((r) => ({ outcomeId: r.outcome_id, counted: r.counted, attributed: attributed.get(r.outcome_id) ?? 0 }));
 }

@@ -169,10 +169,13 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
             levelTotals.set(level, lt);
           }
           const isReference = g === referenceId;
-          const compare = refGroup && !isReference ? compareRates(exposed, refGroup, opts) : null;
+          const compared = ref !== null && !isReference;
+          const mhAge = compared ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
+          const mhSite = compared ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
+          // The crude comparison of the age-band analysis is the group against the reference over
+          // all strata collapsed, i.e. the crude IRR and IRD; the core computes it there once.
+          const compare = compared ? (mhAge?.crude ?? compareRates(exposed, refGroup!, opts)) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
-          const mhAge = compare && ref ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
-          const mhSite = compare && ref ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
           const point = w.kind === 'month' ? charts.get(g)!.points.get(p) ?? null : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
           results.push({

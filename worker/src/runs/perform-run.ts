@@ -141,7 +141,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
     const cells = await loadCells(qr, settings.countedStatuses);
-    const caseTotals = await loadCaseTotals(qr, settings.countedStatuses);
+    const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
     const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
     await qr.commitTransaction();
     const rules: RuleToEvaluate[] = ruleRows.map((r) => ({

@@ -11,7 +11,7 @@ const current = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.
  */
 export async function checkCases(client: PoolClient, stg: string): Promise<void> {
   const outcomes = (await client.query<{ code: string }>(`SELECT upper(code) AS code FROM outcomes`)).rows.map((r) => r.code);
-  await client.query(cellChecksInsertSql(stg, caseColumns, { outcome: '$1' }), [outcomes]);
+  for (const sql of cellChecksInsertSql(stg, caseColumns, { outcome: outcomes })) await client.query(sql);
 
   await client.query(`
     INSERT INTO intake_problems (line, col, val, reason)

@@ -1,4 +1,4 @@
-import type { Readable } from 'node:stream';
+import type { Readable, Transform, Writable } from 'node:stream';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { ColumnDef } from '@ratewarden/shared/intake-columns';
@@ -23,38 +23,62 @@ export async function createStagingTable(client: PoolClient, table: string, defs
 /**
  * Pipes the data rows (everything after the header) into COPY without parsing them in Node: the
  * bytes go as they come, PostgreSQL's CSV reader splits rows and fields. `head` is the part already
- * read while looking for the header's line ending.
+ * read while looking for the header's line ending. (Case lists; rosters go through roster-stream.)
  */
 export async function copyRows(client: PoolClient, table: string, columns: string[], delimiter: ',' | ';', head: Buffer, rest: Readable): Promise<number> {
   const sql = `COPY ${stagingRef(table)} (${columns.join(', ')}) FROM STDIN WITH (FORMAT csv, DELIMITER '${delimiter}', ENCODING 'UTF8')`;
+  return pumpCopy(client, sql, head, rest, null);
+}
+
+/**
+ * Streams `head` then `rest` into the COPY statement `sql`, through `through` when given (a
+ * transform that turns the upload into COPY text). Not stream.pipeline: when PostgreSQL or the
+ * transform refuses a row, the upload must stay readable so the caller can read the rest for the
+ * checksum; when the upload fails, COPY is cancelled (and the transaction rolls back).
+ */
+export async function pumpCopy(client: PoolClient, sql: string, head: Buffer, rest: Readable, through: Transform | null): Promise<number> {
   if (rest.errored) throw rest.errored;
   const copy = client.query(copyFrom(sql));
+  const first: Writable = through ?? copy;
   try {
     await new Promise<void>((resolve, reject) => {
-      // Not stream.pipeline: when PostgreSQL refuses a row, the upload must stay readable so the
-      // caller can read the rest for the checksum; when the upload fails, COPY is cancelled.
-      const onRestError = (err: Error) => {
-        copy.destroy(err);
+      let settled = false;
+      const stop = (err: Error, cancelCopy: boolean) => {
+        if (settled) return;
+        settled = true;
+        rest.off('error', onRestError);
+        rest.unpipe(first);
+        rest.pause();
+        if (through) {
+          through.unpipe(copy);
+          through.destroy();
+        }
+        if (cancelCopy) copy.destroy(err);
         reject(err);
       };
+      const onRestError = (err: Error) => stop(err, true);
       copy.on('finish', () => {
+        if (settled) return;
+        settled = true;
         rest.off('error', onRestError);
         resolve();
       });
-      copy.on('error', (err) => {
-        rest.unpipe(copy);
-        rest.off('error', onRestError);
-        rest.pause();
-        reject(err);
-      });
+      copy.on('error', (err) => stop(err, false));
+      through?.on('error', (err) => stop(err, true));
       rest.on('error', onRestError);
-      if (head.length) copy.write(head);
-      rest.pipe(copy);
+      if (through) through.pipe(copy);
+      if (head.length) first.write(head);
+      rest.pipe(first);
     });
   } catch (err) {
     throw translateCopyError(err);
   }
   return Number(copy.rowCount);
+}
+
+/** The rejection of a file whose rows cannot be read at all: one problem, with its line. */
+export function unreadable(reason: string, line: number | null, column: string | null = null): AppError {
+  return new AppError('validation_failed', `the file cannot be read: ${reason}`, { problems: [{ line, column, value: null, reason }] });
 }
 
 /** PostgreSQL's COPY complaints, reworded; its line numbers count data rows, ours count the header too. */
@@ -83,5 +107,5 @@ export function translateCopyError(err: unknown): unknown {
   } else {
     return err;
   }
-  return new AppError('validation_failed', `the file cannot be read: ${reason}`, { problems: [{ line, column, value: null, reason }] });
+  return unreadable(reason, line, column);
 }

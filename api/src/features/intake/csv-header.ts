@@ -15,6 +15,8 @@ export interface FileHead {
   /** True when the stream ended inside the head (file of at most one line). */
   ended: boolean;
   problem: string | null;
+  /** The header's line ending, LF (CRLF included) or a lone CR: the data rows end the same way. */
+  eol: '\n' | '\r';
 }
 
 /**
@@ -47,15 +49,15 @@ export function readHead(src: Readable): Promise<FileHead> {
       const end = nl >= 0 && (cr < 0 || cr >= nl - 1) ? nl : cr >= 0 && cr + 1 < all.length ? cr : -1;
       if (end >= 0) {
         const lineEnd = all[end] === 0x0a && end > 0 && all[end - 1] === 0x0d ? end - 1 : end;
-        finish(decodeHead(all.subarray(0, lineEnd), all.subarray(end + 1), false));
+        finish(decodeHead(all.subarray(0, lineEnd), all.subarray(end + 1), false, all[end] === 0x0a ? '\n' : '\r'));
       } else if (size > MAX_HEADER_BYTES) {
-        finish({ header: null, rest: Buffer.alloc(0), ended: false, problem: 'the first line is not a header row (no line ending in the first 64 KiB); is this a CSV file?' });
+        finish({ header: null, rest: Buffer.alloc(0), ended: false, eol: '\n', problem: 'the first line is not a header row (no line ending in the first 64 KiB); is this a CSV file?' });
       }
     };
     const onEnd = () => {
       const all = Buffer.concat(chunks);
       const trimmed = all.subarray(0, all.length - (all.at(-1) === 0x0d ? 1 : 0));
-      finish(decodeHead(trimmed, Buffer.alloc(0), true));
+      finish(decodeHead(trimmed, Buffer.alloc(0), true, '\n'));
     };
     const onError = (err: Error) => reject(err);
     src.on('data', onData);
@@ -64,19 +66,19 @@ export function readHead(src: Readable): Promise<FileHead> {
   });
 }
 
-function decodeHead(line: Buffer, rest: Buffer, ended: boolean): FileHead {
+function decodeHead(line: Buffer, rest: Buffer, ended: boolean, eol: '\n' | '\r'): FileHead {
   const body = line.subarray(0, 3).equals(BOM) ? line.subarray(3) : line;
-  if (body.length === 0 && ended && rest.length === 0) return { header: null, rest, ended, problem: 'the file is empty' };
+  if (body.length === 0 && ended && rest.length === 0) return { header: null, rest, ended, eol, problem: 'the file is empty' };
   let text: string;
   try {
     text = new TextDecoder('utf-8', { fatal: true }).decode(body);
   } catch {
-    return { header: null, rest, ended, problem: 'the header row is not UTF-8 text; save the file as CSV UTF-8 and upload it again' };
+    return { header: null, rest, ended, eol, problem: 'the header row is not UTF-8 text; save the file as CSV UTF-8 and upload it again' };
   }
   if (/[\u0000-\u0008\u000e-\u001f]/.test(text)) {
-    return { header: null, rest, ended, problem: 'the file holds binary data, not CSV text' };
+    return { header: null, rest, ended, eol, problem: 'the file holds binary data, not CSV text' };
   }
-  return { header: text, rest, ended, problem: null };
+  return { header: text, rest, ended, eol, problem: null };
 }
 
 /** Semicolon when the header holds more semicolons than commas (outside quotes), else comma. */

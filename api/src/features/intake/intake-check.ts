@@ -5,6 +5,8 @@ import { applyCases, caseDiff, caseScope, checkCases } from './case-intake';
 import { collectProblems, openProblemTable } from './problems';
 import { applyRoster, rosterDiff, rosterScope } from './roster-apply';
 import { checkRoster } from './roster-checks';
+import { rosterStage, type RosterStaged } from './roster-stage';
+import { stagingRef } from './copy-stage';
 
 export interface CheckOutcome {
   problems: IntakeProblem[];
@@ -18,21 +20,28 @@ export async function lockIntakes(client: PoolClient): Promise<void> {
   await client.query(`SELECT pg_advisory_xact_lock(hashtext('ratewarden.intake.apply'))`);
   // Hash aggregates over a million staged rows stay in memory instead of spilling to disk.
   await client.query(`SET LOCAL work_mem = '256MB'`);
+  // JIT compiling these one-off statements costs more than it saves at a million rows.
+  await client.query(`SET LOCAL jit = off`);
 }
 
-/** Runs every check of the kind; computes the diff only for a file without problems. */
-export async function runChecks(client: PoolClient, kind: IntakeKind, stg: string): Promise<CheckOutcome> {
+/**
+ * Runs every check of the kind over the intake's staging `table`; computes the diff only for a
+ * file without problems. For a roster, `staged` carries what the upload stream found; at apply it
+ * is null and only the checks against the store run again (see checkRoster).
+ */
+export async function runChecks(client: PoolClient, kind: IntakeKind, table: string, staged: RosterStaged | null = null): Promise<CheckOutcome> {
   await openProblemTable(client);
-  if (kind === 'roster') await checkRoster(client, stg);
-  else await checkCases(client, stg);
+  const st = rosterStage(table);
+  const unlisted = kind === 'roster' ? await checkRoster(client, st, staged) : (await checkCases(client, stagingRef(table)), 0);
   const { problems, count } = await collectProblems(client);
-  const scope = kind === 'roster' ? await rosterScope(client) : await caseScope(client);
-  if (count > 0) return { problems, problemCount: count, diff: null, scope };
-  const diff = kind === 'roster' ? await rosterDiff(client, stg) : await caseDiff(client);
+  const problemCount = count + unlisted;
+  const scope = kind === 'roster' ? await rosterScope(client, st) : await caseScope(client);
+  if (problemCount > 0) return { problems, problemCount, diff: null, scope };
+  const diff = kind === 'roster' ? await rosterDiff(client, st) : await caseDiff(client);
   return { problems, problemCount: 0, diff, scope };
 }
 
 /** Stores a checked intake (the scratch tables of `runChecks` in this transaction). */
-export async function applyChecked(client: PoolClient, kind: IntakeKind, stg: string, intakeId: string): Promise<{ superseded: string[] }> {
-  return kind === 'roster' ? applyRoster(client, stg, intakeId) : applyCases(client, intakeId);
+export async function applyChecked(client: PoolClient, kind: IntakeKind, table: string, intakeId: string): Promise<{ superseded: string[] }> {
+  return kind === 'roster' ? applyRoster(client, rosterStage(table), intakeId) : applyCases(client, intakeId);
 }

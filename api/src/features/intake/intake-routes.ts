@@ -1,4 +1,4 @@
-import { Router, type RequestHandler } from 'express';
+import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { intakeKindSchema } from '@ratewarden/shared/intake';
 import { intakeColumns, templateCsv } from '@ratewarden/shared/intake-columns';
@@ -16,19 +16,17 @@ export interface IntakeRouterDeps {
   maxBytes?: number;
 }
 
-const signedIn: RequestHandler = (req, _res, next) => next(req.principal ? undefined : new AppError('unauthenticated', 'sign in first'));
-
 /** Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore. */
 export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES }: IntakeRouterDeps): Router {
   const router = Router();
 
-  router.get('/templates/:file', signedIn, (req, res) => {
+  router.get('/templates/:file', authorize('intake:formats'), (req, res) => {
     const kind = intakeKindSchema.safeParse(String(req.params.file).replace(/\.csv$/, ''));
     if (!kind.success) throw new AppError('not_found', 'templates are roster.csv and cases.csv');
     res.type('text/csv; charset=utf-8').attachment(`ratewarden-${kind.data}-template.csv`).send(templateCsv(kind.data));
   });
 
-  router.get('/formats', signedIn, (_req, res) => {
+  router.get('/formats', authorize('intake:formats'), (_req, res) => {
     res.json(intakeColumns);
   });
 

@@ -14,6 +14,7 @@ import { copyRows, createStagingTable, stagingRef, stagingTableName } from './co
 import { detectDelimiter, matchHeader, readHead } from './csv-header';
 import { applyChecked, lockIntakes, runChecks, type CheckOutcome } from './intake-check';
 import { loadIntake } from './intake-queries';
+import { rosterStage, stageRoster, type RosterStaged } from './roster-stage';
 import { restoreCases } from './case-intake';
 import { restoreRoster } from './roster-apply';
 
@@ -96,8 +97,16 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
         await drain(meter);
         throw new Unreadable(match.problems);
       }
-      await createStagingTable(client, table, defs);
-      const rowCount = head.ended ? 0 : await copyRows(client, table, columns, delimiter, head.rest, meter);
+      let staged: RosterStaged | null = null;
+      let rowCount: number;
+      if (input.kind === 'roster') {
+        // Rosters are large: judged cell by cell while streaming, staged typed (roster-stream.ts).
+        staged = await stageRoster(client, table, columns, delimiter, head.eol, head.rest, head.ended ? null : meter);
+        rowCount = staged.rowCount;
+      } else {
+        await createStagingTable(client, table, defs);
+        rowCount = head.ended ? 0 : await copyRows(client, table, columns, delimiter, head.rest, meter);
+      }
       const checksum = meter.digest();
 
       await lockIntakes(client);
@@ -114,7 +123,7 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
          VALUES ($1, $2, 'received', $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
         [id, input.kind, input.fileName, checksum, meter.bytes, rowCount, submittedBy, submittedByClient, table, columns, delimiter],
       );
-      const outcome = await runChecks(client, input.kind, stagingRef(table));
+      const outcome = await runChecks(client, input.kind, table, staged);
       assertSites(input.principal, outcome.scope.siteIds);
       await recordAudit(em, { actor: input.principal, action: 'intake.receive', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount } });
       await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply', input.principal, input.ip);
@@ -176,7 +185,9 @@ async function settleChecked(client: PoolClient, em: EntityManager, id: string, 
 }
 
 async function dropStaging(client: PoolClient, id: string, table: string): Promise<void> {
-  await client.query(`DROP TABLE IF EXISTS ${stagingRef(table)}`);
+  const st = rosterStage(table);
+  // A case list has only the first; a roster has all three.
+  await client.query(`DROP TABLE IF EXISTS ${st.rows}, ${st.workers}, ${st.slices}`);
   await client.query(`UPDATE intakes SET staging_table = NULL WHERE id = $1`, [id]);
 }
 
@@ -185,7 +196,7 @@ async function requestRun(client: PoolClient, id: string, reason: string): Promi
 }
 
 async function applyNow(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, principal: Principal, ip?: string | null): Promise<void> {
-  const { superseded } = await applyChecked(client, kind, stagingRef(table), id);
+  const { superseded } = await applyChecked(client, kind, table, id);
   await client.query(`UPDATE intakes SET state = 'applied', applied_at = now() WHERE id = $1`, [id]);
   await dropStaging(client, id, table);
   await requestRun(client, id, `${kind === 'roster' ? 'roster' : 'case list'} intake applied`);
@@ -203,8 +214,10 @@ async function lockIntake(client: PoolClient, id: string): Promise<LockedIntake>
 }
 
 /**
- * Applies an intake that was checked earlier. The checks run again first, in the same transaction,
- * because the store may have moved since; new problems reject the intake and store nothing.
+ * Applies an intake that was checked earlier. The checks that depend on the store run again
+ * first, in the same transaction, because the store may have moved since; new problems reject
+ * the intake and store nothing. The in-file checks of a roster are not repeated: its staged rows
+ * are intact (same count) and only this code writes them.
  */
 export async function applyIntake(ds: DataSource, p: Principal, id: string, ip?: string | null): Promise<IntakeDetail> {
   const detail = await withTransaction(ds, async (client, em) => {
@@ -217,7 +230,7 @@ export async function applyIntake(ds: DataSource, p: Principal, id: string, ip?:
     if (!staged || Number(staged.rows[0]!.n) !== it.row_count) {
       throw new AppError('conflict', 'the staged rows of this intake are gone (the database restarted since the check); upload the file again');
     }
-    const outcome = await runChecks(client, it.kind, stagingRef(it.staging_table!));
+    const outcome = await runChecks(client, it.kind, it.staging_table!);
     assertSites(p, outcome.scope.siteIds);
     await settleChecked(client, em, id, it.kind, it.staging_table!, outcome, true, p, ip);
     return loadIntake(em, id);

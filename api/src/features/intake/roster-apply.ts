@@ -1,16 +1,14 @@
 import type { PoolClient } from 'pg';
 import type { IntakeDiff, RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
-import { columnPattern } from '@ratewarden/shared/intake-columns';
-import { cell, lit } from './sql-checks';
+import type { RosterStage } from './roster-stage';
 
 const sliceJoin = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month`;
 
-/** Site ids and month range of a checked roster (from `intake_slices`). */
-export async function rosterScope(client: PoolClient): Promise<{ siteIds: number[]; monthFrom: string | null; monthTo: string | null }> {
+/** Site ids and month range of a staged roster (from its site × month table). */
+export async function rosterScope(client: PoolClient, st: RosterStage): Promise<{ siteIds: number[]; monthFrom: string | null; monthTo: string | null }> {
   const { rows } = await client.query<{ site_ids: number[] | null; month_from: string | null; month_to: string | null }>(`
-    SELECT array_agg(DISTINCT si.id ORDER BY si.id) AS site_ids, min(sl.m) || '-01' AS month_from, max(sl.m) || '-01' AS month_to
-    FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
-    WHERE sl.m ~ ${lit(columnPattern({ type: 'month' })!)}`);
+    SELECT array_agg(DISTINCT site_id ORDER BY site_id) AS site_ids, to_char(min(month), 'YYYY-MM-DD') AS month_from, to_char(max(month), 'YYYY-MM-DD') AS month_to
+    FROM ${st.slices}`);
   const r = rows[0]!;
   return { siteIds: r.site_ids ?? [], monthFrom: r.month_from, monthTo: r.month_to };
 }
@@ -18,27 +16,28 @@ export async function rosterScope(client: PoolClient): Promise<{ siteIds: number
 /**
  * What applying the roster would change, per site × month already stored: workers added, removed,
  * moved to another group, hours changed. Only the stored slices are compared row by row; a slice
- * that is new is summarized from `intake_slices`.
+ * that is new is summarized from the staged site × month table.
  */
-export async function rosterDiff(client: PoolClient, stg: string): Promise<IntakeDiff> {
+export async function rosterDiff(client: PoolClient, st: RosterStage): Promise<IntakeDiff> {
   await client.query(`DROP TABLE IF EXISTS pg_temp.intake_stored_slices`);
   await client.query(`
     CREATE TEMP TABLE intake_stored_slices ON COMMIT DROP AS
-    SELECT sl.site_code, sl.m, si.id AS site_id, (sl.m || '-01')::date AS month, rs.intake_id
-    FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
-    JOIN roster_slices rs ON rs.site_id = si.id AND rs.month = (sl.m || '-01')::date`);
-  const { rows: changed } = await client.query<{
+    SELECT sl.site_code, sl.m, sl.site_id, sl.month, rs.intake_id
+    FROM ${st.slices} sl JOIN roster_slices rs ON rs.site_id = sl.site_id AND rs.month = sl.month`);
+  const { rows: storedCount } = await client.query<{ n: string }>(`SELECT count(*) AS n FROM intake_stored_slices`);
+  // Nothing stored for these months: every slice is new, no row-by-row comparison is needed.
+  const { rows: changed } = Number(storedCount[0]!.n) === 0 ? { rows: [] } : await client.query<{
     site_code: string; m: string; added: string; removed: string; moved: string; hours_changed: string; unchanged: string; stored_hours: string | null; new_hours: string | null;
     ex_added: string[] | null; ex_removed: string[] | null; ex_moved: string[] | null; ex_hours: string[] | null;
   }>(`
     WITH f AS (
-      SELECT ${cell('s', 'worker_key')} AS k, ss.site_code, ss.m, upper(${cell('s', 'exposure_group')}) AS g, replace(${cell('s', 'hours')}, ',', '.')::numeric AS h
-      FROM ${stg} s JOIN intake_stored_slices ss ON ss.site_code = upper(${cell('s', 'site')}) AND ss.m = ${cell('s', 'month')}
+      SELECT s.worker_key AS k, ss.site_code, ss.m, s.group_id AS g, s.hours AS h
+      FROM ${st.rows} s JOIN intake_stored_slices ss ON ss.site_id = s.site_id AND ss.month = s.month
     ), o AS (
-      SELECT w.worker_key AS k, ss.site_code, ss.m, upper(eg.code) AS g, re.hours AS h
+      SELECT w.worker_key AS k, ss.site_code, ss.m, re.exposure_group_id AS g, re.hours AS h
       FROM intake_stored_slices ss
       JOIN roster_entries re ON re.intake_id = ss.intake_id AND re.site_id = ss.site_id AND re.month = ss.month
-      JOIN workers w ON w.id = re.worker_id JOIN exposure_groups eg ON eg.id = re.exposure_group_id
+      JOIN workers w ON w.id = re.worker_id
     ), j AS (
       SELECT coalesce(f.site_code, o.site_code) AS site_code, coalesce(f.m, o.m) AS m, coalesce(f.k, o.k) AS k, f.h AS fh, o.h AS oh,
              CASE WHEN o.k IS NULL THEN 'added' WHEN f.k IS NULL THEN 'removed' WHEN f.g <> o.g THEN 'moved' WHEN f.h <> o.h THEN 'hours' ELSE 'same' END AS change
@@ -54,9 +53,9 @@ export async function rosterDiff(client: PoolClient, stg: string): Promise<Intak
       (array_agg(k ORDER BY k) FILTER (WHERE change = 'hours'))[1:10] AS ex_hours
     FROM j GROUP BY site_code, m`);
   const { rows: fresh } = await client.query<{ site_code: string; m: string; n: string; hours: string | null }>(`
-    SELECT sl.site_code, sl.m, sl.n, sl.hours FROM intake_slices sl
-    WHERE NOT EXISTS (SELECT 1 FROM intake_stored_slices ss WHERE ss.site_code = sl.site_code AND ss.m = sl.m)`);
-  const { rows: nw } = await client.query<{ n: string }>(`SELECT count(*) AS n FROM intake_workers iw WHERE NOT EXISTS (SELECT 1 FROM workers w WHERE w.worker_key = iw.k)`);
+    SELECT sl.site_code, sl.m, sl.n, sl.hours FROM ${st.slices} sl
+    WHERE NOT EXISTS (SELECT 1 FROM intake_stored_slices ss WHERE ss.site_id = sl.site_id AND ss.month = sl.month)`);
+  const { rows: nw } = await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${st.workers} iw WHERE NOT EXISTS (SELECT 1 FROM workers w WHERE w.worker_key = iw.k)`);
 
   const slices: RosterSliceDiff[] = [
     ...changed.map((r) => ({
@@ -83,26 +82,24 @@ export async function rosterDiff(client: PoolClient, stg: string): Promise<Intak
 /**
  * Stores a checked roster: new workers, every row as a roster entry of this intake, and the
  * site × month pointers moved to it. Intakes left holding no current slice become superseded.
- * Runs inside the caller's transaction; the checks have passed, so the casts cannot fail.
+ * Runs inside the caller's transaction; the checks have passed, so every staged cell is set.
+ * The entries go in primary-key order (worker, month), so the index grows at its right edge.
  */
-export async function applyRoster(client: PoolClient, stg: string, intakeId: string): Promise<{ superseded: string[] }> {
+export async function applyRoster(client: PoolClient, st: RosterStage, intakeId: string): Promise<{ superseded: string[] }> {
   await client.query(`
     INSERT INTO workers (worker_key, birth_year, sex, first_intake_id)
-    SELECT iw.k, iw.by_min::int, iw.sex_min, $1 FROM intake_workers iw
+    SELECT iw.k, iw.by_min, iw.sex_min, $1 FROM ${st.workers} iw
     ON CONFLICT (worker_key) DO NOTHING`, [intakeId]);
   await client.query(`
     INSERT INTO roster_entries (intake_id, worker_id, month, site_id, exposure_group_id, hours, job_title)
-    SELECT $1, w.id, (${cell('s', 'month')} || '-01')::date, si.id, g.id, replace(${cell('s', 'hours')}, ',', '.')::numeric, nullif(${cell('s', 'job_title')}, '')
-    FROM ${stg} s
-    JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
-    JOIN sites si ON upper(si.code) = upper(${cell('s', 'site')})
-    JOIN exposure_groups g ON upper(g.code) = upper(${cell('s', 'exposure_group')})`, [intakeId]);
+    SELECT $1, w.id, s.month, s.site_id, s.group_id, s.hours, s.job_title
+    FROM ${st.rows} s JOIN workers w ON w.worker_key = s.worker_key
+    ORDER BY w.id, s.month`, [intakeId]);
   const { rows: prev } = await client.query<{ intake_id: string }>(`
-    SELECT DISTINCT rs.intake_id FROM roster_slices rs JOIN sites si ON si.id = rs.site_id
-    JOIN intake_slices sl ON sl.site_code = upper(si.code) AND rs.month = (sl.m || '-01')::date`);
+    SELECT DISTINCT rs.intake_id FROM roster_slices rs JOIN ${st.slices} sl ON sl.site_id = rs.site_id AND sl.month = rs.month`);
   await client.query(`
     INSERT INTO roster_slices (site_id, month, intake_id)
-    SELECT si.id, (sl.m || '-01')::date, $1 FROM intake_slices sl JOIN sites si ON upper(si.code) = sl.site_code
+    SELECT site_id, month, $1 FROM ${st.slices}
     ON CONFLICT (site_id, month) DO UPDATE SET intake_id = EXCLUDED.intake_id`, [intakeId]);
   return { superseded: await markSupersededRosters(client, prev.map((r) => r.intake_id)) };
 }

@@ -1,75 +1,77 @@
 import type { PoolClient } from 'pg';
-import { columnPattern, reasons, rosterColumns } from '@ratewarden/shared/intake-columns';
-import { cell, cellChecksInsertSql, lit } from './sql-checks';
-
-const hoursDef = rosterColumns.find((c) => c.name === 'hours')!;
-const monthPattern = columnPattern({ type: 'month' })!;
-
-/** Codes known to the database, for the unknown-code checks. */
-async function codeLists(client: PoolClient): Promise<[string[], string[]]> {
-  const sites = await client.query<{ code: string }>(`SELECT upper(code) AS code FROM sites`);
-  const groups = await client.query<{ code: string }>(`SELECT upper(code) AS code FROM exposure_groups`);
-  return [sites.rows.map((r) => r.code), groups.rows.map((r) => r.code)];
-}
+import { reasons } from '@ratewarden/shared/intake-columns';
+import { AppError } from '../../lib/app-error';
+import { addProblems } from './problems';
+import type { RosterStage, RosterStaged } from './roster-stage';
+import { lit } from './sql-checks';
 
 /**
- * Every roster check, set-wise over the staging table `stg` (schema-qualified). Fills
- * `intake_problems`, and leaves two scratch tables the diff and the apply reuse:
- * `intake_slices` (site code × month of the file, with rows and hours) and `intake_workers`
- * (one line per worker key with the birth years and sexes it was given).
+ * The roster checks left to SQL once the stream has judged every cell (shape, range, codes) and
+ * tallied workers and site × months: the ones that need stored data, or, for a file whose months
+ * do not simply increase per worker, the worker-twice-in-a-month check. `staged` is the stream's
+ * result at upload time; at apply (staged rows intact, in-file checks already passed) it is null
+ * and only the checks against the store run again. Returns the problems counted but not listed.
  */
-export async function checkRoster(client: PoolClient, stg: string): Promise<void> {
-  const [sites, groups] = await codeLists(client);
-  await client.query(cellChecksInsertSql(stg, rosterColumns, { site: '$1', exposure_group: '$2' }), [sites, groups]);
+export async function checkRoster(client: PoolClient, st: RosterStage, staged: RosterStaged | null): Promise<number> {
+  let unlisted = 0;
+  if (staged) {
+    await addProblems(client, staged.problems);
+    unlisted = staged.problemCount - staged.problems.length;
+    if (staged.needsDuplicateCheck) {
+      await client.query(`
+        INSERT INTO intake_problems (line, col, val, reason)
+        SELECT s.line_no, 'month', to_char(s.month, 'YYYY-MM'), ${lit(reasons.workerTwiceInMonth)}
+        FROM ${st.rows} s
+        JOIN (SELECT worker_key, month FROM ${st.rows} WHERE worker_key IS NOT NULL AND month IS NOT NULL GROUP BY 1, 2 HAVING count(*) > 1) d
+          ON d.worker_key = s.worker_key AND d.month = s.month`);
+    }
+  }
+  await assertCodesStillKnown(client, st, staged);
 
-  const hours = cell('s', 'hours');
-  await client.query(`DROP TABLE IF EXISTS pg_temp.intake_slices, pg_temp.intake_workers`);
-  await client.query(`
-    CREATE TEMP TABLE intake_slices ON COMMIT DROP AS
-    SELECT upper(${cell('s', 'site')}) AS site_code, ${cell('s', 'month')} AS m, count(*) AS n,
-           sum(CASE WHEN ${hours} ~ ${lit(columnPattern(hoursDef.rule)!)} THEN replace(${hours}, ',', '.')::numeric END) AS hours
-    FROM ${stg} s GROUP BY 1, 2`);
-  await client.query(`
-    CREATE TEMP TABLE intake_workers ON COMMIT DROP AS
-    SELECT ${cell('s', 'worker_key')} AS k, min(${cell('s', 'birth_year')}) AS by_min, max(${cell('s', 'birth_year')}) AS by_max,
-           min(upper(${cell('s', 'sex')})) AS sex_min, max(upper(${cell('s', 'sex')})) AS sex_max
-    FROM ${stg} s GROUP BY 1`);
-
-  // A worker twice in one month: every row of such a worker × month is named.
-  await client.query(`
-    INSERT INTO intake_problems (line, col, val, reason)
-    SELECT s.line_no + 1, 'month', ${cell('s', 'month')}, ${lit(reasons.workerTwiceInMonth)}
-    FROM ${stg} s
-    JOIN (SELECT ${cell('x', 'worker_key')} AS k, ${cell('x', 'month')} AS m FROM ${stg} x GROUP BY 1, 2 HAVING count(*) > 1) d
-      ON d.k = ${cell('s', 'worker_key')} AND d.m = ${cell('s', 'month')}`);
-
-  // Birth year or sex that differ within the file or from the stored worker.
-  await client.query(`
-    INSERT INTO intake_problems (line, col, val, reason)
-    SELECT s.line_no + 1, 'birth_year', ${cell('s', 'birth_year')} || ' / ' || upper(${cell('s', 'sex')}), ${lit(reasons.workerAttributesDiffer)}
-    FROM ${stg} s
-    JOIN (
-      SELECT iw.k FROM intake_workers iw
-      LEFT JOIN workers w ON w.worker_key = iw.k
-      WHERE iw.by_min <> iw.by_max OR iw.sex_min <> iw.sex_max
-         OR (w.id IS NOT NULL AND (w.birth_year::text IS DISTINCT FROM iw.by_min OR w.sex IS DISTINCT FROM iw.sex_min))
-    ) d ON d.k = ${cell('s', 'worker_key')}`);
+  // Birth year or sex that differ within the file or from the stored worker: the keys come from
+  // the small per-worker table; the staged rows are read only when there is a key to name.
+  const { rows: odd } = await client.query<{ k: string }>(`
+    SELECT iw.k FROM ${st.workers} iw LEFT JOIN workers w ON w.worker_key = iw.k
+    WHERE iw.by_min <> iw.by_max OR iw.sex_min <> iw.sex_max
+       OR (w.id IS NOT NULL AND ((iw.by_min IS NOT NULL AND w.birth_year IS DISTINCT FROM iw.by_min) OR (iw.sex_min IS NOT NULL AND w.sex IS DISTINCT FROM iw.sex_min)))`);
+  if (odd.length) {
+    await client.query(`
+      INSERT INTO intake_problems (line, col, val, reason)
+      SELECT s.line_no, 'birth_year', coalesce(s.birth_year::text, '') || ' / ' || coalesce(s.sex, ''), ${lit(reasons.workerAttributesDiffer)}
+      FROM ${st.rows} s WHERE s.worker_key = ANY($1::text[])`, [odd.map((r) => r.k)]);
+  }
 
   // Stored current rosters of site × months this file does not replace, in the file's months.
   const { rows: other } = await client.query<{ n: string }>(`
-    SELECT count(*) AS n FROM roster_slices rs JOIN sites si ON si.id = rs.site_id
-    WHERE to_char(rs.month, 'YYYY-MM') IN (SELECT m FROM intake_slices)
-      AND (upper(si.code), to_char(rs.month, 'YYYY-MM')) NOT IN (SELECT site_code, m FROM intake_slices)`);
+    SELECT count(*) AS n FROM roster_slices rs
+    WHERE rs.month IN (SELECT month FROM ${st.slices}) AND (rs.site_id, rs.month) NOT IN (SELECT site_id, month FROM ${st.slices})`);
   if (Number(other[0]!.n) > 0) {
     await client.query(`
       INSERT INTO intake_problems (line, col, val, reason)
-      SELECT s.line_no + 1, 'site', ${cell('s', 'site')} || ' (stored at ' || si.code || ')', ${lit(reasons.workerTwiceStored)}
-      FROM ${stg} s
-      JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
-      JOIN roster_entries re ON re.worker_id = w.id
+      SELECT s.line_no, 'site', fs.code || ' (stored at ' || si.code || ')', ${lit(reasons.workerTwiceStored)}
+      FROM ${st.rows} s
+      JOIN sites fs ON fs.id = s.site_id
+      JOIN workers w ON w.worker_key = s.worker_key
+      JOIN roster_entries re ON re.worker_id = w.id AND re.month = s.month
       JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
       JOIN sites si ON si.id = re.site_id
-      WHERE re.month = CASE WHEN ${cell('s', 'month')} ~ ${lit(monthPattern)} THEN (${cell('s', 'month')} || '-01')::date END
-        AND (upper(si.code), to_char(re.month, 'YYYY-MM')) NOT IN (SELECT site_code, m FROM intake_slices)`);
+      WHERE (re.site_id, re.month) NOT IN (SELECT site_id, month FROM ${st.slices})`);
+  }
+  return unlisted;
+}
+
+/**
+ * Codes were resolved to ids while streaming, before the intake lock was taken; a site or group
+ * removed since then would leave rows pointing nowhere. At apply the ids are read from the stage.
+ */
+async function assertCodesStillKnown(client: PoolClient, st: RosterStage, staged: RosterStaged | null): Promise<void> {
+  const siteIds = staged ? staged.siteIds : (await client.query<{ id: number }>(`SELECT DISTINCT site_id AS id FROM ${st.slices}`)).rows.map((r) => r.id);
+  const groupIds = staged ? staged.groupIds : (await client.query<{ id: number }>(`SELECT DISTINCT group_id AS id FROM ${st.rows} WHERE group_id IS NOT NULL`)).rows.map((r) => r.id);
+  const { rows } = await client.query<{ n: number }>(
+    `SELECT (SELECT count(*)::int FROM sites WHERE id = ANY($1::int[])) + (SELECT count(*)::int FROM exposure_groups WHERE id = ANY($2::int[])) AS n`,
+    [siteIds, groupIds],
+  );
+  if (rows[0]!.n !== siteIds.length + groupIds.length) {
+    throw new AppError('conflict', 'a site or exposure group named in this file was removed while it was being checked; upload the file again');
   }
 }

@@ -3,6 +3,7 @@ import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { CustomSeriesRenderItemAPI, CustomSeriesRenderItemParams, EChartsOption } from 'echarts';
 import { useMemo, useState } from 'react';
 import { formatEstimate } from '../../lib/format';
+import { ExportButton, type CsvExport } from '../table/export-button';
 import { echarts, tokenColour } from './echarts-setup';
 
 /**
@@ -21,7 +22,7 @@ export interface IntervalItem {
 
 const finite = (x: number | null): x is number => x !== null && Number.isFinite(x) && x > 0;
 
-export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale)' }: { title: string; items: IntervalItem[]; valueLabel?: string }) {
+export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale)', csv }: { title: string; items: IntervalItem[]; valueLabel?: string; csv?: CsvExport }) {
   const [showTable, setShowTable] = useState(false);
   const option = useMemo<EChartsOption>(() => {
     const values = items.flatMap((i) => [i.estimate, i.lower, i.upper]).filter(finite);
@@ -90,9 +91,12 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
     <figure className="mt-4 border border-rule bg-panel p-3">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-2">
         <span className="font-semibold">{title}</span>
-        <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
-          {showTable ? 'Hide the table' : 'Show as a table'}
-        </button>
+        <span className="flex items-baseline gap-3">
+          <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
+            {showTable ? 'Hide the table' : 'Show as a table'}
+          </button>
+          {csv && <ExportButton csv={csv} label={title} />}
+        </span>
       </figcaption>
       <div>
         <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: Math.max(140, 48 * items.length + 70), width: '100%' }} opts={{ renderer: 'svg' }} />

@@ -3,6 +3,7 @@ import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsOption, LineSeriesOption } from 'echarts';
 import { useMemo, useState } from 'react';
 import { formatAmount, formatEstimate } from '../../lib/format';
+import { ExportButton, type CsvExport } from '../table/export-button';
 import { echarts, tokenColour } from './echarts-setup';
 
 /**
@@ -34,7 +35,7 @@ export interface UChartLimits {
 
 const symbols = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'arrow'];
 
-export function TrendChart({ title, periods, series, limits, unit }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string }) {
+export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
   const [showTable, setShowTable] = useState(false);
   const option = useMemo<EChartsOption>(() => {
     const palette = [tokenColour('moss', '#2e6b57'), tokenColour('amber', '#b97a12'), tokenColour('brick', '#a23b2a'), tokenColour('ink', '#1f3a3d')];
@@ -91,9 +92,12 @@ export function TrendChart({ title, periods, series, limits, unit }: { title: st
     <figure className="mt-4 border border-rule bg-panel p-3">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-2">
         <span className="font-semibold">{title}</span>
-        <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
-          {showTable ? 'Hide the table' : 'Show as a table'}
-        </button>
+        <span className="flex items-baseline gap-3">
+          <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
+            {showTable ? 'Hide the table' : 'Show as a table'}
+          </button>
+          {csv && <ExportButton csv={csv} label={title} />}
+        </span>
       </figcaption>
       <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: 340, width: '100%' }} opts={{ renderer: 'svg' }} />
       {showTable && (

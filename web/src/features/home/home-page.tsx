@@ -1,6 +1,15 @@
+import { Navigate } from 'react-router';
+import { PageLoading } from '../../components/feedback/page-loading';
 import { paths } from '../../config/paths';
+import { useSession } from '../session/api/get-session';
+import { landingOf } from './landing';
 
+/** The front door: signed-in people go straight to their role's page, others are asked to sign in. */
 export function HomePage() {
+  const session = useSession();
+  const user = session.data?.user;
+  if (session.isPending) return <PageLoading />;
+  if (user) return <Navigate replace to={user.role ? landingOf[user.role] : paths.noRole} />;
   return (
     <section className="max-w-3xl">
       <h1 className="text-4xl font-bold tracking-tight">Ratewarden</h1>

@@ -1,29 +1,24 @@
 import { useState } from 'react';
 import { paths } from '../../config/paths';
-import { csrfHeaders } from '../../lib/api-client';
+import { useSession } from './api/get-session';
 
-/** Sign-out is a POST carrying the CSRF token; afterwards the whole app restarts signed out. */
+/**
+ * Sign-out is a form POST carrying the CSRF token, so the browser follows the server's redirect to
+ * the identity provider's end-session page and back: both sessions end, not only Ratewarden's.
+ */
 export function SignOutButton() {
   const [busy, setBusy] = useState(false);
-  const [failed, setFailed] = useState(false);
-  async function signOut() {
-    setBusy(true);
-    setFailed(false);
-    try {
-      const res = await fetch(paths.signOut, { method: 'POST', credentials: 'same-origin', headers: csrfHeaders('POST'), redirect: 'manual' });
-      if (res.status >= 400) throw new Error(String(res.status));
-      window.location.assign(paths.home);
-    } catch {
-      setFailed(true);
-      setBusy(false);
-    }
-  }
+  const session = useSession();
   return (
-    <span className="flex items-center gap-2">
-      <button type="button" onClick={signOut} disabled={busy} className="rounded-sm border border-paper/40 px-3 py-1 text-sm hover:bg-paper hover:text-ink disabled:opacity-60">
+    <form
+      method="post"
+      action={paths.signOut}
+      onSubmit={() => setBusy(true)}
+    >
+      <input type="hidden" name="_csrf" value={session.data?.csrfToken ?? ''} />
+      <button type="submit" disabled={busy} className="rounded-sm border border-paper/40 px-3 py-1 text-sm hover:bg-paper hover:text-ink disabled:opacity-60">
         {busy ? 'Signing out …' : 'Sign out'}
       </button>
-      {failed && <span role="alert" className="text-xs text-amber-soft">Sign-out failed; try again.</span>}
-    </span>
+    </form>
   );
 }

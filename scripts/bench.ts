@@ -1,0 +1,68 @@
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import pg from 'pg';
+import { migrate } from '@ratewarden/db';
+import { applySeconds, bareCopySeconds, peakRss, startIntakeChild, uploadSeconds } from './lib/bench-intake';
+import { BENCH_GROUPS, BENCH_SITES, writeBenchRoster } from './lib/bench-roster';
+import { runMain, say } from './lib/log';
+import { recreateDatabase, startPostgres } from './lib/postgres';
+
+const root = join(import.meta.dirname, '..');
+const WORKERS = 20_000;
+const MONTHS = 60;
+
+/**
+ * `npm run bench`: its own PostgreSQL and database, a 1.2 M-row roster CSV, then side by side
+ * (a) a bare COPY of the file and (b) Ratewarden's intake of it through the real HTTP route,
+ * checks included; peak memory of the intake process. Figures go to .data/bench/latest.json,
+ * merged with what other sections wrote there.
+ */
+runMain(async () => {
+  const outDir = join(root, '.data', 'bench');
+  mkdirSync(outDir, { recursive: true });
+  const db = await startPostgres({ folder: join(root, '.data', 'bench-postgres'), port: 54349, database: 'ratewarden_bench', durable: false });
+  process.on('exit', () => db.stop());
+  await recreateDatabase(54349, 'ratewarden_bench');
+  await migrate(db.url);
+  const client = new pg.Client({ connectionString: db.url });
+  await client.connect();
+  for (const s of BENCH_SITES) await client.query(`INSERT INTO sites (code, name) VALUES ($1, $1)`, [s]);
+  for (const [i, g] of BENCH_GROUPS.entries()) await client.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, $1, 'bench', $2)`, [g, i]);
+  await client.end();
+
+  const file = join(outDir, 'roster-1200k.csv');
+  say(`writing the benchmark roster (${WORKERS} workers × ${MONTHS} months) to ${file} ...`);
+  const { rows, bytes } = await writeBenchRoster(file, WORKERS, MONTHS);
+  say(`${rows.toLocaleString('en')} rows, ${(bytes / 1024 ** 2).toFixed(0)} MiB`);
+
+  // A warm-up COPY brings the file into the page cache, so both measurements read it alike.
+  await bareCopySeconds(db.url, file);
+  const copySeconds = await bareCopySeconds(db.url, file);
+  say(`bare COPY:       ${copySeconds.toFixed(2)} s  (${Math.round(rows / copySeconds).toLocaleString('en')} rows/s)`);
+
+  const child = await startIntakeChild(root, db.url);
+  try {
+    const check = await uploadSeconds(child.port, file, 'check');
+    if (check.status !== 201) throw new Error(`intake answered ${check.status}: ${JSON.stringify(check.body).slice(0, 400)}`);
+    const intakeSeconds = check.seconds;
+    say(`intake (check):  ${intakeSeconds.toFixed(2)} s  (${Math.round(rows / intakeSeconds).toLocaleString('en')} rows/s), ratio ${(intakeSeconds / copySeconds).toFixed(2)}×`);
+    const apply = await applySeconds(child.port, check.body.intake.id);
+    if (apply.status !== 200) throw new Error(`apply answered ${apply.status}`);
+    say(`apply (re-check + store 1.2 M entries): ${apply.seconds.toFixed(2)} s`);
+    const peakRssMb = Math.round(await peakRss(child.port));
+    say(`peak RSS of the intake process: ${peakRssMb} MB`);
+
+    const latestPath = join(outDir, 'latest.json');
+    const latest = existsSync(latestPath) ? (JSON.parse(readFileSync(latestPath, 'utf8')) as Record<string, unknown>) : {};
+    latest.intake = {
+      rows, copySeconds: round(copySeconds), intakeSeconds: round(intakeSeconds), ratio: round(intakeSeconds / copySeconds), peakRssMb,
+      applySeconds: round(apply.seconds), fileMb: Math.round(bytes / 1024 ** 2), measuredAt: new Date().toISOString(),
+    };
+    writeFileSync(latestPath, `${JSON.stringify(latest, null, 2)}\n`);
+    say(`figures written to ${latestPath}`);
+  } finally {
+    child.stop();
+  }
+});
+
+const round = (x: number) => Math.round(x * 100) / 100;

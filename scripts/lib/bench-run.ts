@@ -1,0 +1,59 @@
+import { createDataSource } from '@ratewarden/db';
+import { readWorkerConfig } from '@ratewarden/worker/config';
+import { CELLS_SQL } from '@ratewarden/worker/runs/cells-query';
+import { performRun } from '@ratewarden/worker/runs/perform-run';
+import { runSettingsOf } from '@ratewarden/worker/runs/run-settings';
+
+/** The `"run"` entry of `.data/bench/latest.json`. */
+export interface RunBench {
+  /** Current roster rows the run aggregated. */
+  rows: number;
+  /** The bare SQL GROUP BY that produces the run's cells (best of two, after a warm-up). */
+  groupBySeconds: number;
+  /** The whole run: the same aggregation, the statistics for every cell, storing the result set, rules (after a warm-up run). */
+  runSeconds: number;
+  ratio: number;
+}
+
+const round3 = (x: number) => Math.round(x * 1000) / 1000;
+
+/**
+ * The run benchmark: on a database holding the generated roster and its cases, times the bare
+ * GROUP BY of the run's cells and then a whole run (trigger "bench"), and returns both with their
+ * ratio (target: a run within 1.5 × the GROUP BY). The caller (scripts/bench.ts) generates the
+ * data beforehand and writes the result under `"run"` in `.data/bench/latest.json`.
+ */
+export async function benchRun(databaseUrl: string, log: (line: string) => void = () => {}): Promise<RunBench> {
+  const ds = createDataSource(databaseUrl, 3);
+  await ds.initialize();
+  try {
+    const settings = runSettingsOf(readWorkerConfig({}));
+    const [count] = (await ds.query(
+      `SELECT count(*)::int AS n FROM roster_entries r JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month`,
+    )) as Array<{ n: number }>;
+    const timeGroupBy = async () => {
+      const t = performance.now();
+      await ds.query(CELLS_SQL, [settings.countedStatuses]);
+      return (performance.now() - t) / 1000;
+    };
+    await timeGroupBy(); // warm-up: both sides then read from a warm cache
+    const groupBySeconds = Math.min(await timeGroupBy(), await timeGroupBy());
+    log(`run bench: bare GROUP BY of the cells ${groupBySeconds.toFixed(2)} s over ${count!.n} roster rows`);
+    const timeRun = async (reason: string) => {
+      const t = performance.now();
+      const outcome = await performRun(ds, { trigger: 'bench', reason, settings, appUrl: 'http://127.0.0.1:3000/', waitForLockMs: 10 * 60_000 });
+      if (outcome.status !== 'succeeded') throw new Error(`the benchmark run did not succeed: ${outcome.status === 'failed' ? outcome.error : outcome.reason}`);
+      return { seconds: (performance.now() - t) / 1000, results: outcome.resultCount };
+    };
+    // Warm-up, as for the GROUP BY: the first run in a process also pays for loading and
+    // optimising the statistics code, which a long-lived worker pays once.
+    const cold = await timeRun('npm run bench (warm-up)');
+    log(`run bench: first run in this process ${cold.seconds.toFixed(2)} s`);
+    const warm = await timeRun('npm run bench');
+    const runSeconds = warm.seconds;
+    log(`run bench: whole run ${runSeconds.toFixed(2)} s (${warm.results} results), ratio ${(runSeconds / groupBySeconds).toFixed(2)}`);
+    return { rows: count!.n, groupBySeconds: round3(groupBySeconds), runSeconds: round3(runSeconds), ratio: round3(runSeconds / groupBySeconds) };
+  } finally {
+    await ds.destroy();
+  }
+}

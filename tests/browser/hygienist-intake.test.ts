@@ -1,0 +1,72 @@
+import { randomBytes } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { DataSource } from 'typeorm';
+import { launchBrowser } from '../support/browser';
+import { DEMO_PASSWORD, provisionUser } from '../support/sign-in';
+import { listenTestApp } from '../support/test-app';
+import { openTestDataSource } from '../support/test-db';
+
+/**
+ * The hygienist's journey in Chromium: sign in through the identity provider, upload a roster with
+ * the file picker, watch the progress bar, see it checked, open it, read the changes and apply it.
+ * Sites and groups get codes of their own so the test meets no other rows.
+ */
+describe('hygienist uploads a roster in Chromium', () => {
+  let ds: DataSource;
+  let app: Awaited<ReturnType<typeof listenTestApp>>;
+  let browser: Awaited<ReturnType<typeof launchBrowser>>;
+  const tag = randomBytes(3).toString('hex').toUpperCase();
+  const site = `BS${tag}`;
+  const [ga, gb] = [`BA${tag}`, `BB${tag}`];
+
+  beforeAll(async () => {
+    ds = await openTestDataSource();
+    const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Browser test site') RETURNING id`, [site])) as { id: number }[];
+    await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Browser A', 'none', 0), ($2, 'Browser B', 'noise', 1)`, [ga, gb]);
+    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', sites.map((s) => s.id));
+    app = await listenTestApp(ds);
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.close();
+    await ds?.destroy();
+  });
+
+  it('signs in, uploads, checks and applies a roster', async () => {
+    const page = await browser.context.newPage();
+    await page.goto(app.baseUrl, { waitUntil: 'networkidle' });
+    await page.getByRole('link', { name: 'Sign in', exact: true }).click();
+    await page.getByLabel('Work e-mail').fill('hygienist@demo.ratewarden.test');
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: /sign in/i }).click();
+    await page.waitForURL(`${app.baseUrl}/**`);
+
+    // Role-aware navigation: the hygienist sees Intakes, not Administration.
+    const nav = page.getByRole('navigation', { name: 'Main' });
+    await nav.getByRole('link', { name: 'Intakes' }).click();
+    await page.getByRole('heading', { level: 1, name: 'Intakes' }).waitFor();
+    expect(await nav.getByRole('link', { name: 'Administration' }).count()).toBe(0);
+
+    const csv = [
+      'worker_key,site,exposure_group,month,hours,birth_year,sex,job_title',
+      `B${tag}-1,${site},${ga},2023-03,160,1980,F,Clerk`,
+      `B${tag}-2,${site},${gb},2023-03,150,1975,M,Grinder`,
+    ].join('\n');
+    await page.locator('input[type=file]').setInputFiles({ name: `roster-${tag}.csv`, mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await page.getByRole('button', { name: 'Upload and check' }).click();
+    const status = page.getByRole('status').filter({ hasText: `roster-${tag}.csv` });
+    await status.waitFor();
+    expect(await status.textContent()).toContain('is checked (2 rows)');
+    expect(await page.getByRole('progressbar', { name: 'Upload progress' }).getAttribute('value')).toBe('1');
+
+    await status.getByRole('link', { name: 'Open the intake' }).click();
+    await page.getByRole('table', { name: /^Changes by site and month/ }).waitFor();
+    expect(await page.getByRole('row', { name: new RegExp(`${site} 2023-03`) }).textContent()).toContain('new');
+    await page.getByRole('button', { name: 'Apply this intake' }).click();
+    await page.getByText('applied', { exact: true }).waitFor();
+    const [row] = (await ds.query(`SELECT state FROM intakes WHERE file_name = $1`, [`roster-${tag}.csv`])) as { state: string }[];
+    expect(row?.state).toBe('applied');
+    await page.close();
+  });
+});

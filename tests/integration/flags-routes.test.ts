@@ -1,0 +1,112 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { DataSource } from 'typeorm';
+import { createApp } from '@ratewarden/api/app';
+import { flagSchema } from '@ratewarden/shared/flags';
+import { runDiffSchema, runSummarySchema } from '@ratewarden/shared/runs';
+import { performRun } from '@ratewarden/worker/runs/perform-run';
+import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
+import { testApiConfig } from '../support/test-config';
+import { openTestDataSource } from '../support/test-db';
+import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixture';
+
+/** The runs, rules, flags and mailbox routes with signed-in demo people: who may do what. */
+describe('runs, rules and flags through the API', () => {
+  let ds: DataSource;
+  let c: Cohort;
+  let app: ReturnType<typeof createApp>;
+  let as: Record<'safety' | 'physician' | 'hygienist' | 'admin', SignedInAgent>;
+  let flagId: string;
+  const runs: string[] = [];
+
+  beforeAll(async () => {
+    ds = await openTestDataSource();
+    await clearCohortData(ds);
+    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['API', 'recurrent']] });
+    const rows: Array<[number, string, number, number, number]> = [];
+    const exposed: number[] = [];
+    for (let i = 0; i < 4; i++) {
+      const e = await c.worker(`e${i}`, 1985, 'M');
+      const r = await c.worker(`r${i}`, 1985, 'F');
+      exposed.push(e);
+      rows.push([e, '2031-05-01', c.sites[0]!, c.groups.EXP!, 160], [r, '2031-05-01', c.sites[0]!, c.groups.REF!, 160]);
+    }
+    await c.roster(rows);
+    await c.cases(exposed.map((w) => [w, c.outcomes.API!, '2031-05-07'] as [number, number, string]));
+    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', c.sites);
+    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', c.sites);
+    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', c.sites);
+    await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
+    app = createApp({ dataSource: ds, config: testApiConfig() });
+    as = {
+      safety: await signIn(app, 'safety@demo.ratewarden.test'),
+      physician: await signIn(app, 'physician@demo.ratewarden.test'),
+      hygienist: await signIn(app, 'hygienist@demo.ratewarden.test'),
+      admin: await signIn(app, 'admin@demo.ratewarden.test'),
+    };
+  });
+  afterAll(async () => {
+    await ds.destroy();
+  });
+
+  it('validates a watch rule with zod and names the field at fault', async () => {
+    const bad = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
+      .send({ name: 'no threshold', outcomeId: c.outcomes.API, measure: 'irr' }).expect(422);
+    expect(bad.body.details).toEqual(expect.arrayContaining([expect.objectContaining({ path: 'threshold' })]));
+    const uchartYear = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
+      .send({ name: 'u', outcomeId: c.outcomes.API, measure: 'uchart', window: 'rolling12' }).expect(422);
+    expect(uchartYear.body.details).toEqual(expect.arrayContaining([expect.objectContaining({ path: 'window' })]));
+    await as.physician.agent.post('/api/rules').set('x-csrf-token', as.physician.csrf)
+      .send({ name: 'x', outcomeId: c.outcomes.API, measure: 'rate', threshold: 1 }).expect(403);
+    const ok = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
+      .send({ name: 'API rate rule', outcomeId: c.outcomes.API, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 2, window: 'month', fdrControl: false }).expect(201);
+    expect(ok.body).toMatchObject({ fdrLevel: 0.05, consecutivePeriods: 1, recipients: [] });
+    for (let i = 0; i < 2; i++) {
+      const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000/' });
+      runs.push((o as { runId: string }).runId);
+    }
+    const [flag] = (await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [ok.body.id])) as Array<{ id: string }>;
+    flagId = flag!.id;
+  });
+
+  it('lists runs and the difference between two runs', async () => {
+    const list = await as.hygienist.agent.get('/api/runs').expect(200);
+    expect(runSummarySchema.array().parse(list.body).find((r) => r.id === runs[1])).toMatchObject({ state: 'succeeded' });
+    const diff = await as.safety.agent.get(`/api/runs/diff?from=${runs[0]}&to=${runs[1]}`).expect(200);
+    expect(runDiffSchema.parse(diff.body).unchangedCount).toBeGreaterThan(0);
+    const results = await as.safety.agent.get(`/api/runs/${runs[1]}/results?outcomeId=${c.outcomes.API}&window=month`).expect(200);
+    expect(results.body.find((r: { exposureGroupId: number }) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: 4, hours: '640.00' });
+  });
+
+  it('the run button is the hygienist\'s and leaves a request for the worker', async () => {
+    await as.safety.agent.post('/api/runs').set('x-csrf-token', as.safety.csrf).expect(403);
+    const res = await as.hygienist.agent.post('/api/runs').set('x-csrf-token', as.hygienist.csrf).expect(202);
+    const [req] = (await ds.query(`SELECT reason, picked_at FROM run_requests WHERE id::text = $1`, [res.body.requestId])) as Array<{ reason: string; picked_at: Date | null }>;
+    expect(req).toEqual({ reason: 'run requested by hygienist@demo.ratewarden.test', picked_at: null });
+  });
+
+  it('cases behind a flag: physician only, and audited', async () => {
+    const list = await as.safety.agent.get('/api/flags').expect(200);
+    expect(flagSchema.array().parse(list.body).map((f) => f.id)).toContain(flagId);
+    await as.safety.agent.get(`/api/flags/${flagId}/cases`).expect(403);
+    await as.hygienist.agent.get(`/api/flags/${flagId}/cases`).expect(403);
+    const cases = await as.physician.agent.get(`/api/flags/${flagId}/cases`).expect(200);
+    expect(cases.body.length).toBe(4);
+    const audits = (await ds.query(`SELECT actor_label FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`flag:${flagId}`])) as Array<{ actor_label: string }>;
+    expect(audits.map((a) => a.actor_label)).toEqual(['physician@demo.ratewarden.test']);
+  });
+
+  it('review and close are the safety manager\'s; a close needs a reason', async () => {
+    await as.hygienist.agent.post(`/api/flags/${flagId}/review`).set('x-csrf-token', as.hygienist.csrf).send({}).expect(403);
+    await as.safety.agent.post(`/api/flags/${flagId}/review`).set('x-csrf-token', as.safety.csrf).send({ comment: 'checking the roster' }).expect(200);
+    await as.safety.agent.post(`/api/flags/${flagId}/close`).set('x-csrf-token', as.safety.csrf).send({ reason: 'because', comment: 'x' }).expect(422);
+    const closed = await as.safety.agent.post(`/api/flags/${flagId}/close`).set('x-csrf-token', as.safety.csrf).send({ reason: 'action_taken', comment: 'extraction fixed' }).expect(200);
+    expect(closed.body).toMatchObject({ state: 'closed', closeReason: 'action_taken', closeComment: 'extraction fixed' });
+    expect(closed.body.events.map((e: { kind: string }) => e.kind)).toEqual(['raised', 'review_started', 'closed']);
+  });
+
+  it('the development mailbox is the administrator\'s', async () => {
+    await as.safety.agent.get('/api/mailbox').expect(403);
+    const res = await as.admin.agent.get('/api/mailbox').expect(200);
+    expect(Array.isArray(res.body)).toBe(true);
+  });
+});

@@ -1,0 +1,12 @@
+import { groupsQueryOptions } from '../../features/groups/api/get-groups';
+import { GroupsPage } from '../../features/groups/groups-page';
+import { RequirePermission } from '../../features/access/require-permission';
+import { prefetchFor } from './prefetch';
+
+export function loader() {
+  return prefetchFor('config:read', groupsQueryOptions());
+}
+
+export function Component() {
+  return <RequirePermission permission="config:read">{(user) => <GroupsPage user={user} />}</RequirePermission>;
+}

@@ -1,0 +1,15 @@
+import { groupsQueryOptions } from '../../features/groups/api/get-groups';
+import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { sitesQueryOptions } from '../../features/groups/api/get-sites';
+import { currentRunQueryOptions } from '../../features/runs/api/get-run';
+import { OverviewPage } from '../../features/results/overview-page';
+import { RequirePermission } from '../../features/access/require-permission';
+import { prefetchFor } from './prefetch';
+
+export function loader() {
+  return prefetchFor('aggregates:read', currentRunQueryOptions(), outcomesQueryOptions(), groupsQueryOptions(), sitesQueryOptions());
+}
+
+export function Component() {
+  return <RequirePermission permission="aggregates:read">{(user) => <OverviewPage user={user} />}</RequirePermission>;
+}

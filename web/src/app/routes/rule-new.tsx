@@ -1,0 +1,13 @@
+import { groupsQueryOptions } from '../../features/groups/api/get-groups';
+import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { RuleEditorPage } from '../../features/rules/rule-editor-page';
+import { RequirePermission } from '../../features/access/require-permission';
+import { prefetchFor } from './prefetch';
+
+export function loader() {
+  return prefetchFor('rules:write', outcomesQueryOptions(), groupsQueryOptions());
+}
+
+export function Component() {
+  return <RequirePermission permission="rules:write">{(user) => <RuleEditorPage rule={null} user={user} />}</RequirePermission>;
+}

@@ -1,0 +1,14 @@
+import { groupsQueryOptions } from '../../features/groups/api/get-groups';
+import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { runsQueryOptions } from '../../features/runs/api/get-runs';
+import { RunsPage } from '../../features/runs/runs-page';
+import { RequirePermission } from '../../features/access/require-permission';
+import { prefetchFor } from './prefetch';
+
+export function loader() {
+  return prefetchFor('runs:read', runsQueryOptions(), groupsQueryOptions(), outcomesQueryOptions());
+}
+
+export function Component() {
+  return <RequirePermission permission="runs:read">{(user) => <RunsPage user={user} />}</RequirePermission>;
+}

@@ -1,0 +1,20 @@
+import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
+
+/** The CSV of the table behind a chart, with the chart's title for assistive technology. */
+export interface CsvExport {
+  name: string;
+  header: string[];
+  rows: CsvCell[][];
+}
+
+export function ExportButton({ csv, label }: { csv: CsvExport; label: string }) {
+  return (
+    <button
+      type="button"
+      onClick={() => downloadCsv(`${csv.name}.csv`, toCsv(csv.header, csv.rows))}
+      className="no-print rounded-sm border border-rule px-2 py-0.5 text-xs font-medium hover:bg-moss-soft"
+    >
+      Export CSV<span className="sr-only">: {label}</span>
+    </button>
+  );
+}

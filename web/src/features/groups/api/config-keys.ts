@@ -1,0 +1,8 @@
+/** Query keys of the configuration the hygienist keeps: sites, exposure groups, outcomes. */
+export const configKeys = {
+  all: ['config'] as const,
+  sites: () => [...configKeys.all, 'sites'] as const,
+  groups: () => [...configKeys.all, 'groups'] as const,
+  outcomes: () => [...configKeys.all, 'outcomes'] as const,
+  history: (kind: 'group' | 'outcome', id: number) => [...configKeys.all, 'history', kind, id] as const,
+};

@@ -1,0 +1,135 @@
+import { roleMay } from '@ratewarden/shared/permissions';
+import type { IntakeDetail, IntakeProblem, RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
+import type { SessionUser } from '@ratewarden/shared/session';
+import { createColumnHelper } from '@tanstack/react-table';
+import { Link } from 'react-router';
+import { DataTable } from '../../components/table/data-table';
+import { paths } from '../../config/paths';
+import { isApiError } from '../../lib/api-error';
+import { formatAmount, formatCount } from '../../lib/format';
+import { useDecideIntake, type IntakeDecision } from './api/decide-intake';
+import { useIntake } from './api/get-intake';
+import { IntakeStateBadge } from './intake-state-badge';
+
+const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
+
+const pcol = createColumnHelper<IntakeProblem>();
+const problemColumns = [
+  pcol.accessor((p) => p.line ?? 0, { id: 'line', header: 'Line', cell: (c) => (c.row.original.line === null ? 'whole file' : formatCount(c.row.original.line)), meta: { numeric: true, csv: (p) => p.line } }),
+  pcol.accessor((p) => p.column ?? '', { id: 'column', header: 'Column' }),
+  pcol.accessor((p) => p.value ?? '', { id: 'value', header: 'Value' }),
+  pcol.accessor('reason', { header: 'Problem' }),
+];
+
+const scol = createColumnHelper<RosterSliceDiff>();
+const sliceColumns = [
+  scol.accessor((s) => `${s.siteCode} ${s.month}`, { id: 'slice', header: 'Site and month' }),
+  scol.accessor((s) => (s.stored ? 'replaces the stored version' : 'new'), { id: 'stored', header: 'Effect' }),
+  scol.accessor('added', { header: 'Workers added', meta: { numeric: true } }),
+  scol.accessor('removed', { header: 'Removed', meta: { numeric: true } }),
+  scol.accessor('moved', { header: 'Moved group', meta: { numeric: true } }),
+  scol.accessor('hoursChanged', { header: 'Hours changed', meta: { numeric: true } }),
+  scol.accessor('unchanged', { header: 'Unchanged', meta: { numeric: true } }),
+  scol.accessor('storedHours', { header: 'Hours stored', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
+  scol.accessor('newHours', { header: 'Hours in file', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
+];
+
+function Diff({ intake }: { intake: IntakeDetail }) {
+  const d = intake.diff;
+  if (!d) return null;
+  if (d.kind === 'cases') {
+    return (
+      <section className="mt-6">
+        <h2 className="text-lg font-semibold">What applying changes</h2>
+        <p className="mt-1">
+          {formatCount(d.new)} new cases, {formatCount(d.changed)} changed, {formatCount(d.unchanged)} unchanged.
+        </p>
+      </section>
+    );
+  }
+  return (
+    <section className="mt-6">
+      <h2 className="text-lg font-semibold">What applying changes</h2>
+      <p className="mt-1">
+        {formatCount(d.totals.newSlices)} new and {formatCount(d.totals.replacedSlices)} replaced site-months; {formatCount(d.newWorkers)} workers not seen before.
+      </p>
+      <DataTable caption="Changes by site and month" columns={sliceColumns} data={d.slices} exportName={`intake-${intake.id}-changes`} rowHeader="slice" />
+    </section>
+  );
+}
+
+export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }) {
+  const { data: intake } = useIntake(id);
+  const decide = useDecideIntake(id);
+  const mayWrite = roleMay(user.role, 'intake:write');
+  const act = (d: IntakeDecision) => decide.mutate(d);
+  return (
+    <section>
+      <p className="text-sm">
+        <Link to={paths.intakes} className="text-moss underline">← All intakes</Link>
+      </p>
+      <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
+        {intake.fileName} <IntakeStateBadge state={intake.state} />
+      </h1>
+      <dl className="mt-4 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4">
+        {[
+          ['Kind', intake.kind],
+          ['Rows', formatCount(intake.rowCount)],
+          ['Problems', formatCount(intake.problemCount)],
+          ['Months', intake.monthFrom ? `${intake.monthFrom} to ${intake.monthTo ?? intake.monthFrom}` : '—'],
+          ['Received', when(intake.createdAt)],
+          ['Checked', when(intake.checkedAt)],
+          ['Applied', when(intake.appliedAt)],
+          ['Superseded', when(intake.supersededAt)],
+        ].map(([k, v]) => (
+          <div key={k}>
+            <dt className="text-ink-soft">{k}</dt>
+            <dd className="font-medium">{v}</dd>
+          </div>
+        ))}
+      </dl>
+      {intake.runRequest && (
+        <p className="mt-4 border-l-4 border-moss bg-panel px-4 py-2 text-sm">
+          A run was requested {when(intake.runRequest.requestedAt)} ({intake.runRequest.reason});{' '}
+          {intake.runRequest.pickedAt ? `the worker took it up ${when(intake.runRequest.pickedAt)}.` : 'the worker has not taken it up yet.'}
+        </p>
+      )}
+      {mayWrite && (
+        <div className="no-print mt-6 flex flex-wrap gap-3">
+          {intake.state === 'checked' && intake.staged && (
+            <>
+              <button type="button" disabled={decide.isPending} onClick={() => act('apply')} className="rounded-sm bg-moss px-5 py-2 font-medium text-white hover:bg-ink disabled:opacity-50">
+                Apply this intake
+              </button>
+              <button type="button" disabled={decide.isPending} onClick={() => act('discard')} className="rounded-sm border border-brick px-5 py-2 font-medium text-brick hover:bg-brick-soft disabled:opacity-50">
+                Discard it
+              </button>
+            </>
+          )}
+          {intake.state === 'superseded' && (
+            <button type="button" disabled={decide.isPending} onClick={() => act('restore')} className="rounded-sm border border-ink px-5 py-2 font-medium hover:bg-panel disabled:opacity-50">
+              Restore this version
+            </button>
+          )}
+        </div>
+      )}
+      {decide.error && (
+        <p role="alert" className="mt-3 border-l-4 border-brick bg-brick-soft px-4 py-2">
+          {isApiError(decide.error) ? decide.error.problem.message : String(decide.error)}
+        </p>
+      )}
+      <Diff intake={intake} />
+      {intake.problems.length > 0 && (
+        <section className="mt-6">
+          <DataTable
+            caption={`Problems (${formatCount(intake.problemCount)}${intake.problemCount > intake.problems.length ? `, the first ${formatCount(intake.problems.length)} shown` : ''})`}
+            columns={problemColumns}
+            data={intake.problems}
+            exportName={`intake-${intake.id}-problems`}
+            rowHeader="line"
+          />
+        </section>
+      )}
+    </section>
+  );
+}

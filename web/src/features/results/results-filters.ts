@@ -1,0 +1,49 @@
+import type { WindowKind } from '@ratewarden/shared/rules';
+import type { RunResult } from '@ratewarden/shared/runs';
+import { useSearchParams } from 'react-router';
+
+/**
+ * The choices every results page shares, kept in the address so a view can be bookmarked and
+ * sent: outcome, window (single month or rolling 12 months), period, stratification, group.
+ */
+export interface ResultsFilters {
+  outcomeId: number | null;
+  window: WindowKind;
+  period: string | null;
+  stratify: 'age' | 'site';
+  groupId: number | null;
+  span: number;
+}
+
+export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [ResultsFilters, (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) => void] {
+  const [params, setParams] = useSearchParams();
+  const num = (k: string) => (params.get(k) ? Number(params.get(k)) : null);
+  const filters: ResultsFilters = {
+    outcomeId: num('outcome') ?? defaults.outcomeId ?? null,
+    window: (params.get('window') as WindowKind | null) ?? defaults.window ?? 'rolling12',
+    period: params.get('period') ?? defaults.period ?? null,
+    stratify: (params.get('stratify') as 'age' | 'site' | null) ?? defaults.stratify ?? 'age',
+    groupId: num('group') ?? defaults.groupId ?? null,
+    span: num('span') ?? defaults.span ?? 36,
+  };
+  const names: Record<keyof ResultsFilters, string> = { outcomeId: 'outcome', window: 'window', period: 'period', stratify: 'stratify', groupId: 'group', span: 'span' };
+  const set = (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) =>
+    setParams(
+      (prev) => {
+        const next = new URLSearchParams(prev);
+        for (const [k, v] of Object.entries(patch)) {
+          const name = names[k as keyof ResultsFilters];
+          if (v === null || v === '') next.delete(name);
+          else next.set(name, String(v));
+        }
+        return next;
+      },
+      { replace: true },
+    );
+  return [filters, set];
+}
+
+/** Periods present for a window, newest first. */
+export function periodsOf(results: RunResult[], window: WindowKind): string[] {
+  return [...new Set(results.filter((r) => r.window === window).map((r) => r.period))].sort().reverse();
+}

@@ -1,0 +1,123 @@
+import type { ExposureGroupDto, OutcomeDto } from '@ratewarden/shared/groups';
+import { roleMay } from '@ratewarden/shared/permissions';
+import type { WindowKind } from '@ratewarden/shared/rules';
+import type { RunDetail, RunResult } from '@ratewarden/shared/runs';
+import type { SessionUser } from '@ratewarden/shared/session';
+import type { ReactNode } from 'react';
+import { Link } from 'react-router';
+import { Cautions } from '../../components/cautions/cautions';
+import { QueryState } from '../../components/feedback/query-state';
+import { SelectField } from '../../components/form/select-field';
+import { UnitsStrip } from '../../components/units/units-strip';
+import { paths } from '../../config/paths';
+import { formatMonth, formatWhen } from '../../lib/dates';
+import { useGroups } from '../groups/api/get-groups';
+import { useOutcomes } from '../groups/api/get-outcomes';
+import { useSites } from '../groups/api/get-sites';
+import { useRunResults } from '../runs/api/get-run-results';
+import { useCurrentRun } from '../runs/api/get-run';
+import { periodsOf, useResultsFilters, type ResultsFilters } from './results-filters';
+import { unitsOf } from './results-units';
+
+export interface ResultsContext {
+  user: SessionUser;
+  run: RunDetail;
+  outcome: OutcomeDto;
+  groups: ExposureGroupDto[];
+  groupName: (id: number) => string;
+  /** Every result of the chosen outcome in the current run. */
+  results: RunResult[];
+  filters: ResultsFilters;
+  /** The chosen period, or the newest one of the chosen window. */
+  period: string | null;
+  setFilters: ReturnType<typeof useResultsFilters>[1];
+}
+
+/**
+ * The frame of every results page: the outcome, window and period choices, the settings of the
+ * live run beside the figures, loading and error states for the results, and the cautions.
+ */
+export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = true, extraControls, children }: {
+  title: string;
+  intro: string;
+  user: SessionUser;
+  /** A page about one window only (the overview: rolling 12 months) hides the window choice. */
+  fixedWindow?: WindowKind;
+  /** The trends page shows every period, so it has no period choice. */
+  periodChoice?: boolean;
+  extraControls?: (ctx: { filters: ResultsFilters; setFilters: ResultsContext['setFilters']; groups: ExposureGroupDto[] }) => ReactNode;
+  children: (ctx: ResultsContext) => ReactNode;
+}) {
+  const { data: run } = useCurrentRun();
+  const { data: outcomes } = useOutcomes();
+  const { data: groups } = useGroups();
+  const { data: sites } = useSites();
+  const [chosen, setFilters] = useResultsFilters({ outcomeId: outcomes[0]?.id ?? null });
+  const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window };
+  const outcome = outcomes.find((o) => o.id === filters.outcomeId) ?? outcomes[0];
+  const results = useRunResults(run?.id ?? '', { outcomeId: outcome?.id });
+
+  if (!run || !outcome) {
+    return (
+      <section>
+        <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
+        <div role="status" className="mt-6 max-w-2xl border-l-4 border-amber bg-amber-soft px-5 py-4">
+          <p className="font-semibold">{!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no figures to show.'}</p>
+          <p className="mt-1">
+            {roleMay(user.role, 'runs:trigger') ? (
+              <>Apply a roster and a case list, then start a run from the <Link className="text-moss underline" to={paths.runs}>run history</Link>.</>
+            ) : (
+              'Figures appear here after the hygienist has applied the first roster and case list and a run has finished.'
+            )}
+          </p>
+        </div>
+      </section>
+    );
+  }
+
+  const groupName = (id: number) => groups.find((g) => g.id === id)?.name ?? `group ${id}`;
+  const windowOptions = [
+    { value: 'rolling12', label: 'Rolling 12 months' },
+    { value: 'month', label: 'Single month' },
+  ];
+  return (
+    <section>
+      <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
+      <p className="mt-2 max-w-3xl text-ink-soft">{intro}</p>
+      <form aria-label="Choose what to show" className="no-print mt-5 flex flex-wrap items-end gap-4 border border-rule bg-panel p-3" onSubmit={(e) => e.preventDefault()}>
+        <SelectField
+          label="Outcome"
+          value={String(outcome.id)}
+          onChange={(e) => setFilters({ outcomeId: e.target.value, period: null })}
+          options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))}
+        />
+        {!fixedWindow && (
+          <SelectField label="Window" value={filters.window} onChange={(e) => setFilters({ window: e.target.value, period: null })} options={windowOptions} />
+        )}
+        {periodChoice && results.data && (
+          <SelectField
+            label={filters.window === 'month' ? 'Month' : 'Twelve months ending'}
+            value={filters.period ?? periodsOf(results.data, filters.window)[0] ?? ''}
+            onChange={(e) => setFilters({ period: e.target.value })}
+            options={periodsOf(results.data, filters.window).map((p) => ({ value: p, label: formatMonth(p) }))}
+          />
+        )}
+        {extraControls?.({ filters, setFilters, groups })}
+      </form>
+      <div className="mt-3">
+        <UnitsStrip settings={unitsOf(run.settings)} />
+        <p className="mt-1 text-xs text-ink-soft">
+          Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
+          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · sites: {sites.map((s) => s.name).join(', ') || 'none'} (all sites together)
+        </p>
+      </div>
+      <QueryState query={results} label="results">
+        {(data) => {
+          const period = filters.period && periodsOf(data, filters.window).includes(filters.period) ? filters.period : (periodsOf(data, filters.window)[0] ?? null);
+          return children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters });
+        }}
+      </QueryState>
+      <Cautions />
+    </section>
+  );
+}
