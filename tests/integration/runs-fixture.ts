@@ -88,11 +88,11 @@ export async function makeCohort(
   };
 }
 
-/** Stored results of one run for one outcome, keyed "group:window:period". */
-export async function storedResults(ds: DataSource, runId: string, outcomeId: number): Promise<Map<string, Record<string, unknown>>> {
+/** Stored results of one run for one outcome, keyed "group:window:period": company-wide, or of one site when `siteId` is given. */
+export async function storedResults(ds: DataSource, runId: string, outcomeId: number, siteId: number | null = null): Promise<Map<string, Record<string, unknown>>> {
   const rows = (await ds.query(
-    `SELECT *, to_char(period, 'YYYY-MM') AS p FROM run_results WHERE run_id = $1 AND outcome_id = $2`,
-    [runId, outcomeId],
+    `SELECT *, to_char(period, 'YYYY-MM') AS p FROM run_results WHERE run_id = $1 AND outcome_id = $2 AND site_id IS NOT DISTINCT FROM $3::int`,
+    [runId, outcomeId, siteId],
   )) as Array<Record<string, unknown>>;
   return new Map(rows.map((r) => [`${r.exposure_group_id as number}:${r.window_kind as string}:${r.p as string}`, r]));
 }

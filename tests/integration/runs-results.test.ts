@@ -183,7 +183,7 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
     const rows = (await ds.query(
       `SELECT g.exposure_level AS score, sum(r.cases)::int AS cases, sum(r.person_time) AS pt
        FROM run_results r JOIN exposure_groups g ON g.id = r.exposure_group_id
-       WHERE r.run_id = $1 AND r.outcome_id = $2 AND r.window_kind = 'rolling12' AND r.period = '2031-02-01' AND g.exposure_level IS NOT NULL
+       WHERE r.run_id = $1 AND r.site_id IS NULL AND r.outcome_id = $2 AND r.window_kind = 'rolling12' AND r.period = '2031-02-01' AND g.exposure_level IS NOT NULL
        GROUP BY g.exposure_level`,
       [runId, c.outcomes.INJ],
     )) as Array<{ score: number; cases: number; pt: number }>;
@@ -198,7 +198,7 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
       sx += l.score * e;
     }
     const chi2 = u ** 2 / (sxx - sx ** 2 / o);
-    const [trend] = (await ds.query(`SELECT chi2, u FROM run_trends WHERE run_id = $1 AND outcome_id = $2 AND window_kind = 'rolling12' AND period = '2031-02-01'`, [runId, c.outcomes.INJ])) as Array<{ chi2: number; u: number }>;
+    const [trend] = (await ds.query(`SELECT chi2, u FROM run_trends WHERE run_id = $1 AND site_id IS NULL AND outcome_id = $2 AND window_kind = 'rolling12' AND period = '2031-02-01'`, [runId, c.outcomes.INJ])) as Array<{ chi2: number; u: number }>;
     expect(trend!.chi2).toBeCloseTo(chi2, 8);
     expect(trend!.u).toBeCloseTo(u, 8);
   });

@@ -8,6 +8,8 @@ import type { WindowKind } from '@ratewarden/shared/rules';
  */
 export interface RunResultRow {
   runId: string;
+  /** null: the whole company; else that site's cells alone. */
+  siteId: number | null;
   outcomeId: number;
   exposureGroupId: number;
   windowKind: WindowKind;
@@ -27,6 +29,8 @@ export interface RunResultRow {
   mhAgeIrd: number | null; mhAgeIrdLower: number | null; mhAgeIrdUpper: number | null;
   mhSiteIrr: number | null; mhSiteIrrLower: number | null; mhSiteIrrUpper: number | null; mhSiteIrrP: number | null;
   mhSiteIrd: number | null; mhSiteIrdLower: number | null; mhSiteIrdUpper: number | null;
+  mhSexIrr: number | null; mhSexIrrLower: number | null; mhSexIrrUpper: number | null; mhSexIrrP: number | null;
+  mhSexIrd: number | null; mhSexIrdLower: number | null; mhSexIrdUpper: number | null;
   uCentre: number | null; uLcl: number | null; uUcl: number | null;
   uSignal: 'above' | 'below' | 'within' | null;
   detail: Record<string, unknown>;
@@ -39,6 +43,7 @@ export const RunResultEntity = new EntitySchema<RunResultRow>({
   tableName: 'run_results',
   columns: {
     runId: { name: 'run_id', type: 'uuid', primary: true },
+    siteId: { name: 'site_id', type: 'integer', nullable: true },
     outcomeId: { name: 'outcome_id', type: 'integer', primary: true },
     exposureGroupId: { name: 'exposure_group_id', type: 'integer', primary: true },
     windowKind: { name: 'window_kind', type: 'text', primary: true },
@@ -58,6 +63,8 @@ export const RunResultEntity = new EntitySchema<RunResultRow>({
     mhAgeIrd: dbl('mh_age_ird'), mhAgeIrdLower: dbl('mh_age_ird_lower'), mhAgeIrdUpper: dbl('mh_age_ird_upper'),
     mhSiteIrr: dbl('mh_site_irr'), mhSiteIrrLower: dbl('mh_site_irr_lower'), mhSiteIrrUpper: dbl('mh_site_irr_upper'), mhSiteIrrP: dbl('mh_site_irr_p'),
     mhSiteIrd: dbl('mh_site_ird'), mhSiteIrdLower: dbl('mh_site_ird_lower'), mhSiteIrdUpper: dbl('mh_site_ird_upper'),
+    mhSexIrr: dbl('mh_sex_irr'), mhSexIrrLower: dbl('mh_sex_irr_lower'), mhSexIrrUpper: dbl('mh_sex_irr_upper'), mhSexIrrP: dbl('mh_sex_irr_p'),
+    mhSexIrd: dbl('mh_sex_ird'), mhSexIrdLower: dbl('mh_sex_ird_lower'), mhSexIrdUpper: dbl('mh_sex_ird_upper'),
     uCentre: dbl('u_centre'), uLcl: dbl('u_lcl'), uUcl: dbl('u_ucl'),
     uSignal: { name: 'u_signal', type: 'text', nullable: true },
     detail: { type: 'jsonb', default: () => "'{}'" },

@@ -4,6 +4,8 @@ import type { WindowKind } from '@ratewarden/shared/rules';
 /** The score test for trend across ordered exposure levels, per outcome × window × period of a run. */
 export interface RunTrend {
   runId: string;
+  /** null: the whole company; else that site alone. */
+  siteId: number | null;
   outcomeId: number;
   windowKind: WindowKind;
   period: string;
@@ -19,6 +21,7 @@ export const RunTrendEntity = new EntitySchema<RunTrend>({
   tableName: 'run_trends',
   columns: {
     runId: { name: 'run_id', type: 'uuid', primary: true },
+    siteId: { name: 'site_id', type: 'integer', nullable: true },
     outcomeId: { name: 'outcome_id', type: 'integer', primary: true },
     windowKind: { name: 'window_kind', type: 'text', primary: true },
     period: { type: 'date', primary: true },

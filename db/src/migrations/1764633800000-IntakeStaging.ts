@@ -3,9 +3,12 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
 /**
  * Staging for intakes and the queue of run requests.
  *
- * Each upload is COPYed, bytes as they come, into its own all-text table in the `intake_staging`
- * schema (named in `intakes.staging_table`), checked there set-wise in SQL, and applied from there.
- * Staging tables are UNLOGGED: they skip the write-ahead log, which makes the COPY nearly as fast as
+ * Each upload is COPYed into tables of its own in the `intake_staging` schema (named after
+ * `intakes.staging_table`): a case list as raw text, a roster as typed rows split and judged cell
+ * by cell while it streams in (api/src/features/intake/roster-stream.ts), with small per-worker and
+ * per-site × month tallies beside it. The checks that need stored data run there set-wise in SQL,
+ * and apply reads from there. The tables are created at intake time, so this migration only makes
+ * the schema. Staging tables are UNLOGGED: they skip the write-ahead log, which makes the COPY nearly as fast as
  * a bare one; after a crash PostgreSQL empties them, and an intake still waiting for apply then
  * says its staged rows are gone and must be uploaded again. Nothing applied depends on them.
  */

@@ -2,7 +2,7 @@
  * Live oracle: a few hundred seeded random cases (small counts, zeros, large counts) computed by
  * the core and by SciPy (Debian's python3-scipy, through /usr/bin/python3 and the committed
  * script oracle/scipy_oracle.py), compared to 1e-6 relative. SciPy is required: without it the
- * test fails with instructions. RATEWARDEN_SKIP_ORACLE=1 skips it for quick local runs only.
+ * test fails with instructions.
  */
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -16,7 +16,6 @@ import { standardizedIncidenceRatio } from './sir';
 const PYTHON = '/usr/bin/python3';
 const SCRIPT = fileURLToPath(new URL('./oracle/scipy_oracle.py', import.meta.url));
 const RELATIVE = 1e-6;
-const skip = process.env.RATEWARDEN_SKIP_ORACLE === '1';
 
 /** Seeded PRNG (mulberry32; common practice) so the cases are the same on every run. */
 function mulberry32(seed: number): () => number {
@@ -106,12 +105,12 @@ function closeEnough(actual: number | null | undefined, expected: number | null)
 }
 
 describe('SciPy oracle (Debian python3-scipy via /usr/bin/python3)', () => {
-  it.skipIf(skip)('agrees with SciPy to 1e-6 relative on every generated case', () => {
+  it('agrees with SciPy to 1e-6 relative on every generated case', () => {
     const probe = spawnSync(PYTHON, ['-c', 'import scipy'], { encoding: 'utf8' });
     if (probe.status !== 0) {
       throw new Error(
         `${PYTHON} cannot import scipy (${probe.error?.message ?? probe.stderr.trim()}). Install Debian's python3-scipy ` +
-          '(apt-get install python3-scipy; the test bootstrap does this in CI), or set RATEWARDEN_SKIP_ORACLE=1 for a quick local run only.',
+          '(apt-get install python3-scipy; `npm test` does this when run as root).',
       );
     }
     const cases = generateCases();

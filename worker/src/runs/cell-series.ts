@@ -7,12 +7,13 @@ export interface Tally {
   cents: number;
   byAge: Map<string, { cases: number; cents: number }>;
   bySite: Map<string, { cases: number; cents: number }>;
+  bySex: Map<string, { cases: number; cents: number }>;
   /** Months of the window in which the group has hours. */
   months: number;
 }
 
 export function emptyTally(): Tally {
-  return { cases: 0, cents: 0, byAge: new Map(), bySite: new Map(), months: 0 };
+  return { cases: 0, cents: 0, byAge: new Map(), bySite: new Map(), bySex: new Map(), months: 0 };
 }
 
 function addTo(map: Map<string, { cases: number; cents: number }>, key: string, cases: number, cents: number): void {
@@ -30,6 +31,7 @@ export function addTally(into: Tally, from: Tally): void {
   into.months += from.months;
   for (const [k, v] of from.byAge) addTo(into.byAge, k, v.cases, v.cents);
   for (const [k, v] of from.bySite) addTo(into.bySite, k, v.cases, v.cents);
+  for (const [k, v] of from.bySex) addTo(into.bySex, k, v.cases, v.cents);
 }
 
 /** One outcome's monthly tallies per exposure group over its continuous range of months. */
@@ -41,7 +43,7 @@ export interface OutcomeSeries {
   groups: Map<number, Map<number, Tally>>;
 }
 
-/** Folds the cells into per-outcome, per-group monthly tallies with age-band and site strata. */
+/** Folds the cells into per-outcome, per-group monthly tallies with age-band, site and sex strata (an unknown sex or birth year is a stratum of its own). */
 export function buildSeries(cells: Cell[]): Map<number, OutcomeSeries> {
   const byOutcome = new Map<number, OutcomeSeries>();
   for (const c of cells) {
@@ -67,6 +69,7 @@ export function buildSeries(cells: Cell[]): Map<number, OutcomeSeries> {
     t.cents += c.cents;
     addTo(t.byAge, c.ageBand === null ? 'unknown' : String(c.ageBand), c.cases, c.cents);
     addTo(t.bySite, String(c.siteId), c.cases, c.cents);
+    addTo(t.bySex, c.sex ?? 'unknown', c.cases, c.cents);
   }
   for (const s of byOutcome.values()) {
     for (const months of s.groups.values()) for (const t of months.values()) t.months = t.cents > 0 ? 1 : 0;

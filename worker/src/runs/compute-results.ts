@@ -31,6 +31,8 @@ export interface GroupInfo {
 
 /** One row of `run_results`, keyed by its column names. */
 export interface ResultRow {
+  /** null: the whole company (every site); a site id: that site's cells alone. */
+  site_id: number | null;
   outcome_id: number;
   exposure_group_id: number;
   window_kind: WindowKind;
@@ -71,6 +73,13 @@ export interface ResultRow {
   mh_site_ird: number | null;
   mh_site_ird_lower: number | null;
   mh_site_ird_upper: number | null;
+  mh_sex_irr: number | null;
+  mh_sex_irr_lower: number | null;
+  mh_sex_irr_upper: number | null;
+  mh_sex_irr_p: number | null;
+  mh_sex_ird: number | null;
+  mh_sex_ird_lower: number | null;
+  mh_sex_ird_upper: number | null;
   u_centre: number | null;
   u_lcl: number | null;
   u_ucl: number | null;
@@ -79,6 +88,7 @@ export interface ResultRow {
 }
 
 export interface TrendRow {
+  site_id: number | null;
   outcome_id: number;
   window_kind: WindowKind;
   period: string;
@@ -129,11 +139,15 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
 /**
  * Every result of a run from its cells: for each outcome, exposure group, window and month, the
  * rate with exact limits, and against the reference group the IRR (exact conditional, mid-p,
- * Wald) and IRD with their tests, Mantel–Haenszel IRR and IRD by age band and by site, the
- * u-chart limits of single months, and the trend test across exposure levels. All statistics come
- * from the shared core.
+ * Wald) and IRD with their tests, Mantel–Haenszel IRR and IRD by age band, by site and by sex,
+ * the u-chart limits of single months, and the trend test across exposure levels. All statistics
+ * come from the shared core.
+ *
+ * `siteId` names the scope the cells belong to: null for the whole company, else one site (the
+ * caller passes that site's cells only); a single site has one site stratum, so its rows carry
+ * no adjustment by site.
  */
-export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings): ComputedResults {
+export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, siteId: number | null = null): ComputedResults {
   const series = buildSeries(cells);
   const globalReference = groups.find((g) => g.isReference)?.id ?? null;
   const levelOf = new Map(groups.map((g) => [g.id, g.exposureLevel]));
@@ -171,7 +185,8 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           const isReference = g === referenceId;
           const compared = ref !== null && !isReference;
           const mhAge = compared ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
-          const mhSite = compared ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
+          const mhSite = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
+          const mhSex = compared ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
           // The crude comparison of the age-band analysis is the group against the reference over
           // all strata collapsed, i.e. the crude IRR and IRD; the core computes it there once.
           const compare = compared ? (mhAge?.crude ?? compareRates(exposed, refGroup!, opts)) : null;
@@ -179,6 +194,7 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           const point = w.kind === 'month' ? charts.get(g)!.points.get(p) ?? null : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
           results.push({
+            site_id: siteId,
             outcome_id: outcome.id,
             exposure_group_id: g,
             window_kind: w.kind,
@@ -218,6 +234,13 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
             mh_site_ird: mhSite?.mhIrd.estimate ?? null,
             mh_site_ird_lower: mhSite?.mhIrd.lower ?? null,
             mh_site_ird_upper: mhSite?.mhIrd.upper ?? null,
+            mh_sex_irr: mhSex?.mhIrr.estimate ?? null,
+            mh_sex_irr_lower: mhSex?.mhIrr.lower ?? null,
+            mh_sex_irr_upper: mhSex?.mhIrr.upper ?? null,
+            mh_sex_irr_p: mhSex?.mhIrr.p ?? null,
+            mh_sex_ird: mhSex?.mhIrd.estimate ?? null,
+            mh_sex_ird_lower: mhSex?.mhIrd.lower ?? null,
+            mh_sex_ird_upper: mhSex?.mhIrd.upper ?? null,
             u_centre: point ? charts.get(g)!.centre : null,
             u_lcl: point?.lcl ?? null,
             u_ucl: point?.ucl ?? null,
@@ -234,6 +257,7 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
               }),
               ...(mhAge && { mhAgeHomogeneity: mhAge.homogeneity, mhAgeStrataUsed: mhAge.strataUsed }),
               ...(mhSite && { mhSiteHomogeneity: mhSite.homogeneity, mhSiteStrataUsed: mhSite.strataUsed }),
+              ...(mhSex && { mhSexHomogeneity: mhSex.homogeneity, mhSexStrataUsed: mhSex.strataUsed }),
               ...(point && { uExactLcl: point.exactLcl, uExactUcl: point.exactUcl, u: point.u }),
               reasons: compare ? compare.reasons : rate.reasons,
             },
@@ -244,6 +268,7 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
           const trend = rateTrend(levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })), opts);
           trends.push({
+            site_id: siteId,
             outcome_id: outcome.id,
             window_kind: w.kind,
             period,

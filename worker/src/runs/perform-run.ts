@@ -4,9 +4,10 @@ import { toJsonValue } from '@ratewarden/shared/stats';
 import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
 import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
-import { loadCaseTotals, loadCells } from './cells-query';
+import { applyAggregationSettings, loadCaseTotals, loadCells } from './cells-query';
 import { RUN_CODE_VERSION } from './code-version';
-import { computeResults, type GroupInfo, type OutcomeInfo } from './compute-results';
+import { computeAll, warmComputePool } from './compute-pool';
+import type { GroupInfo, OutcomeInfo } from './compute-results';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { storeResults } from './store-results';
 
@@ -79,24 +80,30 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
     requestIds.length ? em.query(`UPDATE run_requests SET picked_at = now() WHERE id::text = ANY($1::text[]) AND picked_at IS NULL`, [requestIds]) : Promise.resolve();
 
   try {
+    warmComputePool();
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, options.settings);
     const t1 = performance.now();
-    const computed = computeResults(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings);
+    const computed = await computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings);
     const t2 = performance.now();
-    const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, computed.results));
+    // Watch rules look at the whole company; the per-site rows serve people who see some sites only.
+    const companyResults = computed.results.filter((r) => r.site_id === null);
+    const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, companyResults));
     const inputs: RunInputs = { ...snapshot.inputs, requestIds };
 
     let flags: FlagTally | undefined;
     await qr.manager.transaction(async (em) => {
+      const t3 = performance.now();
       await storeResults(em, runId, computed.results, computed.trends);
+      const t4 = performance.now();
       const summary = {
         cells: snapshot.cells.length,
-        results: computed.results.length,
+        results: companyResults.length,
+        siteResults: computed.results.length - companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
         outcomesWithoutReference: computed.outcomesWithoutReference,
-        seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000 },
+        seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, store: (t4 - t3) / 1000 },
       };
       await em.query(`UPDATE runs SET inputs = $2, summary = $3 WHERE id = $1`, [runId, JSON.stringify(inputs), JSON.stringify(toJsonValue(summary))]);
       await em.query(
@@ -136,6 +143,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
   await qr.startTransaction('REPEATABLE READ');
   try {
     await qr.query(`SET TRANSACTION READ ONLY`);
+    await applyAggregationSettings(qr);
     const outcomes: Array<{ id: number; reference_group_id: number | null }> = await qr.query(`SELECT id, reference_group_id FROM outcomes ORDER BY id`);
     const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(`SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`);
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);

@@ -5,7 +5,7 @@ import type { ResultRow, TrendRow } from './compute-results';
 const dbl = 'double precision';
 /** Columns of run_results written from a ResultRow, with their SQL types. */
 const RESULT_COLUMNS: Array<[keyof ResultRow, string]> = [
-  ['outcome_id', 'integer'], ['exposure_group_id', 'integer'], ['window_kind', 'text'], ['period', 'date'],
+  ['site_id', 'integer'], ['outcome_id', 'integer'], ['exposure_group_id', 'integer'], ['window_kind', 'text'], ['period', 'date'],
   ['months_covered', 'smallint'], ['is_reference', 'boolean'], ['reference_group_id', 'integer'],
   ['cases', 'integer'], ['hours', 'numeric'], ['person_time', dbl],
   ['rate', dbl], ['rate_lower', dbl], ['rate_upper', dbl], ['expected', dbl],
@@ -15,6 +15,8 @@ const RESULT_COLUMNS: Array<[keyof ResultRow, string]> = [
   ['mh_age_ird', dbl], ['mh_age_ird_lower', dbl], ['mh_age_ird_upper', dbl],
   ['mh_site_irr', dbl], ['mh_site_irr_lower', dbl], ['mh_site_irr_upper', dbl], ['mh_site_irr_p', dbl],
   ['mh_site_ird', dbl], ['mh_site_ird_lower', dbl], ['mh_site_ird_upper', dbl],
+  ['mh_sex_irr', dbl], ['mh_sex_irr_lower', dbl], ['mh_sex_irr_upper', dbl], ['mh_sex_irr_p', dbl],
+  ['mh_sex_ird', dbl], ['mh_sex_ird_lower', dbl], ['mh_sex_ird_upper', dbl],
   ['u_centre', dbl], ['u_lcl', dbl], ['u_ucl', dbl], ['u_signal', 'text'], ['detail', 'jsonb'],
 ];
 
@@ -40,9 +42,9 @@ export async function storeResults(em: EntityManager, runId: string, results: Re
   }
   for (let i = 0; i < trends.length; i += CHUNK) {
     await em.query(
-      `INSERT INTO run_trends (run_id, outcome_id, window_kind, period, chi2, p, u, levels)
-       SELECT $1, outcome_id, window_kind, period, chi2, p, u, levels
-       FROM jsonb_to_recordset($2::jsonb) AS x(outcome_id integer, window_kind text, period date, chi2 double precision, p double precision, u double precision, levels jsonb)`,
+      `INSERT INTO run_trends (run_id, site_id, outcome_id, window_kind, period, chi2, p, u, levels)
+       SELECT $1, site_id, outcome_id, window_kind, period, chi2, p, u, levels
+       FROM jsonb_to_recordset($2::jsonb) AS x(site_id integer, outcome_id integer, window_kind text, period date, chi2 double precision, p double precision, u double precision, levels jsonb)`,
       [runId, JSON.stringify(toJsonValue(trends.slice(i, i + CHUNK)))],
     );
   }

@@ -17,7 +17,7 @@ export async function checkRoster(client: PoolClient, st: RosterStage, staged: R
   if (staged) {
     await addProblems(client, staged.problems);
     unlisted = staged.problemCount - staged.problems.length;
-    if (staged.needsDuplicateCheck) {
+    if (staged.needsDuplicateCheck && !(await uniqueWorkerMonths(client, st))) {
       await client.query(`
         INSERT INTO intake_problems (line, col, val, reason)
         SELECT s.line_no, 'month', to_char(s.month, 'YYYY-MM'), ${lit(reasons.workerTwiceInMonth)}
@@ -73,5 +73,22 @@ async function assertCodesStillKnown(client: PoolClient, st: RosterStage, staged
   );
   if (rows[0]!.n !== siteIds.length + groupIds.length) {
     throw new AppError('conflict', 'a site or exposure group named in this file was removed while it was being checked; upload the file again');
+  }
+}
+
+/**
+ * True when no worker × month appears twice among the staged rows. Building a unique index is the
+ * quickest way to know (one sort, no aggregate); only when it fails are the rows listed, by GROUP BY.
+ */
+async function uniqueWorkerMonths(client: PoolClient, st: RosterStage): Promise<boolean> {
+  await client.query(`SAVEPOINT worker_months`);
+  try {
+    await client.query(`CREATE UNIQUE INDEX ON ${st.rows} (worker_key, month)`);
+    await client.query(`RELEASE SAVEPOINT worker_months`);
+    return true;
+  } catch (err) {
+    if ((err as { code?: string }).code !== '23505') throw err;
+    await client.query(`ROLLBACK TO SAVEPOINT worker_months`);
+    return false;
   }
 }

@@ -1,3 +1,4 @@
+import { flagsQueryOptions } from '../../features/flags/api/get-flags';
 import { groupsQueryOptions } from '../../features/groups/api/get-groups';
 import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
 import { sitesQueryOptions } from '../../features/groups/api/get-sites';
@@ -7,7 +8,7 @@ import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';
 
 export function loader() {
-  return prefetchFor('aggregates:read', currentRunQueryOptions(), outcomesQueryOptions(), groupsQueryOptions(), sitesQueryOptions());
+  return prefetchFor('aggregates:read', currentRunQueryOptions(), outcomesQueryOptions(), groupsQueryOptions(), sitesQueryOptions(), flagsQueryOptions({}));
 }
 
 export function Component() {

@@ -80,7 +80,7 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
           symbolSize: 11,
           itemStyle: { color: amber, borderColor: ink, borderWidth: 1 },
           label: { show: true, position: 'top', formatter: (p: unknown) => formatEstimate(((p as { value: [number, number] }).value)[0]), color: ink, fontSize: 11 },
-          markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: ink }, label: { formatter: 'no difference', position: 'end', color: ink }, data: [{ xAxis: 1 }] },
+          markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: ink }, label: { formatter: 'no difference', position: 'start', color: ink }, data: [{ xAxis: 1 }] },
           z: 2,
         },
       ],

@@ -62,9 +62,9 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
       out.push({ type: 'line', name: s.name, data: pts.map((p) => p?.rate ?? null), symbol: symbols[i % symbols.length], symbolSize: 7, lineStyle: { color: colour, width: 2 }, itemStyle: { color: colour }, connectNulls: false });
     });
     if (limits) {
-      out.push({ type: 'line', name: 'u-chart centre', data: periods.map(() => limits.centre), symbol: 'none', lineStyle: { color: ink, type: 'solid', width: 1 } });
-      out.push({ type: 'line', name: 'upper limit (3σ)', data: limits.ucl, symbol: 'none', step: 'middle', lineStyle: { color: ink, type: 'dashed', width: 1 } });
-      out.push({ type: 'line', name: 'lower limit (3σ)', data: limits.lcl, symbol: 'none', step: 'middle', lineStyle: { color: ink, type: 'dotted', width: 1 } });
+      out.push({ type: 'line', name: 'u-chart centre', data: periods.map(() => limits.centre), symbol: 'none', itemStyle: { color: ink }, lineStyle: { color: ink, type: 'solid', width: 1 } });
+      out.push({ type: 'line', name: 'upper limit (3σ)', data: limits.ucl, symbol: 'none', itemStyle: { color: ink }, step: 'middle', lineStyle: { color: ink, type: 'dashed', width: 1 } });
+      out.push({ type: 'line', name: 'lower limit (3σ)', data: limits.lcl, symbol: 'none', itemStyle: { color: ink }, step: 'middle', lineStyle: { color: ink, type: 'dotted', width: 1 } });
     }
     const legend = [...series.map((s) => s.name), ...(limits ? ['u-chart centre', 'upper limit (3σ)', 'lower limit (3σ)'] : [])];
     return {
@@ -73,7 +73,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
       legend: { data: legend, bottom: 0 },
       grid: { left: 8, right: 16, top: 24, bottom: 56, containLabel: true },
       xAxis: { type: 'category', data: periods, boundaryGap: false },
-      yAxis: { type: 'value', name: `Rate ${unit}`, min: 0, axisLabel: { formatter: (v: number) => formatEstimate(v) } },
+      yAxis: { type: 'value', name: `Rate ${unit}`, nameTextStyle: { align: 'left' }, min: 0, axisLabel: { formatter: (v: number) => formatEstimate(v) } },
       tooltip: {
         trigger: 'item',
         formatter: (p: unknown) => {

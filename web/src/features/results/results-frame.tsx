@@ -3,6 +3,7 @@ import { roleMay } from '@ratewarden/shared/permissions';
 import type { WindowKind } from '@ratewarden/shared/rules';
 import type { RunDetail, RunResult } from '@ratewarden/shared/runs';
 import type { SessionUser } from '@ratewarden/shared/session';
+import { useQuery } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
 import { Link } from 'react-router';
 import { Cautions } from '../../components/cautions/cautions';
@@ -11,6 +12,7 @@ import { SelectField } from '../../components/form/select-field';
 import { UnitsStrip } from '../../components/units/units-strip';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
+import { flagsQueryOptions } from '../flags/api/get-flags';
 import { useGroups } from '../groups/api/get-groups';
 import { useOutcomes } from '../groups/api/get-outcomes';
 import { useSites } from '../groups/api/get-sites';
@@ -52,7 +54,10 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   const { data: outcomes } = useOutcomes();
   const { data: groups } = useGroups();
   const { data: sites } = useSites();
-  const [chosen, setFilters] = useResultsFilters({ outcomeId: outcomes[0]?.id ?? null });
+  // Without a choice in the address, open on the outcome of the newest open flag: that is where a reader is needed.
+  const flags = useQuery({ ...flagsQueryOptions({}), enabled: roleMay(user.role, 'flags:read') });
+  const flagged = flags.data?.find((f) => f.state !== 'closed')?.outcomeId;
+  const [chosen, setFilters] = useResultsFilters({ outcomeId: flagged ?? outcomes[0]?.id ?? null });
   const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window };
   const outcome = outcomes.find((o) => o.id === filters.outcomeId) ?? outcomes[0];
   const results = useRunResults(run?.id ?? '', { outcomeId: outcome?.id });

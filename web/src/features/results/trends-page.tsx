@@ -29,7 +29,9 @@ function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits:
     header,
     rows: rows.map((r) => {
       const s = shownResult(r, ctx.user.role);
-      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [r.uChart.centre, r.uChart.ucl, r.uChart.lcl, s.hidden ? null : r.uChart.signal] : [])];
+      const per = ctx.run.settings.per;
+      const x = (v: number | null) => (v === null ? null : v * per);
+      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : [])];
     }),
   };
 }
@@ -47,17 +49,25 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
 
   const monthsAll = [...new Set(results.filter((r) => r.window === 'month').map((r) => r.period))].sort();
   const months = filters.span > 0 ? monthsAll.slice(-filters.span) : monthsAll;
-  const chartGroup = groupIds.includes(filters.groupId ?? -1) ? filters.groupId! : (groupIds.find((g) => !groups.find((x) => x.id === g)?.isReference) ?? groupIds[0]);
+  // Without a choice, the control chart opens on the compared group with the most cases in the months shown.
+  const casesOf = (g: number) => results.filter((r) => r.window === 'month' && r.exposureGroupId === g && months.includes(r.period)).reduce((n, r) => n + r.cases, 0);
+  const compared = groupIds.filter((g) => !groups.find((x) => x.id === g)?.isReference);
+  const busiest = [...compared].sort((a, b) => casesOf(b) - casesOf(a))[0];
+  const chartGroup = groupIds.includes(filters.groupId ?? -1) ? filters.groupId! : (busiest ?? groupIds[0]);
   const monthRows = results.filter((r) => r.window === 'month' && r.exposureGroupId === chartGroup && months.includes(r.period));
   const byMonth = new Map(monthRows.map((r) => [r.period, r]));
   const hiddenMonth = (p: string) => {
     const r = byMonth.get(p);
     return !r || shownResult(r, ctx.user.role).hidden;
   };
+  // The u-chart works in cases per unit of person-time; the chart shows rates times the run's multiplier.
+  const per = ctx.run.settings.per;
+  const scaled = (x: number | null | undefined) => (x === null || x === undefined ? null : x * per);
+  const centre = monthRows.find((r) => r.uChart.centre !== null)?.uChart.centre;
   const limits = {
-    centre: monthRows.find((r) => r.uChart.centre !== null)?.uChart.centre ?? null,
-    ucl: months.map((p) => (hiddenMonth(p) ? null : (byMonth.get(p)?.uChart.ucl ?? null))),
-    lcl: months.map((p) => (hiddenMonth(p) ? null : (byMonth.get(p)?.uChart.lcl ?? null))),
+    centre: scaled(centre),
+    ucl: months.map((p) => (hiddenMonth(p) ? null : scaled(byMonth.get(p)?.uChart.ucl))),
+    lcl: months.map((p) => (hiddenMonth(p) ? null : scaled(byMonth.get(p)?.uChart.lcl))),
   };
   const above = monthRows.filter((r) => r.uChart.signal === 'above' && !shownResult(r, ctx.user.role).hidden).map((r) => month(r.period));
 

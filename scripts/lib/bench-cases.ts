@@ -1,0 +1,66 @@
+import pg from 'pg';
+
+/** The benchmark's outcomes: one counted as recurrent events, one as first event only with a lag. */
+export const BENCH_OUTCOMES = [
+  { code: 'BINJ', name: 'Recordable injury (bench)', rule: 'recurrent', lag: 0, perRow: 0.0015, slope: 0.3, salt: 'inj' },
+  { code: 'BHTS', name: 'Hearing threshold shift (bench)', rule: 'first_event', lag: 6, perRow: 0.0008, slope: 0.4, salt: 'hts' },
+] as const;
+
+/**
+ * Gives the benchmark roster (already applied) its case list: for every outcome, each roster row
+ * (one worker × month, about 150 h) turns into a case with a probability that grows with the
+ * row's exposure level, drawn from a hash of worker, month and outcome so that the data is the
+ * same on every run. Onsets fall inside the row's month; 90 % are confirmed, the rest suspected
+ * or ruled out, so the run's status filter has work to do. At these probabilities the injury
+ * rate is about 2 to 4 per 100 person-years, a plausible order for a manufacturing workforce.
+ * Inserted through one applied "cases" intake, as an applied case intake would leave them.
+ */
+export async function addBenchCases(url: string): Promise<{ cases: number }> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    await client.query('BEGIN');
+    const [intake] = (
+      await client.query(
+        `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, submitted_by_client, applied_at, checked_at)
+         VALUES ('cases', 'applied', 'bench-cases.csv', repeat('0', 64), 0, 'bench', now(), now()) RETURNING id`,
+      )
+    ).rows as Array<{ id: string }>;
+    let cases = 0;
+    for (const o of BENCH_OUTCOMES) {
+      const [outcome] = (
+        await client.query(
+          `INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, $2, 'benchmark outcome', $3, $4) RETURNING id`,
+          [o.code, o.name, o.rule, o.lag],
+        )
+      ).rows as Array<{ id: number }>;
+      // u: a uniform draw in [0, 1) from the hash; the same draw picks the day and the status.
+      const res = await client.query(
+        `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status)
+         SELECT $1, $2 || '-' || d.worker_id || '-' || to_char(d.month, 'YYYYMM'), d.worker_id, $3,
+                d.month + (floor(d.u2 * 28))::int,
+                CASE WHEN d.u2 < 0.9 THEN 'confirmed' WHEN d.u2 < 0.96 THEN 'suspected' ELSE 'ruled_out' END
+         FROM (
+           SELECT r.worker_id, r.month,
+                  (hashtext(r.worker_id || ':' || r.month || ':' || $2) & 2147483647) / 2147483648.0 AS u,
+                  (hashtext($2 || ':' || r.worker_id || ':' || r.month) & 2147483647) / 2147483648.0 AS u2,
+                  coalesce(g.exposure_level, 0) AS level
+           FROM roster_entries r
+           JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+           JOIN exposure_groups g ON g.id = r.exposure_group_id
+         ) d
+         WHERE d.u < $4::float8 * (1 + $5::float8 * d.level)`,
+        [intake!.id, o.salt, outcome!.id, o.perRow, o.slope],
+      );
+      cases += res.rowCount ?? 0;
+    }
+    await client.query('COMMIT');
+    await client.query('ANALYZE case_events');
+    return { cases };
+  } catch (err) {
+    await client.query('ROLLBACK').catch(() => undefined);
+    throw err;
+  } finally {
+    await client.end();
+  }
+}
