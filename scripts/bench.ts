@@ -4,6 +4,7 @@ import pg from 'pg';
 import { migrate } from '@ratewarden/db';
 import { applySeconds, bareCopySeconds, peakRss, startIntakeChild, uploadSeconds } from './lib/bench-intake';
 import { BENCH_GROUPS, BENCH_SITES, writeBenchRoster } from './lib/bench-roster';
+import { benchRunAndWeb } from './lib/bench-run';
 import { runMain, say } from './lib/log';
 import { recreateDatabase, startPostgres } from './lib/postgres';
 
@@ -14,7 +15,8 @@ const MONTHS = 60;
 /**
  * `npm run bench`: its own PostgreSQL and database, a 1.2 M-row roster CSV, then side by side
  * (a) a bare COPY of the file and (b) Ratewarden's intake of it through the real HTTP route,
- * checks included; peak memory of the intake process. Figures go to .data/bench/latest.json,
+ * checks included; peak memory of the intake process. Then the run benchmark on that roster with
+ * generated cases (scripts/lib/bench-run.ts) and the web bundle sizes. Figures go to .data/bench/latest.json,
  * merged with what other sections wrote there.
  */
 runMain(async () => {
@@ -27,7 +29,8 @@ runMain(async () => {
   const client = new pg.Client({ connectionString: db.url });
   await client.connect();
   for (const s of BENCH_SITES) await client.query(`INSERT INTO sites (code, name) VALUES ($1, $1)`, [s]);
-  for (const [i, g] of BENCH_GROUPS.entries()) await client.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, $1, 'bench', $2)`, [g, i]);
+  // BG0 (level 0) is the reference group the run compares the others with.
+  for (const [i, g] of BENCH_GROUPS.entries()) await client.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level, is_reference) VALUES ($1, $1, 'bench', $2, $3)`, [g, i, i === 0]);
   await client.end();
 
   const file = join(outDir, 'roster-1200k.csv');
@@ -63,6 +66,9 @@ runMain(async () => {
   } finally {
     child.stop();
   }
+
+  // The run section (cases for the applied roster, then the run against its bare GROUP BY) and the web bundle.
+  await benchRunAndWeb(root, db.url, say);
 });
 
 const round = (x: number) => Math.round(x * 100) / 100;

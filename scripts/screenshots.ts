@@ -186,12 +186,7 @@ runMain(async () => {
       say(`screenshot ${shot.name}.png`);
     }
 
-    // One watch rule per outcome, then one run over the demo data, so every page has figures and flags.
-    await ds.query(
-      `INSERT INTO watch_rules (name, outcome_id, measure, threshold_on, threshold, min_cases, window_kind)
-       SELECT 'IRR lower bound above 1 (' || o.code || ')', o.id, 'irr', 'lower_bound', 1, 3, 'rolling12' FROM outcomes o
-       WHERE NOT EXISTS (SELECT 1 FROM watch_rules w WHERE w.outcome_id = o.id)`,
-    );
+    // One run over the demo data (its seed brings a watch rule per outcome), so every page has figures and flags.
     const run = await performRun(ds, { trigger: 'cli', reason: 'npm run screenshots', settings: { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] }, appUrl: appBase, waitForLockMs: 60_000 });
     say(`run: ${run.status}${run.status === "failed" ? ` (${run.error})` : ""}`);
     const [flag] = (await ds.query(`SELECT id FROM flags ORDER BY raised_at, id LIMIT 1`)) as Array<{ id: string }>;

@@ -52,7 +52,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use('/api/admin', adminRouter(dataSource));
   app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource }));
   app.use('/api', groupsRouter({ dataSource }));
-  app.use('/api/runs', runsRouter({ dataSource }));
+  app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/rules', rulesRouter({ dataSource }));
   app.use('/api/flags', flagsRouter({ dataSource }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));

@@ -1,8 +1,13 @@
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { createDataSource } from '@ratewarden/db';
 import { readWorkerConfig } from '@ratewarden/worker/config';
 import { applyAggregationSettings, CELLS_SQL } from '@ratewarden/worker/runs/cells-query';
+import { stopComputePool } from '@ratewarden/worker/runs/compute-pool';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { runSettingsOf } from '@ratewarden/worker/runs/run-settings';
+import { addBenchCases, BENCH_OUTCOMES } from './bench-cases';
+import { benchWeb, type WebBench } from './bench-web';
 
 /** The `"run"` entry of `.data/bench/latest.json`. */
 export interface RunBench {
@@ -44,7 +49,7 @@ export async function benchRun(databaseUrl: string, log: (line: string) => void 
     log(`run bench: bare GROUP BY of the cells ${groupBySeconds.toFixed(2)} s over ${count!.n} roster rows`);
     const timeRun = async (reason: string) => {
       const t = performance.now();
-      const outcome = await performRun(ds, { trigger: 'bench', reason, settings, appUrl: 'http://127.0.0.1:3000/', waitForLockMs: 10 * 60_000 });
+      const outcome = await performRun(ds, { trigger: 'bench', reason, settings, appUrl: 'http://127.0.0.1:3000/', waitForLockMs: 10 * 60_000, keepComputeThreads: true });
       if (outcome.status !== 'succeeded') throw new Error(`the benchmark run did not succeed: ${outcome.status === 'failed' ? outcome.error : outcome.reason}`);
       return { seconds: (performance.now() - t) / 1000, results: outcome.resultCount, runId: outcome.runId };
     };
@@ -59,6 +64,27 @@ export async function benchRun(databaseUrl: string, log: (line: string) => void 
     log(`run bench: whole run ${runSeconds.toFixed(2)} s (${warm.results} results), ratio ${(runSeconds / groupBySeconds).toFixed(2)}`);
     return { rows: count!.n, groupBySeconds: round3(groupBySeconds), runSeconds: round3(runSeconds), ratio: round3(runSeconds / groupBySeconds) };
   } finally {
+    await stopComputePool();
     await ds.destroy();
   }
+}
+
+/**
+ * The run and web sections of `npm run bench`, after the intake section applied the roster: the
+ * roster's case list (bench-cases.ts), the run benchmark, the web bundle sizes; merged into
+ * `.data/bench/latest.json` under "run" and "web" (re-read first: other sections write there).
+ */
+export async function benchRunAndWeb(root: string, databaseUrl: string, say: (line: string) => void): Promise<{ run: RunBench; web: WebBench }> {
+  const { cases } = await addBenchCases(databaseUrl);
+  say(`run bench: ${cases.toLocaleString('en')} generated cases over ${BENCH_OUTCOMES.length} outcomes`);
+  const run = await benchRun(databaseUrl, say);
+  const web = benchWeb(root);
+  say(`web: initial JavaScript ${web.initialJsGzipKb} KiB gzip, all JavaScript ${web.totalJsGzipKb} KiB gzip`);
+  const latestPath = join(root, '.data', 'bench', 'latest.json');
+  const latest = existsSync(latestPath) ? (JSON.parse(readFileSync(latestPath, 'utf8')) as Record<string, unknown>) : {};
+  latest.run = { ...run, measuredAt: new Date().toISOString() };
+  latest.web = { ...web, measuredAt: new Date().toISOString() };
+  writeFileSync(latestPath, `${JSON.stringify(latest, null, 2)}\n`);
+  say(`run and web figures written to ${latestPath}`);
+  return { run, web };
 }

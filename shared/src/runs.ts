@@ -64,7 +64,15 @@ export type RunDetail = z.infer<typeof runDetailSchema>;
 
 const limits = { estimate: jsonNumberSchema.nullable(), lower: jsonNumberSchema.nullable(), upper: jsonNumberSchema.nullable() };
 
+/**
+ * Small-cell suppression (every role but the physician): a count below the threshold is null with
+ * `suppressed: true`, and every figure that would give it back (rate and its limits, comparisons,
+ * adjusted measures, u-chart values, detail) is null too; `comparisonSuppressed` marks a row whose
+ * own count is shown but whose reference group's count is small, so its comparisons are withheld.
+ */
 export const runResultSchema = z.object({
+  /** null: the whole company; else results computed from that site's cells alone. */
+  siteId: z.number().int().nullable(),
   outcomeId: z.number().int(),
   exposureGroupId: z.number().int(),
   window: windowKindSchema,
@@ -73,7 +81,9 @@ export const runResultSchema = z.object({
   monthsCovered: z.number().int(),
   isReference: z.boolean(),
   referenceGroupId: z.number().int().nullable(),
-  cases: z.number().int(),
+  cases: z.number().int().nullable(),
+  suppressed: z.boolean(),
+  comparisonSuppressed: z.boolean(),
   hours: z.string(),
   personTime: z.number(),
   rate: z.object(limits),
@@ -82,6 +92,7 @@ export const runResultSchema = z.object({
   ird: z.object({ ...limits, p: z.number().nullable() }),
   mhAge: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
   mhSite: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
+  mhSex: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
   uChart: z.object({ centre: z.number().nullable(), lcl: z.number().nullable(), ucl: z.number().nullable(), signal: z.enum(['above', 'below', 'within']).nullable() }),
   detail: z.record(z.string(), z.unknown()),
 });
@@ -89,6 +100,8 @@ export type RunResult = z.infer<typeof runResultSchema>;
 
 /** Query of GET /api/runs/:id/results. */
 export const runResultsQuerySchema = z.object({
+  /** Results of one site; without it, the company-wide results (for people who see every site). */
+  siteId: z.coerce.number().int().positive().optional(),
   outcomeId: z.coerce.number().int().positive().optional(),
   exposureGroupId: z.coerce.number().int().positive().optional(),
   window: windowKindSchema.optional(),
@@ -98,7 +111,7 @@ export const runResultsQuerySchema = z.object({
 export type RunResultsQuery = z.infer<typeof runResultsQuerySchema>;
 
 /** Query of GET /api/runs/diff. */
-export const runDiffQuerySchema = z.object({ from: z.string().uuid(), to: z.string().uuid() });
+export const runDiffQuerySchema = z.object({ from: z.string().uuid(), to: z.string().uuid(), siteId: z.coerce.number().int().positive().optional() });
 
 export const runDiffRowSchema = z.object({
   outcomeId: z.number().int(),
@@ -106,8 +119,8 @@ export const runDiffRowSchema = z.object({
   window: windowKindSchema,
   period: z.string(),
   change: z.enum(['added', 'removed', 'changed']),
-  before: z.object({ cases: z.number().int(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
-  after: z.object({ cases: z.number().int(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
+  before: z.object({ cases: z.number().int().nullable(), suppressed: z.boolean(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
+  after: z.object({ cases: z.number().int().nullable(), suppressed: z.boolean(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
 });
 export const runDiffSchema = z.object({
   from: runSummarySchema,

@@ -71,10 +71,14 @@ describe('runs, rules and flags through the API', () => {
   it('lists runs and the difference between two runs', async () => {
     const list = await as.hygienist.agent.get('/api/runs').expect(200);
     expect(runSummarySchema.array().parse(list.body).find((r) => r.id === runs[1])).toMatchObject({ state: 'succeeded' });
-    const diff = await as.safety.agent.get(`/api/runs/diff?from=${runs[0]}&to=${runs[1]}`).expect(200);
+    // The safety manager sees the cohort's sites only (other files' sites exist too): site rows.
+    const diff = await as.safety.agent.get(`/api/runs/diff?from=${runs[0]}&to=${runs[1]}&siteId=${c.sites[0]}`).expect(200);
     expect(runDiffSchema.parse(diff.body).unchangedCount).toBeGreaterThan(0);
-    const results = await as.safety.agent.get(`/api/runs/${runs[1]}/results?outcomeId=${c.outcomes.API}&window=month`).expect(200);
-    expect(results.body.find((r: { exposureGroupId: number }) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: 4, hours: '640.00' });
+    const results = await as.safety.agent.get(`/api/runs/${runs[1]}/results?outcomeId=${c.outcomes.API}&window=month&siteId=${c.sites[0]}`).expect(200);
+    // 4 cases is under the small-cell threshold (5): suppressed for the safety manager, not for the physician.
+    expect(results.body.find((r: { exposureGroupId: number }) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: null, suppressed: true, hours: '640.00' });
+    const own = await as.physician.agent.get(`/api/runs/${runs[1]}/results?outcomeId=${c.outcomes.API}&window=month&siteId=${c.sites[0]}`).expect(200);
+    expect(own.body.find((r: { exposureGroupId: number }) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: 4, hours: '640.00' });
   });
 
   it('the run button is the hygienist\'s and leaves a request for the worker', async () => {

@@ -19,14 +19,19 @@ export function maySeeSmallCells(role: Role | null | undefined): boolean {
   return role === 'physician';
 }
 
-export function showCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD): ShownCount {
+/**
+ * Counts from 1 to threshold − 1 are withheld; a zero points at nobody and is shown (the API's rule
+ * too). `withheld` is the API's own marker for a count it did not send.
+ */
+export function showCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld = false): ShownCount {
+  if (withheld) return { text: `<${threshold}`, value: null, suppressed: true };
   if (count === null) return { text: 'not available', value: null, suppressed: false };
-  if (!maySeeSmallCells(role) && count < threshold) return { text: `<${threshold}`, value: null, suppressed: true };
+  if (!maySeeSmallCells(role) && count > 0 && count < threshold) return { text: `<${threshold}`, value: null, suppressed: true };
   return { text: new Intl.NumberFormat('en-GB').format(count), value: count, suppressed: false };
 }
 
 /** For CSV: the count itself, or the "<5" text when suppressed, never the hidden number. */
-export function exportCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD): string | number | null {
-  const shown = showCount(count, role, threshold);
+export function exportCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld = false): string | number | null {
+  const shown = showCount(count, role, threshold, withheld);
   return shown.suppressed ? shown.text : shown.value;
 }

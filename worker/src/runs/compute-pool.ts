@@ -2,16 +2,16 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { RunSettings } from '@ratewarden/shared/runs';
 import type { Cell } from './cells-query';
-import type { ComputedResults, GroupInfo, OutcomeInfo } from './compute-results';
-import { computeJobs, mergeComputed, runJob, type ComputeJob } from './compute-scopes';
+import type { GroupInfo, OutcomeInfo } from './compute-results';
+import { answerJob, computeJobs, mergeAnswers, type ComputeJob, type JobAnswer, type MergedAnswers } from './compute-scopes';
 import type { BatchRequest } from './compute-thread';
 
-type Reply = { id: number; parts: ComputedResults[] } | { id: number; error: string };
+type Reply = { id: number; parts: JobAnswer[] } | { id: number; error: string };
 
 interface PoolThread {
   worker: Worker;
   ready: Promise<void>;
-  pending: Map<number, { resolve: (parts: ComputedResults[]) => void; reject: (err: Error) => void }>;
+  pending: Map<number, { resolve: (parts: JobAnswer[]) => void; reject: (err: Error) => void }>;
 }
 
 let threads: PoolThread[] | null = null;
@@ -22,8 +22,9 @@ export const COMPUTE_THREADS = Math.min(4, availableParallelism());
 
 function startThread(): PoolThread {
   // The thread runs TypeScript like the rest of the worker, through tsx (see its boot file).
+  // A thread that registered tsx's loader keeps the process alive even when unref()'d, so the
+  // pool is stopped explicitly (stopComputePool) by whoever started it.
   const worker = new Worker(new URL('./compute-thread-boot.mjs', import.meta.url));
-  worker.unref(); // an idle pool never keeps the process alive
   const pending: PoolThread['pending'] = new Map();
   const ready = new Promise<void>((resolve, reject) => {
     worker.once('message', (m) => (m === 'pong' ? resolve() : reject(new Error('compute thread did not start'))));
@@ -59,39 +60,52 @@ export function warmComputePool(): void {
   for (const t of threads) t.ready.catch(() => undefined);
 }
 
-function runBatch(t: PoolThread, jobs: ComputeJob[], groups: GroupInfo[], settings: RunSettings): Promise<ComputedResults[]> {
+/** Terminates the compute threads (a later run starts new ones). */
+export async function stopComputePool(): Promise<void> {
+  const pool = threads;
+  threads = null;
+  if (pool) await Promise.all(pool.map((t) => t.worker.terminate()));
+}
+
+function runBatch(t: PoolThread, jobs: ComputeJob[], groups: GroupInfo[], settings: RunSettings, runId: string): Promise<JobAnswer[]> {
   const id = nextId++;
   return new Promise((resolve, reject) => {
     t.pending.set(id, { resolve, reject });
-    t.worker.postMessage({ id, jobs, groups, settings } satisfies BatchRequest);
+    t.worker.postMessage({ id, jobs, groups, settings, runId } satisfies BatchRequest);
   });
 }
 
+/** Called with each job's answer as soon as it is there (the run streams it into PostgreSQL meanwhile). */
+export type OnPart = (job: ComputeJob, answer: JobAnswer) => void;
+
 /**
  * A run's statistics (company-wide and per site, see compute-scopes.ts) spread over the compute
- * threads: jobs are dealt costliest first to the least loaded thread, and the
- * answers are joined in job order, so the outcome does not depend on the number of threads.
- * On a single core everything runs on the calling thread.
+ * threads: each idle thread takes the next job, costliest first, and `onPart` sees every answer
+ * as it arrives; the result joins the answers in job order, so it does not depend on the number
+ * of threads or their timing. On a single core everything runs on the calling thread.
  */
-export async function computeAll(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings): Promise<ComputedResults> {
+export async function computeAll(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, runId: string, onPart: OnPart = () => {}): Promise<MergedAnswers> {
   const jobs = computeJobs(cells, outcomes);
-  if (COMPUTE_THREADS < 2) return mergeComputed(jobs, jobs.map((j) => runJob(j, groups, settings)));
+  const parts: JobAnswer[] = new Array(jobs.length);
+  if (COMPUTE_THREADS < 2) {
+    jobs.forEach((j, i) => {
+      parts[i] = answerJob(j, groups, settings, runId);
+      onPart(j, parts[i]!);
+    });
+    return mergeAnswers(parts);
+  }
   warmComputePool();
   const pool = threads!;
   await Promise.all(pool.map((t) => t.ready));
-  const load = pool.map(() => 0);
-  const assigned: number[][] = pool.map(() => []);
-  // Cost follows the number of comparisons, about the same in every scope; the company scope
-  // adds the adjustment by site (three Mantel–Haenszel analyses per row instead of two).
-  const cost = (j: ComputeJob) => (j.siteId === null ? 1.5 : 1);
-  const order = jobs.map((_, i) => i).sort((a, b) => cost(jobs[b]!) - cost(jobs[a]!));
-  for (const i of order) {
-    const k = load.indexOf(Math.min(...load));
-    assigned[k]!.push(i);
-    load[k]! += cost(jobs[i]!);
-  }
-  const answers = await Promise.all(pool.map((t, k) => runBatch(t, assigned[k]!.map((i) => jobs[i]!), groups, settings)));
-  const parts: ComputedResults[] = new Array(jobs.length);
-  assigned.forEach((list, k) => list.forEach((i, n) => (parts[i] = answers[k]![n]!)));
-  return mergeComputed(jobs, parts);
+  // The company scope costs most (it adds the adjustment by site): it goes first.
+  const queue = jobs.map((_, i) => i).sort((a, b) => Number(jobs[a]!.siteId !== null) - Number(jobs[b]!.siteId !== null) || a - b);
+  const drain = async (t: PoolThread) => {
+    for (let i = queue.shift(); i !== undefined; i = queue.shift()) {
+      const [part] = await runBatch(t, [jobs[i]!], groups, settings, runId);
+      parts[i] = part!;
+      onPart(jobs[i]!, part!);
+    }
+  };
+  await Promise.all(pool.map(drain));
+  return mergeAnswers(parts);
 }

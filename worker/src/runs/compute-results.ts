@@ -144,8 +144,11 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
  * come from the shared core.
  *
  * `siteId` names the scope the cells belong to: null for the whole company, else one site (the
- * caller passes that site's cells only); a single site has one site stratum, so its rows carry
- * no adjustment by site.
+ * caller passes that site's cells only). A site's rows serve people who may see that site only:
+ * they carry the rates, the crude comparison and the adjustment by age band; a single site has
+ * one site stratum (nothing to adjust), and the adjustment by sex is left to the company rows,
+ * where the strata are large enough to mean something and the run's time budget allows it
+ * (every Mantel–Haenszel analysis also recomputes the crude comparison inside the core).
  */
 export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, siteId: number | null = null): ComputedResults {
   const series = buildSeries(cells);
@@ -186,7 +189,7 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           const compared = ref !== null && !isReference;
           const mhAge = compared ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
           const mhSite = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
-          const mhSex = compared ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
+          const mhSex = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
           // The crude comparison of the age-band analysis is the group against the reference over
           // all strata collapsed, i.e. the crude IRR and IRD; the core computes it there once.
           const compare = compared ? (mhAge?.crude ?? compareRates(exposed, refGroup!, opts)) : null;
@@ -264,7 +267,8 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           });
         }
 
-        if (levelTotals.size >= 2) {
+        // The trend test is a company figure (site trends are neither served nor watched).
+        if (siteId === null && levelTotals.size >= 2) {
           const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
           const trend = rateTrend(levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })), opts);
           trends.push({

@@ -1,6 +1,7 @@
 import type { RunSettings } from '@ratewarden/shared/runs';
 import type { Cell } from './cells-query';
-import { computeResults, type ComputedResults, type GroupInfo, type OutcomeInfo } from './compute-results';
+import { computeResults, type GroupInfo, type OutcomeInfo, type ResultRow, type TrendRow } from './compute-results';
+import { resultLine } from './copy-lines';
 
 /** One piece of a run's statistics: one outcome in one scope (the company, or one site). */
 export interface ComputeJob {
@@ -38,17 +39,49 @@ export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[]): ComputeJob[
   return jobs;
 }
 
-export function runJob(job: ComputeJob, groups: GroupInfo[], settings: RunSettings): ComputedResults {
-  return computeResults(job.cells, [job.outcome], groups, settings, job.siteId);
+/**
+ * A job's answer as the run needs it: every row as COPY text for run_results (made where it is
+ * computed, so only one string crosses between threads), and as objects only the company rows
+ * (the watch rules read them) with the trend tests.
+ */
+export interface JobAnswer {
+  lines: string;
+  resultCount: number;
+  companyResults: ResultRow[];
+  trends: TrendRow[];
+  outcomesWithoutReference: number[];
 }
 
-/** Joins the jobs' answers in job order; outcomes without a reference group come from the company scope. */
-export function mergeComputed(jobs: ComputeJob[], parts: ComputedResults[]): ComputedResults {
-  const merged: ComputedResults = { results: [], trends: [], outcomesWithoutReference: [] };
-  parts.forEach((p, i) => {
-    for (const r of p.results) merged.results.push(r);
-    for (const t of p.trends) merged.trends.push(t);
-    if (jobs[i]!.siteId === null) merged.outcomesWithoutReference.push(...p.outcomesWithoutReference);
-  });
+export function answerJob(job: ComputeJob, groups: GroupInfo[], settings: RunSettings, runId: string): JobAnswer {
+  const c = computeResults(job.cells, [job.outcome], groups, settings, job.siteId);
+  let lines = '';
+  for (const r of c.results) lines += resultLine(runId, r);
+  return {
+    lines,
+    resultCount: c.results.length,
+    companyResults: job.siteId === null ? c.results : [],
+    trends: c.trends,
+    outcomesWithoutReference: job.siteId === null ? c.outcomesWithoutReference : [],
+  };
+}
+
+export interface MergedAnswers {
+  /** Company-wide rows (the watch rules' input). */
+  companyResults: ResultRow[];
+  /** Every row stored, company and sites. */
+  resultCount: number;
+  trends: TrendRow[];
+  outcomesWithoutReference: number[];
+}
+
+/** Joins the jobs' answers in job order. */
+export function mergeAnswers(answers: JobAnswer[]): MergedAnswers {
+  const merged: MergedAnswers = { companyResults: [], resultCount: 0, trends: [], outcomesWithoutReference: [] };
+  for (const a of answers) {
+    for (const r of a.companyResults) merged.companyResults.push(r);
+    for (const t of a.trends) merged.trends.push(t);
+    merged.resultCount += a.resultCount;
+    merged.outcomesWithoutReference.push(...a.outcomesWithoutReference);
+  }
   return merged;
 }

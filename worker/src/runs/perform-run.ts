@@ -6,10 +6,10 @@ import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply
 import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
 import { applyAggregationSettings, loadCaseTotals, loadCells } from './cells-query';
 import { RUN_CODE_VERSION } from './code-version';
-import { computeAll, warmComputePool } from './compute-pool';
+import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
 import type { GroupInfo, OutcomeInfo } from './compute-results';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
-import { storeResults } from './store-results';
+import { openResultWriter } from './store-results';
 
 export interface PerformRunOptions {
   trigger: RunTrigger;
@@ -23,6 +23,12 @@ export interface PerformRunOptions {
   notBefore?: Date;
   /** Wait up to this long for a run in progress elsewhere instead of skipping. */
   waitForLockMs?: number;
+  /**
+   * Keep the statistics threads for the next run (a long-lived worker: later runs skip their
+   * start-up and warm-up); the owner then calls stopComputePool() before exiting. By default
+   * they stop when the run ends.
+   */
+  keepComputeThreads?: boolean;
 }
 
 export type RunOutcome =
@@ -49,6 +55,7 @@ export async function performRun(ds: DataSource, options: PerformRunOptions): Pr
     try {
       return await runLocked(qr, options);
     } finally {
+      if (!options.keepComputeThreads) await stopComputePool();
       await releaseRunLock(qr).catch(() => undefined);
     }
   } finally {
@@ -84,26 +91,30 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, options.settings);
     const t1 = performance.now();
-    const computed = await computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings);
-    const t2 = performance.now();
-    // Watch rules look at the whole company; the per-site rows serve people who see some sites only.
-    const companyResults = computed.results.filter((r) => r.site_id === null);
-    const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, companyResults));
     const inputs: RunInputs = { ...snapshot.inputs, requestIds };
 
     let flags: FlagTally | undefined;
+    let resultCount = 0;
     await qr.manager.transaction(async (em) => {
+      // The statistics threads hand over each outcome × scope as soon as it is computed, and the
+      // rows stream into PostgreSQL meanwhile (one COPY), so storing overlaps computing.
+      const writer = await openResultWriter(em, runId);
+      const computed = await computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => writer.lines(answer.lines));
+      const t2 = performance.now();
+      await writer.finish(computed.trends);
       const t3 = performance.now();
-      await storeResults(em, runId, computed.results, computed.trends);
-      const t4 = performance.now();
+      resultCount = computed.resultCount;
+      // Watch rules look at the whole company; the per-site rows serve people who see some sites only.
+      const companyResults = computed.companyResults;
+      const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, companyResults));
       const summary = {
         cells: snapshot.cells.length,
         results: companyResults.length,
-        siteResults: computed.results.length - companyResults.length,
+        siteResults: computed.resultCount - companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
         outcomesWithoutReference: computed.outcomesWithoutReference,
-        seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, store: (t4 - t3) / 1000 },
+        seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, storeAfterCompute: (t3 - t2) / 1000 },
       };
       await em.query(`UPDATE runs SET inputs = $2, summary = $3 WHERE id = $1`, [runId, JSON.stringify(inputs), JSON.stringify(toJsonValue(summary))]);
       await em.query(
@@ -119,7 +130,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         [runId, JSON.stringify({ flags, seconds: { ...summary.seconds, total: seconds } })],
       );
     });
-    return { status: 'succeeded', runId, resultCount: computed.results.length, flags: flags!, seconds: (performance.now() - started) / 1000 };
+    return { status: 'succeeded', runId, resultCount, flags: flags!, seconds: (performance.now() - started) / 1000 };
   } catch (err) {
     const message = err instanceof Error ? err.message : String(err);
     await qr.query(`UPDATE runs SET state = 'failed', finished_at = now(), error = $2 WHERE id = $1`, [runId, message.slice(0, 2000)]);

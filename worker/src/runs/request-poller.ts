@@ -7,8 +7,8 @@ import { performRun, type RunOutcome } from './perform-run';
  * button), try a run that consumes the pending requests. The cheap check comes first so idle
  * workers do not contend for the lock; the lock and the re-read under it decide who runs.
  */
-export async function runIfRequested(ds: DataSource, settings: RunSettings, appUrl: string): Promise<RunOutcome | null> {
+export async function runIfRequested(ds: DataSource, settings: RunSettings, appUrl: string, keepComputeThreads = false): Promise<RunOutcome | null> {
   const pending: unknown[] = await ds.query(`SELECT 1 FROM run_requests WHERE picked_at IS NULL LIMIT 1`);
   if (pending.length === 0) return null;
-  return performRun(ds, { trigger: 'request', settings, appUrl, consumeRequests: true });
+  return performRun(ds, { trigger: 'request', settings, appUrl, consumeRequests: true, keepComputeThreads });
 }

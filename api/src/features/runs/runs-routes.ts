@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { runDiffQuerySchema, runResultsQuerySchema } from '@ratewarden/shared/runs';
@@ -7,12 +7,15 @@ import { diffRuns, getRun, listResults, listRuns, requestRun } from './runs-serv
 
 export interface RunsRouterDeps {
   dataSource: DataSource;
+  /** Case counts below this are suppressed for every role but the physician (SMALL_CELL_THRESHOLD). */
+  smallCellThreshold: number;
 }
 
 const runId = z.string().uuid();
 
 /** Runs: history, one run, its results, the difference between two, and the run button; mounted at /api/runs. */
-export function runsRouter({ dataSource: ds }: RunsRouterDeps): Router {
+export function runsRouter({ dataSource: ds, smallCellThreshold }: RunsRouterDeps): Router {
+  const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
   const router = Router();
   router.get('/', authorize('runs:read'), async (_req, res) => {
     res.json(await listRuns(ds));
@@ -20,9 +23,10 @@ export function runsRouter({ dataSource: ds }: RunsRouterDeps): Router {
   router.post('/', authorize('runs:trigger'), async (req, res) => {
     res.status(202).json(await requestRun(ds, req.principal!, req.ip));
   });
+  // Same scope and suppression as the results below.
   router.get('/diff', authorize('runs:read'), async (req, res) => {
     const q = runDiffQuerySchema.parse(req.query);
-    res.json(await diffRuns(ds, q.from, q.to));
+    res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
   });
   router.get('/current', authorize('runs:read'), async (_req, res) => {
     res.json(await getRun(ds, 'current'));
@@ -30,8 +34,17 @@ export function runsRouter({ dataSource: ds }: RunsRouterDeps): Router {
   router.get('/:id', authorize('runs:read'), async (req, res) => {
     res.json(await getRun(ds, runId.parse(req.params.id)));
   });
+  /**
+   * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows
+   * computed from that site's cells alone. Without `siteId` the company-wide rows are served to
+   * readers of every site; a reader assigned only some sites gets 403 (the company figures
+   * include workers of sites they may not see) and asks for each of their sites with
+   * `?siteId=`; a site outside their assignment is 403 too. Small-cell suppression: counts from
+   * 1 to SMALL_CELL_THRESHOLD − 1 (default 5) are null with `suppressed: true`, with every figure
+   * that would reveal them, for every role but the physician (see runResultSchema).
+   */
   router.get('/:id/results', authorize('aggregates:read'), async (req, res) => {
-    res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query)));
+    res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
   });
   return router;
 }

@@ -3,6 +3,7 @@ import { toJsonValue } from '@ratewarden/shared/stats';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { RunDetail, RunDiff, RunRequested, RunResult, RunResultsQuery, RunSummary } from '@ratewarden/shared/runs';
 import { recordAudit } from '../../audit/audit-log';
+import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 
 type Row = Record<string, any>;
@@ -56,8 +57,27 @@ export async function getRun(ds: DataSource, id: string | 'current'): Promise<Ru
 const n = (v: unknown) => toJsonValue(v) as number | 'Infinity' | '-Infinity' | null;
 const limits = (r: Row, p: string) => ({ estimate: n(r[p]), lower: n(r[`${p}_lower`]), upper: n(r[`${p}_upper`]) });
 
-function resultOf(r: Row): RunResult {
+/** Who reads results and how: their scope and whether small counts are shown. */
+export interface ResultReader {
+  principal: Principal;
+  smallCellThreshold: number;
+}
+
+const isSmall = (cases: number | null, threshold: number) => cases !== null && cases > 0 && cases < threshold;
+
+/** Case-level insight is the physician's alone; for every other reader small counts are withheld. */
+const showsSmallCells = (p: Principal) => p.kind === 'user' && p.role === 'physician';
+
+const nullLimits = () => ({ estimate: null, lower: null, upper: null });
+
+function resultOf(r: Row, reader: ResultReader): RunResult {
+  const open = showsSmallCells(reader.principal);
+  const suppressed = !open && isSmall(r.cases, reader.smallCellThreshold);
+  const comparisonSuppressed = !open && !suppressed && isSmall(r.ref_cases, reader.smallCellThreshold);
+  const hide = suppressed || comparisonSuppressed;
+  const mh = (p: string) => (hide ? { irr: { ...nullLimits(), p: null }, ird: nullLimits() } : { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) });
   return {
+    siteId: r.site_id,
     outcomeId: r.outcome_id,
     exposureGroupId: r.exposure_group_id,
     window: r.window_kind,
@@ -65,42 +85,77 @@ function resultOf(r: Row): RunResult {
     monthsCovered: r.months_covered,
     isReference: r.is_reference,
     referenceGroupId: r.reference_group_id,
-    cases: r.cases,
+    cases: suppressed ? null : r.cases,
+    suppressed,
+    comparisonSuppressed,
     hours: r.hours,
     personTime: r.person_time,
-    rate: limits(r, 'rate'),
-    expected: r.expected,
-    irr: { ...limits(r, 'irr'), p: r.irr_p, waldLower: n(r.irr_wald_lower), waldUpper: n(r.irr_wald_upper) },
-    ird: { ...limits(r, 'ird'), p: r.ird_p },
-    mhAge: { irr: { ...limits(r, 'mh_age_irr'), p: r.mh_age_irr_p }, ird: limits(r, 'mh_age_ird') },
-    mhSite: { irr: { ...limits(r, 'mh_site_irr'), p: r.mh_site_irr_p }, ird: limits(r, 'mh_site_ird') },
-    uChart: { centre: r.u_centre, lcl: r.u_lcl, ucl: r.u_ucl, signal: r.u_signal },
-    detail: toJsonValue(r.detail) as Record<string, unknown>,
+    // The rate times the person-time gives the count back, and so do its exact limits.
+    rate: suppressed ? nullLimits() : limits(r, 'rate'),
+    // Expected cases come from the reference group's count.
+    expected: comparisonSuppressed ? null : r.expected,
+    irr: hide ? { ...nullLimits(), p: null, waldLower: null, waldUpper: null } : { ...limits(r, 'irr'), p: r.irr_p, waldLower: n(r.irr_wald_lower), waldUpper: n(r.irr_wald_upper) },
+    ird: hide ? { ...nullLimits(), p: null } : { ...limits(r, 'ird'), p: r.ird_p },
+    mhAge: mh('mh_age'),
+    mhSite: mh('mh_site'),
+    mhSex: mh('mh_sex'),
+    uChart: suppressed ? { centre: null, lcl: null, ucl: null, signal: null } : { centre: r.u_centre, lcl: r.u_lcl, ucl: r.u_ucl, signal: r.u_signal },
+    detail: hide ? {} : (toJsonValue(r.detail) as Record<string, unknown>),
   };
 }
 
-/** The results of one run, filtered; ordered by outcome, group, window and period. */
-export async function listResults(ds: DataSource, runId: string, q: RunResultsQuery): Promise<RunResult[]> {
-  await getRun(ds, runId);
+/**
+ * The scope a reader gets: one site when asked for (and allowed), else the whole company, which
+ * only a reader of every site may see, since company figures include every site's workers.
+ * Returns the site id, or null for the company-wide rows.
+ */
+async function resultScope(ds: DataSource, principal: Principal, siteId: number | undefined): Promise<number | null> {
+  if (siteId !== undefined) {
+    assertSites(principal, [siteId]);
+    return siteId;
+  }
+  const scope = siteScope(principal);
+  if (scope === 'all') return null;
+  const missing: Row[] = await ds.query(`SELECT id FROM sites WHERE NOT (id = ANY($1::int[])) LIMIT 1`, [scope]);
+  if (missing.length > 0) {
+    throw new AppError('forbidden', 'company-wide results include sites you have no access to: ask for one of your sites with ?siteId=', { siteIds: scope });
+  }
+  return null;
+}
+
+/**
+ * The results of one run, filtered; ordered by outcome, group, window and period. Company-wide
+ * rows for readers of every site, one site's rows (computed by the run from that site's cells
+ * alone) when `siteId` is given; small counts suppressed unless the reader is the physician.
+ */
+export async function listResults(ds: DataSource, runId: string, q: RunResultsQuery, reader: ResultReader): Promise<RunResult[]> {
+  await getRun(ds, runId); // a run's existence is not scoped (the run list shows every run)
+  const siteId = await resultScope(ds, reader.principal, q.siteId);
   const rows: Row[] = await ds.query(
-    `SELECT *, to_char(period, 'YYYY-MM-DD') AS period_iso FROM run_results
-     WHERE run_id = $1 AND ($2::int IS NULL OR outcome_id = $2) AND ($3::int IS NULL OR exposure_group_id = $3)
-       AND ($4::text IS NULL OR window_kind = $4) AND ($5::date IS NULL OR period >= $5) AND ($6::date IS NULL OR period <= $6)
-     ORDER BY outcome_id, exposure_group_id, window_kind, period`,
-    [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null],
+    `SELECT r.*, to_char(r.period, 'YYYY-MM-DD') AS period_iso, ref.cases AS ref_cases
+     FROM run_results r
+     LEFT JOIN run_results ref ON ref.run_id = r.run_id AND ref.site_id IS NOT DISTINCT FROM r.site_id AND ref.outcome_id = r.outcome_id
+       AND ref.exposure_group_id = r.reference_group_id AND ref.window_kind = r.window_kind AND ref.period = r.period AND NOT r.is_reference
+     WHERE r.run_id = $1 AND r.site_id IS NOT DISTINCT FROM $7::int AND ($2::int IS NULL OR r.outcome_id = $2) AND ($3::int IS NULL OR r.exposure_group_id = $3)
+       AND ($4::text IS NULL OR r.window_kind = $4) AND ($5::date IS NULL OR r.period >= $5) AND ($6::date IS NULL OR r.period <= $6)
+     ORDER BY r.outcome_id, r.exposure_group_id, r.window_kind, r.period`,
+    [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
   );
-  return rows.map(resultOf);
+  return rows.map((r) => resultOf(r, reader));
 }
 
 /**
  * What changed between two runs: every result cell (outcome × group × window × period) added,
- * removed, or with different cases, hours, rate or IRR. Restated numbers are never overwritten,
- * so both sides are read as they were stored.
+ * removed, or with different cases, hours, rate or IRR, in the reader's scope (as listResults).
+ * Restated numbers are never overwritten, so both sides are read as they were stored. A small
+ * count is suppressed on its side as in the results (with its rate and IRR).
  */
-export async function diffRuns(ds: DataSource, fromId: string, toId: string): Promise<RunDiff> {
+export async function diffRuns(ds: DataSource, fromId: string, toId: string, siteIdAsked: number | undefined, reader: ResultReader): Promise<RunDiff> {
   const [from, to] = [await getRun(ds, fromId), await getRun(ds, toId)];
+  const siteId = await resultScope(ds, reader.principal, siteIdAsked);
   const rows: Row[] = await ds.query(
-    `WITH a AS (SELECT * FROM run_results WHERE run_id = $1), b AS (SELECT * FROM run_results WHERE run_id = $2)
+    `WITH a AS (SELECT * FROM run_results WHERE run_id = $1 AND site_id IS NOT DISTINCT FROM $3::int),
+          b AS (SELECT * FROM run_results WHERE run_id = $2 AND site_id IS NOT DISTINCT FROM $3::int)
      SELECT coalesce(a.outcome_id, b.outcome_id) AS outcome_id, coalesce(a.exposure_group_id, b.exposure_group_id) AS exposure_group_id,
             coalesce(a.window_kind, b.window_kind) AS window_kind, to_char(coalesce(a.period, b.period), 'YYYY-MM-DD') AS period,
             a.cases AS a_cases, a.hours::text AS a_hours, a.rate AS a_rate, a.irr AS a_irr,
@@ -109,10 +164,18 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string): Pr
             (a.cases IS DISTINCT FROM b.cases OR a.hours IS DISTINCT FROM b.hours OR a.rate IS DISTINCT FROM b.rate OR a.irr IS DISTINCT FROM b.irr) AS changed
      FROM a FULL JOIN b USING (outcome_id, exposure_group_id, window_kind, period)
      ORDER BY 1, 2, 3, 4`,
-    [fromId, toId],
+    [fromId, toId, siteId],
   );
-  const side = (r: Row, p: 'a' | 'b') =>
-    r[`${p}_cases`] === null ? null : { cases: r[`${p}_cases`], hours: r[`${p}_hours`], rate: n(r[`${p}_rate`]), irr: n(r[`${p}_irr`]) };
+  const open = showsSmallCells(reader.principal);
+  const side = (r: Row, p: 'a' | 'b') => {
+    const cases = r[`${p}_cases`] as number | null;
+    if (cases === null) return null;
+    const suppressed = !open && isSmall(cases, reader.smallCellThreshold);
+    // The IRR is withheld with the count: with the reference row it would give the count back.
+    return suppressed
+      ? { cases: null, suppressed, hours: r[`${p}_hours`], rate: null, irr: null }
+      : { cases, suppressed, hours: r[`${p}_hours`], rate: n(r[`${p}_rate`]), irr: n(r[`${p}_irr`]) };
+  };
   const changed = rows.filter((r) => r.changed);
   return {
     from,

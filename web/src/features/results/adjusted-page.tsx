@@ -118,7 +118,11 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
           <p className="mt-2 text-xs text-ink-soft">Method: {METHODS.trend}, computed in the browser by the shared statistics core from the run's figures.</p>
         </>
       ) : (
-        <p className="mt-2">Fewer than two exposure levels have data in this period; the hygienist sets the levels on the exposure groups page.</p>
+        <p className="mt-2">
+          {levels.some((l) => l.withheld)
+            ? 'The trend test is not shown: a count at one of the levels is below the small-cell threshold, and a test on the rest would be wrong.'
+            : 'Fewer than two exposure levels have data in this period; the hygienist sets the levels on the exposure groups page.'}
+        </p>
       )}
     </>
   );

@@ -4,7 +4,7 @@ import { useSearchParams } from 'react-router';
 
 /**
  * The choices every results page shares, kept in the address so a view can be bookmarked and
- * sent: outcome, window (single month or rolling 12 months), period, stratification, group.
+ * sent: outcome, window (single month or rolling 12 months), period, stratification, group, site.
  */
 export interface ResultsFilters {
   outcomeId: number | null;
@@ -13,6 +13,8 @@ export interface ResultsFilters {
   stratify: 'age' | 'site';
   groupId: number | null;
   span: number;
+  /** One site's own figures, or null for all sites together (only for people who see every site). */
+  siteId: number | null;
 }
 
 export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [ResultsFilters, (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) => void] {
@@ -25,8 +27,9 @@ export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [Resu
     stratify: (params.get('stratify') as 'age' | 'site' | null) ?? defaults.stratify ?? 'age',
     groupId: num('group') ?? defaults.groupId ?? null,
     span: num('span') ?? defaults.span ?? 36,
+    siteId: num('site') ?? defaults.siteId ?? null,
   };
-  const names: Record<keyof ResultsFilters, string> = { outcomeId: 'outcome', window: 'window', period: 'period', stratify: 'stratify', groupId: 'group', span: 'span' };
+  const names: Record<keyof ResultsFilters, string> = { outcomeId: 'outcome', window: 'window', period: 'period', stratify: 'stratify', groupId: 'group', span: 'span', siteId: 'site' };
   const set = (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) =>
     setParams(
       (prev) => {

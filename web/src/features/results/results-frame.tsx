@@ -57,10 +57,20 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   // Without a choice in the address, open on the outcome of the newest open flag: that is where a reader is needed.
   const flags = useQuery({ ...flagsQueryOptions({}), enabled: roleMay(user.role, 'flags:read') });
   const flagged = flags.data?.find((f) => f.state !== 'closed')?.outcomeId;
-  const [chosen, setFilters] = useResultsFilters({ outcomeId: flagged ?? outcomes[0]?.id ?? null });
-  const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window };
+  // The server serves company-wide figures only to people who see every site; everyone else
+  // reads one of their own sites at a time (site scoping).
+  const seesAllSites = sites.length > 0 && sites.every((s) => user.siteIds.includes(s.id));
+  const ownSites = sites.filter((s) => user.siteIds.includes(s.id));
+  const [chosen, setFilters] = useResultsFilters({ outcomeId: flagged ?? outcomes[0]?.id ?? null, siteId: seesAllSites ? null : (ownSites[0]?.id ?? null) });
+  const siteId = chosen.siteId !== null && ownSites.some((s) => s.id === chosen.siteId) ? chosen.siteId : seesAllSites ? null : (ownSites[0]?.id ?? null);
+  const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window, siteId };
   const outcome = outcomes.find((o) => o.id === filters.outcomeId) ?? outcomes[0];
-  const results = useRunResults(run?.id ?? '', { outcomeId: outcome?.id });
+  const results = useRunResults(run?.id ?? '', { outcomeId: outcome?.id, ...(siteId === null ? {} : { siteId }) });
+  const siteOptions = [
+    ...(seesAllSites ? [{ value: '', label: 'All sites together' }] : []),
+    ...ownSites.map((s) => ({ value: String(s.id), label: s.name })),
+  ];
+  const chosenSite = sites.find((s) => s.id === siteId);
 
   if (!run || !outcome) {
     return (
@@ -96,6 +106,9 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
           onChange={(e) => setFilters({ outcomeId: e.target.value, period: null })}
           options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))}
         />
+        {siteOptions.length > 1 && (
+          <SelectField label="Sites" value={siteId === null ? '' : String(siteId)} onChange={(e) => setFilters({ siteId: e.target.value, period: null })} options={siteOptions} />
+        )}
         {!fixedWindow && (
           <SelectField label="Window" value={filters.window} onChange={(e) => setFilters({ window: e.target.value, period: null })} options={windowOptions} />
         )}
@@ -113,7 +126,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         <UnitsStrip settings={unitsOf(run.settings)} />
         <p className="mt-1 text-xs text-ink-soft">
           Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
-          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · sites: {sites.map((s) => s.name).join(', ') || 'none'} (all sites together)
+          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : `sites: ${sites.map((s) => s.name).join(', ') || 'none'} (all sites together)`}
         </p>
       </div>
       <QueryState query={results} label="results">

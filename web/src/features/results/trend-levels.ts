@@ -12,6 +12,8 @@ export interface LevelRow {
   groups: string[];
   cases: number;
   personTime: number;
+  /** A group's count at this level was withheld (small cells): the level's total is unknown. */
+  withheld: boolean;
 }
 
 export function levelRows(results: RunResult[], groups: ExposureGroupDto[]): LevelRow[] {
@@ -19,16 +21,18 @@ export function levelRows(results: RunResult[], groups: ExposureGroupDto[]): Lev
   for (const r of results) {
     const g = groups.find((x) => x.id === r.exposureGroupId);
     if (!g || g.exposureLevel === null) continue;
-    const row = byLevel.get(g.exposureLevel) ?? { level: g.exposureLevel, groups: [], cases: 0, personTime: 0 };
+    const row = byLevel.get(g.exposureLevel) ?? { level: g.exposureLevel, groups: [], cases: 0, personTime: 0, withheld: false };
     row.groups.push(g.name);
-    row.cases += r.cases;
+    row.cases += r.cases ?? 0;
+    row.withheld ||= r.suppressed || r.cases === null;
     row.personTime += r.personTime;
     byLevel.set(g.exposureLevel, row);
   }
   return [...byLevel.values()].sort((a, b) => a.level - b.level);
 }
 
+/** Null with fewer than two levels, or when a level's count was withheld (a partial sum would give a wrong test). */
 export function trendOf(levels: LevelRow[], options: { confidence: number; per: number }): RateTrendResult | null {
-  if (levels.length < 2) return null;
+  if (levels.length < 2 || levels.some((l) => l.withheld)) return null;
   return rateTrend(levels.map((l) => ({ score: l.level, cases: l.cases, personTime: l.personTime })), options);
 }

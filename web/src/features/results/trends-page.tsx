@@ -50,7 +50,7 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
   const monthsAll = [...new Set(results.filter((r) => r.window === 'month').map((r) => r.period))].sort();
   const months = filters.span > 0 ? monthsAll.slice(-filters.span) : monthsAll;
   // Without a choice, the control chart opens on the compared group with the most cases in the months shown.
-  const casesOf = (g: number) => results.filter((r) => r.window === 'month' && r.exposureGroupId === g && months.includes(r.period)).reduce((n, r) => n + r.cases, 0);
+  const casesOf = (g: number) => results.filter((r) => r.window === 'month' && r.exposureGroupId === g && months.includes(r.period)).reduce((n, r) => n + (r.cases ?? 0), 0);
   const compared = groupIds.filter((g) => !groups.find((x) => x.id === g)?.isReference);
   const busiest = [...compared].sort((a, b) => casesOf(b) - casesOf(a))[0];
   const chartGroup = groupIds.includes(filters.groupId ?? -1) ? filters.groupId! : (busiest ?? groupIds[0]);

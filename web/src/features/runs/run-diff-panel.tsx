@@ -16,6 +16,8 @@ import { useRunDiff } from './api/get-run-diff';
 function side(s: RunDiff['rows'][number]['before'], role: Role | null): string {
   if (!s) return '—';
   const c = showCount(s.cases, role);
+  // The server withheld the count (small-cell suppression): only the hours are known.
+  if (s.suppressed || s.cases === null) return `suppressed cases, ${formatEstimate(Number(s.hours))} h`;
   if (c.suppressed) return `${c.text} cases, ${formatEstimate(Number(s.hours))} h`;
   return `${formatCount(s.cases)} cases, ${formatEstimate(Number(s.hours))} h, rate ${formatEstimate(toNumber(s.rate))}, IRR ${formatEstimate(toNumber(s.irr))}`;
 }

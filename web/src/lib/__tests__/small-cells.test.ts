@@ -4,9 +4,16 @@ import { exportCount, showCount } from '../small-cells';
 // The rule (suppress counts under the threshold for everyone but the physician) is Ratewarden's
 // own, from DESIGN.md; 5 as the default threshold is common practice in health-statistics releases.
 describe('small-cell suppression', () => {
-  it.each(['hygienist', 'safety_manager', 'administrator', null] as const)('hides counts 0 to 4 from %s', (role) => {
-    for (const n of [0, 1, 4]) expect(showCount(n, role)).toEqual({ text: '<5', value: null, suppressed: true });
+  it.each(['hygienist', 'safety_manager', 'administrator', null] as const)('hides counts 1 to 4 from %s, and shows zero', (role) => {
+    for (const n of [1, 4]) expect(showCount(n, role)).toEqual({ text: '<5', value: null, suppressed: true });
+    expect(showCount(0, role)).toEqual({ text: '0', value: 0, suppressed: false });
     expect(showCount(5, role)).toEqual({ text: '5', value: 5, suppressed: false });
+  });
+
+  it('shows a count the API withheld as withheld, not as missing', () => {
+    expect(showCount(null, 'safety_manager', 5, true)).toEqual({ text: '<5', value: null, suppressed: true });
+    expect(showCount(null, 'safety_manager')).toEqual({ text: 'not available', value: null, suppressed: false });
+    expect(exportCount(null, 'hygienist', 5, true)).toBe('<5');
   });
 
   it('shows the physician every count', () => {
