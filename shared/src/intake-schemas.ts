@@ -95,7 +95,14 @@ export const intakeSummarySchema = z.object({
 });
 export type IntakeSummary = z.infer<typeof intakeSummarySchema>;
 
-export const runRequestSchema = z.object({ id: z.number().int(), requestedAt: z.string(), pickedAt: z.string().nullable(), reason: z.string() });
+export const runRequestSchema = z.object({
+  id: z.number().int(),
+  requestedAt: z.string(),
+  pickedAt: z.string().nullable(),
+  reason: z.string(),
+  /** The run that took the request up, once one has. */
+  run: z.object({ id: z.string(), number: z.number().int(), state: z.enum(['running', 'succeeded', 'failed']), finishedAt: z.string().nullable() }).nullable(),
+});
 
 export const intakeDetailSchema = intakeSummarySchema.extend({
   /** The first 1,000 problems, ordered by line; `problemCount` counts them all. */

@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { runIfRequested } from '@ratewarden/worker/runs/request-poller';
 import type { DataSource } from 'typeorm';
 import { launchBrowser } from '../support/browser';
 import { DEMO_PASSWORD, provisionUser } from '../support/sign-in';
@@ -33,7 +34,7 @@ describe('hygienist uploads a roster in Chromium', () => {
     await ds?.destroy();
   });
 
-  it('signs in, uploads, checks and applies a roster', async () => {
+  it('signs in, uploads, checks and applies a roster, and sees the run it requested complete', async () => {
     const page = await browser.context.newPage();
     await page.goto(app.baseUrl, { waitUntil: 'networkidle' });
     await page.getByRole('link', { name: 'Sign in', exact: true }).click();
@@ -67,6 +68,12 @@ describe('hygienist uploads a roster in Chromium', () => {
     await page.getByText('applied', { exact: true }).waitFor();
     const [row] = (await ds.query(`SELECT state FROM intakes WHERE file_name = $1`, [`roster-${tag}.csv`])) as { state: string }[];
     expect(row?.state).toBe('applied');
+
+    // The apply requested a run; the worker's on-demand loop takes it up (called here as the worker does).
+    await page.getByText(/A run was requested/).waitFor();
+    const outcome = await runIfRequested(ds, { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] }, app.baseUrl);
+    expect(outcome?.status).toBe('succeeded');
+    await page.getByText(/finished .*, and its figures are the ones shown now\./).waitFor({ timeout: 15_000 });
     await page.close();
   });
 });

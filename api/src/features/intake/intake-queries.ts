@@ -41,11 +41,26 @@ export async function loadIntake(db: Db, id: string): Promise<IntakeDetail> {
     `SELECT id, requested_at, picked_at, reason FROM run_requests WHERE intake_id = $1 ORDER BY requested_at DESC LIMIT 1`, [id],
   )) as Array<{ id: string; requested_at: Date; picked_at: Date | null; reason: string }>;
   const run = runs[0];
+  // The run that consumed the request lists it among its inputs.
+  const taken = run
+    ? ((await db.query(
+        `SELECT id, number, state, finished_at FROM runs WHERE inputs->'requestIds' ? $1 ORDER BY started_at DESC LIMIT 1`,
+        [String(run.id)],
+      )) as Array<{ id: string; number: string; state: 'running' | 'succeeded' | 'failed'; finished_at: Date | null }>)[0]
+    : undefined;
   return {
     ...summary(r),
     problems: r.problems ?? [],
     diff: r.diff ?? null,
-    runRequest: run ? { id: Number(run.id), requestedAt: iso(run.requested_at)!, pickedAt: iso(run.picked_at), reason: run.reason } : null,
+    runRequest: run
+      ? {
+          id: Number(run.id),
+          requestedAt: iso(run.requested_at)!,
+          pickedAt: iso(run.picked_at),
+          reason: run.reason,
+          run: taken ? { id: taken.id, number: Number(taken.number), state: taken.state, finishedAt: iso(taken.finished_at) } : null,
+        }
+      : null,
   };
 }
 

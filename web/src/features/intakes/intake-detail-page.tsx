@@ -91,7 +91,17 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
       {intake.runRequest && (
         <p className="mt-4 border-l-4 border-moss bg-panel px-4 py-2 text-sm">
           A run was requested {when(intake.runRequest.requestedAt)} ({intake.runRequest.reason});{' '}
-          {intake.runRequest.pickedAt ? `the worker took it up ${when(intake.runRequest.pickedAt)}.` : 'the worker has not taken it up yet.'}
+          {!intake.runRequest.run ? (
+            'the worker has not taken it up yet.'
+          ) : intake.runRequest.run.state === 'running' ? (
+            `run ${intake.runRequest.run.number} is computing now.`
+          ) : (
+            <>
+              <Link className="text-moss underline" to={paths.runs}>run {intake.runRequest.run.number}</Link>{' '}
+              {intake.runRequest.run.state === 'succeeded' ? 'finished' : 'failed'} {when(intake.runRequest.run.finishedAt)}
+              {intake.runRequest.run.state === 'succeeded' ? ', and its figures are the ones shown now.' : '; the previous figures stay current.'}
+            </>
+          )}
         </p>
       )}
       {mayWrite && (

@@ -7,7 +7,15 @@ export function getIntake(id: string, signal?: AbortSignal): Promise<IntakeDetai
   return api.get(`/api/intakes/${encodeURIComponent(id)}`, intakeDetailSchema, signal);
 }
 
-export const intakeQueryOptions = (id: string) => queryOptions({ queryKey: intakeKeys.detail(id), queryFn: ({ signal }) => getIntake(id, signal) });
+/** While a requested run has not finished, the page asks again every few seconds to show it complete. */
+const waitingForRun = (d: IntakeDetail | undefined) => !!d?.runRequest && (!d.runRequest.run || d.runRequest.run.state === 'running');
+
+export const intakeQueryOptions = (id: string) =>
+  queryOptions({
+    queryKey: intakeKeys.detail(id),
+    queryFn: ({ signal }) => getIntake(id, signal),
+    refetchInterval: (query) => (waitingForRun(query.state.data) ? 3_000 : false),
+  });
 
 export function useIntake(id: string) {
   return useSuspenseQuery(intakeQueryOptions(id));
