@@ -73,6 +73,11 @@ export async function applySeconds(port: number, id: string): Promise<{ seconds:
   return { seconds: Number(process.hrtime.bigint() - t) / 1e9, status: res.status };
 }
 
+/** Discards a checked intake, so the same file can be checked again (the checksum guard skips only kept versions). */
+export async function discardIntake(port: number, id: string): Promise<number> {
+  return (await call(port, 'POST', `/api/intakes/${id}/discard`)).status;
+}
+
 export async function peakRss(port: number): Promise<number> {
   return (await call(port, 'GET', '/rss')).json.peakRssMb as number;
 }

@@ -42,6 +42,13 @@ describe('sign-in through the OpenID Connect provider', () => {
     await agent.get('/api/admin/users').expect(403);
   });
 
+  it('returns to the page asked for after sign-in, but never to another site (open redirect)', async () => {
+    expect((await signIn(app, 'admin@demo.ratewarden.test', undefined, '/admin/audit?action=auth')).landing).toBe('/admin/audit?action=auth');
+    for (const away of ['//evil.example/', '/\\evil.example/', 'https://evil.example/']) {
+      expect((await signIn(app, 'admin@demo.ratewarden.test', undefined, away)).landing, away).toBe('/');
+    }
+  });
+
   it('refuses a wrong password at the identity provider', async () => {
     await expect(signIn(app, 'admin@demo.ratewarden.test', 'not-the-password')).rejects.toThrow(/refused/);
   });

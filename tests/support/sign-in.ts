@@ -24,15 +24,17 @@ class Jar {
 export interface SignedInAgent {
   agent: InstanceType<typeof TestAgent>;
   csrf: string;
+  /** Where the app sent the browser after the callback. */
+  landing: string;
 }
 
 /**
  * Signs a demo person in through the real OpenID Connect round trip: the app's /auth/login, the
  * identity provider's sign-in form, and back to the app's callback, all without a browser.
  */
-export async function signIn(app: Express, email: string, password = DEMO_PASSWORD): Promise<SignedInAgent> {
+export async function signIn(app: Express, email: string, password = DEMO_PASSWORD, returnTo?: string): Promise<SignedInAgent> {
   const agent = request.agent(app);
-  const login = await agent.get('/auth/login').expect(302);
+  const login = await agent.get(returnTo === undefined ? '/auth/login' : `/auth/login?returnTo=${encodeURIComponent(returnTo)}`).expect(302);
   const jar = new Jar();
   let url = new URL(login.headers.location as string);
   for (let hop = 0; hop < 12; hop++) {
@@ -41,10 +43,10 @@ export async function signIn(app: Express, email: string, password = DEMO_PASSWO
     if (res.status >= 300 && res.status < 400) {
       const next = new URL(res.headers.get('location')!, url);
       if (next.pathname === '/auth/callback') {
-        await agent.get(`${next.pathname}${next.search}`).expect(302);
+        const back = await agent.get(`${next.pathname}${next.search}`).expect(302);
         const session = await agent.get('/api/session').expect(200);
         if (!session.body.user) throw new Error(`sign-in of ${email} did not produce a session`);
-        return { agent, csrf: session.body.csrfToken as string };
+        return { agent, csrf: session.body.csrfToken as string, landing: back.headers.location as string };
       }
       url = next;
       continue;

@@ -22,7 +22,9 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
   router.get('/login', limiter, async (req, res, next) => {
     try {
       await ready();
-      const returnTo = typeof req.query.returnTo === 'string' && req.query.returnTo.startsWith('/') && !req.query.returnTo.startsWith('//') ? req.query.returnTo : '/';
+      // Only a path on this site: "//host" and "/\\host" would leave it (browsers read both as another host).
+      const asked = typeof req.query.returnTo === 'string' ? req.query.returnTo : '';
+      const returnTo = /^\/(?![\/\\])/.test(asked) ? asked : '/';
       req.session.returnTo = returnTo;
       passport.authenticate('oidc')(req, res, next);
     } catch (err) {
