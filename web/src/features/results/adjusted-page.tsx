@@ -21,6 +21,7 @@ interface ChiSquare {
 const stratifications = {
   age: { label: 'age band', key: 'mhAge', homogeneity: 'mhAgeHomogeneity', strata: 'mhAgeStrataUsed' },
   site: { label: 'site', key: 'mhSite', homogeneity: 'mhSiteHomogeneity', strata: 'mhSiteStrataUsed' },
+  sex: { label: 'sex', key: 'mhSex', homogeneity: 'mhSexHomogeneity', strata: 'mhSexStrataUsed' },
 } as const;
 
 const ci = (e: number | null, l: number | null, u: number | null) => `${formatEstimate(e)} (${formatEstimate(l)} to ${formatEstimate(u)})`;
@@ -142,6 +143,7 @@ export function AdjustedPage({ user }: { user: SessionUser }) {
           options={[
             { value: 'age', label: 'Age band' },
             { value: 'site', label: 'Site' },
+            { value: 'sex', label: 'Sex' },
           ]}
         />
       )}

@@ -10,12 +10,16 @@ export interface ResultsFilters {
   outcomeId: number | null;
   window: WindowKind;
   period: string | null;
-  stratify: 'age' | 'site';
+  stratify: 'age' | 'site' | 'sex';
   groupId: number | null;
   span: number;
   /** One site's own figures, or null for all sites together (only for people who see every site). */
   siteId: number | null;
 }
+
+const STRATIFICATIONS = ['age', 'site', 'sex'] as const;
+/** An address may carry anything: only a known stratification is taken. */
+const asStratify = (v: string | null): ResultsFilters['stratify'] | null => (STRATIFICATIONS as readonly string[]).includes(v ?? '') ? (v as ResultsFilters['stratify']) : null;
 
 export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [ResultsFilters, (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) => void] {
   const [params, setParams] = useSearchParams();
@@ -24,7 +28,7 @@ export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [Resu
     outcomeId: num('outcome') ?? defaults.outcomeId ?? null,
     window: (params.get('window') as WindowKind | null) ?? defaults.window ?? 'rolling12',
     period: params.get('period') ?? defaults.period ?? null,
-    stratify: (params.get('stratify') as 'age' | 'site' | null) ?? defaults.stratify ?? 'age',
+    stratify: asStratify(params.get('stratify')) ?? defaults.stratify ?? 'age',
     groupId: num('group') ?? defaults.groupId ?? null,
     span: num('span') ?? defaults.span ?? 36,
     siteId: num('site') ?? defaults.siteId ?? null,
