@@ -1,22 +1,12 @@
 import { benjaminiHochberg } from '@ratewarden/shared/stats';
-import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
+import type { WatchRuleRow } from '@ratewarden/db/entities/watch-rule';
 import type { ResultRow } from '../runs/compute-results';
 
 /** The part of a watch rule that evaluation needs. */
-export interface RuleToEvaluate {
-  id: string;
-  outcomeId: number;
-  exposureGroupId: number | null;
-  measure: RuleMeasure;
-  thresholdOn: ThresholdOn;
-  threshold: number | null;
-  minCases: number;
-  minExpected: number;
-  windowKind: WindowKind;
-  consecutivePeriods: number;
-  fdrControl: boolean;
-  fdrLevel: number;
-}
+export type RuleToEvaluate = Pick<
+  WatchRuleRow,
+  'id' | 'outcomeId' | 'exposureGroupId' | 'measure' | 'thresholdOn' | 'threshold' | 'minCases' | 'minExpected' | 'windowKind' | 'consecutivePeriods' | 'fdrControl' | 'fdrLevel'
+>;
 
 /** What a rule says about one exposure group at the latest period of a run. */
 export interface RuleVerdict {
