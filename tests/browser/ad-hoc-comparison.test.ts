@@ -1,9 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { DataSource } from 'typeorm';
+import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { launchBrowser } from '../support/browser';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { useBrowserApp } from '../support/browser-app';
 
 /** The displayed cell of a results row, read as a number (the page prints 4 significant digits). */
 async function cells(page: Page, table: RegExp, rowName: RegExp): Promise<string[]> {
@@ -16,24 +13,12 @@ const num = (s: string) => Number(s.replace(/,/g, ''));
 const printed = (s: string, places: number) => num(s).toFixed(places);
 
 describe('ad hoc comparison in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
-  });
+  const h = useBrowserApp();
 
   it('reproduces a published rate ratio and rate difference', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(`${app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
+    const page = await h.browser.context.newPage();
+    await page.goto(`${h.app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
     await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Ad hoc comparison');
 
     // Source: Feychting M, Osterlund B, Ahlbom A. Epidemiology 1998;9:490-494 — 136 cases in 22,050
@@ -66,8 +51,8 @@ describe('ad hoc comparison in Chromium', () => {
   });
 
   it('reproduces a published risk-difference interval from a 2×2 table', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(`${app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
+    const page = await h.browser.context.newPage();
+    await page.goto(`${h.app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
     await page.getByLabel(/2×2 table/).check();
     // Source: Newcombe RG. Stat Med 1998;17:873-890, Table II, example (a): 56/70 versus 48/80;
     // method 10 (hybrid score) 0.0524 to 0.3339, method 6 (Miettinen–Nurminen) 0.0528 to 0.3382.
@@ -86,8 +71,8 @@ describe('ad hoc comparison in Chromium', () => {
   });
 
   it('says what is wrong with bad input, beside the field', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(`${app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
+    const page = await h.browser.context.newPage();
+    await page.goto(`${h.app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
     await page.getByLabel('Exposed group: cases').fill('2.5');
     await page.getByLabel('Exposed group: person-years').fill('-3');
     await page.getByLabel('Reference group: cases').fill('');

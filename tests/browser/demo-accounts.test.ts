@@ -1,9 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { DataSource } from 'typeorm';
-import { launchBrowser } from '../support/browser';
+import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { useBrowserApp } from '../support/browser-app';
 import { signInThroughPage } from './flag-fixture';
 
 /**
@@ -19,34 +16,23 @@ const accounts = [
 ] as const;
 
 describe('the four demo accounts in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
+  const h = useBrowserApp(async (ds) => {
     const [site] = (await ds.query(`INSERT INTO sites (code, name) VALUES ('DA' || substr(md5(random()::text), 1, 6), 'Demo-account test site') RETURNING id`)) as Array<{ id: number }>;
     for (const a of accounts) await provisionUser(ds, a.email, a.role, a.role === 'administrator' ? [] : [site!.id]);
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
   });
 
   it.each(accounts)('$email signs in, lands on $landing with the navigation of the role, and signs out', async (a) => {
-    const page = await browser.context.newPage();
-    await signInThroughPage(page, app.baseUrl, a.email);
-    await page.waitForURL(`${app.baseUrl}${a.landing}`);
+    const page = await h.browser.context.newPage();
+    await signInThroughPage(page, h.app.baseUrl, a.email);
+    await page.waitForURL(`${h.app.baseUrl}${a.landing}`);
     await page.getByRole('heading', { level: 1, name: a.heading }).waitFor();
     const nav = page.getByRole('navigation', { name: 'Main' });
     for (const label of a.shows) expect(await nav.getByRole('link', { name: label, exact: true }).count(), `${label} shown`).toBe(1);
     for (const label of a.hides) expect(await nav.getByRole('link', { name: label, exact: true }).count(), `${label} hidden`).toBe(0);
 
     await page.getByRole('button', { name: 'Sign out' }).click();
-    await page.waitForURL(`${app.baseUrl}/`);
+    await page.waitForURL(`${h.app.baseUrl}/`);
     await page.getByRole('link', { name: 'Sign in', exact: true }).waitFor();
     const session = await page.evaluate(async () => (await (await fetch('/api/session')).json()) as { user: unknown });
     expect(session.user).toBeNull();

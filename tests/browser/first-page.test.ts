@@ -1,30 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { DataSource } from 'typeorm';
-import { launchBrowser } from '../support/browser';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { describe, expect, it } from 'vitest';
+import { useBrowserApp } from '../support/browser-app';
 
 describe('first page in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
-  });
+  const h = useBrowserApp();
 
   it('renders the product name, a sign-in link and Noto Sans served by the app itself', async () => {
-    const page = await browser.context.newPage();
+    const page = await h.browser.context.newPage();
     const requested: string[] = [];
     page.on('request', (r) => requested.push(r.url()));
-    await page.goto(app.baseUrl, { waitUntil: 'networkidle' });
+    await page.goto(h.app.baseUrl, { waitUntil: 'networkidle' });
 
     await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Ratewarden');
     expect(await page.getByRole('link', { name: /sign in/i }).count()).toBeGreaterThan(0);
@@ -43,7 +28,7 @@ describe('first page in Chromium', () => {
     expect(font.faces).toBeGreaterThan(0);
     expect(requested.some((u) => /\.woff2?$/.test(u))).toBe(true);
     // Nothing, fonts included, comes from anywhere but the app's own origin.
-    expect(requested.filter((u) => !u.startsWith(app.baseUrl) && !u.startsWith('data:'))).toEqual([]);
+    expect(requested.filter((u) => !u.startsWith(h.app.baseUrl) && !u.startsWith('data:'))).toEqual([]);
     await page.close();
   });
 });

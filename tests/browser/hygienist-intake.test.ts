@@ -1,11 +1,8 @@
 import { randomBytes } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { runIfRequested } from '@ratewarden/worker/runs/request-poller';
-import type { DataSource } from 'typeorm';
-import { launchBrowser } from '../support/browser';
 import { DEMO_PASSWORD, provisionUser } from '../support/sign-in';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { useBrowserApp } from '../support/browser-app';
 
 /**
  * The hygienist's journey in Chromium: sign in through the identity provider, upload a roster with
@@ -13,35 +10,24 @@ import { openTestDataSource } from '../support/test-db';
  * Sites and groups get codes of their own so the test meets no other rows.
  */
 describe('hygienist uploads a roster in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
   const tag = randomBytes(3).toString('hex').toUpperCase();
   const site = `BS${tag}`;
   const [ga, gb] = [`BA${tag}`, `BB${tag}`];
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
+  const h = useBrowserApp(async (ds) => {
     const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Browser test site') RETURNING id`, [site])) as { id: number }[];
     await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Browser A', 'none', 0), ($2, 'Browser B', 'noise', 1)`, [ga, gb]);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', sites.map((s) => s.id));
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
   });
 
   it('signs in, uploads, checks and applies a roster, and sees the run it requested complete', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(app.baseUrl, { waitUntil: 'networkidle' });
+    const page = await h.browser.context.newPage();
+    await page.goto(h.app.baseUrl, { waitUntil: 'networkidle' });
     await page.getByRole('link', { name: 'Sign in', exact: true }).click();
     await page.getByLabel('Work e-mail').fill('hygienist@demo.ratewarden.test');
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: /sign in/i }).click();
-    await page.waitForURL(`${app.baseUrl}/**`);
+    await page.waitForURL(`${h.app.baseUrl}/**`);
 
     // Role-aware navigation: the hygienist sees Intakes, not Administration.
     const nav = page.getByRole('navigation', { name: 'Main' });
@@ -66,12 +52,12 @@ describe('hygienist uploads a roster in Chromium', () => {
     expect(await page.getByRole('row', { name: new RegExp(`${site} 2023-03`) }).textContent()).toContain('new');
     await page.getByRole('button', { name: 'Apply this intake' }).click();
     await page.getByText('applied', { exact: true }).waitFor();
-    const [row] = (await ds.query(`SELECT state FROM intakes WHERE file_name = $1`, [`roster-${tag}.csv`])) as { state: string }[];
+    const [row] = (await h.ds.query(`SELECT state FROM intakes WHERE file_name = $1`, [`roster-${tag}.csv`])) as { state: string }[];
     expect(row?.state).toBe('applied');
 
     // The apply requested a run; the worker's on-demand loop takes it up (called here as the worker does).
     await page.getByText(/A run was requested/).waitFor();
-    const outcome = await runIfRequested(ds, { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] }, app.baseUrl);
+    const outcome = await runIfRequested(h.ds, { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] }, h.app.baseUrl);
     expect(outcome?.status).toBe('succeeded');
     await page.getByText(/finished .*, and its figures are the ones shown now\./).waitFor({ timeout: 15_000 });
     await page.close();

@@ -1,35 +1,21 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { DataSource } from 'typeorm';
-import { launchBrowser } from '../support/browser';
+import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { useBrowserApp } from '../support/browser-app';
 import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
 
 /** The physician opens a flag in Chromium and sees the case-level records behind it. */
 describe('the physician sees the cases behind a flag in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
   let fx: FlagFixture;
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
+  const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', fx.cohort.sites);
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
   });
 
   it('lists the twelve cases counted in the flag, and the read is audited', async () => {
-    const page = await browser.context.newPage();
-    await signInThroughPage(page, app.baseUrl, 'physician@demo.ratewarden.test');
-    await page.goto(`${app.baseUrl}/flags/${fx.flagId}`, { waitUntil: 'networkidle' });
+    const page = await h.browser.context.newPage();
+    await signInThroughPage(page, h.app.baseUrl, 'physician@demo.ratewarden.test');
+    await page.goto(`${h.app.baseUrl}/flags/${fx.flagId}`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { name: 'Cases behind this flag' }).waitFor();
     const table = page.getByRole('table', { name: /^Cases counted \(12\)/ });
     await table.waitFor();
@@ -40,7 +26,7 @@ describe('the physician sees the cases behind a flag in Chromium', () => {
     expect(text).toContain(`${fx.cohort.tag}-EXP0`);
     // The physician may not review flags: no review controls.
     expect(await page.getByRole('button', { name: 'Close the flag' }).count()).toBe(0);
-    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`flag:${fx.flagId}`])) as Array<{ n: number }>;
+    const audits = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`flag:${fx.flagId}`])) as Array<{ n: number }>;
     expect(audits[0]!.n).toBeGreaterThanOrEqual(1);
     await page.close();
   });

@@ -1,9 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { DataSource } from 'typeorm';
-import { launchBrowser } from '../support/browser';
+import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { listenTestApp } from '../support/test-app';
-import { openTestDataSource } from '../support/test-db';
+import { useBrowserApp } from '../support/browser-app';
 import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
 
 /**
@@ -12,30 +9,19 @@ import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fix
  * cases behind the flag stay out of sight (physician only).
  */
 describe('the safety manager reviews and closes a flag in Chromium', () => {
-  let ds: DataSource;
-  let app: Awaited<ReturnType<typeof listenTestApp>>;
-  let browser: Awaited<ReturnType<typeof launchBrowser>>;
   let fx: FlagFixture;
 
-  beforeAll(async () => {
-    ds = await openTestDataSource();
+  const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', fx.cohort.sites);
-    app = await listenTestApp(ds);
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.close();
-    await ds?.destroy();
   });
 
   it('opens the flag, reviews it and closes it with a reason', async () => {
-    const page = await browser.context.newPage();
-    await signInThroughPage(page, app.baseUrl, 'safety@demo.ratewarden.test');
+    const page = await h.browser.context.newPage();
+    await signInThroughPage(page, h.app.baseUrl, 'safety@demo.ratewarden.test');
     await page.getByRole('heading', { level: 1, name: 'Flags' }).waitFor();
 
-    await page.goto(`${app.baseUrl}/flags?outcome=${fx.cohort.outcomes.DERM}`, { waitUntil: 'networkidle' });
+    await page.goto(`${h.app.baseUrl}/flags?outcome=${fx.cohort.outcomes.DERM}`, { waitUntil: 'networkidle' });
     await page.getByRole('link', { name: 'Group EXP' }).click();
     await page.getByRole('heading', { level: 1, name: /Group EXP/ }).waitFor();
     const figures = page.getByRole('table', { name: /numbers that triggered/ });
@@ -54,7 +40,7 @@ describe('the safety manager reviews and closes a flag in Chromium', () => {
     await page.getByText(/^Closed .*: Action taken$/).waitFor();
     expect(await page.getByRole('table', { name: 'Decision history' }).textContent()).toContain('Extraction in the bay checked and repaired');
 
-    const [row] = (await ds.query(`SELECT state, close_reason, close_comment FROM flags WHERE id = $1`, [fx.flagId])) as Array<Record<string, string>>;
+    const [row] = (await h.ds.query(`SELECT state, close_reason, close_comment FROM flags WHERE id = $1`, [fx.flagId])) as Array<Record<string, string>>;
     expect(row).toEqual({ state: 'closed', close_reason: 'action_taken', close_comment: 'Extraction in the bay checked and repaired; skin checks offered.' });
     await page.close();
   });

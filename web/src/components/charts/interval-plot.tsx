@@ -1,9 +1,10 @@
 // The ESM build of the core component: the CommonJS one (lib/core) arrives as a module object under Vite.
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { CustomSeriesRenderItemAPI, CustomSeriesRenderItemParams, EChartsOption } from 'echarts';
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { formatEstimate } from '../../lib/format';
-import { ExportButton, type CsvExport } from '../table/export-button';
+import type { CsvExport } from '../table/export-button';
+import { ChartFigure } from './chart-figure';
 import { echarts, tokenColour } from './echarts-setup';
 
 /**
@@ -23,7 +24,6 @@ export interface IntervalItem {
 const finite = (x: number | null): x is number => x !== null && Number.isFinite(x) && x > 0;
 
 export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale)', csv }: { title: string; items: IntervalItem[]; valueLabel?: string; csv?: CsvExport }) {
-  const [showTable, setShowTable] = useState(false);
   const option = useMemo<EChartsOption>(() => {
     const values = items.flatMap((i) => [i.estimate, i.lower, i.upper]).filter(finite);
     const min = Math.min(1, ...values);
@@ -88,22 +88,16 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
   }, [items, title, valueLabel]);
 
   return (
-    <figure className="mt-4 border border-rule bg-panel p-3">
-      <figcaption className="flex flex-wrap items-baseline justify-between gap-2">
-        <span className="font-semibold">{title}</span>
-        <span className="flex items-baseline gap-3">
-          <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
-            {showTable ? 'Hide the table' : 'Show as a table'}
-          </button>
-          {csv && <ExportButton csv={csv} label={title} />}
-        </span>
-      </figcaption>
-      <div>
-        <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: Math.max(140, 48 * items.length + 70), width: '100%' }} opts={{ renderer: 'svg' }} />
-      </div>
-      {showTable && (
-        <table className="mt-2 w-full text-sm">
-          <caption className="sr-only">{title}, as a table</caption>
+    <ChartFigure
+      title={title}
+      csv={csv}
+      chart={
+        <div>
+          <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: Math.max(140, 48 * items.length + 70), width: '100%' }} opts={{ renderer: 'svg' }} />
+        </div>
+      }
+      table={
+        <>
           <thead>
             <tr className="border-b border-ink text-left">
               <th scope="col" className="px-2 py-1">Item</th>
@@ -122,9 +116,9 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
               </tr>
             ))}
           </tbody>
-        </table>
-      )}
-    </figure>
+        </>
+      }
+    />
   );
 }
 

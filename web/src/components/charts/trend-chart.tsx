@@ -1,9 +1,10 @@
 // The ESM build of the core component: the CommonJS one (lib/core) arrives as a module object under Vite.
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsOption, LineSeriesOption } from 'echarts';
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { formatAmount, formatEstimate } from '../../lib/format';
-import { ExportButton, type CsvExport } from '../table/export-button';
+import type { CsvExport } from '../table/export-button';
+import { ChartFigure } from './chart-figure';
 import { echarts, tokenColour } from './echarts-setup';
 
 /**
@@ -36,7 +37,6 @@ export interface UChartLimits {
 const symbols = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'arrow'];
 
 export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
-  const [showTable, setShowTable] = useState(false);
   const option = useMemo<EChartsOption>(() => {
     const palette = [tokenColour('moss', '#2e6b57'), tokenColour('amber', '#b97a12'), tokenColour('brick', '#a23b2a'), tokenColour('ink', '#1f3a3d')];
     const ink = tokenColour('ink', '#1f3a3d');
@@ -89,20 +89,14 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
   }, [periods, series, limits, title, unit]);
 
   return (
-    <figure className="mt-4 border border-rule bg-panel p-3">
-      <figcaption className="flex flex-wrap items-baseline justify-between gap-2">
-        <span className="font-semibold">{title}</span>
-        <span className="flex items-baseline gap-3">
-          <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
-            {showTable ? 'Hide the table' : 'Show as a table'}
-          </button>
-          {csv && <ExportButton csv={csv} label={title} />}
-        </span>
-      </figcaption>
-      <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: 340, width: '100%' }} opts={{ renderer: 'svg' }} />
-      {showTable && (
-        <table className="mt-2 w-full text-sm">
-          <caption className="sr-only">{title}, as a table</caption>
+    <ChartFigure
+      title={title}
+      csv={csv}
+      chart={
+        <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: 340, width: '100%' }} opts={{ renderer: 'svg' }} />
+      }
+      table={
+        <>
           <thead>
             <tr className="border-b border-ink text-left">
               {['Group', 'Period', 'Cases', 'Person-time', `Rate ${unit}`, 'Lower', 'Upper', ...(limits ? ['Upper limit (3σ)', 'Signal'] : [])].map((c) => (
@@ -131,8 +125,8 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
               }),
             )}
           </tbody>
-        </table>
-      )}
-    </figure>
+        </>
+      }
+    />
   );
 }
