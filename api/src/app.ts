@@ -54,7 +54,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use('/api', groupsRouter({ dataSource }));
   app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/rules', rulesRouter({ dataSource }));
-  app.use('/api/flags', flagsRouter({ dataSource }));
+  app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
   app.use('/api', notFound);
   app.use(webAppRouter(config.WEB_DIST ?? join(import.meta.dirname, '..', '..', 'web', 'dist')));

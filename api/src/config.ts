@@ -19,7 +19,7 @@ const schema = z.object({
   SESSION_HOURS: z.coerce.number().positive().default(8),
   AUTH_RATE_LIMIT: z.coerce.number().int().positive().default(60).describe('sign-in attempts per IP per 15 minutes'),
   INTAKE_RATE_LIMIT: z.coerce.number().int().positive().default(120).describe('intake requests per client per 15 minutes'),
-  SMALL_CELL_THRESHOLD: z.coerce.number().int().min(1).default(5).describe('case counts below this are suppressed in results for every role but the physician'),
+  SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('case counts below this are suppressed in results for every role but the physician (at least 3: with 2, a withheld count could only be 1)'),
 });
 
 export type ApiConfig = z.infer<typeof schema>;

@@ -11,7 +11,11 @@ export type CloseReason = z.infer<typeof closeReasonSchema>;
 export const flagEventKindSchema = z.enum(['raised', 'updated', 'escalated', 'cleared', 'review_started', 'closed']);
 export type FlagEventKind = z.infer<typeof flagEventKindSchema>;
 
-/** The aggregate numbers behind a flag, as of its latest run (never case-level data). */
+/**
+ * The aggregate numbers behind a flag, as of its latest run (never case-level data). For every
+ * role but the physician a small count is withheld with what gives it back (`suppressed`, then
+ * cases, value, estimate, limits, expected, p and q are null).
+ */
 export const flagFiguresSchema = z.object({
   runId: z.string(),
   period: z.string(),
@@ -19,17 +23,18 @@ export const flagFiguresSchema = z.object({
   measure: ruleMeasureSchema,
   thresholdOn: thresholdOnSchema,
   threshold: z.number().nullable(),
-  value: z.number(),
+  value: z.number().nullable(),
   estimate: z.union([z.number(), z.string()]).nullable(),
   lower: z.union([z.number(), z.string()]).nullable(),
   upper: z.union([z.number(), z.string()]).nullable(),
-  cases: z.number().int(),
+  cases: z.number().int().nullable(),
   expected: z.number().nullable(),
   personTime: z.number(),
   p: z.number().nullable(),
   q: z.number().nullable(),
   personTimeBasis: z.string(),
   per: z.number(),
+  suppressed: z.boolean().optional(),
 });
 export type FlagFigures = z.infer<typeof flagFiguresSchema>;
 
@@ -44,8 +49,9 @@ export const flagSchema = z.object({
   closeReason: closeReasonSchema.nullable(),
   closeComment: z.string().nullable(),
   period: z.string(),
-  value: z.number(),
-  worstValue: z.number(),
+  /** The measure's value and its worst so far; null when withheld with a small count. */
+  value: z.number().nullable(),
+  worstValue: z.number().nullable(),
   crossing: z.boolean(),
   figures: flagFiguresSchema,
   raisedAt: z.string(),

@@ -25,22 +25,26 @@ export type ThresholdOn = z.infer<typeof thresholdOnSchema>;
 export const windowKindSchema = z.enum(['month', 'rolling12']);
 export type WindowKind = z.infer<typeof windowKindSchema>;
 
+/** Messages people read in the rule form (the server sends the same ones). */
+const aNumber = { error: 'enter a number, e.g. 1.5' };
+const aWholeNumber = (min: number, max: number) => ({ error: `enter a whole number from ${min} to ${max.toLocaleString('en-GB')}` });
+
 const ruleFields = z.strictObject({
-  name: z.string().trim().min(1).max(120),
-  outcomeId: z.number().int().positive(),
+  name: z.string().trim().min(1, 'give the rule a name').max(120, 'at most 120 characters'),
+  outcomeId: z.number({ error: 'choose an outcome' }).int().positive(),
   /** null: every exposure group except the reference group. */
   exposureGroupId: z.number().int().positive().nullable().default(null),
   measure: ruleMeasureSchema,
   thresholdOn: thresholdOnSchema.default('lower_bound'),
   /** Required except for `uchart`, whose threshold is the upper control limit itself. */
-  threshold: z.number().finite().nullable().default(null),
-  minCases: z.number().int().min(0).max(100_000).default(3),
-  minExpected: z.number().min(0).max(100_000).default(0),
+  threshold: z.number(aNumber).finite(aNumber).nullable().default(null),
+  minCases: z.number(aWholeNumber(0, 100_000)).int(aWholeNumber(0, 100_000)).min(0, aWholeNumber(0, 100_000)).max(100_000, aWholeNumber(0, 100_000)).default(3),
+  minExpected: z.number(aNumber).min(0, 'enter 0 or more').max(100_000, 'at most 100,000').default(0),
   window: windowKindSchema.default('rolling12'),
-  consecutivePeriods: z.number().int().min(1).max(24).default(1),
+  consecutivePeriods: z.number(aWholeNumber(1, 24)).int(aWholeNumber(1, 24)).min(1, aWholeNumber(1, 24)).max(24, aWholeNumber(1, 24)).default(1),
   fdrControl: z.boolean().default(true),
-  fdrLevel: z.number().gt(0).lt(1).default(0.05),
-  recipients: z.array(z.string().trim().toLowerCase().pipe(z.email())).max(50).default([]),
+  fdrLevel: z.number(aNumber).gt(0, 'between 0 and 1, e.g. 0.05').lt(1, 'between 0 and 1, e.g. 0.05').default(0.05),
+  recipients: z.array(z.string().trim().toLowerCase().pipe(z.email('not an e-mail address'))).max(50, 'at most 50 recipients').default([]),
   active: z.boolean().default(true),
 });
 

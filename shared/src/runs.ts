@@ -62,6 +62,8 @@ export const runDetailSchema = runSummarySchema.extend({
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 
+export const withheldSchema = z.enum(['small', 'complement']);
+
 const limits = { estimate: jsonNumberSchema.nullable(), lower: jsonNumberSchema.nullable(), upper: jsonNumberSchema.nullable() };
 
 /**
@@ -83,6 +85,8 @@ export const runResultSchema = z.object({
   referenceGroupId: z.number().int().nullable(),
   cases: z.number().int().nullable(),
   suppressed: z.boolean(),
+  /** Why the count is withheld: small itself, or the complement of a small one elsewhere (see small-cells.ts). */
+  withheld: withheldSchema.nullable(),
   comparisonSuppressed: z.boolean(),
   hours: z.string(),
   personTime: z.number(),
@@ -113,14 +117,24 @@ export type RunResultsQuery = z.infer<typeof runResultsQuerySchema>;
 /** Query of GET /api/runs/diff. */
 export const runDiffQuerySchema = z.object({ from: z.string().uuid(), to: z.string().uuid(), siteId: z.coerce.number().int().positive().optional() });
 
+/** One side of a changed cell in a run diff; a withheld count goes with its rate and IRR. */
+const diffSideSchema = z.object({
+  cases: z.number().int().nullable(),
+  suppressed: z.boolean(),
+  withheld: withheldSchema.nullable(),
+  hours: z.string(),
+  rate: jsonNumberSchema.nullable(),
+  irr: jsonNumberSchema.nullable(),
+});
+
 export const runDiffRowSchema = z.object({
   outcomeId: z.number().int(),
   exposureGroupId: z.number().int(),
   window: windowKindSchema,
   period: z.string(),
   change: z.enum(['added', 'removed', 'changed']),
-  before: z.object({ cases: z.number().int().nullable(), suppressed: z.boolean(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
-  after: z.object({ cases: z.number().int().nullable(), suppressed: z.boolean(), hours: z.string(), rate: jsonNumberSchema.nullable(), irr: jsonNumberSchema.nullable() }).nullable(),
+  before: diffSideSchema.nullable(),
+  after: diffSideSchema.nullable(),
 });
 export const runDiffSchema = z.object({
   from: runSummarySchema,
@@ -134,3 +148,51 @@ export type RunDiff = z.infer<typeof runDiffSchema>;
 /** Answer of POST /api/runs: the request the worker will pick up. */
 export const runRequestedSchema = z.object({ requestId: z.string(), requestedAt: z.string() });
 export type RunRequested = z.infer<typeof runRequestedSchema>;
+
+/** The stratifications a run adjusts by. */
+export const stratificationSchema = z.enum(['age', 'site', 'sex']);
+export type Stratification = z.infer<typeof stratificationSchema>;
+
+/** GET /api/runs/:id/strata: one exposure group against its reference group, stratum by stratum. */
+export const runStrataQuerySchema = z.object({
+  outcomeId: z.coerce.number().int().positive(),
+  exposureGroupId: z.coerce.number().int().positive(),
+  window: windowKindSchema,
+  /** The month, or the last month of the rolling window (first of the month). */
+  period: z.string().regex(/^\d{4}-\d{2}-01$/, 'a month as YYYY-MM-01'),
+  by: stratificationSchema,
+  siteId: z.coerce.number().int().positive().optional(),
+});
+export type RunStrataQuery = z.infer<typeof runStrataQuerySchema>;
+
+/** One arm (the group, or the reference group) in one stratum; a withheld count goes with its rate. */
+const stratumArmSchema = z.object({
+  cases: z.number().int().nullable(),
+  withheld: withheldSchema.nullable(),
+  hours: z.string(),
+  personTime: z.number(),
+  rate: jsonNumberSchema.nullable(),
+});
+
+export const runStratumSchema = z.object({
+  /** The stratum's key as stored: age band lower bound, site id or sex code; null when unknown. */
+  key: z.string().nullable(),
+  label: z.string(),
+  exposed: stratumArmSchema,
+  reference: stratumArmSchema.nullable(),
+  /** The stratum's own IRR (exact conditional limits) and IRD (Wald limits); null when an arm's count is withheld. */
+  irr: z.object(limits).nullable(),
+  ird: z.object(limits).nullable(),
+});
+export type RunStratum = z.infer<typeof runStratumSchema>;
+
+export const runStrataSchema = z.object({
+  by: stratificationSchema,
+  siteId: z.number().int().nullable(),
+  exposureGroupId: z.number().int(),
+  referenceGroupId: z.number().int().nullable(),
+  strata: z.array(runStratumSchema),
+  methods: z.object({ irr: z.string(), ird: z.string() }),
+});
+export type RunStrata = z.infer<typeof runStrataSchema>;
+

@@ -88,6 +88,22 @@ describe('runs, rules and flags through the API', () => {
     expect(req).toEqual({ reason: 'run requested by hygienist@demo.ratewarden.test', picked_at: null });
   });
 
+  it('withholds a flag\'s small count and the figures that give it back, except from the physician', async () => {
+    // 4 cases over 0.32 person-years: the rate (4 / 0.32 × 1,000 = 12,500) with the person-time shown would give 4 back.
+    const safety = flagSchema.parse((await as.safety.agent.get(`/api/flags/${flagId}`).expect(200)).body);
+    expect(safety.figures).toMatchObject({ suppressed: true, cases: null, value: null, estimate: null, lower: null, upper: null, p: null });
+    expect(safety.value).toBeNull();
+    expect(safety.worstValue).toBeNull();
+    expect(safety.figures.personTime).toBeCloseTo(0.32, 12);
+    const listed = flagSchema.array().parse((await as.safety.agent.get('/api/flags').expect(200)).body).find((f) => f.id === flagId)!;
+    expect(listed).toMatchObject({ value: null, figures: { suppressed: true, cases: null } });
+    const detail = (await as.hygienist.agent.get(`/api/flags/${flagId}`).expect(200)).body as { events: Array<{ detail: Record<string, unknown> }> };
+    for (const e of detail.events) expect(e.detail).not.toHaveProperty('value');
+    const physician = flagSchema.parse((await as.physician.agent.get(`/api/flags/${flagId}`).expect(200)).body);
+    expect(physician.figures).toMatchObject({ suppressed: false, cases: 4 });
+    expect(physician.value).toBeCloseTo(12_500, 6);
+  });
+
   it('cases behind a flag: physician only, and audited', async () => {
     const list = await as.safety.agent.get('/api/flags').expect(200);
     expect(flagSchema.array().parse(list.body).map((f) => f.id)).toContain(flagId);

@@ -7,6 +7,7 @@ import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { startFakeSmtp, type FakeSmtp } from '@ratewarden/worker/smtp-fake/fake-smtp-server';
 import { keepInMailbox } from '@ratewarden/worker/smtp-fake/keep-in-mailbox';
 import { freePort } from '../support/free-port';
+import { provisionUser } from '../support/sign-in';
 import { openTestDataSource } from '../support/test-db';
 import { makeCohort, settings, type Cohort, clearCohortData } from './runs-fixture';
 
@@ -43,6 +44,7 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
+    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician');
     port = await freePort();
     sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50 };
     c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NOISE', 'recurrent']] });
@@ -76,7 +78,13 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     const mails = await received(address);
     expect(mails.length).toBe(1);
     expect(mails[0]!.subject).toContain('raised a flag for Group EXP');
-    expect(mails[0]!.text_body).toContain('Cases in the group: 3');
+    // 3 cases is under the small-cell threshold (5): a recipient who is not a physician gets no count and no value ...
+    expect(mails[0]!.text_body).toContain('Cases in the group: fewer than 5');
+    expect(mails[0]!.text_body).not.toMatch(/Value:|Cases in the group: 3/);
+    // ... the physician's notice of the same flag has them.
+    const [forPhysician] = (await ds.query(`SELECT body FROM notices WHERE recipient = $1 ORDER BY created_at DESC LIMIT 1`, ['physician@demo.ratewarden.test'])) as Array<{ body: string }>;
+    expect(forPhysician!.body).toContain('Cases in the group: 3');
+    expect(forPhysician!.body).toMatch(/Value: /);
     expect(await noticeOf(address)).toMatchObject([{ state: 'sent', attempts: 1, last_error: null }]);
   });
 

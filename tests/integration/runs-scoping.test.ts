@@ -107,16 +107,18 @@ describe('run results: site scoping and small-cell suppression', () => {
     const ref = rowOf(res.body, c.groups.REF!);
     expect(exp.siteId).toBe(siteA);
     // 3 exposed cases is under the threshold of 5: the count and what gives it back are withheld.
-    expect(exp).toMatchObject({ cases: null, suppressed: true, expected: expect.anything() });
+    expect(exp).toMatchObject({ cases: null, suppressed: true, withheld: 'small' });
     expect(exp.rate).toEqual({ estimate: null, lower: null, upper: null });
     expect(exp.irr.estimate).toBeNull();
     expect(exp.ird.estimate).toBeNull();
     expect(exp.mhAge.irr.estimate).toBeNull();
     expect(exp.detail).toEqual({});
     expect(exp.personTime).toBeCloseTo(PT.aExp, 12); // person-time reveals no count
-    // The reference group's 6 cases stand, and its rate is that of site A alone.
-    expect(ref).toMatchObject({ cases: 6, suppressed: false });
-    expect(ref.rate.estimate).toBeCloseTo((6 / PT.aRef) * 1000, 9);
+    // The reference group's 6 cases are not small, but the company's 8 minus them would give site
+    // B's 2 back: they are withheld as its complement (and so is the rate).
+    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'complement' });
+    expect(ref.rate.estimate).toBeNull();
+    expect(ref.personTime).toBeCloseTo(PT.aRef, 12);
   });
 
   it('shows the physician every count, with the site-level comparison', async () => {
@@ -126,16 +128,21 @@ describe('run results: site scoping and small-cell suppression', () => {
     expect(exp.irr.estimate).toBeCloseTo(3 / PT.aExp / (6 / PT.aRef), 12); // 0.5
   });
 
-  it('withholds a comparison whose reference count is small, and keeps the group’s own count', async () => {
+  it('withholds the site count that would give a small one back by subtraction (complementary suppression)', async () => {
+    const company = rowOf((await fetchResults(as.hygienist)).body, c.groups.EXP!);
+    expect(company.cases).toBe(10); // the company total is shown ...
     const res = await fetchResults(as.hygienist, siteB);
     const exp = rowOf(res.body, c.groups.EXP!);
     const ref = rowOf(res.body, c.groups.REF!);
-    expect(ref).toMatchObject({ cases: null, suppressed: true });
-    expect(exp).toMatchObject({ cases: 7, suppressed: false, comparisonSuppressed: true, expected: null });
-    expect(exp.rate.estimate).toBeCloseTo((7 / PT.bExp) * 1000, 9);
-    // IRR × the exposed rate would give the reference count back.
+    // ... so site B's 7 would give site A's 3 back (10 − 7): withheld too, with what gives it back.
+    expect(exp).toMatchObject({ cases: null, suppressed: true, withheld: 'complement', expected: expect.anything() });
+    expect(exp.rate).toEqual({ estimate: null, lower: null, upper: null });
     expect(exp.irr).toMatchObject({ estimate: null, lower: null, upper: null, p: null });
-    expect(exp.mhAge.irr.estimate).toBeNull();
+    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'small' });
+    // The physician sees both.
+    const open = await fetchResults(as.physician, siteB);
+    expect(rowOf(open.body, c.groups.EXP!)).toMatchObject({ cases: 7, withheld: null });
+    expect(rowOf(open.body, c.groups.REF!)).toMatchObject({ cases: 2, withheld: null });
   });
 
   it('refuses company-wide figures and other sites to a safety manager who sees only some sites', async () => {
@@ -147,19 +154,27 @@ describe('run results: site scoping and small-cell suppression', () => {
     const own = await fetchResults(as.safety, siteA);
     expect(own.status).toBe(200);
     expect(rowOf(own.body, c.groups.EXP!)).toMatchObject({ siteId: siteA, cases: null, suppressed: true });
-    expect(rowOf(own.body, c.groups.REF!)).toMatchObject({ cases: 6 });
+    expect(rowOf(own.body, c.groups.REF!)).toMatchObject({ cases: null, withheld: 'complement' }); // as for everyone but the physician
     const diff = await as.safety.agent.get('/api/runs/diff').query({ from: runId, to: runId });
     expect(diff.status).toBe(403);
     const ownDiff = await as.safety.agent.get('/api/runs/diff').query({ from: runId, to: runId, siteId: siteA });
     expect(ownDiff.status).toBe(200);
   });
 
-  it('takes the threshold from the SMALL_CELL_THRESHOLD setting', async () => {
+  it('takes the threshold from the SMALL_CELL_THRESHOLD setting, and withholds a comparison whose reference count is small', async () => {
     const app = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '3' }) });
     const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
     const siteAExp = rowOf((await fetchResults(hygienist, siteA)).body, c.groups.EXP!);
     expect(siteAExp).toMatchObject({ cases: 3, suppressed: false }); // 3 is not below 3
-    const siteBRef = rowOf((await fetchResults(hygienist, siteB)).body, c.groups.REF!);
-    expect(siteBRef).toMatchObject({ cases: null, suppressed: true }); // 2 is
+    const siteB = await fetchResults(hygienist, c.sites[1]);
+    const siteBRef = rowOf(siteB.body, c.groups.REF!);
+    expect(siteBRef).toMatchObject({ cases: null, suppressed: true, withheld: 'small' }); // 2 is
+    // Site B's exposed count stands (nothing small beside it), but its comparisons are withheld:
+    // the IRR times the exposed rate would give the reference count back.
+    const siteBExp = rowOf(siteB.body, c.groups.EXP!);
+    expect(siteBExp).toMatchObject({ cases: 7, suppressed: false, comparisonSuppressed: true, expected: null });
+    expect(siteBExp.rate.estimate).toBeCloseTo((7 / PT.bExp) * 1000, 9);
+    expect(siteBExp.irr).toMatchObject({ estimate: null, lower: null, upper: null, p: null });
+    expect(siteBExp.mhAge.irr.estimate).toBeNull();
   });
 });

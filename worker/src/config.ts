@@ -27,6 +27,7 @@ const schema = z.object({
       return parsed.data;
     })
     .describe('case statuses a run counts, comma-separated'),
+  SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('in notices to anyone but a physician, case counts below this are withheld with the figures computed from them (as in the app)'),
   SMTP_HOST: z.string().default('127.0.0.1').describe('SMTP server the notices go to (the local fake in development)'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525).describe('port of the SMTP server'),
   SMTP_SECURE: z.enum(['true', 'false']).default('false').transform((s) => s === 'true').describe('TLS from the first byte (port 465 style)'),

@@ -19,13 +19,13 @@ const settings = runSettingsOf(config);
 const task = startSchedule(config, async () => {
   const tick = new Date();
   tick.setSeconds(0, 0); // every worker sees the same minute, so only the first one runs
-  console.log(describeOutcome(await performRun(dataSource, { trigger: 'schedule', reason: 'nightly schedule', settings, appUrl: config.APP_BASE_URL, notBefore: tick, consumeRequests: true, keepComputeThreads: true })));
+  console.log(describeOutcome(await performRun(dataSource, { trigger: 'schedule', reason: 'nightly schedule', settings, appUrl: config.APP_BASE_URL, notBefore: tick, consumeRequests: true, keepComputeThreads: true, smallCellThreshold: config.SMALL_CELL_THRESHOLD })));
 });
 console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}`);
 
 const requests = startLoop('run request check', config.RUN_POLL_MS, async () => {
   // A long-lived worker keeps its statistics threads warm between runs; process.exit ends them.
-  const outcome = await runIfRequested(dataSource, settings, config.APP_BASE_URL, true);
+  const outcome = await runIfRequested(dataSource, settings, config.APP_BASE_URL, { keepComputeThreads: true, smallCellThreshold: config.SMALL_CELL_THRESHOLD });
   if (outcome) console.log(describeOutcome(outcome));
 });
 

@@ -8,6 +8,7 @@
 import { chiSquareQuantile, GAMMAINC_RELIABLE_SHAPE, poissonLowerTail, poissonPmf, poissonUpperTail, zForConfidence } from './distributions';
 import { brentRoot, increasingRoot } from './root-finding';
 import { assertConfidence, assertCount } from './validation';
+import { memoLimits } from './memo';
 
 /** Limits of a Poisson mean; the exact limits always exist (upper is finite for finite x). */
 export interface PoissonLimits {
@@ -22,7 +23,7 @@ export interface PoissonLimits {
  * @example
  * poissonExactLimits(0, 0.95) // { lower: 0, upper: 3.6888794541139354 }
  */
-export function poissonExactLimits(count: number, confidence: number): PoissonLimits {
+export const poissonExactLimits = memoLimits(function poissonExactLimits(count: number, confidence: number): PoissonLimits {
   assertCount('count', count);
   assertConfidence(confidence);
   const alpha = 1 - confidence;
@@ -38,7 +39,7 @@ export function poissonExactLimits(count: number, confidence: number): PoissonLi
     upper = polish((mu) => alpha / 2 - poissonLowerTail(count, mu), upper);
   }
   return { lower, upper };
-}
+});
 
 /**
  * Mid-p exact limits for a Poisson mean, solving
@@ -48,7 +49,7 @@ export function poissonExactLimits(count: number, confidence: number): PoissonLi
  * @example
  * poissonMidPLimits(0, 0.95) // { lower: 0, upper: 2.99573227355399 }  (= −ln 0.05)
  */
-export function poissonMidPLimits(count: number, confidence: number): PoissonLimits {
+export const poissonMidPLimits = memoLimits(function poissonMidPLimits(count: number, confidence: number): PoissonLimits {
   assertCount('count', count);
   assertConfidence(confidence);
   const halfAlpha = (1 - confidence) / 2;
@@ -59,7 +60,7 @@ export function poissonMidPLimits(count: number, confidence: number): PoissonLim
   const lower = count === 0 ? 0 : brentRoot(lowerEq, exact.lower, count);
   const upper = brentRoot(upperEq, Math.max(count, Number.MIN_VALUE), exact.upper);
   return { lower, upper };
-}
+});
 
 /**
  * Byar's approximation to the exact Poisson limits.

@@ -16,6 +16,7 @@ import { nullInterval, undefinedBecause, type Interval, type Reason } from './re
 import { increasingRoot } from './root-finding';
 import { type RateGroup, validateRateGroup } from './incidence-rate';
 import { assertConfidence } from './validation';
+import { memoLimits } from './memo';
 
 export interface RateRatioResult {
   estimate: number | null;
@@ -56,7 +57,7 @@ const logistic = (t: number): number => 1 / (1 + Math.exp(-t));
  * @example
  * binomialMidPOddsLimits(1, 2, 0.95) // { lower: 0.025641025641025633, upper: 39.00000000000027 }
  */
-export function binomialMidPOddsLimits(x: number, n: number, confidence: number): { lower: number; upper: number } {
+export const binomialMidPOddsLimits = memoLimits(function binomialMidPOddsLimits(x: number, n: number, confidence: number): { lower: number; upper: number } {
   const halfAlpha = (1 - confidence) / 2;
   const start = Math.log((x + 0.5) / (n - x + 0.5));
   // Lancaster 1961 mid-p; both tail sums are monotone in π, hence in t = logit π.
@@ -71,7 +72,7 @@ export function binomialMidPOddsLimits(x: number, n: number, confidence: number)
   const lower = x === 0 ? 0 : Math.exp(increasingRoot(lowerEq, start));
   const upper = x === n ? Infinity : Math.exp(increasingRoot(upperEq, start));
   return { lower, upper };
-}
+});
 
 /**
  * Clopper–Pearson limits for π = x/n expressed as odds π/(1 − π):
@@ -80,12 +81,12 @@ export function binomialMidPOddsLimits(x: number, n: number, confidence: number)
  * @example
  * clopperPearsonOddsLimits(0, 5, 0.95) // { lower: 0, upper: 1.091279105182546 }
  */
-export function clopperPearsonOddsLimits(x: number, n: number, confidence: number): { lower: number; upper: number } {
+export const clopperPearsonOddsLimits = memoLimits(function clopperPearsonOddsLimits(x: number, n: number, confidence: number): { lower: number; upper: number } {
   const alpha = 1 - confidence;
   const piL = x === 0 ? 0 : betaQuantile(alpha / 2, x, n - x + 1); // Clopper & Pearson 1934
   const piU = x === n ? 1 : betaQuantile(1 - alpha / 2, x + 1, n - x); // Clopper & Pearson 1934
   return { lower: piL / (1 - piL), upper: piU === 1 ? Infinity : piU / (1 - piU) };
-}
+});
 
 /**
  * Rate ratio with all its intervals and tests. Zero counts follow METHODS §2: b = 0 < a gives

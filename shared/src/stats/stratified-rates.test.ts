@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compareRates } from './rate-comparison';
-import { stratifiedRates } from './stratified-rates';
+import { mantelHaenszelRates, stratifiedRates } from './stratified-rates';
 import { expectRelClose } from './test-helpers';
 
 // British doctors, coronary deaths, smokers vs non-smokers by age band (Doll & Hill; worked in
@@ -22,6 +22,14 @@ describe('Mantel–Haenszel analysis of rates', () => {
     expect(r.homogeneity.p).toBeLessThan(0.05);
     expect(r.crude.irr.estimate).toBeGreaterThan(r.mhIrr.estimate as number); // age confounds the crude ratio
     expect(r.methods.mhIrr).toMatch(/Greenland–Robins/);
+  });
+
+  it('mantelHaenszelRates is stratifiedRates without the crude comparison (British doctors, as above)', () => {
+    const { crude, reasons, ...adjusted } = stratifiedRates(britishDoctors);
+    const alone = mantelHaenszelRates(britishDoctors);
+    expect({ ...alone, reasons: [] }).toEqual({ ...adjusted, reasons: [] });
+    expect(reasons).toEqual([...crude.reasons.map((r) => ({ ...r, field: `crude.${r.field}` })), ...alone.reasons]);
+    expectRelClose(alone.mhIrr.chi2, 11.016, 1e-4); // R 4.2.2 and scipy 1.10, as above
   });
 
   it('one stratum: MH equals crude (Greenland & Robins 1985 reduce to the two-group formulas)', () => {

@@ -5,7 +5,7 @@ import { z } from 'zod';
  * - VITE_SMALL_CELL_THRESHOLD: counts below this are shown as "<n" to every role but the physician.
  */
 const envSchema = z.object({
-  VITE_SMALL_CELL_THRESHOLD: z.coerce.number().int().min(1).default(5),
+  VITE_SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5), // with 2, a withheld count could only be 1
 });
 
 export const env = envSchema.parse(import.meta.env);

@@ -1,4 +1,5 @@
 import type { Role } from '@ratewarden/shared/domain';
+import type { Withheld } from '@ratewarden/shared/small-cells';
 import { env } from '../config/env';
 
 /**
@@ -19,11 +20,17 @@ export function maySeeSmallCells(role: Role | null | undefined): boolean {
   return role === 'physician';
 }
 
+/** What a count withheld as the complement of a small one shows (it is not small itself). */
+export const COMPLEMENT_TEXT = 'withheld';
+
 /**
  * Counts from 1 to threshold − 1 are withheld; a zero points at nobody and is shown (the API's rule
- * too). `withheld` is the API's own marker for a count it did not send.
+ * too). `withheld` is the API's own marker for a count it did not send: true or 'small' for a small
+ * count, 'complement' for one withheld so that a small count elsewhere cannot be got back by
+ * subtraction (shared/src/small-cells.ts).
  */
-export function showCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld = false): ShownCount {
+export function showCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld: boolean | Withheld | null = false): ShownCount {
+  if (withheld === 'complement') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
   if (withheld) return { text: `<${threshold}`, value: null, suppressed: true };
   if (count === null) return { text: 'not available', value: null, suppressed: false };
   if (!maySeeSmallCells(role) && count > 0 && count < threshold) return { text: `<${threshold}`, value: null, suppressed: true };
@@ -31,7 +38,7 @@ export function showCount(count: number | null, role: Role | null | undefined, t
 }
 
 /** For CSV: the count itself, or the "<5" text when suppressed, never the hidden number. */
-export function exportCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld = false): string | number | null {
+export function exportCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld: boolean | Withheld | null = false): string | number | null {
   const shown = showCount(count, role, threshold, withheld);
   return shown.suppressed ? shown.text : shown.value;
 }

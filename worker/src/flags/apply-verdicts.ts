@@ -3,6 +3,7 @@ import { toJsonValue } from '@ratewarden/shared/stats';
 import type { FlagFigures } from '@ratewarden/shared/flags';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
+import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
 import { composeNotice } from '../notices/compose-notice';
 import type { RuleVerdict } from '../rules/evaluate-rules';
 
@@ -63,6 +64,7 @@ export async function applyVerdicts(
   appUrl: string,
   rules: Map<string, RuleForFlags>,
   verdicts: RuleVerdict[],
+  smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD,
 ): Promise<FlagTally> {
   const tally: FlagTally = { raised: 0, escalated: 0, updated: 0, cleared: 0, notRaisedAgain: 0, notices: 0 };
   const physicians: Array<{ email: string }> = await em.query(`SELECT email FROM users WHERE role = 'physician' ORDER BY email`);
@@ -149,7 +151,7 @@ export async function applyVerdicts(
     await audit(em, kind === 'raised' ? 'flag.raise' : 'flag.escalate', flagId, { runId, ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, period: v.period, value });
 
     const group = groupOf.get(v.exposureGroupId);
-    const { subject, text } = composeNotice({
+    const facts = {
       flagId,
       kind,
       ruleName: rule.name,
@@ -169,9 +171,14 @@ export async function applyVerdicts(
       personTime: v.personTime,
       settings,
       appUrl,
-    });
+    };
+    // A physician's notice has every figure; anyone else's leaves a small count out, as the app does.
+    const full = composeNotice(facts);
+    const withheld = isSmallCount(v.cases, smallCellThreshold) ? composeNotice({ ...facts, withholdFigures: { threshold: smallCellThreshold } }) : full;
+    const physicianEmails = new Set(physicians.map((p) => p.email.trim().toLowerCase()));
     const recipients = [...new Set([...physicians.map((p) => p.email), ...rule.recipients].map((e) => e.trim().toLowerCase()).filter(Boolean))];
     for (const recipient of recipients) {
+      const { subject, text } = physicianEmails.has(recipient) ? full : withheld;
       await em.query(
         `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body) VALUES ($1, $2, $3, $4, $5) ON CONFLICT DO NOTHING`,
         [flagId, eventId, recipient, subject, text],

@@ -21,6 +21,11 @@ export interface NoticeFacts {
   personTime: number;
   settings: RunSettings;
   appUrl: string;
+  /**
+   * The count is small and the recipient is not a physician: the count and every figure computed
+   * from it are left out (as the app withholds them), so the notice says only that the rule was crossed.
+   */
+  withholdFigures?: { threshold: number };
 }
 
 const measureWords: Record<RuleMeasure, string> = {
@@ -61,10 +66,14 @@ export function composeNotice(f: NoticeFacts): { subject: string; text: string }
     `Period: ${periodWords}`,
     `Measure: ${measureWords[f.measure]}; compared: ${compared}`,
     f.measure === 'uchart' ? 'Threshold: the upper control limit' : `Threshold: above ${num(f.threshold)}`,
-    f.measure === 'uchart'
-      ? `Value: ${num(f.value)} times the upper control limit`
-      : `Value: ${num(f.value)} (estimate ${num(f.estimate)}, ${pct}% interval ${num(f.lower)} to ${num(f.upper)})`,
-    `Cases in the group: ${f.cases}; expected at the reference rate: ${num(f.expected, 1)}`,
+    ...(f.withholdFigures
+      ? [`Cases in the group: fewer than ${f.withholdFigures.threshold}; the value and the figures computed from it are withheld here, as in the app (the occupational physician sees them)`]
+      : [
+          f.measure === 'uchart'
+            ? `Value: ${num(f.value)} times the upper control limit`
+            : `Value: ${num(f.value)} (estimate ${num(f.estimate)}, ${pct}% interval ${num(f.lower)} to ${num(f.upper)})`,
+          `Cases in the group: ${f.cases}; expected at the reference rate: ${num(f.expected, 1)}`,
+        ]),
     `Person-time: ${num(f.personTime, 1)} ${f.settings.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 hours'}; rates ${unit(f.settings)}`,
     '',
     `Sign in to review the flag: ${f.appUrl.replace(/\/$/, '')}/flags/${f.flagId}`,

@@ -4,11 +4,11 @@ import {
   hoursToPersonYears,
   incidenceRate,
   rateTrend,
-  stratifiedRates,
+  mantelHaenszelRates,
   uChart,
   type RateGroup,
   type RateStratum,
-  type StratifiedRatesResult,
+  type MantelHaenszelRatesResult,
   type UChartPoint,
 } from '@ratewarden/shared/stats';
 import type { RunSettings } from '@ratewarden/shared/runs';
@@ -122,8 +122,8 @@ function strata(exposed: Tally, reference: Tally, pick: (t: Tally) => Map<string
   return [...keys].sort().map((k) => ({ exposed: group(pick(exposed).get(k)), reference: group(pick(reference).get(k)) }));
 }
 
-function mh(s: RateStratum[], settings: RunSettings): StratifiedRatesResult | null {
-  return s.length === 0 ? null : stratifiedRates(s, { confidence: settings.confidence, per: settings.per });
+function mh(s: RateStratum[], settings: RunSettings): MantelHaenszelRatesResult | null {
+  return s.length === 0 ? null : mantelHaenszelRates(s, { confidence: settings.confidence, per: settings.per });
 }
 
 function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSettings): { centre: number | null; points: Map<number, UChartPoint> } {
@@ -145,10 +145,8 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
  *
  * `siteId` names the scope the cells belong to: null for the whole company, else one site (the
  * caller passes that site's cells only). A site's rows serve people who may see that site only:
- * they carry the rates, the crude comparison and the adjustment by age band; a single site has
- * one site stratum (nothing to adjust), and the adjustment by sex is left to the company rows,
- * where the strata are large enough to mean something and the run's time budget allows it
- * (every Mantel–Haenszel analysis also recomputes the crude comparison inside the core).
+ * they carry everything the company rows do except the adjustment by site (a single site is one
+ * stratum, nothing to adjust).
  */
 export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, siteId: number | null = null): ComputedResults {
   const series = buildSeries(cells);
@@ -189,10 +187,9 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           const compared = ref !== null && !isReference;
           const mhAge = compared ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
           const mhSite = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
-          const mhSex = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
-          // The crude comparison of the age-band analysis is the group against the reference over
-          // all strata collapsed, i.e. the crude IRR and IRD; the core computes it there once.
-          const compare = compared ? (mhAge?.crude ?? compareRates(exposed, refGroup!, opts)) : null;
+          const mhSex = compared ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
+          // The crude comparison once; the three adjustments add only their Mantel–Haenszel parts.
+          const compare = compared ? compareRates(exposed, refGroup!, opts) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
           const point = w.kind === 'month' ? charts.get(g)!.points.get(p) ?? null : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
@@ -267,8 +264,7 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           });
         }
 
-        // The trend test is a company figure (site trends are neither served nor watched).
-        if (siteId === null && levelTotals.size >= 2) {
+        if (levelTotals.size >= 2) {
           const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
           const trend = rateTrend(levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })), opts);
           trends.push({

@@ -1,4 +1,5 @@
 import { toJsonValue } from '@ratewarden/shared/stats';
+import type { Cell } from './cells-query';
 import type { ResultRow, TrendRow } from './compute-results';
 
 const dbl = 'double precision';
@@ -38,6 +39,13 @@ export function resultLine(runId: string, r: ResultRow): string {
   let out = copyValue(runId);
   for (const [c] of RESULT_COLUMNS) out += `\t${copyValue(r[c])}`;
   return `${out}\n`;
+}
+
+export const CELL_COLUMNS = ['outcome_id', 'month', 'site_id', 'exposure_group_id', 'age_band', 'sex', 'hours', 'cases'];
+
+/** One run_cells row as a line of COPY text, run id first (CELL_COLUMNS); hours from exact hundredths. */
+export function cellLine(runId: string, c: Cell): string {
+  return `${runId}\t${c.outcomeId}\t${c.month}\t${c.siteId}\t${c.groupId}\t${copyValue(c.ageBand)}\t${copyValue(c.sex)}\t${(c.cents / 100).toFixed(2)}\t${c.cases}\n`;
 }
 
 /** One run_trends row as a line of COPY text (TREND_COLUMNS). */

@@ -8,8 +8,9 @@ import { applyAggregationSettings, loadCaseTotals, loadCells } from './cells-que
 import { RUN_CODE_VERSION } from './code-version';
 import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
 import type { GroupInfo, OutcomeInfo } from './compute-results';
+import { refreshPlannerStatistics } from './planner-statistics';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
-import { openResultWriter } from './store-results';
+import { openResultWriter, storeCells } from './store-results';
 
 export interface PerformRunOptions {
   trigger: RunTrigger;
@@ -29,6 +30,8 @@ export interface PerformRunOptions {
    * they stop when the run ends.
    */
   keepComputeThreads?: boolean;
+  /** Notices to anyone but a physician withhold case counts below this (SMALL_CELL_THRESHOLD; default 5). */
+  smallCellThreshold?: number;
 }
 
 export type RunOutcome =
@@ -88,6 +91,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
 
   try {
     warmComputePool();
+    const analyzed = await refreshPlannerStatistics(qr);
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, options.settings);
     const t1 = performance.now();
@@ -96,10 +100,17 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
     let flags: FlagTally | undefined;
     let resultCount = 0;
     await qr.manager.transaction(async (em) => {
-      // The statistics threads hand over each outcome × scope as soon as it is computed, and the
-      // rows stream into PostgreSQL meanwhile (one COPY), so storing overlaps computing.
-      const writer = await openResultWriter(em, runId);
-      const computed = await computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => writer.lines(answer.lines));
+      // The statistics threads hand over each outcome × scope as soon as it is computed; meanwhile
+      // this thread stores the cells, then the result rows stream into PostgreSQL as they come
+      // (one COPY each, on the transaction's connection), so storing overlaps computing.
+      let writer: Awaited<ReturnType<typeof openResultWriter>> | null = null;
+      const early: string[] = [];
+      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)));
+      computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
+      await storeCells(em, runId, snapshot.cells);
+      writer = await openResultWriter(em, runId);
+      for (const lines of early.splice(0)) writer.lines(lines);
+      const computed = await computing;
       const t2 = performance.now();
       await writer.finish(computed.trends);
       const t3 = performance.now();
@@ -113,6 +124,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         siteResults: computed.resultCount - companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
+        analyzed,
         outcomesWithoutReference: computed.outcomesWithoutReference,
         seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, storeAfterCompute: (t3 - t2) / 1000 },
       };
@@ -122,7 +134,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
          ON CONFLICT (singleton) DO UPDATE SET run_id = EXCLUDED.run_id, switched_at = EXCLUDED.switched_at`,
         [runId],
       );
-      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts);
+      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts, options.smallCellThreshold);
       await markPicked(em);
       const seconds = (performance.now() - started) / 1000;
       await em.query(

@@ -31,7 +31,9 @@ async function assertSitesExist(ds: DataSource | import('typeorm').EntityManager
 /** Sets a person's role and sites in one transaction, audited with the before and after. */
 export async function updateUserAccess(ds: DataSource, actor: Principal, userId: string, update: UserAccessUpdate, ip?: string): Promise<AdminUser> {
   return ds.transaction(async (em) => {
-    const before: UserRow[] = await em.query(`${USERS_SQL} WHERE u.id = $1 GROUP BY u.id FOR UPDATE OF u`, [userId]);
+    // PostgreSQL refuses FOR UPDATE beside GROUP BY: lock the person's row first, then read it.
+    await em.query(`SELECT 1 FROM users WHERE id = $1 FOR UPDATE`, [userId]);
+    const before: UserRow[] = await em.query(`${USERS_SQL} WHERE u.id = $1 GROUP BY u.id`, [userId]);
     if (!before[0]) throw new AppError('not_found', 'no such person');
     if (actor.kind === 'user' && actor.id === userId && update.role !== 'administrator') {
       throw new AppError('conflict', 'you cannot remove your own administrator role; ask another administrator');

@@ -1,30 +1,34 @@
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { flagCloseInputSchema, flagListQuerySchema, flagReviewInputSchema } from '@ratewarden/shared/flags';
 import { authorize } from '../../auth/authorize';
+import { flagAsSeenBy } from './flag-suppression';
 import { closeFlag, flagCases, getFlag, listFlags, startReview } from './flags-service';
 
 export interface FlagsRouterDeps {
   dataSource: DataSource;
+  /** Case counts below this are withheld for every role but the physician (SMALL_CELL_THRESHOLD). */
+  smallCellThreshold: number;
 }
 
 const flagId = z.string().uuid();
 
 /** Flags, their review and closing, and (physician only) the cases behind one; mounted at /api/flags. */
-export function flagsRouter({ dataSource: ds }: FlagsRouterDeps): Router {
+export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterDeps): Router {
   const router = Router();
+  const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
   router.get('/', authorize('flags:read'), async (req, res) => {
-    res.json(await listFlags(ds, flagListQuerySchema.parse(req.query)));
+    res.json((await listFlags(ds, flagListQuerySchema.parse(req.query))).map((f) => flagAsSeenBy(f, reader(req))));
   });
   router.get('/:id', authorize('flags:read'), async (req, res) => {
-    res.json(await getFlag(ds, flagId.parse(req.params.id)));
+    res.json(flagAsSeenBy(await getFlag(ds, flagId.parse(req.params.id)), reader(req)));
   });
   router.post('/:id/review', authorize('flags:review'), async (req, res) => {
-    res.json(await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip));
+    res.json(flagAsSeenBy(await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip), reader(req)));
   });
   router.post('/:id/close', authorize('flags:review'), async (req, res) => {
-    res.json(await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip));
+    res.json(flagAsSeenBy(await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip), reader(req)));
   });
   router.get('/:id/cases', authorize('cases:read'), async (req, res) => {
     res.json(await flagCases(ds, req.principal!, flagId.parse(req.params.id), req.ip));

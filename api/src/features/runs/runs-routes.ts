@@ -1,8 +1,9 @@
 import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { runDiffQuerySchema, runResultsQuerySchema } from '@ratewarden/shared/runs';
+import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
+import { runStrata } from './run-strata';
 import { diffRuns, getRun, listResults, listRuns, requestRun } from './runs-service';
 
 export interface RunsRouterDeps {
@@ -45,6 +46,15 @@ export function runsRouter({ dataSource: ds, smallCellThreshold }: RunsRouterDep
    */
   router.get('/:id/results', authorize('aggregates:read'), async (req, res) => {
     res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
+  });
+  /**
+   * The stratum table behind an adjusted figure: one group and its reference group per age band,
+   * site or sex, from the cells the run aggregated, with each stratum's IRR and IRD; same scope
+   * and suppression as the results (a stratum's count is withheld when small, or when it would
+   * give a small one back by subtraction from the group's count).
+   */
+  router.get('/:id/strata', authorize('aggregates:read'), async (req, res) => {
+    res.json(await runStrata(ds, runId.parse(req.params.id), runStrataQuerySchema.parse(req.query), reader(req)));
   });
   return router;
 }

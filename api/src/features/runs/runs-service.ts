@@ -5,6 +5,8 @@ import type { RunDetail, RunDiff, RunRequested, RunResult, RunResultsQuery, RunS
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
+import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
+import { cellKey, siteMarginWithheld } from './site-margins';
 
 type Row = Record<string, any>;
 
@@ -54,7 +56,7 @@ export async function getRun(ds: DataSource, id: string | 'current'): Promise<Ru
   return detailOf(rows[0]);
 }
 
-const n = (v: unknown) => toJsonValue(v) as number | 'Infinity' | '-Infinity' | null;
+export const n = (v: unknown) => toJsonValue(v) as number | 'Infinity' | '-Infinity' | null;
 const limits = (r: Row, p: string) => ({ estimate: n(r[p]), lower: n(r[`${p}_lower`]), upper: n(r[`${p}_upper`]) });
 
 /** Who reads results and how: their scope and whether small counts are shown. */
@@ -63,17 +65,32 @@ export interface ResultReader {
   smallCellThreshold: number;
 }
 
-const isSmall = (cases: number | null, threshold: number) => cases !== null && cases > 0 && cases < threshold;
-
 /** Case-level insight is the physician's alone; for every other reader small counts are withheld. */
-const showsSmallCells = (p: Principal) => p.kind === 'user' && p.role === 'physician';
+export const showsSmallCells = (p: Principal) => p.kind === 'user' && p.role === 'physician';
 
 const nullLimits = () => ({ estimate: null, lower: null, upper: null });
 
-function resultOf(r: Row, reader: ResultReader): RunResult {
-  const open = showsSmallCells(reader.principal);
-  const suppressed = !open && isSmall(r.cases, reader.smallCellThreshold);
-  const comparisonSuppressed = !open && !suppressed && isSmall(r.ref_cases, reader.smallCellThreshold);
+/**
+ * Why a reader may not see a cell's count: small in itself, or withheld as the complement of a
+ * small one (`margins`, see site-margins.ts); null when it is shown. `margins` is null for a
+ * reader who sees every count.
+ */
+function withheldOf(cases: number | null, key: string, margins: Map<string, Withheld> | null, threshold: number): Withheld | null {
+  if (margins === null || cases === null) return null;
+  if (isSmallCount(cases, threshold)) return 'small';
+  return margins.get(key) ?? null;
+}
+
+async function marginsFor(ds: DataSource, runId: string, q: Parameters<typeof siteMarginWithheld>[2], reader: ResultReader): Promise<Map<string, Withheld> | null> {
+  return showsSmallCells(reader.principal) ? null : siteMarginWithheld(ds, runId, q, reader.smallCellThreshold);
+}
+
+function resultOf(r: Row, reader: ResultReader, margins: Map<string, Withheld> | null): RunResult {
+  const t = reader.smallCellThreshold;
+  const withheld = withheldOf(r.cases, cellKey(r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period_iso), margins, t);
+  const suppressed = withheld !== null;
+  const refWithheld = r.reference_group_id === null || r.is_reference ? null : withheldOf(r.ref_cases, cellKey(r.site_id, r.outcome_id, r.reference_group_id, r.window_kind, r.period_iso), margins, t);
+  const comparisonSuppressed = !suppressed && refWithheld !== null;
   const hide = suppressed || comparisonSuppressed;
   const mh = (p: string) => (hide ? { irr: { ...nullLimits(), p: null }, ird: nullLimits() } : { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) });
   return {
@@ -87,6 +104,7 @@ function resultOf(r: Row, reader: ResultReader): RunResult {
     referenceGroupId: r.reference_group_id,
     cases: suppressed ? null : r.cases,
     suppressed,
+    withheld,
     comparisonSuppressed,
     hours: r.hours,
     personTime: r.person_time,
@@ -109,7 +127,7 @@ function resultOf(r: Row, reader: ResultReader): RunResult {
  * only a reader of every site may see, since company figures include every site's workers.
  * Returns the site id, or null for the company-wide rows.
  */
-async function resultScope(ds: DataSource, principal: Principal, siteId: number | undefined): Promise<number | null> {
+export async function resultScope(ds: DataSource, principal: Principal, siteId: number | undefined): Promise<number | null> {
   if (siteId !== undefined) {
     assertSites(principal, [siteId]);
     return siteId;
@@ -141,7 +159,8 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
      ORDER BY r.outcome_id, r.exposure_group_id, r.window_kind, r.period`,
     [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
   );
-  return rows.map((r) => resultOf(r, reader));
+  const margins = await marginsFor(ds, runId, q, reader);
+  return rows.map((r) => resultOf(r, reader, margins));
 }
 
 /**
@@ -166,15 +185,15 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
      ORDER BY 1, 2, 3, 4`,
     [fromId, toId, siteId],
   );
-  const open = showsSmallCells(reader.principal);
+  const margins = { a: await marginsFor(ds, fromId, {}, reader), b: await marginsFor(ds, toId, {}, reader) };
   const side = (r: Row, p: 'a' | 'b') => {
     const cases = r[`${p}_cases`] as number | null;
     if (cases === null) return null;
-    const suppressed = !open && isSmall(cases, reader.smallCellThreshold);
+    const withheld = withheldOf(cases, cellKey(siteId, r.outcome_id, r.exposure_group_id, r.window_kind, r.period), margins[p], reader.smallCellThreshold);
     // The IRR is withheld with the count: with the reference row it would give the count back.
-    return suppressed
-      ? { cases: null, suppressed, hours: r[`${p}_hours`], rate: null, irr: null }
-      : { cases, suppressed, hours: r[`${p}_hours`], rate: n(r[`${p}_rate`]), irr: n(r[`${p}_irr`]) };
+    return withheld
+      ? { cases: null, suppressed: true, withheld, hours: r[`${p}_hours`], rate: null, irr: null }
+      : { cases, suppressed: false, withheld, hours: r[`${p}_hours`], rate: n(r[`${p}_rate`]), irr: n(r[`${p}_irr`]) };
   };
   const changed = rows.filter((r) => r.changed);
   return {

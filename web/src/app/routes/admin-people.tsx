@@ -1,6 +1,6 @@
 import { usersQueryOptions } from '../../features/admin/api/get-users';
 import { PeoplePage } from '../../features/admin/people-page';
-import { sitesQueryOptions } from '../../features/groups/api/get-sites';
+import { sitesQueryOptions } from '../../api/get-sites';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';
 

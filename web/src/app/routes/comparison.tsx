@@ -1,8 +1,8 @@
-import { flagsQueryOptions } from '../../features/flags/api/get-flags';
-import { groupsQueryOptions } from '../../features/groups/api/get-groups';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
-import { sitesQueryOptions } from '../../features/groups/api/get-sites';
-import { currentRunQueryOptions } from '../../features/runs/api/get-run';
+import { flagsQueryOptions } from '../../api/get-flags';
+import { groupsQueryOptions } from '../../api/get-groups';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
+import { sitesQueryOptions } from '../../api/get-sites';
+import { currentRunQueryOptions } from '../../api/get-run';
 import { ComparisonPage } from '../../features/results/comparison-page';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';

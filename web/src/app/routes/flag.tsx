@@ -1,8 +1,8 @@
 import { useParams, type LoaderFunctionArgs } from 'react-router';
 import { flagQueryOptions } from '../../features/flags/api/get-flag';
 import { FlagDetailPage } from '../../features/flags/flag-detail-page';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
-import { sitesQueryOptions } from '../../features/groups/api/get-sites';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
+import { sitesQueryOptions } from '../../api/get-sites';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';
 

@@ -1,8 +1,8 @@
 import { flagStateSchema } from '@ratewarden/shared/flags';
 import type { LoaderFunctionArgs } from 'react-router';
-import { flagsQueryOptions } from '../../features/flags/api/get-flags';
+import { flagsQueryOptions } from '../../api/get-flags';
 import { FlagsPage } from '../../features/flags/flags-page';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';
 

@@ -1,4 +1,4 @@
-import { groupsQueryOptions } from '../../features/groups/api/get-groups';
+import { groupsQueryOptions } from '../../api/get-groups';
 import { GroupsPage } from '../../features/groups/groups-page';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';

@@ -3,7 +3,7 @@ import { useParams, type LoaderFunctionArgs } from 'react-router';
 import { RequirePermission } from '../../features/access/require-permission';
 import { intakeQueryOptions } from '../../features/intakes/api/get-intake';
 import { IntakeDetailPage } from '../../features/intakes/intake-detail-page';
-import { sessionQueryOptions } from '../../features/session/api/get-session';
+import { sessionQueryOptions } from '../../api/get-session';
 import { queryClient } from '../query-client';
 
 export async function loader({ params }: LoaderFunctionArgs) {

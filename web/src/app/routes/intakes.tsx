@@ -1,7 +1,7 @@
 import { RequirePermission } from '../../features/access/require-permission';
 import { intakesQueryOptions } from '../../features/intakes/api/get-intakes';
 import { IntakesPage } from '../../features/intakes/intakes-page';
-import { sessionQueryOptions } from '../../features/session/api/get-session';
+import { sessionQueryOptions } from '../../api/get-session';
 import { queryClient } from '../query-client';
 import { roleMay } from '@ratewarden/shared/permissions';
 

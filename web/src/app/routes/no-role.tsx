@@ -1,6 +1,6 @@
 import { useSuspenseQuery } from '@tanstack/react-query';
 import { NoRolePage } from '../../features/access/no-role-page';
-import { sessionQueryOptions } from '../../features/session/api/get-session';
+import { sessionQueryOptions } from '../../api/get-session';
 
 export function Component() {
   const { data } = useSuspenseQuery(sessionQueryOptions());

@@ -1,5 +1,5 @@
-import { groupsQueryOptions } from '../../features/groups/api/get-groups';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { groupsQueryOptions } from '../../api/get-groups';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
 import { OutcomesPage } from '../../features/groups/outcomes-page';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';

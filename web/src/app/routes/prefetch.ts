@@ -1,6 +1,6 @@
 import { roleMay, type Permission } from '@ratewarden/shared/permissions';
 import type { EnsureQueryDataOptions } from '@tanstack/react-query';
-import { sessionQueryOptions } from '../../features/session/api/get-session';
+import { sessionQueryOptions } from '../../api/get-session';
 import { queryClient } from '../query-client';
 
 /**

@@ -1,5 +1,5 @@
-import { groupsQueryOptions } from '../../features/groups/api/get-groups';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { groupsQueryOptions } from '../../api/get-groups';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
 import { RuleEditorPage } from '../../features/rules/rule-editor-page';
 import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';

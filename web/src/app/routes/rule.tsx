@@ -1,7 +1,7 @@
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useParams, type LoaderFunctionArgs } from 'react-router';
-import { groupsQueryOptions } from '../../features/groups/api/get-groups';
-import { outcomesQueryOptions } from '../../features/groups/api/get-outcomes';
+import { groupsQueryOptions } from '../../api/get-groups';
+import { outcomesQueryOptions } from '../../api/get-outcomes';
 import { ruleQueryOptions, useRule } from '../../features/rules/api/get-rule';
 import { RuleEditorPage } from '../../features/rules/rule-editor-page';
 

@@ -3,7 +3,7 @@ import { roleMay } from '@ratewarden/shared/permissions';
 import { Suspense } from 'react';
 import { NavLink, Outlet } from 'react-router';
 import { paths } from '../../config/paths';
-import { useSession } from '../../features/session/api/get-session';
+import { useSession } from '../../api/get-session';
 import { SignOutButton } from '../../features/session/sign-out-button';
 import { PageLoading } from '../feedback/page-loading';
 import { navItems } from './nav-items';

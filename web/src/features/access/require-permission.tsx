@@ -4,7 +4,7 @@ import type { SessionUser } from '@ratewarden/shared/session';
 import { useSuspenseQuery } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
 import { ProblemNotice } from '../../components/feedback/problem-notice';
-import { sessionQueryOptions } from '../session/api/get-session';
+import { sessionQueryOptions } from '../../api/get-session';
 import { NoRolePage } from './no-role-page';
 import { SignInNeeded } from './sign-in-needed';
 

@@ -7,7 +7,7 @@ import { problemOf } from '../../components/feedback/route-error';
 import { TextField } from '../../components/form/text-field';
 import { ResultTable } from '../../components/table/result-table';
 import { formatWhen } from '../../lib/dates';
-import { useSites } from '../groups/api/get-sites';
+import { useSites } from '../../api/get-sites';
 import { useInviteUser, useUpdateUserAccess, useUsers } from './api/get-users';
 import { AdminTabs } from './admin-tabs';
 import { UserAccessFields, type Access } from './user-access-form';

@@ -2,7 +2,7 @@ import type { FlagCase } from '@ratewarden/shared/flags';
 import { createColumnHelper } from '@tanstack/react-table';
 import { QueryState } from '../../components/feedback/query-state';
 import { DataTable } from '../../components/table/data-table';
-import { useSites } from '../groups/api/get-sites';
+import { useSites } from '../../api/get-sites';
 import { useFlagCases } from './api/get-flag-cases';
 
 const col = createColumnHelper<FlagCase & { site: string }>();

@@ -8,8 +8,8 @@ import { DataTable } from '../../components/table/data-table';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
 import { formatEstimate } from '../../lib/format';
-import { useOutcomes } from '../groups/api/get-outcomes';
-import { useFlags } from './api/get-flags';
+import { useOutcomes } from '../../api/get-outcomes';
+import { useFlags } from '../../api/get-flags';
 import { flagStateLabels, measureLabels } from './flag-labels';
 
 const col = createColumnHelper<Flag & { outcomeName: string }>();
@@ -19,7 +19,7 @@ const columns = [
   col.accessor('ruleName', { header: 'Watch rule' }),
   col.accessor('state', { header: 'State', cell: (c) => <StateTag {...flagStateLabels[c.getValue()]} />, meta: { csv: (f) => flagStateLabels[f.state].text } }),
   col.accessor('period', { header: 'Period', cell: (c) => `${c.row.original.figures.window === 'rolling12' ? '12 months to ' : ''}${formatMonth(c.getValue())}` }),
-  col.accessor('value', { header: 'Value', cell: (c) => <span title={measureLabels[c.row.original.figures.measure]}>{formatEstimate(c.getValue())}</span>, meta: { numeric: true } }),
+  col.accessor('value', { header: 'Value', cell: (c) => (c.row.original.figures.suppressed ? 'not shown (small count)' : <span title={measureLabels[c.row.original.figures.measure]}>{formatEstimate(c.getValue())}</span>), meta: { numeric: true } }),
   col.accessor((f) => f.figures.threshold, { id: 'threshold', header: 'Threshold', cell: (c) => formatEstimate(c.getValue()), meta: { numeric: true } }),
   col.accessor('raisedAt', { header: 'Raised', cell: (c) => formatWhen(c.getValue()) }),
   col.accessor('updatedAt', { header: 'Last change', cell: (c) => formatWhen(c.getValue()) }),

@@ -6,7 +6,7 @@ import { problemOf } from '../../components/feedback/route-error';
 import { StateTag } from '../../components/status/state-tag';
 import { ResultTable } from '../../components/table/result-table';
 import { formatWhen } from '../../lib/dates';
-import { useGroups } from './api/get-groups';
+import { useGroups } from '../../api/get-groups';
 import { useSetReferenceGroup } from './api/save-group';
 import { GroupForm } from './group-form';
 

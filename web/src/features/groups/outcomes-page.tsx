@@ -2,8 +2,8 @@ import { roleMay } from '@ratewarden/shared/permissions';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useState } from 'react';
 import { ResultTable } from '../../components/table/result-table';
-import { useGroups } from './api/get-groups';
-import { useOutcomes } from './api/get-outcomes';
+import { useGroups } from '../../api/get-groups';
+import { useOutcomes } from '../../api/get-outcomes';
 import { OutcomeForm } from './outcome-form';
 
 /** Health outcomes with their case definitions, counting rule, lag and reference group. */

@@ -1,7 +1,7 @@
 import { Navigate } from 'react-router';
 import { PageLoading } from '../../components/feedback/page-loading';
 import { paths } from '../../config/paths';
-import { useSession } from '../session/api/get-session';
+import { useSession } from '../../api/get-session';
 import { landingOf } from './landing';
 
 /** The front door: signed-in people go straight to their role's page, others are asked to sign in. */

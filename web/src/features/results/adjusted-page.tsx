@@ -10,6 +10,7 @@ import { exportCount, showCount } from '../../lib/small-cells';
 import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult } from './shown-result';
+import { StratumTable } from './stratum-table';
 import { levelRows, trendOf } from './trend-levels';
 
 interface ChiSquare {
@@ -94,6 +95,7 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
       <p className="mt-2 text-xs text-ink-soft">
         Methods: {METHODS.mhIrr}; {METHODS.mhRateTest}; {METHODS.mhIrd}; homogeneity: {METHODS.rateHomogeneity}. A small homogeneity p says the ratio differs between strata, and one pooled figure hides that.
       </p>
+      <StratumTable ctx={ctx} comparedIds={compared.map((r) => r.exposureGroupId)} label={st.label} />
 
       <h2 className="mt-8 text-xl font-semibold">Trend across exposure levels</h2>
       {trend ? (

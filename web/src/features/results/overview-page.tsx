@@ -7,7 +7,7 @@ import { DataTable } from '../../components/table/data-table';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
 import { formatAmount, formatCount, formatEstimate } from '../../lib/format';
-import { flagsQueryOptions } from '../flags/api/get-flags';
+import { flagsQueryOptions } from '../../api/get-flags';
 import type { ResultsContext } from './results-frame';
 import { ResultsFrame } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';

@@ -10,14 +10,16 @@ import { Cautions } from '../../components/cautions/cautions';
 import { QueryState } from '../../components/feedback/query-state';
 import { SelectField } from '../../components/form/select-field';
 import { UnitsStrip } from '../../components/units/units-strip';
+import { env } from '../../config/env';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
-import { flagsQueryOptions } from '../flags/api/get-flags';
-import { useGroups } from '../groups/api/get-groups';
-import { useOutcomes } from '../groups/api/get-outcomes';
-import { useSites } from '../groups/api/get-sites';
-import { useRunResults } from '../runs/api/get-run-results';
-import { useCurrentRun } from '../runs/api/get-run';
+import { COMPLEMENT_TEXT } from '../../lib/small-cells';
+import { flagsQueryOptions } from '../../api/get-flags';
+import { useGroups } from '../../api/get-groups';
+import { useOutcomes } from '../../api/get-outcomes';
+import { useSites } from '../../api/get-sites';
+import { useRunResults } from './api/get-run-results';
+import { useCurrentRun } from '../../api/get-run';
 import { periodsOf, useResultsFilters, type ResultsFilters } from './results-filters';
 import { unitsOf } from './results-units';
 
@@ -132,10 +134,28 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
       <QueryState query={results} label="results">
         {(data) => {
           const period = filters.period && periodsOf(data, filters.window).includes(filters.period) ? filters.period : (periodsOf(data, filters.window)[0] ?? null);
-          return children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters });
+          return (
+            <>
+              {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
+              <SuppressionNote results={data} />
+            </>
+          );
         }}
       </QueryState>
       <Cautions />
     </section>
+  );
+}
+
+/** Says why counts are missing, when some are: small ones, and the complements that protect them. */
+function SuppressionNote({ results }: { results: RunResult[] }) {
+  const small = results.some((r) => r.withheld === 'small');
+  const complement = results.some((r) => r.withheld === 'complement');
+  if (!small && !complement) return null;
+  return (
+    <p className="mt-3 text-xs text-ink-soft">
+      {small && `Counts from 1 to ${env.VITE_SMALL_CELL_THRESHOLD - 1} are shown as “<${env.VITE_SMALL_CELL_THRESHOLD}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
+      {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction.`}
+    </p>
   );
 }

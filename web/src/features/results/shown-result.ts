@@ -26,7 +26,7 @@ export interface ShownResult {
 }
 
 export function shownResult(r: RunResult, role: Role | null | undefined): ShownResult {
-  const cases = showCount(r.cases, role, undefined, r.suppressed);
+  const cases = showCount(r.cases, role, undefined, r.withheld ?? r.suppressed);
   const h = cases.suppressed;
   const v = (x: number | string | null) => (h ? null : toNumber(x));
   return {

@@ -31,7 +31,7 @@ function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits:
       const s = shownResult(r, ctx.user.role);
       const per = ctx.run.settings.per;
       const x = (v: number | null) => (v === null ? null : v * per);
-      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : [])];
+      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role, undefined, r.withheld ?? r.suppressed), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : [])];
     }),
   };
 }

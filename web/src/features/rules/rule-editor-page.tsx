@@ -8,8 +8,8 @@ import { problemOf } from '../../components/feedback/route-error';
 import { SelectField } from '../../components/form/select-field';
 import { TextField } from '../../components/form/text-field';
 import { paths } from '../../config/paths';
-import { useGroups } from '../groups/api/get-groups';
-import { useOutcomes } from '../groups/api/get-outcomes';
+import { useGroups } from '../../api/get-groups';
+import { useOutcomes } from '../../api/get-outcomes';
 import { useDeleteRule, useSaveRule } from './api/save-rule';
 import { describeRule } from './describe-rule';
 

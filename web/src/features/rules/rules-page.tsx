@@ -8,8 +8,8 @@ import { DataTable } from '../../components/table/data-table';
 import { paths } from '../../config/paths';
 import { formatWhen } from '../../lib/dates';
 import { formatEstimate } from '../../lib/format';
-import { useGroups } from '../groups/api/get-groups';
-import { useOutcomes } from '../groups/api/get-outcomes';
+import { useGroups } from '../../api/get-groups';
+import { useOutcomes } from '../../api/get-outcomes';
 import { useRules } from './api/get-rules';
 import { describeRule } from './describe-rule';
 

@@ -8,16 +8,16 @@ import { formatMonth } from '../../lib/dates';
 import { formatCount, formatEstimate } from '../../lib/format';
 import { toNumber } from '../../lib/json-number';
 import { showCount } from '../../lib/small-cells';
-import { useGroups } from '../groups/api/get-groups';
-import { useOutcomes } from '../groups/api/get-outcomes';
+import { useGroups } from '../../api/get-groups';
+import { useOutcomes } from '../../api/get-outcomes';
 import { useRunDiff } from './api/get-run-diff';
 
 /** One side of a changed cell; a suppressed count hides the rate and ratio computed from it too. */
 function side(s: RunDiff['rows'][number]['before'], role: Role | null): string {
   if (!s) return '—';
   const c = showCount(s.cases, role);
-  // The server withheld the count (small-cell suppression): only the hours are known.
-  if (s.suppressed || s.cases === null) return `suppressed cases, ${formatEstimate(Number(s.hours))} h`;
+  // The server withheld the count (small-cell suppression, or the complement of a small count elsewhere): only the hours are known.
+  if (s.suppressed || s.cases === null) return `${s.withheld === 'complement' ? 'withheld' : 'suppressed'} cases, ${formatEstimate(Number(s.hours))} h`;
   if (c.suppressed) return `${c.text} cases, ${formatEstimate(Number(s.hours))} h`;
   return `${formatCount(s.cases)} cases, ${formatEstimate(Number(s.hours))} h, rate ${formatEstimate(toNumber(s.rate))}, IRR ${formatEstimate(toNumber(s.irr))}`;
 }

@@ -10,7 +10,7 @@ import { StateTag, type Tone } from '../../components/status/state-tag';
 import { DataTable } from '../../components/table/data-table';
 import { formatDuration, formatWhen } from '../../lib/dates';
 import { formatCount } from '../../lib/format';
-import { runQueryOptions } from './api/get-run';
+import { runQueryOptions } from '../../api/get-run';
 import { runsQueryOptions, useRuns } from './api/get-runs';
 import { useRequestRun } from './api/request-run';
 import { RunDiffPanel } from './run-diff-panel';

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { paths } from '../../config/paths';
-import { useSession } from './api/get-session';
+import { useSession } from '../../api/get-session';
 
 /**
  * Sign-out is a form POST carrying the CSRF token, so the browser follows the server's redirect to

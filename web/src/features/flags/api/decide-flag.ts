@@ -1,7 +1,7 @@
 import { flagDetailSchema, type FlagCloseInput } from '@ratewarden/shared/flags';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { flagKeys } from './flag-keys';
+import { flagKeys } from '../../../api/flag-keys';
 
 export type FlagDecision = { kind: 'review'; comment?: string } | ({ kind: 'close' } & FlagCloseInput);
 

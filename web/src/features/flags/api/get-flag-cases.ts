@@ -2,7 +2,7 @@ import { flagCaseSchema, type FlagCase } from '@ratewarden/shared/flags';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { flagKeys } from './flag-keys';
+import { flagKeys } from '../../../api/flag-keys';
 
 /** Case-level records behind a flag: the server answers only the physician (and audits the read). */
 export function getFlagCases(id: string, signal?: AbortSignal): Promise<FlagCase[]> {

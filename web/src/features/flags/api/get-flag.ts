@@ -1,7 +1,7 @@
 import { flagDetailSchema, type FlagDetail } from '@ratewarden/shared/flags';
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { flagKeys } from './flag-keys';
+import { flagKeys } from '../../../api/flag-keys';
 
 export function getFlag(id: string, signal?: AbortSignal): Promise<FlagDetail> {
   return api.get(`/api/flags/${encodeURIComponent(id)}`, flagDetailSchema, signal);

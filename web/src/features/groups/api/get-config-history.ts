@@ -2,7 +2,7 @@ import { configChangeSchema, type ConfigChange } from '@ratewarden/shared/groups
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { configKeys } from './config-keys';
+import { configKeys } from '../../../api/config-keys';
 
 export function getConfigHistory(kind: 'group' | 'outcome', id: number, signal?: AbortSignal): Promise<ConfigChange[]> {
   return api.get(`/api/${kind === 'group' ? 'groups' : 'outcomes'}/${id}/history`, z.array(configChangeSchema), signal);

@@ -2,7 +2,7 @@ import { exposureGroupSchema, type ExposureGroupCreate, type ExposureGroupUpdate
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { configKeys } from './config-keys';
+import { configKeys } from '../../../api/config-keys';
 
 export type GroupSave = { id: null; body: ExposureGroupCreate } | { id: number; body: ExposureGroupUpdate };
 

@@ -1,7 +1,7 @@
 import { outcomeSchema, type OutcomeCreate, type OutcomeUpdate } from '@ratewarden/shared/groups';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { configKeys } from './config-keys';
+import { configKeys } from '../../../api/config-keys';
 
 export type OutcomeSave = { id: null; body: OutcomeCreate } | { id: number; body: OutcomeUpdate };
 

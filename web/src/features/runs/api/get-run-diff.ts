@@ -1,7 +1,7 @@
 import { runDiffSchema, type RunDiff } from '@ratewarden/shared/runs';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { runKeys } from './run-keys';
+import { runKeys } from '../../../api/run-keys';
 
 export function getRunDiff(from: string, to: string, signal?: AbortSignal): Promise<RunDiff> {
   return api.get(`/api/runs/diff?${new URLSearchParams({ from, to })}`, runDiffSchema, signal);

@@ -2,7 +2,7 @@ import { runSummarySchema, type RunSummary } from '@ratewarden/shared/runs';
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { runKeys } from './run-keys';
+import { runKeys } from '../../../api/run-keys';
 
 export function getRuns(signal?: AbortSignal): Promise<RunSummary[]> {
   return api.get('/api/runs', z.array(runSummarySchema), signal);

@@ -1,7 +1,7 @@
 import { runRequestedSchema } from '@ratewarden/shared/runs';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { runKeys } from './run-keys';
+import { runKeys } from '../../../api/run-keys';
 
 export function requestRun() {
   return api.post('/api/runs', runRequestedSchema);

@@ -1,7 +1,7 @@
 import { outcomeSchema, type OutcomeDto } from '@ratewarden/shared/groups';
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api } from '../../../lib/api-client';
+import { api } from '../lib/api-client';
 import { configKeys } from './config-keys';
 
 export function getOutcomes(signal?: AbortSignal): Promise<OutcomeDto[]> {

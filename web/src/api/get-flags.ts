@@ -1,7 +1,7 @@
 import { flagSchema, type Flag } from '@ratewarden/shared/flags';
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api } from '../../../lib/api-client';
+import { api } from '../lib/api-client';
 import { flagKeys, type FlagFilters } from './flag-keys';
 
 export function getFlags(f: FlagFilters, signal?: AbortSignal): Promise<Flag[]> {

@@ -2,7 +2,7 @@ import { runResultSchema, type RunResult, type RunResultsQuery } from '@rateward
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { runKeys } from './run-keys';
+import { runKeys } from '../../../api/run-keys';
 
 export function getRunResults(runId: string, q: RunResultsQuery, signal?: AbortSignal): Promise<RunResult[]> {
   const params = new URLSearchParams();

@@ -1,7 +1,7 @@
 import { sessionSchema, type Session } from '@ratewarden/shared/session';
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { apiPaths } from '../../../config/paths';
-import { api, setCsrfToken } from '../../../lib/api-client';
+import { apiPaths } from '../config/paths';
+import { api, setCsrfToken } from '../lib/api-client';
 
 export const sessionKeys = {
   all: ['session'] as const,

@@ -1,7 +1,7 @@
 import { siteSchema, type SiteDto } from '@ratewarden/shared/groups';
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api } from '../../../lib/api-client';
+import { api } from '../lib/api-client';
 import { configKeys } from './config-keys';
 
 export function getSites(signal?: AbortSignal): Promise<SiteDto[]> {

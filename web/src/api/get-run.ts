@@ -1,7 +1,7 @@
 import { runDetailSchema, type RunDetail } from '@ratewarden/shared/runs';
 import { queryOptions, useQuery, useSuspenseQuery } from '@tanstack/react-query';
-import { api } from '../../../lib/api-client';
-import { isApiError } from '../../../lib/api-error';
+import { api } from '../lib/api-client';
+import { isApiError } from '../lib/api-error';
 import { runKeys } from './run-keys';
 
 export function getRun(id: string, signal?: AbortSignal): Promise<RunDetail> {

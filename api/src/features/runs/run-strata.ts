@@ -1,0 +1,132 @@
+import type { DataSource } from 'typeorm';
+import type { RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
+import { marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
+import { compareRates, hoursToOshaUnits, hoursToPersonYears, METHODS } from '@ratewarden/shared/stats';
+import { AppError } from '../../lib/app-error';
+import { getRun, n, resultScope, showsSmallCells, type ResultReader } from './runs-service';
+import { cellKey, siteMarginWithheld } from './site-margins';
+
+const KEY_SQL = { age: 'age_band::text', site: 'site_id::text', sex: 'sex' } as const;
+
+const sexLabels: Record<string, string> = { F: 'female', M: 'male', X: 'another sex' };
+
+/** First month of a window ending in `period` (ISO, first of the month). */
+function windowStart(period: string, window: RunStrataQuery['window']): string {
+  if (window === 'month') return period;
+  const [y, m] = period.split('-').map(Number) as [number, number];
+  const start = new Date(Date.UTC(y, m - 1 - 11, 1));
+  return start.toISOString().slice(0, 10);
+}
+
+interface Arm {
+  cases: number;
+  hours: string;
+}
+
+/**
+ * The stratum table behind an adjusted figure: one exposure group and its reference group, in
+ * each age band, site or sex, read from the cells the run aggregated (run_cells) over the same
+ * window and scope as its results, with each stratum's own IRR (exact conditional) and IRD (Wald)
+ * from the shared core. For every reader but the physician the strata of each arm go through
+ * the same suppression as the results: small counts, then their complements (the strata add up
+ * to the group's count shown in the results); a whole arm is withheld when its group's count is.
+ */
+export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery, reader: ResultReader): Promise<RunStrata> {
+  const run = await getRun(ds, runId);
+  const siteId = await resultScope(ds, reader.principal, q.siteId);
+  if (q.by === 'site' && siteId !== null) throw new AppError('bad_request', 'one site is a single site stratum: stratify by age band or sex, or read the whole company');
+  const [row]: Array<{ cases: number; reference_group_id: number | null; is_reference: boolean }> = await ds.query(
+    `SELECT cases, reference_group_id, is_reference FROM run_results
+     WHERE run_id = $1 AND site_id IS NOT DISTINCT FROM $2::int AND outcome_id = $3 AND exposure_group_id = $4 AND window_kind = $5 AND period = $6`,
+    [runId, siteId, q.outcomeId, q.exposureGroupId, q.window, q.period],
+  );
+  if (!row) throw new AppError('not_found', 'this run has no result for that outcome, group, window and period in your scope');
+  const referenceId = row.is_reference ? null : row.reference_group_id;
+  const groupIds = referenceId === null ? [q.exposureGroupId] : [q.exposureGroupId, referenceId];
+  const cells: Array<{ group_id: number; k: string | null; hours: string; cases: number }> = await ds.query(
+    `SELECT exposure_group_id AS group_id, ${KEY_SQL[q.by]} AS k, sum(hours)::text AS hours, sum(cases)::int AS cases
+     FROM run_cells
+     WHERE run_id = $1 AND outcome_id = $2 AND exposure_group_id = ANY($3::int[]) AND month BETWEEN $4 AND $5 AND ($6::int IS NULL OR site_id = $6)
+     GROUP BY 1, 2`,
+    [runId, q.outcomeId, groupIds, windowStart(q.period, q.window), q.period, siteId],
+  );
+  const arms = new Map<string, Map<number, Arm>>();
+  for (const c of cells) {
+    const k = c.k ?? '';
+    const m = arms.get(k) ?? new Map<number, Arm>();
+    m.set(c.group_id, { cases: c.cases, hours: c.hours });
+    arms.set(k, m);
+  }
+  const siteNames = q.by === 'site' ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name])) : null;
+  const label = (k: string) => (k === '' ? 'not recorded' : q.by === 'age' ? `${k}–${Number(k) + 9}` : q.by === 'site' ? (siteNames!.get(k) ?? `site ${k}`) : (sexLabels[k] ?? k));
+  const keys = [...arms.keys()].sort((a, b) => {
+    if (a === '' || b === '') return a === '' ? 1 : -1; // unknown last
+    return q.by === 'age' ? Number(a) - Number(b) : label(a).localeCompare(label(b));
+  });
+
+  const withheld = await armWithholding(ds, runId, q, siteId, reader, keys, arms, groupIds);
+  const { personTimeBasis, confidence, per } = run.settings as { personTimeBasis: string; confidence: number; per: number };
+  const personTime = (hours: string) => (personTimeBasis === 'person_years' ? hoursToPersonYears(Number(hours)) : hoursToOshaUnits(Number(hours)));
+
+  const strata: RunStratum[] = keys.map((k) => {
+    const arm = (g: number) => arms.get(k)!.get(g) ?? { cases: 0, hours: '0.00' };
+    const shown = (g: number) => {
+      const a = arm(g);
+      const w = withheld.get(g)?.get(k) ?? null;
+      const pt = personTime(a.hours);
+      return { cases: w ? null : a.cases, withheld: w, hours: a.hours, personTime: pt, rate: w || pt === 0 ? null : n((a.cases / pt) * per) };
+    };
+    const exposed = shown(q.exposureGroupId);
+    const reference = referenceId === null ? null : shown(referenceId);
+    const comparable = reference !== null && exposed.withheld === null && reference.withheld === null;
+    const c = comparable
+      ? compareRates({ cases: arm(q.exposureGroupId).cases, personTime: exposed.personTime }, { cases: arm(referenceId!).cases, personTime: reference.personTime }, { confidence, per })
+      : null;
+    return {
+      key: k === '' ? null : k,
+      label: label(k),
+      exposed,
+      reference,
+      irr: c ? { estimate: n(c.irr.estimate), lower: n(c.irr.exact.lower), upper: n(c.irr.exact.upper) } : null,
+      ird: c ? { estimate: n(c.ird.estimate), lower: n(c.ird.wald.lower), upper: n(c.ird.wald.upper) } : null,
+    };
+  });
+  return { by: q.by, siteId, exposureGroupId: q.exposureGroupId, referenceGroupId: referenceId, strata, methods: { irr: METHODS.irrExact, ird: METHODS.irdWald } };
+}
+
+/**
+ * For each arm, which strata counts a reader may not see (group id → stratum key → why). The
+ * strata of an arm add up to its group's count in the results; when that count is itself withheld,
+ * so is every non-zero stratum; otherwise the strata are a margin of their own (marginSuppression),
+ * and where even the total would have to go (it is already shown in the results), the small strata
+ * are labelled only as withheld, so that they cannot be pinned to the threshold's edge.
+ */
+async function armWithholding(
+  ds: DataSource,
+  runId: string,
+  q: RunStrataQuery,
+  siteId: number | null,
+  reader: ResultReader,
+  keys: string[],
+  arms: Map<string, Map<number, Arm>>,
+  groupIds: number[],
+): Promise<Map<number, Map<string, Withheld>>> {
+  const out = new Map<number, Map<string, Withheld>>();
+  if (showsSmallCells(reader.principal)) return out;
+  const threshold = reader.smallCellThreshold;
+  const margins = await siteMarginWithheld(ds, runId, { outcomeId: q.outcomeId, window: q.window, from: q.period, to: q.period }, threshold);
+  for (const g of groupIds) {
+    const counts = keys.map((k) => arms.get(k)!.get(g)?.cases ?? 0);
+    const total = counts.reduce((a, b) => a + b, 0);
+    const rowWithheld = (total > 0 && total < threshold) || margins.has(cellKey(siteId, q.outcomeId, g, q.window, q.period));
+    const m = new Map<string, Withheld>();
+    if (rowWithheld) {
+      counts.forEach((c, i) => c > 0 && m.set(keys[i]!, c < threshold ? 'small' : 'complement'));
+    } else {
+      const r = marginSuppression(counts, threshold);
+      r.parts.forEach((p, i) => p && m.set(keys[i]!, r.total ? 'complement' : p));
+    }
+    out.set(g, m);
+  }
+  return out;
+}

@@ -1,0 +1,71 @@
+/**
+ * Small-cell suppression, shared by the API (which withholds) and the web (which explains).
+ *
+ * A count from 1 to threshold − 1 could point at an identifiable person and is withheld for every
+ * role but the physician ("primary" suppression); zero points at nobody and is shown (common
+ * practice in occupational and public-health reporting). Where parts and their total are both
+ * published (each site and the whole company; the strata of one group), a withheld part could be
+ * recovered by subtraction, so further parts are withheld to protect it ("complementary" or
+ * secondary suppression, the usual remedy of statistical disclosure control: Hundepool et al.,
+ * Statistical Disclosure Control, Wiley 2012, ch. 4, from memory).
+ */
+
+/** The threshold when none is configured: counts 1 to 4 are withheld (common practice). */
+export const DEFAULT_SMALL_CELL_THRESHOLD = 5;
+
+/** Why a count is not shown: 'small' (below the threshold), 'complement' (it would give a small one back). */
+export type Withheld = 'small' | 'complement';
+
+export function isSmallCount(count: number, threshold: number): boolean {
+  return count > 0 && count < threshold;
+}
+
+export interface MarginSuppression {
+  /** For each part: why it is withheld, or null when it is shown. */
+  parts: Array<Withheld | null>;
+  /** The total must be withheld too (no part was left to withhold instead). */
+  total: boolean;
+}
+
+/**
+ * Whether a reader who knows the published total, the shown parts, that each small part lies in
+ * [1, threshold − 1] and each complementary one in [threshold, ∞) can pin a small part to one
+ * value: its largest feasible value is the withheld sum minus the other parts' lower bounds, and
+ * it is pinned when that leaves only 1 (or, with no complementary part, when every small part must
+ * take the same extreme value).
+ */
+function smallPartPinned(small: number[], complement: number[], threshold: number): boolean {
+  const k = small.length;
+  if (k === 0) return false;
+  const sum = small.reduce((a, b) => a + b, 0) + complement.reduce((a, b) => a + b, 0);
+  const upper = Math.min(threshold - 1, sum - (k - 1) - complement.length * threshold);
+  const lower = complement.length > 0 ? 1 : Math.max(1, sum - (k - 1) * (threshold - 1));
+  return upper <= lower;
+}
+
+/**
+ * Suppression of the parts of one published total: the small parts, then, while a small part
+ * could be pinned by subtraction, the smallest shown part (ties: the first) as its complement;
+ * when no shown part is left, the total is withheld instead.
+ *
+ * @example
+ * marginSuppression([3, 7, 12], 5) // { parts: ['small', 'complement', null], total: false }
+ */
+export function marginSuppression(parts: number[], threshold: number): MarginSuppression {
+  const out: Array<Withheld | null> = parts.map((c) => (isSmallCount(c, threshold) ? 'small' : null));
+  const small = parts.filter((c) => isSmallCount(c, threshold));
+  const total = parts.reduce((a, b) => a + b, 0);
+  // A small total is withheld in its own right, and then nothing can be subtracted from it.
+  if (small.length === 0 || isSmallCount(total, threshold)) return { parts: out, total: false };
+  const complement: number[] = [];
+  while (smallPartPinned(small, complement, threshold)) {
+    let pick = -1;
+    parts.forEach((c, i) => {
+      if (out[i] === null && c > 0 && (pick < 0 || c < parts[pick]!)) pick = i;
+    });
+    if (pick < 0) return { parts: out, total: true };
+    out[pick] = 'complement';
+    complement.push(parts[pick]!);
+  }
+  return { parts: out, total: false };
+}

@@ -1,0 +1,69 @@
+import { describe, expect, it } from 'vitest';
+import { provisionUser } from '../support/sign-in';
+import { useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+
+/**
+ * The adjusted view's stratum table in Chromium, on the flag fixture (flag-fixture.ts): in
+ * February 2032 group EXP has 3 cases among its men and 3 among its women (workers 0–5 alternate
+ * M, F), group REF one case, a man's. Counts worked out from the fixture by hand.
+ */
+describe('the adjusted view shows the strata behind an adjusted figure', () => {
+  let fx: FlagFixture;
+  const h = useBrowserApp(async (ds) => {
+    fx = await makeFlagFixture(ds);
+    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
+    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
+  });
+
+  const open = async (email: string) => {
+    await h.browser.context.clearCookies(); // one browser profile for both people: start signed out
+    const page = await h.browser.context.newPage();
+    await signInThroughPage(page, h.app.baseUrl, email);
+    const c = fx.cohort;
+    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=month&period=2032-02-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
+    const table = page.getByRole('table', { name: /^Group EXP against Group REF, by sex/ });
+    await table.waitFor();
+    return { page, table };
+  };
+  /** The cells of the stratum's row, header first. */
+  const rowCells = async (table: Awaited<ReturnType<typeof open>>['table'], name: string) => {
+    const row = table.getByRole('row').filter({ has: table.page().getByRole('rowheader', { name, exact: true }) });
+    return [name, ...(await row.getByRole('cell').allTextContents()).map((t) => t.trim())];
+  };
+
+  it('gives the physician every stratum with its counts and rate ratio', async () => {
+    const { page, table } = await open('physician@demo.ratewarden.test');
+    // Columns: stratum, EXP cases, person-time, rate, REF cases, person-time, rate, IRR, IRD.
+    const male = await rowCells(table, 'male');
+    const female = await rowCells(table, 'female');
+    // Men: EXP 3 cases, REF 1, on equal person-time (5 men each at 160 h): IRR 3. Women: EXP 3, REF 0.
+    expect([male[1], male[4]]).toEqual(['3', '1']);
+    expect(male[7]).toMatch(/^3\.000 \(/);
+    expect([female[1], female[4]]).toEqual(['3', '0']);
+    await page.getByRole('combobox', { name: 'Group', exact: true }).selectOption({ label: 'Group MID' });
+    await page.getByRole('table', { name: /^Group MID against Group REF, by sex/ }).waitFor();
+    await page.close();
+  });
+
+  it('withholds the small counts from the hygienist, in the table and its export', async () => {
+    const { page, table } = await open('hygienist@demo.ratewarden.test');
+    const male = await rowCells(table, 'male');
+    const female = await rowCells(table, 'female');
+    expect([male[1], male[3], male[4], male[7]]).toEqual(['<5', 'not shown', '<5', 'not shown']); // counts, rate and IRR withheld
+    expect([female[1], female[4]]).toEqual(['<5', '0']); // a zero points at nobody
+    // The export is built in the page: keep the file's content as it is handed to the browser.
+    await page.evaluate(() => {
+      const keep = URL.createObjectURL.bind(URL);
+      const w = window as unknown as { exported: Blob[] };
+      w.exported = [];
+      URL.createObjectURL = (b: Blob | MediaSource) => (b instanceof Blob && w.exported.push(b), keep(b));
+    });
+    await page.getByRole('button', { name: /^Export CSV\W+Group EXP against Group REF/ }).click();
+    const csv = await page.evaluate(() => (window as unknown as { exported: Blob[] }).exported.at(-1)!.text());
+    expect(csv).toContain('<5');
+    expect(csv).not.toMatch(/^male,3,/m);
+    await page.close();
+  });
+});
