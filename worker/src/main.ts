@@ -4,7 +4,7 @@ import { readWorkerConfig } from './config';
 import { startLoop } from './loop';
 import { createTransport, sendDueNotices, type SenderSettings } from './notices/notice-sender';
 import { describeOutcome } from './runs/describe-outcome';
-import { performRun } from './runs/perform-run';
+import { nightlyRun } from './runs/nightly-run';
 import { runIfRequested } from './runs/request-poller';
 import { runSettingsOf } from './runs/run-settings';
 import { startSchedule } from './schedule';
@@ -17,9 +17,7 @@ console.log('connected to the database');
 const settings = runSettingsOf(config);
 
 const task = startSchedule(config, async () => {
-  const tick = new Date();
-  tick.setSeconds(0, 0); // every worker sees the same minute, so only the first one runs
-  console.log(describeOutcome(await performRun(dataSource, { trigger: 'schedule', reason: 'nightly schedule', settings, appUrl: config.APP_BASE_URL, notBefore: tick, consumeRequests: true, keepComputeThreads: true, smallCellThreshold: config.SMALL_CELL_THRESHOLD })));
+  console.log(describeOutcome(await nightlyRun(dataSource, config, settings)));
 });
 console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}`);
 

@@ -16,14 +16,14 @@ import { FlagEntity } from './flag';
 import { FlagEventEntity } from './flag-event';
 import { NoticeEntity } from './notice';
 import { RunEntity } from './run';
-import { RunCellEntity } from './run-cell';
+import { RunCellsEntity } from './run-cells';
 import { RunResultEntity } from './run-result';
 import { RunTrendEntity } from './run-trend';
 import { WatchRuleEntity } from './watch-rule';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -40,7 +40,7 @@ export type { UserSite } from './user-site';
 export { AuditEventEntity, CaseEventEntity, IntakeEntity, IntegrationClientEntity, RosterEntryEntity, RosterSliceEntity, WorkerEntity, ExposureGroupEntity, OutcomeEntity, SiteEntity, UserEntity, UserSiteEntity };
 export type { Run } from './run';
 export type { CurrentRun } from './current-run';
-export type { RunCell } from './run-cell';
+export type { RunCells } from './run-cells';
 export type { RunResultRow } from './run-result';
 export type { RunTrend } from './run-trend';
 export type { WatchRuleRow } from './watch-rule';
@@ -48,4 +48,4 @@ export type { FlagRow } from './flag';
 export type { FlagEventRow } from './flag-event';
 export type { NoticeRow } from './notice';
 export type { DevMailboxMessage } from './dev-mailbox-message';
-export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity };
+export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity };

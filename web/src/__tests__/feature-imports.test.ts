@@ -66,4 +66,18 @@ describe('feature boundaries', () => {
     );
     expect(violations).toEqual([]);
   });
+
+  it('the shared folders never import from a feature', () => {
+    const srcDir = fileURLToPath(new URL('../', import.meta.url));
+    const shared = ['api', 'components', 'config', 'lib'].flatMap((d) => sourceFiles(join(srcDir, d)));
+    expect(shared.length).toBeGreaterThan(10);
+    const violations = shared.flatMap((file) =>
+      ts
+        .preProcessFile(readFileSync(file, 'utf8'), true, true)
+        .importedFiles.map((f) => f.fileName)
+        .filter((spec) => spec.startsWith('.') && relative(srcDir, resolve(dirname(file), spec)).split(sep)[0] === 'features')
+        .map((spec) => `${relative(srcDir, file)} imports ${spec}`),
+    );
+    expect(violations).toEqual([]);
+  });
 });

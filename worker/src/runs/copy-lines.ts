@@ -1,4 +1,4 @@
-import { toJsonValue } from '@ratewarden/shared/stats';
+import { stringifyJson } from '@ratewarden/shared/stats';
 import type { Cell } from './cells-query';
 import type { ResultRow, TrendRow } from './compute-results';
 
@@ -20,6 +20,9 @@ export const RESULT_COLUMNS: Array<[keyof ResultRow, string]> = [
   ['u_centre', dbl], ['u_lcl', dbl], ['u_ucl', dbl], ['u_signal', 'text'], ['detail', 'jsonb'],
 ];
 
+const NEEDS_ESCAPE = /[\\\t\n\r]/;
+const ESCAPED = /[\\\t\n\r]/g;
+
 /** One value in COPY's text format: \N for null, ±∞ spelled as PostgreSQL reads them, text escaped. */
 export function copyValue(v: unknown): string {
   if (v === null || v === undefined) return '\\N';
@@ -28,8 +31,8 @@ export function copyValue(v: unknown): string {
     return v === Infinity ? 'Infinity' : v === -Infinity ? '-Infinity' : String(v);
   }
   if (typeof v === 'boolean') return v ? 't' : 'f';
-  const text = typeof v === 'string' ? v : JSON.stringify(toJsonValue(v));
-  return text.replace(/[\\\t\n\r]/g, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r'));
+  const text = typeof v === 'string' ? v : stringifyJson(v);
+  return NEEDS_ESCAPE.test(text) ? text.replace(ESCAPED, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r')) : text;
 }
 
 export const TREND_COLUMNS: Array<keyof TrendRow> = ['site_id', 'outcome_id', 'window_kind', 'period', 'chi2', 'p', 'u', 'levels'];
@@ -41,11 +44,38 @@ export function resultLine(runId: string, r: ResultRow): string {
   return `${out}\n`;
 }
 
-export const CELL_COLUMNS = ['outcome_id', 'month', 'site_id', 'exposure_group_id', 'age_band', 'sex', 'hours', 'cases'];
+export const CELLS_COLUMNS = ['outcome_id', 'exposure_group_id', 'months', 'site_ids', 'age_bands', 'sexes', 'hours', 'cases'];
 
-/** One run_cells row as a line of COPY text, run id first (CELL_COLUMNS); hours from exact hundredths. */
-export function cellLine(runId: string, c: Cell): string {
-  return `${runId}\t${c.outcomeId}\t${c.month}\t${c.siteId}\t${c.groupId}\t${copyValue(c.ageBand)}\t${copyValue(c.sex)}\t${(c.cents / 100).toFixed(2)}\t${c.cases}\n`;
+/** An array literal of PostgreSQL ({a,b,NULL}); text elements double-quoted with " and \ escaped. */
+function arrayLiteral(values: Array<string | number | null>, quote = false): string {
+  return `{${values.map((v) => (v === null ? 'NULL' : quote ? `"${String(v).replace(/["\\]/g, (c) => `\\${c}`)}"` : String(v))).join(',')}}`;
+}
+
+/**
+ * The run_cells rows of a run as COPY text, run id first (CELLS_COLUMNS): one line per outcome ×
+ * exposure group, its cells as parallel arrays; hours from exact hundredths.
+ */
+export function cellsLines(runId: string, cells: Cell[]): string {
+  const byKey = new Map<string, Cell[]>();
+  for (const c of cells) {
+    const key = `${c.outcomeId}\t${c.groupId}`;
+    const list = byKey.get(key);
+    if (list) list.push(c);
+    else byKey.set(key, [c]);
+  }
+  let out = '';
+  for (const [key, list] of byKey) {
+    const cols = [
+      arrayLiteral(list.map((c) => c.month)),
+      arrayLiteral(list.map((c) => c.siteId)),
+      arrayLiteral(list.map((c) => c.ageBand)),
+      arrayLiteral(list.map((c) => c.sex), true),
+      arrayLiteral(list.map((c) => (c.cents / 100).toFixed(2))),
+      arrayLiteral(list.map((c) => c.cases)),
+    ];
+    out += `${runId}\t${key}\t${cols.map((v) => copyValue(v)).join('\t')}\n`;
+  }
+  return out;
 }
 
 /** One run_trends row as a line of COPY text (TREND_COLUMNS). */

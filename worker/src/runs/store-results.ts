@@ -5,7 +5,7 @@ import { from as copyFrom } from 'pg-copy-streams';
 import type { EntityManager } from 'typeorm';
 import type { ResultRow, TrendRow } from './compute-results';
 import type { Cell } from './cells-query';
-import { CELL_COLUMNS, cellLine, RESULT_COLUMNS, resultLine, TREND_COLUMNS, trendLine } from './copy-lines';
+import { CELLS_COLUMNS, cellsLines, RESULT_COLUMNS, resultLine, TREND_COLUMNS, trendLine } from './copy-lines';
 
 /** COPY into `table` on the transaction's own connection, fed line by line while the caller works. */
 async function openCopy(em: EntityManager, table: string, columns: string[]): Promise<{ write(text: string): void; finish(): Promise<void> }> {
@@ -42,11 +42,10 @@ export async function openResultWriter(em: EntityManager, runId: string): Promis
   };
 }
 
-/** Stores the cells a run aggregated (run_cells), with one COPY in the run's final transaction. */
+/** Stores the cells a run aggregated (run_cells, arrays per outcome × group), with one COPY in the run's final transaction. */
 export async function storeCells(em: EntityManager, runId: string, cells: Cell[]): Promise<void> {
-  const copy = await openCopy(em, 'run_cells', ['run_id', ...CELL_COLUMNS]);
-  // In slices, so that the stream takes them as they come rather than one string of the whole set.
-  for (let i = 0; i < cells.length; i += 5_000) copy.write(cells.slice(i, i + 5_000).map((c) => cellLine(runId, c)).join(''));
+  const copy = await openCopy(em, 'run_cells', ['run_id', ...CELLS_COLUMNS]);
+  copy.write(cellsLines(runId, cells));
   await copy.finish();
 }
 

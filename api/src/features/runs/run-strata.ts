@@ -6,7 +6,7 @@ import { AppError } from '../../lib/app-error';
 import { getRun, n, resultScope, showsSmallCells, type ResultReader } from './runs-service';
 import { cellKey, siteMarginWithheld } from './site-margins';
 
-const KEY_SQL = { age: 'age_band::text', site: 'site_id::text', sex: 'sex' } as const;
+const KEY_SQL = { age: 'c.age_band::text', site: 'c.site_id::text', sex: 'c.sex' } as const;
 
 const sexLabels: Record<string, string> = { F: 'female', M: 'male', X: 'another sex' };
 
@@ -44,9 +44,9 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
   const referenceId = row.is_reference ? null : row.reference_group_id;
   const groupIds = referenceId === null ? [q.exposureGroupId] : [q.exposureGroupId, referenceId];
   const cells: Array<{ group_id: number; k: string | null; hours: string; cases: number }> = await ds.query(
-    `SELECT exposure_group_id AS group_id, ${KEY_SQL[q.by]} AS k, sum(hours)::text AS hours, sum(cases)::int AS cases
-     FROM run_cells
-     WHERE run_id = $1 AND outcome_id = $2 AND exposure_group_id = ANY($3::int[]) AND month BETWEEN $4 AND $5 AND ($6::int IS NULL OR site_id = $6)
+    `SELECT rc.exposure_group_id AS group_id, ${KEY_SQL[q.by]} AS k, sum(c.hours)::text AS hours, sum(c.cases)::int AS cases
+     FROM run_cells rc, unnest(rc.months, rc.site_ids, rc.age_bands, rc.sexes, rc.hours, rc.cases) AS c(month, site_id, age_band, sex, hours, cases)
+     WHERE rc.run_id = $1 AND rc.outcome_id = $2 AND rc.exposure_group_id = ANY($3::int[]) AND c.month BETWEEN $4 AND $5 AND ($6::int IS NULL OR c.site_id = $6)
      GROUP BY 1, 2`,
     [runId, q.outcomeId, groupIds, windowStart(q.period, q.window), q.period, siteId],
   );

@@ -4,7 +4,7 @@ import { Suspense } from 'react';
 import { NavLink, Outlet } from 'react-router';
 import { paths } from '../../config/paths';
 import { useSession } from '../../api/get-session';
-import { SignOutButton } from '../../features/session/sign-out-button';
+import { SignOutButton } from './sign-out-button';
 import { PageLoading } from '../feedback/page-loading';
 import { navItems } from './nav-items';
 

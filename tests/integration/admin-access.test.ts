@@ -1,0 +1,61 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { DataSource } from 'typeorm';
+import { createApp } from '@ratewarden/api/app';
+import { adminUserSchema } from '@ratewarden/shared/admin';
+import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
+import { testApiConfig } from '../support/test-config';
+import { openTestDataSource } from '../support/test-db';
+
+/** The administrator changes a person's role and sites through PATCH /api/admin/users/:id. */
+describe('changing a person\'s access', () => {
+  let ds: DataSource;
+  let admin: SignedInAgent;
+  let siteIds: number[];
+  let personId: string;
+  let adminId: string;
+
+  beforeAll(async () => {
+    ds = await openTestDataSource();
+    const sites = (await ds.query(
+      `INSERT INTO sites (code, name) VALUES ('ACC-A', 'Access site A'), ('ACC-B', 'Access site B') ON CONFLICT (code) DO UPDATE SET name = EXCLUDED.name RETURNING id`,
+    )) as Array<{ id: number }>;
+    siteIds = sites.map((s) => s.id);
+    personId = await provisionUser(ds, 'access-change@kestrelmoor.test', 'hygienist', [siteIds[0]!]);
+    adminId = await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
+    admin = await signIn(createApp({ dataSource: ds, config: testApiConfig() }), 'admin@demo.ratewarden.test');
+  });
+  afterAll(async () => {
+    await ds.destroy();
+  });
+
+  it('stores the new role and sites, answers with the person, and audits the change', async () => {
+    const res = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'safety_manager', siteIds: [siteIds[1]] });
+    expect(res.status).toBe(200);
+    expect(adminUserSchema.parse(res.body)).toMatchObject({ email: 'access-change@kestrelmoor.test', role: 'safety_manager', siteIds: [siteIds[1]] });
+    const [stored] = (await ds.query(
+      `SELECT u.role, array_agg(us.site_id ORDER BY us.site_id) AS sites FROM users u LEFT JOIN user_sites us ON us.user_id = u.id WHERE u.id = $1 GROUP BY u.role`,
+      [personId],
+    )) as Array<{ role: string; sites: number[] }>;
+    expect(stored).toEqual({ role: 'safety_manager', sites: [siteIds[1]] });
+    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE actor_label = 'admin@demo.ratewarden.test' AND target LIKE $1`, [`%${personId}%`])) as Array<{ n: number }>;
+    expect(audits[0]!.n).toBeGreaterThan(0);
+  });
+
+  it('takes the role away (no role, no sites) and refuses an unknown site or person', async () => {
+    const none = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: null, siteIds: [] });
+    expect(none.status).toBe(200);
+    expect(none.body).toMatchObject({ role: null, siteIds: [] });
+    const badSite = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds: [2_000_000_000] });
+    expect(badSite.status).toBeGreaterThanOrEqual(400);
+    expect(badSite.status).toBeLessThan(500);
+    const nobody = await admin.agent.patch('/api/admin/users/00000000-0000-4000-8000-000000000000').set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds: [] });
+    expect(nobody.status).toBe(404);
+  });
+
+  it('refuses an administrator taking their own administrator role away', async () => {
+    const res = await admin.agent.patch(`/api/admin/users/${adminId}`).set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds: [] });
+    expect(res.status).toBe(409);
+    const [me] = (await ds.query(`SELECT role FROM users WHERE id = $1`, [adminId])) as Array<{ role: string }>;
+    expect(me!.role).toBe('administrator');
+  });
+});
