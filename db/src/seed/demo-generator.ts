@@ -38,16 +38,21 @@ export interface CaseRow {
   caseRef: string; workerKey: string; outcome: string; onsetDate: string; status: 'suspected' | 'confirmed' | 'ruled_out';
 }
 
-/** Kestrelmoor's cohort: 5,000 workers over 66 months (January 2020 to June 2025). */
+/**
+ * Kestrelmoor's cohort: 8,000 workers over 66 months (January 2020 to June 2025). Large enough,
+ * with a hearing threshold shift baseline of 2.4 per 100 person-years, that the reference group
+ * has more than a handful of STS cases in a rolling year, so that people other than the physician
+ * see the comparisons; the rarer outcomes (asthma, dermatitis) show what small-cell suppression does.
+ */
 export function demoCohortShape(sites: readonly string[]): CohortShape {
   return {
-    seed: 20240617, workers: 5000, firstMonth: '2020-01', months: 66, sites, workerPrefix: 'KM',
+    seed: 20240617, workers: 8000, firstMonth: '2020-01', months: 66, sites, workerPrefix: 'KM',
     groups: [
       { code: 'OFFICE', share: 0.22 }, { code: 'ASSEMBLY', share: 0.32 }, { code: 'WELDING', share: 0.18 },
       { code: 'FETTLING', share: 0.14 }, { code: 'COATING', share: 0.14 },
     ],
     outcomes: [
-      { code: 'STS', ratePer100py: 1.6, firstEventOnly: true, rateRatio: { FETTLING: 3 } },
+      { code: 'STS', ratePer100py: 2.4, firstEventOnly: true, rateRatio: { FETTLING: 3 } },
       { code: 'DERM', ratePer100py: 0.7, firstEventOnly: true },
       { code: 'ASTHMA', ratePer100py: 0.35, firstEventOnly: true },
       { code: 'INJURY', ratePer100py: 3.2, firstEventOnly: false },

@@ -39,13 +39,14 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
   const rows = compared.map((r) => {
     const s = shownResult(r, user.role);
     const mh = r[st.key];
-    const h = s.hidden;
+    const h = s.comparisonHidden;
     const v = (x: number | string | null) => (h ? null : toNumber(x));
     const hom = (r.detail[st.homogeneity] as ChiSquare | undefined) ?? { chi2: null, df: null, p: null };
     const used = (r.detail[st.strata] as { irr: number; ird: number } | undefined) ?? null;
     return {
       name: groupName(r.exposureGroupId),
       hidden: h,
+      ownHidden: s.hidden,
       crude: { irr: s.irr, lo: s.irrLower, hi: s.irrUpper, ird: s.ird, irdLo: s.irdLower, irdHi: s.irdUpper },
       mh: { irr: v(mh.irr.estimate), lo: v(mh.irr.lower), hi: v(mh.irr.upper), p: h ? null : mh.irr.p, ird: v(mh.ird.estimate), irdLo: v(mh.ird.lower), irdHi: v(mh.ird.upper) },
       hom: h ? { chi2: null, df: null, p: null } : hom,
@@ -77,7 +78,7 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
         rows={rows.map((r) => ({
           key: r.name,
           cells: r.hidden
-            ? [r.name, 'not shown (small count)', '—', '—', '—', '—', '—', '—', '—']
+            ? [r.name, r.ownHidden ? 'not shown (small count)' : "not shown (the reference group's count is small)", '—', '—', '—', '—', '—', '—', '—']
             : [
                 r.name,
                 ci(r.crude.irr, r.crude.lo, r.crude.hi),

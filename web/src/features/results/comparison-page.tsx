@@ -25,10 +25,10 @@ function columns(unit: string, ptUnit: string) {
     col.accessor((r) => r.s.cases.value ?? -1, { id: 'cases', header: 'Cases', cell: (c) => c.row.original.s.cases.text, meta: { numeric: true, csv: (r) => (r.s.cases.suppressed ? r.s.cases.text : r.s.cases.value) } }),
     col.accessor((r) => r.s.personTime, { id: 'pt', header: `Person-time (${ptUnit})`, cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
     col.accessor((r) => sortable(r.s.rate), { id: 'rate', header: `Rate ${unit} (interval)`, cell: (c) => withInterval(c.row.original.s.hidden, c.row.original.s.rate, c.row.original.s.rateLower, c.row.original.s.rateUpper), meta: { numeric: true, csv: (r) => withInterval(r.s.hidden, r.s.rate, r.s.rateLower, r.s.rateUpper) } }),
-    col.accessor((r) => sortable(r.s.irr), { id: 'irr', header: 'IRR (interval)', cell: (c) => (c.row.original.reference ? '1 (reference)' : withInterval(c.row.original.s.hidden, c.row.original.s.irr, c.row.original.s.irrLower, c.row.original.s.irrUpper)), meta: { numeric: true, csv: (r) => (r.reference ? '1 (reference)' : withInterval(r.s.hidden, r.s.irr, r.s.irrLower, r.s.irrUpper)) } }),
-    col.accessor((r) => sortable(r.s.irrP), { id: 'irrP', header: 'p (IRR = 1)', cell: (c) => (c.row.original.reference ? '—' : formatP(c.row.original.s.irrP)), meta: { numeric: true, csv: (r) => r.s.irrP } }),
-    col.accessor((r) => sortable(r.s.ird), { id: 'ird', header: `IRD ${unit} (interval)`, cell: (c) => (c.row.original.reference ? '0 (reference)' : withInterval(c.row.original.s.hidden, c.row.original.s.ird, c.row.original.s.irdLower, c.row.original.s.irdUpper)), meta: { numeric: true, csv: (r) => (r.reference ? '0 (reference)' : withInterval(r.s.hidden, r.s.ird, r.s.irdLower, r.s.irdUpper)) } }),
-    col.accessor((r) => sortable(r.s.irdP), { id: 'irdP', header: 'p (IRD = 0)', cell: (c) => (c.row.original.reference ? '—' : formatP(c.row.original.s.irdP)), meta: { numeric: true, csv: (r) => r.s.irdP } }),
+    col.accessor((r) => sortable(r.s.irr), { id: 'irr', header: 'IRR (interval)', cell: (c) => (c.row.original.reference ? '1 (reference)' : withInterval(c.row.original.s.comparisonHidden, c.row.original.s.irr, c.row.original.s.irrLower, c.row.original.s.irrUpper)), meta: { numeric: true, csv: (r) => (r.reference ? '1 (reference)' : withInterval(r.s.comparisonHidden, r.s.irr, r.s.irrLower, r.s.irrUpper)) } }),
+    col.accessor((r) => sortable(r.s.irrP), { id: 'irrP', header: 'p (IRR = 1)', cell: (c) => (c.row.original.reference ? '—' : c.row.original.s.comparisonHidden ? 'not shown' : formatP(c.row.original.s.irrP)), meta: { numeric: true, csv: (r) => r.s.irrP } }),
+    col.accessor((r) => sortable(r.s.ird), { id: 'ird', header: `IRD ${unit} (interval)`, cell: (c) => (c.row.original.reference ? '0 (reference)' : withInterval(c.row.original.s.comparisonHidden, c.row.original.s.ird, c.row.original.s.irdLower, c.row.original.s.irdUpper)), meta: { numeric: true, csv: (r) => (r.reference ? '0 (reference)' : withInterval(r.s.comparisonHidden, r.s.ird, r.s.irdLower, r.s.irdUpper)) } }),
+    col.accessor((r) => sortable(r.s.irdP), { id: 'irdP', header: 'p (IRD = 0)', cell: (c) => (c.row.original.reference ? '—' : c.row.original.s.comparisonHidden ? 'not shown' : formatP(c.row.original.s.irdP)), meta: { numeric: true, csv: (r) => r.s.irdP } }),
     col.accessor(() => `IRR ${METHODS.irrExact.split(' (')[0]}, p ${METHODS.pExact}; IRD ${METHODS.irdWald}`, { id: 'method', header: 'Interval method', enableSorting: false, cell: (c) => <span className="text-xs">{c.getValue()}</span> }),
   ];
 }
@@ -46,7 +46,7 @@ function ComparisonBody({ ctx }: { ctx: ResultsContext }) {
   return (
     <>
       <p className="mt-4 text-sm">
-        Each group against the reference group <strong>{refName ?? '(none set)'}</strong>, {when}. A diamond marks the reference; rows with suppressed counts have no point.
+        Each group against the reference group <strong>{refName ?? '(none set)'}</strong>, {when}. A diamond marks the reference; a group whose count, or the reference group's, is withheld has no point.
       </p>
       <IntervalPlot
         title={`${outcome.name}: incidence rate ratio against ${refName ?? 'the reference'} with ${pct}% exact intervals`}

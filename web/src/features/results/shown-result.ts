@@ -10,7 +10,13 @@ import { showCount, type ShownCount } from '../../lib/small-cells';
  */
 export interface ShownResult {
   cases: ShownCount;
+  /** The group's own count is withheld, and with it everything computed from it. */
   hidden: boolean;
+  /**
+   * The comparisons with the reference group are withheld: the group's count, or the reference
+   * group's, is (with the group's rate an IRR would give the reference count back).
+   */
+  comparisonHidden: boolean;
   personTime: number;
   rate: number | null;
   rateLower: number | null;
@@ -28,22 +34,25 @@ export interface ShownResult {
 export function shownResult(r: RunResult, role: Role | null | undefined): ShownResult {
   const cases = showCount(r.cases, role, undefined, r.withheld ?? r.suppressed);
   const h = cases.suppressed;
+  const ch = h || r.comparisonSuppressed;
   const v = (x: number | string | null) => (h ? null : toNumber(x));
+  const c = (x: number | string | null) => (ch ? null : toNumber(x));
   return {
     cases,
     hidden: h,
+    comparisonHidden: ch,
     personTime: r.personTime,
     rate: v(r.rate.estimate),
     rateLower: v(r.rate.lower),
     rateUpper: v(r.rate.upper),
-    irr: v(r.irr.estimate),
-    irrLower: v(r.irr.lower),
-    irrUpper: v(r.irr.upper),
-    irrP: h ? null : r.irr.p,
-    ird: v(r.ird.estimate),
-    irdLower: v(r.ird.lower),
-    irdUpper: v(r.ird.upper),
-    irdP: h ? null : r.ird.p,
+    irr: c(r.irr.estimate),
+    irrLower: c(r.irr.lower),
+    irrUpper: c(r.irr.upper),
+    irrP: ch ? null : r.irr.p,
+    ird: c(r.ird.estimate),
+    irdLower: c(r.ird.lower),
+    irdUpper: c(r.ird.upper),
+    irdP: ch ? null : r.ird.p,
   };
 }
 
