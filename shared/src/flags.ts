@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ruleMeasureSchema, thresholdOnSchema, windowKindSchema } from './rules';
+import { withheldSchema } from './runs';
 
 /** raised → in review → closed (with a reason). */
 export const flagStateSchema = z.enum(['raised', 'in_review', 'closed']);
@@ -35,6 +36,8 @@ export const flagFiguresSchema = z.object({
   personTimeBasis: z.string(),
   per: z.number(),
   suppressed: z.boolean().optional(),
+  /** Why the count is withheld (see small-cells.ts): small itself, or the complement of small site counts. */
+  withheld: withheldSchema.nullable().optional(),
 });
 export type FlagFigures = z.infer<typeof flagFiguresSchema>;
 

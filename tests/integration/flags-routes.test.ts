@@ -91,7 +91,7 @@ describe('runs, rules and flags through the API', () => {
   it('withholds a flag\'s small count and the figures that give it back, except from the physician', async () => {
     // 4 cases over 0.32 person-years: the rate (4 / 0.32 × 1,000 = 12,500) with the person-time shown would give 4 back.
     const safety = flagSchema.parse((await as.safety.agent.get(`/api/flags/${flagId}`).expect(200)).body);
-    expect(safety.figures).toMatchObject({ suppressed: true, cases: null, value: null, estimate: null, lower: null, upper: null, p: null });
+    expect(safety.figures).toMatchObject({ suppressed: true, withheld: 'small', cases: null, value: null, estimate: null, lower: null, upper: null, p: null });
     expect(safety.value).toBeNull();
     expect(safety.worstValue).toBeNull();
     expect(safety.figures.personTime).toBeCloseTo(0.32, 12);

@@ -3,7 +3,7 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { flagCloseInputSchema, flagListQuerySchema, flagReviewInputSchema } from '@ratewarden/shared/flags';
 import { authorize } from '../../auth/authorize';
-import { flagAsSeenBy } from './flag-suppression';
+import { flagsAsSeenBy } from './flag-suppression';
 import { closeFlag, flagCases, getFlag, listFlags, startReview } from './flags-service';
 
 export interface FlagsRouterDeps {
@@ -19,16 +19,16 @@ export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterD
   const router = Router();
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
   router.get('/', authorize('flags:read'), async (req, res) => {
-    res.json((await listFlags(ds, flagListQuerySchema.parse(req.query))).map((f) => flagAsSeenBy(f, reader(req))));
+    res.json(await flagsAsSeenBy(ds, await listFlags(ds, flagListQuerySchema.parse(req.query)), reader(req)));
   });
   router.get('/:id', authorize('flags:read'), async (req, res) => {
-    res.json(flagAsSeenBy(await getFlag(ds, flagId.parse(req.params.id)), reader(req)));
+    res.json((await flagsAsSeenBy(ds, [await getFlag(ds, flagId.parse(req.params.id))], reader(req)))[0]);
   });
   router.post('/:id/review', authorize('flags:review'), async (req, res) => {
-    res.json(flagAsSeenBy(await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip), reader(req)));
+    res.json((await flagsAsSeenBy(ds, [await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip)], reader(req)))[0]);
   });
   router.post('/:id/close', authorize('flags:review'), async (req, res) => {
-    res.json(flagAsSeenBy(await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip), reader(req)));
+    res.json((await flagsAsSeenBy(ds, [await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip)], reader(req)))[0]);
   });
   router.get('/:id/cases', authorize('cases:read'), async (req, res) => {
     res.json(await flagCases(ds, req.principal!, flagId.parse(req.params.id), req.ip));

@@ -23,7 +23,7 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
   const f = flag.figures;
   const outcome = outcomes.find((o) => o.id === flag.outcomeId);
   const run = useRun(f.runId);
-  const cases = showCount(f.cases, user.role, undefined, f.suppressed ?? false);
+  const cases = showCount(f.cases, user.role, undefined, f.withheld ?? f.suppressed ?? false);
   const hidden = cases.suppressed;
   const perText = f.personTimeBasis === 'person_years' ? `per ${formatAmount(f.per)} person-years` : `per ${formatAmount(f.per * 200_000)} hours worked`;
   const measureUnit = f.measure === 'irr' ? '' : ` ${perText}`;
@@ -33,7 +33,7 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
     ['Threshold', `${formatEstimate(f.threshold)}${measureUnit}`, f.threshold],
     ['Value that crossed it', hidden ? 'not shown (small count)' : `${formatEstimate(f.value)}${measureUnit}`, hidden ? null : f.value],
     ['Estimate (interval)', hidden ? 'not shown (small count)' : `${formatEstimate(toNumber(f.estimate))} (${formatEstimate(toNumber(f.lower))} to ${formatEstimate(toNumber(f.upper))})`, hidden ? null : toNumber(f.estimate)],
-    ['Cases', cases.text, exportCount(f.cases, user.role, undefined, f.suppressed ?? false)],
+    ['Cases', cases.text, exportCount(f.cases, user.role, undefined, f.withheld ?? f.suppressed ?? false)],
     ['Expected at the reference rate', hidden || f.expected === null ? '—' : formatEstimate(f.expected), hidden ? null : f.expected],
     ['Person-time', `${formatAmount(f.personTime)} ${f.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 h'}`, f.personTime],
     ['p', hidden ? '—' : formatP(f.p), hidden ? null : f.p],
