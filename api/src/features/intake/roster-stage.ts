@@ -3,7 +3,7 @@ import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { pumpCopy, stagingRef } from './copy-stage';
-import { ROSTER_STAGE_COLUMNS, RosterStream, type CodeMap } from './roster-stream';
+import { DEFAULT_TALLY_LIMITS, ROSTER_STAGE_COLUMNS, RosterStream, type CodeMap, type TallyLimits } from './roster-stream';
 
 /**
  * A roster's staging: its typed rows, and beside them one line per worker (birth years and sexes
@@ -61,13 +61,22 @@ const nul = (x: number | string) => (typeof x === 'number' ? (Number.isNaN(x) ? 
  * computes them from the staged rows). Indexes are not needed: every later statement reads the
  * staged rows once, by sequential scan and hash join.
  */
-export async function stageRoster(client: PoolClient, table: string, columns: string[], delimiter: ',' | ';', eol: '\n' | '\r', head: Buffer, rest: Readable | null): Promise<RosterStaged> {
+export async function stageRoster(
+  client: PoolClient,
+  table: string,
+  columns: string[],
+  delimiter: ',' | ';',
+  eol: '\n' | '\r',
+  head: Buffer,
+  rest: Readable | null,
+  limits: TallyLimits = DEFAULT_TALLY_LIMITS,
+): Promise<RosterStaged> {
   const st = rosterStage(table);
   await client.query(`CREATE UNLOGGED TABLE ${st.rows} (line_no bigint NOT NULL, worker_key text, site_id integer, group_id integer, month date,
     hours numeric(7, 2), birth_year smallint, sex text, job_title text)`);
   await client.query(`CREATE UNLOGGED TABLE ${st.workers} (k text NOT NULL, by_min integer, by_max integer, sex_min text, sex_max text)`);
   await client.query(`CREATE UNLOGGED TABLE ${st.slices} (site_id integer NOT NULL, site_code text NOT NULL, m text NOT NULL, month date NOT NULL, n bigint NOT NULL, hours numeric NOT NULL)`);
-  const stream = new RosterStream(columns, delimiter, eol, { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') });
+  const stream = new RosterStream(columns, delimiter, eol, { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') }, 2, limits);
   if (rest) await pumpCopy(client, `COPY ${st.rows} (${ROSTER_STAGE_COLUMNS.join(', ')}) FROM STDIN`, head, rest, stream);
 
   if (stream.overflow) {

@@ -21,6 +21,13 @@ export interface SliceTally { siteId: number; siteCode: string; month: string; n
  */
 export const WORKER_TALLY_LIMIT = 300_000;
 export const SLICE_TALLY_LIMIT = 50_000;
+
+/** The limits of the in-memory tallies (tests lower them to reach the SQL fallback with a few rows). */
+export interface TallyLimits {
+  workers: number;
+  slices: number;
+}
+export const DEFAULT_TALLY_LIMITS: TallyLimits = { workers: WORKER_TALLY_LIMIT, slices: SLICE_TALLY_LIMIT };
 /** A row longer than this is not a roster row (and would otherwise be held whole in memory). */
 const MAX_ROW_CHARS = 1024 * 1024;
 /** Distinct values remembered per low-variety column (codes, months, hours, years, sex). */
@@ -133,7 +140,14 @@ export class RosterStream extends Transform {
   private out = Buffer.allocUnsafe(0);
   private len = 0;
 
-  constructor(columns: string[], private readonly delimiter: ',' | ';', private readonly eol: '\n' | '\r', codes: { site: CodeMap; exposure_group: CodeMap }, firstLine = 2) {
+  constructor(
+    columns: string[],
+    private readonly delimiter: ',' | ';',
+    private readonly eol: '\n' | '\r',
+    codes: { site: CodeMap; exposure_group: CodeMap },
+    firstLine = 2,
+    private readonly limits: TallyLimits = DEFAULT_TALLY_LIMITS,
+  ) {
     super();
     this.ncols = columns.length;
     this.eolByte = eol.charCodeAt(0);
@@ -459,7 +473,7 @@ export class RosterStream extends Transform {
     if (key.cell !== '\\N') {
       t = this.workers.get(key.cell) ?? null;
       if (t) this.tallyWorker(t, month, by, sex);
-      else if (this.workers.size >= WORKER_TALLY_LIMIT) {
+      else if (this.workers.size >= this.limits.workers) {
         this.giveUpTallies();
         return null;
       } else {
@@ -498,7 +512,7 @@ export class RosterStream extends Transform {
     if (sl) {
       sl.n++;
       if (hours.num === hours.num) sl.cents += hours.num;
-    } else if (this.slices.size >= SLICE_TALLY_LIMIT) {
+    } else if (this.slices.size >= this.limits.slices) {
       this.giveUpTallies();
     } else {
       this.slices.set(k, { siteId: site.num, siteCode: this.sitesById.get(site.num)!, month: month.cell.slice(0, 7), n: 1, cents: Number.isNaN(hours.num) ? 0 : hours.num });
