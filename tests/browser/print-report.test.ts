@@ -1,0 +1,35 @@
+import { describe, expect, it } from 'vitest';
+import { provisionUser } from '../support/sign-in';
+import { useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+
+/** The print stylesheet: a results page prints as a clean report (no navigation or controls, the cautions in full). */
+describe('printing a results page', () => {
+  let fx: FlagFixture;
+  const h = useBrowserApp(async (ds) => {
+    fx = await makeFlagFixture(ds);
+    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
+  });
+
+  it('leaves out navigation, filters and buttons, keeps the figures, units and cautions, on one A4 page', async () => {
+    await h.browser.context.clearCookies();
+    const page = await h.browser.context.newPage();
+    await signInThroughPage(page, h.app.baseUrl, 'hygienist@demo.ratewarden.test');
+    await page.goto(`${h.app.baseUrl}/comparison?outcome=${fx.cohort.outcomes.DERM}&window=month&period=2032-02-01`, { waitUntil: 'networkidle' });
+    await page.getByRole('table', { name: /^Comparison with the reference group/ }).waitFor();
+    await page.emulateMedia({ media: 'print' });
+    const shown = (role: Parameters<typeof page.getByRole>[0], name?: RegExp) => page.getByRole(role, name ? { name } : {}).first().isVisible();
+    expect(await shown('navigation')).toBe(false);
+    expect(await page.getByRole('form', { name: 'Choose what to show' }).isVisible()).toBe(false);
+    expect(await page.getByRole('button').filter({ visible: true }).count()).toBe(0);
+    expect(await shown('table', /^Comparison with the reference group/)).toBe(true);
+    expect(await page.getByLabel('Units and settings').isVisible()).toBe(true);
+    // The cautions print in full (on screen they fold behind a summary).
+    expect(await page.getByText('The healthy-worker effect biases comparisons with the general population.').filter({ visible: true }).count()).toBe(1);
+    const pdf = await page.pdf({ format: 'A4', printBackground: false });
+    const pages = (pdf.toString('latin1').match(/\/Type\s*\/Page(?!s)/g) ?? []).length;
+    expect(pages).toBe(1);
+    await page.close();
+  });
+});
