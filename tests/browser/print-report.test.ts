@@ -1,12 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
 import { useBrowserApp } from '../support/browser-app';
+import { clearCohortData } from '../integration/runs-fixture';
 import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
 
 /** The print stylesheet: a results page prints as a clean report (no navigation or controls, the cautions in full). */
 describe('printing a results page', () => {
   let fx: FlagFixture;
   const h = useBrowserApp(async (ds) => {
+    // Runs are company-wide: alone with its cohort, the page holds what one report page should
+    // (other files' cohorts would add their groups to the same month).
+    await clearCohortData(ds);
     fx = await makeFlagFixture(ds);
     const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);

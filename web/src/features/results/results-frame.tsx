@@ -128,7 +128,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         <UnitsStrip settings={unitsOf(run.settings)} />
         <p className="mt-1 text-xs text-ink-soft">
           Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
-          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : `sites: ${sites.map((s) => s.name).join(', ') || 'none'} (all sites together)`}
+          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : sitesTogether(sites.map((s) => s.name))}
         </p>
       </div>
       <QueryState query={results} label="results">
@@ -145,6 +145,12 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
       <Cautions />
     </section>
   );
+}
+
+/** The sites behind company-wide figures: named when few, counted when many (the line stays one line). */
+function sitesTogether(names: string[]): string {
+  if (names.length === 0) return 'sites: none';
+  return names.length <= 6 ? `sites: ${names.join(', ')} (all sites together)` : `all ${names.length} sites together`;
 }
 
 /** Says why counts are missing, when some are: small ones, and the complements that protect them. */
