@@ -177,4 +177,23 @@ describe('run results: site scoping and small-cell suppression', () => {
     expect(siteBExp.irr).toMatchObject({ estimate: null, lower: null, upper: null, p: null });
     expect(siteBExp.mhAge.irr.estimate).toBeNull();
   });
+  it('withholds in the run diff what the results withhold, the IRR too when the reference count is small', async () => {
+    // A late case for site B's eighth exposed worker: 7 → 8 exposed cases at site B in May.
+    const [w] = (await ds.query(`SELECT id FROM workers WHERE worker_key = $1`, [`${c.tag}-bExp7`])) as Array<{ id: string }>;
+    await c.cases([[Number(w!.id), c.outcomes.SCO!, '2031-05-20']]);
+    const next = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
+    expect(next.status).toBe('succeeded');
+    const nextId = (next as { runId: string }).runId;
+    const rowOfDiff = (body: { rows: Array<{ exposureGroupId: number; window: string; period: string; before: unknown; after: unknown }> }) =>
+      body.rows.find((r) => r.exposureGroupId === c.groups.EXP && r.window === 'month' && r.period === '2031-05-01')!;
+    // Threshold 3: site B's exposed count is shown, its reference count (2) is not, so neither is the IRR.
+    const app = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '3' }) });
+    const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
+    const seen = await hygienist.agent.get('/api/runs/diff').query({ from: runId, to: nextId, siteId: siteB }).expect(200);
+    expect(rowOfDiff(seen.body)).toMatchObject({ before: { cases: 7, irr: null, withheld: null }, after: { cases: 8, irr: null, withheld: null } });
+    const open = await as.physician.agent.get('/api/runs/diff').query({ from: runId, to: nextId, siteId: siteB }).expect(200);
+    const row = rowOfDiff(open.body) as { before: { irr: number }; after: { irr: number } };
+    expect(row.before.irr).toBeCloseTo(7 / PT.bExp / (2 / PT.bRef), 9);
+    expect(row.after.irr).toBeCloseTo(8 / PT.bExp / (2 / PT.bRef), 9);
+  });
 });

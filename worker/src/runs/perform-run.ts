@@ -91,7 +91,8 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
 
   try {
     warmComputePool();
-    const analyzed = await refreshPlannerStatistics(qr);
+    // Fresher statistics are a help, not a condition: a run goes on without them.
+    const analyzed = await refreshPlannerStatistics(qr).catch((err: unknown) => [`not analyzed: ${err instanceof Error ? err.message : String(err)}`]);
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, options.settings);
     const t1 = performance.now();
