@@ -3,8 +3,9 @@ import { createRequire } from 'node:module';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
+import { allSiteIds } from '../support/test-db';
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 
@@ -35,7 +36,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   let fx: FlagFixture;
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
@@ -44,9 +45,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   /** Signs `email` in and checks each path; returns what axe found, page by page. */
   const check = async (email: string, paths: string[]) => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, email);
+    const page = await pageSignedInAs(h, email);
     const found: string[] = [];
     for (const path of paths) {
       await page.goto(`${h.app.baseUrl}${path}`, { waitUntil: 'networkidle' });
@@ -72,9 +71,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   it('as the physician, on the flag with its cases', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'physician@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'physician@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/flags/${fx.flagId}`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { name: 'Cases behind this flag' }).waitFor();
     const found = (await axe(page)).map((v) => `${v.id} (${v.impact}) ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
+import { allSiteIds } from '../support/test-db';
 
 /**
  * The adjusted view's stratum table in Chromium, on the flag fixture (flag-fixture.ts): in
@@ -12,15 +13,13 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
   let fx: FlagFixture;
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
   });
 
   const open = async (email: string) => {
-    await h.browser.context.clearCookies(); // one browser profile for both people: start signed out
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, email);
+    const page = await pageSignedInAs(h, email);
     const c = fx.cohort;
     await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=month&period=2032-02-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
     const table = page.getByRole('table', { name: /^Group EXP against Group REF, by sex/ });

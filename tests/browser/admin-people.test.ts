@@ -1,8 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { signInThroughPage } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 
 /**
  * The administrator's people page in Chromium: give a provisioned person a role and sites, and
@@ -24,9 +23,7 @@ describe('the administrator gives a person access in Chromium', () => {
   });
 
   it('changes the role and sites of a person, and the change is kept after a reload', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'admin@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'admin@demo.ratewarden.test');
     await page.waitForURL(`${h.app.baseUrl}/admin`);
     await page.getByRole('heading', { level: 1, name: 'Administration' }).waitFor();
 
@@ -61,9 +58,7 @@ describe('the administrator gives a person access in Chromium', () => {
     { email: 'safety@demo.ratewarden.test', heading: 'Not part of your role' },
     { email: 'newcomer@demo.ratewarden.test', heading: 'No role yet' },
   ])('$email gets no people page, and the admin API answers 403', async ({ email, heading }) => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, email);
+    const page = await pageSignedInAs(h, email);
     await page.getByRole('heading', { level: 1 }).waitFor();
     expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Administration' }).count()).toBe(0);
 

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { signInThroughPage } from './flag-fixture';
+import { signInThroughPage, useBrowserApp } from '../support/browser-app';
 
 /**
  * Each demo account signs in through the identity provider's page, lands on its role's page, sees

@@ -1,8 +1,6 @@
 import type { DataSource } from 'typeorm';
-import type { Page } from 'playwright-core';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
-import { DEMO_PASSWORD } from '../support/sign-in';
 
 /**
  * A private cohort with one flag for the browser tests, made with SQL and one real run: groups
@@ -48,14 +46,4 @@ export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
     [c.casesIntake, ids.EXP],
   )) as Array<{ case_ref: string }>;
   return { cohort: c, ruleId: rule!.id, flagId: flags[0]!.id, caseRefs: refs.map((r) => r.case_ref) };
-}
-
-/** Signs in through the identity provider's own page, as a person would. */
-export async function signInThroughPage(page: Page, baseUrl: string, email: string): Promise<void> {
-  await page.goto(baseUrl, { waitUntil: 'networkidle' });
-  await page.getByRole('link', { name: 'Sign in', exact: true }).click();
-  await page.getByLabel('Work e-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: /sign in/i }).click();
-  await page.waitForURL(`${baseUrl}/**`);
 }

@@ -1,8 +1,8 @@
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
 
 /** What has the keyboard focus: its label (form fields) or its text (buttons, links). */
 const focused = (page: Page) =>
@@ -30,9 +30,7 @@ describe('the flag review works from the keyboard', () => {
   });
 
   it('starts the review, picks a reason with the arrow keys, writes the comment and closes the flag', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'safety@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'safety@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/flags/${fx.flagId}`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { level: 1, name: /Group EXP/ }).waitFor();
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { signInThroughPage, useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
 
 /** The physician opens a flag in Chromium and sees the case-level records behind it. */
 describe('the physician sees the cases behind a flag in Chromium', () => {

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 import { clearCohortData } from '../integration/runs-fixture';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
+import { allSiteIds } from '../support/test-db';
 
 /** The print stylesheet: a results page prints as a clean report (no navigation or controls, the cautions in full). */
 describe('printing a results page', () => {
@@ -12,14 +13,12 @@ describe('printing a results page', () => {
     // (other files' cohorts would add their groups to the same month).
     await clearCohortData(ds);
     fx = await makeFlagFixture(ds);
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
   });
 
   it('leaves out navigation, filters and buttons, keeps the figures, units and cautions, on one A4 page', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'hygienist@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/comparison?outcome=${fx.cohort.outcomes.DERM}&window=month&period=2032-02-01`, { waitUntil: 'networkidle' });
     await page.getByRole('table', { name: /^Comparison with the reference group/ }).waitFor();
     await page.emulateMedia({ media: 'print' });

@@ -2,8 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { runIfRequested } from '@ratewarden/worker/runs/request-poller';
 import { settings } from '../integration/runs-fixture';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { signInThroughPage } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 
 /**
  * The hygienist's run button in Chromium: the press writes a run request, the worker's on-demand
@@ -17,9 +16,7 @@ describe('the hygienist asks for a run now in Chromium', () => {
   });
 
   it('presses Run now, and the history shows the run succeeded with its trigger', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'hygienist@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Runs', exact: true }).click();
     await page.getByRole('heading', { level: 1, name: 'Run history' }).waitFor();
     const [{ last }] = (await h.ds.query(`SELECT coalesce(max(number), 0)::int AS last FROM runs`)) as [{ last: number }];

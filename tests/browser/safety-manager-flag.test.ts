@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { makeFlagFixture, signInThroughPage, type FlagFixture } from './flag-fixture';
+import { signInThroughPage, useBrowserApp } from '../support/browser-app';
+import { makeFlagFixture, type FlagFixture } from './flag-fixture';
 
 /**
  * The safety manager's journey in Chromium: sign in, open the flag from the flags list, read the

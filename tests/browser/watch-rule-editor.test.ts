@@ -2,8 +2,7 @@ import { randomBytes } from 'node:crypto';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
-import { useBrowserApp } from '../support/browser-app';
-import { signInThroughPage } from './flag-fixture';
+import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 
 /**
  * The safety manager writes a watch rule in Chromium: the editor's fields are found by their
@@ -38,9 +37,7 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
     (await h.ds.query(`SELECT threshold, min_cases, window_kind, recipients, active FROM watch_rules WHERE name = $1`, [ruleName])) as Array<Record<string, unknown>>;
 
   it('refuses bad numbers without losing the input, saves the rule, lists it and keeps an edit', async () => {
-    await h.browser.context.clearCookies();
-    const page = await h.browser.context.newPage();
-    await signInThroughPage(page, h.app.baseUrl, 'safety@demo.ratewarden.test');
+    const page = await pageSignedInAs(h, 'safety@demo.ratewarden.test');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Watch rules' }).click();
     await page.getByRole('heading', { level: 1, name: 'Watch rules' }).waitFor();
     await page.getByRole('link', { name: 'New watch rule' }).click();

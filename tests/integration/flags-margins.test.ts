@@ -6,7 +6,7 @@ import { runResultSchema } from '@ratewarden/shared/runs';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixture';
 
 /**
@@ -47,7 +47,7 @@ describe('the company count withheld by the site margin', () => {
     runId = (outcome as { runId: string }).runId;
     flagId = ((await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [rule!.id])) as Array<{ id: string }>)[0]!.id;
     // Company figures are for readers of every site (other test files' sites exist too).
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     const app = createApp({ dataSource: ds, config: testApiConfig() });

@@ -5,7 +5,7 @@ import { runResultSchema, type RunResult } from '@ratewarden/shared/runs';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixture';
 
 /**
@@ -54,7 +54,7 @@ describe('run results: site scoping and small-cell suppression', () => {
     expect(outcome.status).toBe('succeeded');
     runId = (outcome as { runId: string }).runId;
 
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', [siteA]);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);

@@ -6,7 +6,7 @@ import { rateRatio } from '@ratewarden/shared/stats';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixture';
 
 /**
@@ -50,7 +50,7 @@ describe('run strata: the stratum table of the adjusted view', () => {
     const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
     expect(outcome.status).toBe('succeeded');
     runId = (outcome as { runId: string }).runId;
-    const allSites = ((await ds.query(`SELECT id FROM sites`)) as Array<{ id: number }>).map((s) => s.id);
+    const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', [site]);

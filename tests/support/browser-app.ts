@@ -1,6 +1,8 @@
+import type { Page } from 'playwright-core';
 import type { DataSource } from 'typeorm';
 import { afterAll, beforeAll } from 'vitest';
 import { launchBrowser } from './browser';
+import { DEMO_PASSWORD } from './sign-in';
 import { listenTestApp } from './test-app';
 import { openTestDataSource } from './test-db';
 
@@ -29,4 +31,22 @@ export function useBrowserApp(prepare?: (ds: DataSource) => Promise<void>): Brow
     await h.ds?.destroy();
   });
   return h;
+}
+
+/** Signs in through the identity provider's own page, as a person would. */
+export async function signInThroughPage(page: Page, baseUrl: string, email: string): Promise<void> {
+  await page.goto(baseUrl, { waitUntil: 'networkidle' });
+  await page.getByRole('link', { name: 'Sign in', exact: true }).click();
+  await page.getByLabel('Work e-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: /sign in/i }).click();
+  await page.waitForURL(`${baseUrl}/**`);
+}
+
+/** A new page signed in as `email`, after signing out whoever the shared browser profile held. */
+export async function pageSignedInAs(h: BrowserApp, email: string): Promise<Page> {
+  await h.browser.context.clearCookies();
+  const page = await h.browser.context.newPage();
+  await signInThroughPage(page, h.app.baseUrl, email);
+  return page;
 }

@@ -13,3 +13,8 @@ export async function openTestDataSource(): Promise<DataSource> {
   await ds.initialize();
   return ds;
 }
+
+/** Every site's id: a reader of every site may see company-wide figures (other files' sites included). */
+export async function allSiteIds(ds: DataSource): Promise<number[]> {
+  return ((await ds.query(`SELECT id FROM sites ORDER BY id`)) as Array<{ id: number }>).map((s) => s.id);
+}

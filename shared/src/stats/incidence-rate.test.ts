@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { incidenceRate } from './incidence-rate';
-import { daysToPersonYears, hoursToOshaUnits, hoursToPersonYears, monthsToPersonYears, oshaRate } from './person-time';
+import { daysToPersonYears, hoursToOshaUnits, hoursToPersonYears, monthsToPersonYears, oshaRate, personTimeOfHours } from './person-time';
 import { poissonByarLimits, poissonMidPLimits } from './poisson-limits';
 import { expectRelClose } from './test-helpers';
 import { StatsValidationError } from './validation';
@@ -49,6 +49,11 @@ describe('incidence rate of one group', () => {
 });
 
 describe('person-time conversions and the OSHA/BLS rate', () => {
+  it('converts hours on either basis of a run (2,000 h a person-year; 200,000 h a unit: common practice, OSHA recordkeeping)', () => {
+    expect(personTimeOfHours(300_000, 'person_years')).toBe(150);
+    expect(personTimeOfHours(300_000, 'hours_200k')).toBe(1.5);
+  });
+
   it('conversions', () => {
     expect(hoursToPersonYears(300_000)).toBe(150); // 2,000 h per full-time year (40 h × 50 wk; 29 CFR 1904)
     expect(monthsToPersonYears(18)).toBe(1.5);

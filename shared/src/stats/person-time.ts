@@ -47,6 +47,14 @@ export function hoursToOshaUnits(hours: number): number {
   return hours / OSHA_BASE_HOURS;
 }
 
+/** The two person-time bases of a run's settings: person-years at 2,000 h, or 200,000-hour units. */
+export type HoursBasis = 'person_years' | 'hours_200k';
+
+/** Hours worked → person-time on a basis. @example personTimeOfHours(300000, 'hours_200k') // 1.5 */
+export function personTimeOfHours(hours: number, basis: HoursBasis): number {
+  return basis === 'person_years' ? hoursToPersonYears(hours) : hoursToOshaUnits(hours);
+}
+
 export interface OshaRateResult {
   estimate: number | null;
   exact: Interval;

@@ -1,7 +1,6 @@
 import {
   compareRates,
-  hoursToOshaUnits,
-  hoursToPersonYears,
+  personTimeOfHours,
   incidenceRate,
   rateTrend,
   mantelHaenszelRates,
@@ -113,7 +112,7 @@ export const WINDOWS: Array<{ kind: WindowKind; length: number }> = [
 /** Turns hundredths of hours into the run's person-time unit. */
 export function personTimeOf(cents: number, settings: RunSettings): number {
   const hours = cents / 100;
-  return settings.personTimeBasis === 'person_years' ? hoursToPersonYears(hours) : hoursToOshaUnits(hours);
+  return personTimeOfHours(hours, settings.personTimeBasis);
 }
 
 function strata(exposed: Tally, reference: Tally, pick: (t: Tally) => Map<string, { cases: number; cents: number }>, settings: RunSettings): RateStratum[] {

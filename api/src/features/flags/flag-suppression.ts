@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagDetail } from '@ratewarden/shared/flags';
 import { isSmallCount } from '@ratewarden/shared/small-cells';
+import { showsSmallCells as opens } from '../runs/runs-service';
 import { cellKey, siteMarginWithheld } from '../runs/site-margins';
 
 /** Who reads a flag: every role but the physician gets small counts withheld. */
@@ -9,8 +10,6 @@ export interface FlagReader {
   principal: Principal;
   smallCellThreshold: number;
 }
-
-const opens = (p: Principal) => p.kind === 'user' && p.role === 'physician';
 
 /** Event detail keys that carry the measure's value (with the person-time they give the count back). */
 const VALUE_KEYS = new Set(['value', 'previous', 'previousWorst']);

@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
-import type { RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
 import { marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
-import { compareRates, hoursToOshaUnits, hoursToPersonYears, METHODS } from '@ratewarden/shared/stats';
+import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
+import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
 import { getRun, n, resultScope, showsSmallCells, type ResultReader } from './runs-service';
 import { cellKey, siteMarginWithheld } from './site-margins';
@@ -65,8 +65,8 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
   });
 
   const withheld = await armWithholding(ds, runId, q, siteId, reader, keys, arms, groupIds);
-  const { personTimeBasis, confidence, per } = run.settings as { personTimeBasis: string; confidence: number; per: number };
-  const personTime = (hours: string) => (personTimeBasis === 'person_years' ? hoursToPersonYears(Number(hours)) : hoursToOshaUnits(Number(hours)));
+  const { personTimeBasis, confidence, per } = run.settings as RunSettings;
+  const personTime = (hours: string) => personTimeOfHours(Number(hours), personTimeBasis);
 
   const strata: RunStratum[] = keys.map((k) => {
     const arm = (g: number) => arms.get(k)!.get(g) ?? { cases: 0, hours: '0.00' };
