@@ -48,7 +48,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use(['/api', '/auth'], sessionMiddleware(dataSource, config), principalMiddleware(dataSource, config));
   app.use('/auth', authRouter(dataSource, config));
   app.use('/api', csrfProtection);
-  app.use('/api/session', sessionRouter());
+  app.use('/api/session', sessionRouter(config.SMALL_CELL_THRESHOLD));
   app.use('/api/admin', adminRouter(dataSource));
   app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource }));
   app.use('/api', groupsRouter({ dataSource }));

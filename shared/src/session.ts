@@ -13,6 +13,8 @@ export const sessionSchema = z.object({
     })
     .nullable(),
   csrfToken: z.string(),
+  /** The server's SMALL_CELL_THRESHOLD: counts from 1 to this − 1 are withheld (the screen says "<n" with it). */
+  smallCellThreshold: z.number().int().min(3),
 });
 export type Session = z.infer<typeof sessionSchema>;
 export type SessionUser = NonNullable<Session['user']>;

@@ -27,6 +27,13 @@ describe('sign-in through the OpenID Connect provider', () => {
     await ds.destroy();
   });
 
+  it('tells the screen the server\'s small-cell threshold in the session, signed in or not', async () => {
+    const anonymous = await request(app).get('/api/session').expect(200);
+    expect(anonymous.body).toMatchObject({ user: null, smallCellThreshold: 5 });
+    const strict = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '11' }) });
+    expect((await request(strict).get('/api/session').expect(200)).body.smallCellThreshold).toBe(11);
+  });
+
   it('signs a provisioned person in with their role and sites, and audits it', async () => {
     const { agent } = await signIn(app, 'safety@demo.ratewarden.test');
     const session = await agent.get('/api/session').expect(200);

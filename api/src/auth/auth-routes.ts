@@ -83,13 +83,14 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
 }
 
 /** `GET /api/session`: who is signed in (or null) and the CSRF token for state-changing requests. */
-export function sessionRouter(): Router {
+export function sessionRouter(smallCellThreshold: number): Router {
   const router = Router();
   router.get('/', (req, res) => {
     const p = req.principal;
     const body: Session = {
       user: p?.kind === 'user' ? { id: p.id, email: p.email, name: p.name, role: p.role, siteIds: p.siteIds } : null,
       csrfToken: csrfTokenOf(req),
+      smallCellThreshold,
     };
     res.set('Cache-Control', 'no-store').json(body);
   });

@@ -2,6 +2,7 @@ import { sessionSchema, type Session } from '@ratewarden/shared/session';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiPaths } from '../config/paths';
 import { api, setCsrfToken } from '../lib/api-client';
+import { setSmallCellThreshold } from '../lib/small-cells';
 
 export const sessionKeys = {
   all: ['session'] as const,
@@ -11,6 +12,7 @@ export const sessionKeys = {
 export async function getSession(signal?: AbortSignal): Promise<Session> {
   const session = await api.get(apiPaths.session, sessionSchema, signal);
   setCsrfToken(session.csrfToken);
+  setSmallCellThreshold(session.smallCellThreshold);
   return session;
 }
 

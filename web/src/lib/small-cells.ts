@@ -1,9 +1,8 @@
 import type { Role } from '@ratewarden/shared/domain';
-import type { Withheld } from '@ratewarden/shared/small-cells';
-import { env } from '../config/env';
+import { DEFAULT_SMALL_CELL_THRESHOLD, type Withheld } from '@ratewarden/shared/small-cells';
 
 /**
- * Small-cell suppression: a count below the threshold (default 5, VITE_SMALL_CELL_THRESHOLD) could
+ * Small-cell suppression: a count below the threshold (the server's SMALL_CELL_THRESHOLD, default 5) could
  * point at an identifiable person, so every role but the physician sees "<5" instead of it, in
  * charts, tables and exports alike (common practice in occupational and public-health reporting).
  * The API suppresses too; this keeps the screen consistent with what it sends.
@@ -20,6 +19,18 @@ export function maySeeSmallCells(role: Role | null | undefined): boolean {
   return role === 'physician';
 }
 
+let threshold = DEFAULT_SMALL_CELL_THRESHOLD;
+
+/** Takes the server's threshold from the session (api/get-session.ts), so the screen says what the server withholds. */
+export function setSmallCellThreshold(value: number): void {
+  threshold = value;
+}
+
+/** The threshold in force: counts from 1 to this − 1 are withheld for every role but the physician. */
+export function smallCellThreshold(): number {
+  return threshold;
+}
+
 /** What a count withheld as the complement of a small one shows (it is not small itself). */
 export const COMPLEMENT_TEXT = 'withheld';
 
@@ -29,16 +40,16 @@ export const COMPLEMENT_TEXT = 'withheld';
  * count, 'complement' for one withheld so that a small count elsewhere cannot be got back by
  * subtraction (shared/src/small-cells.ts).
  */
-export function showCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld: boolean | Withheld | null = false): ShownCount {
+export function showCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | null = false): ShownCount {
   if (withheld === 'complement') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
-  if (withheld) return { text: `<${threshold}`, value: null, suppressed: true };
+  if (withheld) return { text: `<${t}`, value: null, suppressed: true };
   if (count === null) return { text: 'not available', value: null, suppressed: false };
-  if (!maySeeSmallCells(role) && count > 0 && count < threshold) return { text: `<${threshold}`, value: null, suppressed: true };
+  if (!maySeeSmallCells(role) && count > 0 && count < t) return { text: `<${t}`, value: null, suppressed: true };
   return { text: new Intl.NumberFormat('en-GB').format(count), value: count, suppressed: false };
 }
 
 /** For CSV: the count itself, or the "<5" text when suppressed, never the hidden number. */
-export function exportCount(count: number | null, role: Role | null | undefined, threshold: number = env.VITE_SMALL_CELL_THRESHOLD, withheld: boolean | Withheld | null = false): string | number | null {
-  const shown = showCount(count, role, threshold, withheld);
+export function exportCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | null = false): string | number | null {
+  const shown = showCount(count, role, t, withheld);
   return shown.suppressed ? shown.text : shown.value;
 }

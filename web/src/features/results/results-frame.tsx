@@ -10,10 +10,9 @@ import { Cautions } from '../../components/cautions/cautions';
 import { QueryState } from '../../components/feedback/query-state';
 import { SelectField } from '../../components/form/select-field';
 import { UnitsStrip } from '../../components/units/units-strip';
-import { env } from '../../config/env';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
-import { COMPLEMENT_TEXT } from '../../lib/small-cells';
+import { COMPLEMENT_TEXT, smallCellThreshold } from '../../lib/small-cells';
 import { flagsQueryOptions } from '../../api/get-flags';
 import { useGroups } from '../../api/get-groups';
 import { useOutcomes } from '../../api/get-outcomes';
@@ -160,7 +159,7 @@ function SuppressionNote({ results }: { results: RunResult[] }) {
   if (!small && !complement) return null;
   return (
     <p className="mt-3 text-xs text-ink-soft">
-      {small && `Counts from 1 to ${env.VITE_SMALL_CELL_THRESHOLD - 1} are shown as “<${env.VITE_SMALL_CELL_THRESHOLD}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
+      {small && `Counts from 1 to ${smallCellThreshold() - 1} are shown as “<${smallCellThreshold()}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
       {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction.`}
     </p>
   );

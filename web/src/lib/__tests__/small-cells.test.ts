@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { exportCount, showCount } from '../small-cells';
+import { exportCount, setSmallCellThreshold, showCount, smallCellThreshold } from '../small-cells';
 
 // The rule (suppress counts under the threshold for everyone but the physician) is Ratewarden's
 // own, from DESIGN.md; 5 as the default threshold is common practice in health-statistics releases.
@@ -33,5 +33,19 @@ describe('small-cell suppression', () => {
     expect(exportCount(3, 'safety_manager')).toBe('<5');
     expect(exportCount(3, 'physician')).toBe(3);
     expect(exportCount(null, 'hygienist')).toBeNull();
+  });
+
+  it('takes the threshold the server sends in the session, for every count shown', () => {
+    try {
+      setSmallCellThreshold(7);
+      expect(smallCellThreshold()).toBe(7);
+      expect(showCount(6, 'hygienist').text).toBe('<7');
+      expect(showCount(null, 'hygienist', undefined, 'small').text).toBe('<7');
+      expect(showCount(null, 'hygienist', undefined, 'complement').text).toBe('withheld');
+      expect(exportCount(6, 'safety_manager')).toBe('<7');
+      expect(showCount(7, 'hygienist').text).toBe('7');
+    } finally {
+      setSmallCellThreshold(5);
+    }
   });
 });
