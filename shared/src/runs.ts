@@ -117,15 +117,16 @@ export type RunResultsQuery = z.infer<typeof runResultsQuerySchema>;
 /** Query of GET /api/runs/diff. */
 export const runDiffQuerySchema = z.object({ from: z.string().uuid(), to: z.string().uuid(), siteId: z.coerce.number().int().positive().optional() });
 
-/** One side of a changed cell in a run diff; a withheld count goes with its rate and IRR. */
-const diffSideSchema = z.object({
+/** A count as a reader may see it, with its hours and the rate computed from it (null with a withheld count). */
+const shownCountFields = {
   cases: z.number().int().nullable(),
-  suppressed: z.boolean(),
   withheld: withheldSchema.nullable(),
   hours: z.string(),
   rate: jsonNumberSchema.nullable(),
-  irr: jsonNumberSchema.nullable(),
-});
+};
+
+/** One side of a changed cell in a run diff; a withheld count goes with its rate and IRR. */
+const diffSideSchema = z.object({ ...shownCountFields, suppressed: z.boolean(), irr: jsonNumberSchema.nullable() });
 
 export const runDiffRowSchema = z.object({
   outcomeId: z.number().int(),
@@ -166,13 +167,7 @@ export const runStrataQuerySchema = z.object({
 export type RunStrataQuery = z.infer<typeof runStrataQuerySchema>;
 
 /** One arm (the group, or the reference group) in one stratum; a withheld count goes with its rate. */
-const stratumArmSchema = z.object({
-  cases: z.number().int().nullable(),
-  withheld: withheldSchema.nullable(),
-  hours: z.string(),
-  personTime: z.number(),
-  rate: jsonNumberSchema.nullable(),
-});
+const stratumArmSchema = z.object({ ...shownCountFields, personTime: z.number() });
 
 export const runStratumSchema = z.object({
   /** The stratum's key as stored: age band lower bound, site id or sex code; null when unknown. */

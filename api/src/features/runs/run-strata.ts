@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import { marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
+import { isSmallCount, marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
 import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
@@ -118,10 +118,10 @@ async function armWithholding(
   for (const g of groupIds) {
     const counts = keys.map((k) => arms.get(k)!.get(g)?.cases ?? 0);
     const total = counts.reduce((a, b) => a + b, 0);
-    const rowWithheld = (total > 0 && total < threshold) || margins.has(cellKey(siteId, q.outcomeId, g, q.window, q.period));
+    const rowWithheld = isSmallCount(total, threshold) || margins.has(cellKey(siteId, q.outcomeId, g, q.window, q.period));
     const m = new Map<string, Withheld>();
     if (rowWithheld) {
-      counts.forEach((c, i) => c > 0 && m.set(keys[i]!, c < threshold ? 'small' : 'complement'));
+      counts.forEach((c, i) => c > 0 && m.set(keys[i]!, isSmallCount(c, threshold) ? 'small' : 'complement'));
     } else {
       const r = marginSuppression(counts, threshold);
       r.parts.forEach((p, i) => p && m.set(keys[i]!, r.total ? 'complement' : p));
