@@ -2,7 +2,8 @@ import { defineConfig } from 'vitest/config';
 
 // One test command for the whole repository; each workspace keeps its tests beside its code.
 // One identity provider for every project (one issuer, so accounts bind the same way everywhere),
-// and the browser tests run after the integration tests: both use the one test database.
+// the browser tests run after the integration tests (both use the one test database), and the
+// reliability tests last.
 export default defineConfig({
   test: {
     globalSetup: ['tests/support/global-setup.ts'],
@@ -32,6 +33,17 @@ export default defineConfig({
           testTimeout: 120_000,
           hookTimeout: 120_000,
           sequence: { groupOrder: 1 },
+        },
+      },
+      {
+        // Hostile input, killed processes and a mail server that goes away: slow, so last.
+        test: {
+          name: 'reliability',
+          include: ['tests/reliability/**/*.test.ts'],
+          fileParallelism: false,
+          testTimeout: 300_000,
+          hookTimeout: 120_000,
+          sequence: { groupOrder: 2 },
         },
       },
     ],
