@@ -35,19 +35,26 @@ export interface SignedInAgent {
 export async function signIn(app: Express, email: string, password = DEMO_PASSWORD, returnTo?: string): Promise<SignedInAgent> {
   const agent = request.agent(app);
   const login = await agent.get(returnTo === undefined ? '/auth/login' : `/auth/login?returnTo=${encodeURIComponent(returnTo)}`).expect(302);
+  const callback = await passIdentityProvider(new URL(login.headers.location as string), email, password);
+  const back = await agent.get(`${callback.pathname}${callback.search}`).expect(302);
+  const session = await agent.get('/api/session').expect(200);
+  if (!session.body.user) throw new Error(`sign-in of ${email} did not produce a session`);
+  return { agent, csrf: session.body.csrfToken as string, landing: back.headers.location as string };
+}
+
+/**
+ * The identity provider's side of the round trip: from its authorization address through its
+ * sign-in form to the app's callback address (returned, not visited).
+ */
+export async function passIdentityProvider(authorization: URL, email: string, password = DEMO_PASSWORD): Promise<URL> {
   const jar = new Jar();
-  let url = new URL(login.headers.location as string);
+  let url = authorization;
   for (let hop = 0; hop < 12; hop++) {
     const res = await fetch(url, { redirect: 'manual', headers: { cookie: jar.header() } });
     jar.take(res);
     if (res.status >= 300 && res.status < 400) {
       const next = new URL(res.headers.get('location')!, url);
-      if (next.pathname === '/auth/callback') {
-        const back = await agent.get(`${next.pathname}${next.search}`).expect(302);
-        const session = await agent.get('/api/session').expect(200);
-        if (!session.body.user) throw new Error(`sign-in of ${email} did not produce a session`);
-        return { agent, csrf: session.body.csrfToken as string, landing: back.headers.location as string };
-      }
+      if (next.pathname === '/auth/callback') return next;
       url = next;
       continue;
     }

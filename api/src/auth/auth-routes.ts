@@ -10,6 +10,7 @@ import { createOidcPassport, type SignedIn } from './oidc-sign-in';
 import { loadUser } from './user-accounts';
 
 const regenerate = (req: Request) => new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
+const save = (req: Request) => new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
 
 /** `/auth/login`, `/auth/callback`, `/auth/logout`: sign-in and sign-out at both ends. */
 export function authRouter(ds: DataSource, config: ApiConfig): Router {
@@ -46,8 +47,11 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
         await regenerate(req); // a fresh session id at sign-in defeats session fixation
         req.session.userId = signedIn.userId;
         req.session.idToken = signedIn.idToken;
+        csrfTokenOf(req);
         const user = await loadUser(ds, signedIn.userId);
         await recordAudit(ds, { actor: user ?? null, action: 'auth.sign_in', target: `user:${signedIn.userId}`, detail: { firstSignIn: signedIn.created }, ip: req.ip });
+        // Stored before the redirect goes out: the browser asks for the session as soon as it lands.
+        await save(req);
         res.redirect(returnTo);
       } catch (e) {
         next(e);
