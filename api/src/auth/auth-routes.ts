@@ -86,14 +86,17 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
   return router;
 }
 
-/** `GET /api/session`: who is signed in (or null) and the CSRF token for state-changing requests. */
+/**
+ * `GET /api/session`: who is signed in (or null) and, for a signed-in person, the CSRF token for
+ * state-changing requests. An anonymous reader gets no token, so reading stores no session.
+ */
 export function sessionRouter(smallCellThreshold: number): Router {
   const router = Router();
   router.get('/', (req, res) => {
     const p = req.principal;
     const body: Session = {
       user: p?.kind === 'user' ? { id: p.id, email: p.email, name: p.name, role: p.role, siteIds: p.siteIds } : null,
-      csrfToken: csrfTokenOf(req),
+      csrfToken: p?.kind === 'user' ? csrfTokenOf(req) : null,
       smallCellThreshold,
     };
     res.set('Cache-Control', 'no-store').json(body);

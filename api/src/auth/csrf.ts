@@ -4,7 +4,7 @@ import { AppError } from '../lib/app-error';
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-/** The session's synchronizer token, made on first need. */
+/** The session's synchronizer token, made at sign-in (or on first need for an older signed-in session); never for anonymous readers. */
 export function csrfTokenOf(req: Request): string {
   if (!req.session.csrfToken) req.session.csrfToken = randomBytes(24).toString('base64url');
   return req.session.csrfToken;
