@@ -28,7 +28,8 @@ export interface AppDeps {
 export function createApp({ dataSource, config }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // Off unless configured: a client could otherwise pick its own address with X-Forwarded-For.
+  app.set('trust proxy', config.TRUST_PROXY);
   app.use(
     helmet({
       contentSecurityPolicy: {

@@ -3,6 +3,20 @@ import { z } from 'zod';
 const DEMO_SESSION_SECRET = 'ratewarden-demo-session-secret';
 const DEMO_CLIENT_SECRET = 'ratewarden-web-demo-secret';
 
+/**
+ * Express's `trust proxy`: off (the socket's address is the client's), a number of proxy hops, or
+ * a list of proxy addresses and subnets (`loopback`, `uniquelocal`, `10.0.0.0/8`, ...).
+ */
+const trustProxySchema = z
+  .string()
+  .trim()
+  .transform((s): boolean | number | string[] => {
+    if (s === '' || /^(false|off|no|0)$/i.test(s)) return false;
+    if (/^(true|on|yes)$/i.test(s)) return true;
+    if (/^\d+$/.test(s)) return Number(s);
+    return s.split(',').map((x) => x.trim()).filter(Boolean);
+  });
+
 /** API settings, parsed once at start; nothing else reads process.env. */
 const schema = z.object({
   PORT: z.coerce.number().int().min(1).max(65535).default(3000).describe('port of the web app and API on 127.0.0.1'),
@@ -17,6 +31,7 @@ const schema = z.object({
   OIDC_API_AUDIENCE: z.string().default('urn:ratewarden:api').describe('audience integration clients\' access tokens must carry'),
   SESSION_SECRET: z.string().min(16).default(DEMO_SESSION_SECRET),
   SESSION_HOURS: z.coerce.number().positive().default(8),
+  TRUST_PROXY: trustProxySchema.default(false).describe('which proxies may set X-Forwarded-For (off: none, so a client cannot choose the address rate limits and the audit log see)'),
   AUTH_RATE_LIMIT: z.coerce.number().int().positive().default(60).describe('sign-in attempts per IP per 15 minutes'),
   INTAKE_RATE_LIMIT: z.coerce.number().int().positive().default(120).describe('intake requests per client per 15 minutes'),
   SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('case counts below this are suppressed in results for every role but the physician (at least 3: with 2, a withheld count could only be 1)'),

@@ -1,9 +1,9 @@
 import { Router, type Request } from 'express';
-import rateLimit from 'express-rate-limit';
 import type { DataSource } from 'typeorm';
 import type { Session } from '@ratewarden/shared/session';
 import type { ApiConfig } from '../config';
 import { recordAudit } from '../audit/audit-log';
+import { signInRateLimit } from '../middleware/rate-limits';
 import { csrfProtection, csrfTokenOf } from './csrf';
 import { discover } from './discovery';
 import { createOidcPassport, type SignedIn } from './oidc-sign-in';
@@ -16,8 +16,7 @@ const save = (req: Request) => new Promise<void>((resolve, reject) => req.sessio
 export function authRouter(ds: DataSource, config: ApiConfig): Router {
   const router = Router();
   const { passport, ready } = createOidcPassport(ds, config);
-  const limiter = rateLimit({ windowMs: 15 * 60_000, limit: config.AUTH_RATE_LIMIT, standardHeaders: 'draft-8', legacyHeaders: false,
-    handler: (_req, res) => res.status(429).json({ code: 'rate_limited', message: 'too many sign-in attempts; wait a few minutes' }) });
+  const limiter = signInRateLimit(config.AUTH_RATE_LIMIT);
   router.use(passport.initialize());
 
   router.get('/login', limiter, async (req, res, next) => {
