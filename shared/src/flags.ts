@@ -73,7 +73,7 @@ export const flagEventSchema = z.object({
 });
 export type FlagEvent = z.infer<typeof flagEventSchema>;
 
-export const noticeStateSchema = z.enum(['pending', 'sent', 'failed']);
+export const noticeStateSchema = z.enum(['pending', 'sending', 'sent', 'failed']);
 export const noticeSchema = z.object({
   id: z.string().uuid(),
   recipient: z.string(),

@@ -46,7 +46,7 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     await clearCohortData(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician');
     port = await freePort();
-    sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50 };
+    sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50, sendingLeaseMs: 60_000 };
     c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NOISE', 'recurrent']] });
     for (let i = 0; i < 3; i++) {
       const e = await c.worker(`e${i}`, 1980, 'M');

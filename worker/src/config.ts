@@ -39,6 +39,7 @@ const schema = z.object({
   NOTICE_RETRY_BASE_MS: z.coerce.number().int().min(10).default(30_000).describe('first retry delay; doubles with every failed attempt'),
   NOTICE_RETRY_MAX_MS: z.coerce.number().int().min(10).default(3_600_000).describe('longest delay between attempts'),
   NOTICE_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(20).describe('attempts before a notice is marked failed'),
+  NOTICE_SENDING_LEASE_MS: z.coerce.number().int().min(50).default(120_000).describe('how long a notice being sent is left to its sender before another sender resends it (same Message-ID); longer than an SMTP conversation can take'),
 });
 
 export type WorkerConfig = z.infer<typeof schema>;

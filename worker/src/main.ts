@@ -37,6 +37,7 @@ const sender: SenderSettings = {
   retryBaseMs: config.NOTICE_RETRY_BASE_MS,
   retryMaxMs: config.NOTICE_RETRY_MAX_MS,
   maxAttempts: config.NOTICE_MAX_ATTEMPTS,
+  sendingLeaseMs: config.NOTICE_SENDING_LEASE_MS,
 };
 const transport = createTransport(sender);
 const notices = startLoop('notice sender', config.NOTICE_POLL_MS, async () => {

@@ -1,6 +1,11 @@
 import { EntitySchema } from 'typeorm';
 
-/** One threshold notice to one recipient, in the outbox until the sender has delivered it. */
+/**
+ * One threshold notice to one recipient, in the outbox until the sender has delivered it:
+ * pending → sending (recorded before the SMTP conversation) → sent (with the server's reply), or
+ * back to pending with a later `nextAttemptAt`, or failed after the last allowed attempt. While
+ * `sending`, `nextAttemptAt` is the lease after which another sender may take the notice over.
+ */
 export interface NoticeRow {
   id: string;
   flagId: string;
@@ -8,10 +13,12 @@ export interface NoticeRow {
   recipient: string;
   subject: string;
   body: string;
-  state: 'pending' | 'sent' | 'failed';
+  state: 'pending' | 'sending' | 'sent' | 'failed';
   attempts: number;
   nextAttemptAt: Date;
   lastError: string | null;
+  lastAttemptAt: Date | null;
+  serverResponse: string | null;
   messageId: string | null;
   createdAt: Date;
   sentAt: Date | null;
@@ -31,6 +38,8 @@ export const NoticeEntity = new EntitySchema<NoticeRow>({
     attempts: { type: 'integer', default: 0 },
     nextAttemptAt: { name: 'next_attempt_at', type: 'timestamptz', default: () => 'now()' },
     lastError: { name: 'last_error', type: 'text', nullable: true },
+    lastAttemptAt: { name: 'last_attempt_at', type: 'timestamptz', nullable: true },
+    serverResponse: { name: 'server_response', type: 'text', nullable: true },
     messageId: { name: 'message_id', type: 'text', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
     sentAt: { name: 'sent_at', type: 'timestamptz', nullable: true },

@@ -1,5 +1,6 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { DataSource } from 'typeorm';
+import { claimNextNotice, type ClaimedNotice } from './claim-notice';
 
 export interface SenderSettings {
   smtpHost: string;
@@ -11,7 +12,12 @@ export interface SenderSettings {
   retryBaseMs: number;
   retryMaxMs: number;
   maxAttempts: number;
+  /** How long a notice stays `sending` before another sender may take it over (its sender died). */
+  sendingLeaseMs: number;
 }
+
+/** What the sender needs of a nodemailer transport (tests wrap one to fail at chosen moments). */
+export type NoticeTransport = Pick<Transporter, 'sendMail'>;
 
 export function createTransport(s: SenderSettings): Transporter {
   return nodemailer.createTransport({
@@ -32,51 +38,45 @@ export function retryDelayMs(failedAttempts: number, s: Pick<SenderSettings, 're
   return Math.min(s.retryMaxMs, s.retryBaseMs * 2 ** Math.max(0, failedAttempts - 1));
 }
 
-interface DueNotice {
-  id: string;
-  recipient: string;
-  subject: string;
-  body: string;
-  attempts: number;
+/** One SMTP conversation for a claimed notice, then its outcome recorded. */
+async function deliver(ds: DataSource, transport: NoticeTransport, s: SenderSettings, n: ClaimedNotice): Promise<'sent' | 'failed'> {
+  try {
+    const info = await transport.sendMail({ from: s.from, to: n.recipient, subject: n.subject, text: n.body, messageId: n.messageId });
+    // Only a notice still `sending` is marked: a sender that took over after the lease may have marked it already.
+    await ds.query(
+      `UPDATE notices SET state = 'sent', sent_at = now(), server_response = $2, last_error = NULL WHERE id = $1 AND state = 'sending'`,
+      [n.id, String((info as { response?: unknown }).response ?? '').slice(0, 500) || null],
+    );
+    return 'sent';
+  } catch (err) {
+    const message = (err instanceof Error ? err.message : String(err)).slice(0, 500);
+    const giveUp = n.attempts >= s.maxAttempts;
+    await ds.query(
+      `UPDATE notices SET state = $3, last_error = $2, next_attempt_at = now() + make_interval(secs => $4::double precision / 1000)
+       WHERE id = $1 AND state = 'sending'`,
+      [n.id, message, giveUp ? 'failed' : 'pending', retryDelayMs(n.attempts, s)],
+    );
+    return 'failed';
+  }
 }
 
 /**
- * Delivers due notices from the outbox, one at a time, each inside its own transaction that
- * holds the notice's row lock (FOR UPDATE SKIP LOCKED): concurrent senders never pick the same
- * notice, and a notice is marked sent in the same transaction that claimed it, so it is sent once.
+ * Delivers due notices from the outbox, one at a time: at least once to the SMTP server, and
+ * exactly once as the recipient sees it. Each notice is recorded as `sending` (committed) before
+ * the SMTP conversation and as `sent`, with the server's reply, after it; a crash in between
+ * leaves it `sending`, and once its lease has passed it is sent again with the same Message-ID
+ * (`<notice-<id>@ratewarden.local>`), which the receiving side collapses into the copy it has.
  * A failure records the error and schedules the next attempt with exponential backoff; after
- * `maxAttempts` the notice is marked failed (shown on the flag). Returns how many were sent.
+ * `maxAttempts` the notice is marked failed (shown on the flag).
  */
-export async function sendDueNotices(ds: DataSource, transport: Transporter, s: SenderSettings, limit = 50): Promise<{ sent: number; failed: number }> {
+export async function sendDueNotices(ds: DataSource, transport: NoticeTransport, s: SenderSettings, limit = 50): Promise<{ sent: number; failed: number }> {
   let sent = 0;
   let failed = 0;
   for (let i = 0; i < limit; i++) {
-    const done = await ds.transaction(async (em) => {
-      const rows: DueNotice[] = await em.query(
-        `SELECT id, recipient, subject, body, attempts FROM notices
-         WHERE state = 'pending' AND next_attempt_at <= now()
-         ORDER BY next_attempt_at, created_at LIMIT 1 FOR UPDATE SKIP LOCKED`,
-      );
-      const n = rows[0];
-      if (!n) return 'none' as const;
-      try {
-        const info = await transport.sendMail({ from: s.from, to: n.recipient, subject: n.subject, text: n.body });
-        await em.query(`UPDATE notices SET state = 'sent', attempts = attempts + 1, sent_at = now(), message_id = $2, last_error = NULL WHERE id = $1`, [n.id, info.messageId ?? null]);
-        return 'sent' as const;
-      } catch (err) {
-        const attempts = n.attempts + 1;
-        const message = (err instanceof Error ? err.message : String(err)).slice(0, 500);
-        const giveUp = attempts >= s.maxAttempts;
-        await em.query(
-          `UPDATE notices SET attempts = $2, last_error = $3, state = $4, next_attempt_at = now() + make_interval(secs => $5::double precision / 1000) WHERE id = $1`,
-          [n.id, attempts, message, giveUp ? 'failed' : 'pending', retryDelayMs(attempts, s)],
-        );
-        return 'failed' as const;
-      }
-    });
-    if (done === 'none') break;
-    if (done === 'sent') sent++;
-    else failed++;
+    const claim = await claimNextNotice(ds, s);
+    if (claim.kind === 'none') break;
+    if (claim.kind === 'exhausted' || (await deliver(ds, transport, s, claim.notice)) === 'failed') failed++;
+    else sent++;
   }
   return { sent, failed };
 }

@@ -16,7 +16,7 @@ export interface FakeSmtp {
  * authentication or TLS and hands each one, whole, to `keep`. A message is acknowledged only
  * after `keep` has stored it, so a sender never counts as delivered what was not kept.
  */
-export async function startFakeSmtp(options: { port: number; host?: string; keep: (m: ReceivedMessage) => Promise<void> }): Promise<FakeSmtp> {
+export async function startFakeSmtp(options: { port: number; host?: string; keep: (m: ReceivedMessage) => Promise<unknown> }): Promise<FakeSmtp> {
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['AUTH', 'STARTTLS'],
