@@ -15,6 +15,9 @@ const schema = z.object({
   API_AUDIENCE: z.string().default('urn:ratewarden:api'),
   ACCESS_TOKEN_TTL_SECONDS: z.coerce.number().int().positive().default(600),
   IDP_EXTRA_REDIRECT_URIS: list.default([]),
+  IDP_FAILED_SIGN_INS_PER_ACCOUNT: z.coerce.number().int().positive().default(10).describe('wrong passwords for one account before it is locked out'),
+  IDP_FAILED_SIGN_INS_PER_ADDRESS: z.coerce.number().int().positive().default(50).describe('wrong passwords from one address before it is locked out'),
+  IDP_LOCKOUT_MINUTES: z.coerce.number().int().positive().default(15).describe('the window the failures are counted in, and the lockout'),
 });
 
 export type IdpConfig = z.infer<typeof schema> & { issuer: string };

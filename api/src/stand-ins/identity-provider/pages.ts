@@ -32,6 +32,14 @@ ${error ? `<div class="error" role="alert">${escape(error)}</div>` : ''}
   );
 }
 
+/** The answer to a sign-in attempt past the limit of failed ones (HTTP 429). */
+export function tooManyAttemptsPage(what: string, minutes: number): string {
+  return frame(
+    'Too many attempts',
+    `<h1>Too many attempts</h1><div class="error" role="alert">Too many wrong passwords ${escape(what)}. Sign-in is locked for up to ${minutes} minutes; try again later.</div>`,
+  );
+}
+
 /** RP-initiated logout: the provider's confirmation form, submitted at once (the user already chose to sign out). */
 export function signOutPage(form: string): string {
   return frame('Signing out', `<h1>Signing out…</h1><p>You are being signed out of the identity service.</p>${form}
