@@ -51,7 +51,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use('/api', csrfProtection);
   app.use('/api/session', sessionRouter(config.SMALL_CELL_THRESHOLD));
   app.use('/api/admin', adminRouter(dataSource));
-  app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource }));
+  app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource, maxBytes: config.INTAKE_MAX_BYTES, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS, expiryHours: config.INTAKE_EXPIRY_HOURS }));
   app.use('/api', groupsRouter({ dataSource }));
   app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/rules', rulesRouter({ dataSource }));

@@ -34,6 +34,9 @@ const schema = z.object({
   TRUST_PROXY: trustProxySchema.default(false).describe('which proxies may set X-Forwarded-For (off: none, so a client cannot choose the address rate limits and the audit log see)'),
   AUTH_RATE_LIMIT: z.coerce.number().int().positive().default(60).describe('sign-in attempts per IP per 15 minutes'),
   INTAKE_RATE_LIMIT: z.coerce.number().int().positive().default(120).describe('intake requests per client per 15 minutes'),
+  INTAKE_MAX_BYTES: z.coerce.number().int().positive().default(512 * 1024 * 1024).describe('largest roster or case file accepted, in bytes'),
+  INTAKE_ALLOW_FUTURE_MONTHS: z.enum(['0', '1']).default('0').transform((v) => v === '1').describe('1 takes in months (and onset dates) after the current month'),
+  INTAKE_EXPIRY_HOURS: z.coerce.number().positive().default(24).describe('hours a checked intake waits for apply before it expires and its staged rows are dropped'),
   SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('case counts below this are suppressed in results for every role but the physician (at least 3: with 2, a withheld count could only be 1)'),
 });
 

@@ -1,13 +1,13 @@
 import { z } from 'zod';
 import { caseStatusSchema, intakeKindSchema, intakeStateSchema, type IntakeKind } from './intake';
-import { cellJudge, isCalendarDate } from './intake-cell';
+import { cellJudge, isCalendarDate, NO_BOUNDS, type CellBounds } from './intake-cell';
 import { intakeColumns, type ColumnDef } from './intake-columns';
 
 export { isCalendarDate };
 
 /** The zod schema of one cell, derived from the column's rule through the shared cell judge. */
-export function cellSchema(col: ColumnDef): z.ZodType<string | number | null> {
-  const judge = cellJudge(col);
+export function cellSchema(col: ColumnDef, bounds: CellBounds = NO_BOUNDS): z.ZodType<string | number | null> {
+  const judge = cellJudge(col, bounds);
   return z.string().transform((raw, ctx) => {
     const verdict = judge(raw);
     if (verdict.reason) {
@@ -18,10 +18,13 @@ export function cellSchema(col: ColumnDef): z.ZodType<string | number | null> {
   });
 }
 
-/** Row schema for small files, the web page's preview and JSON bodies: header name → cell. */
-export function rowSchema(kind: IntakeKind) {
+/**
+ * Row schema for small files, the web page's preview and JSON bodies: header name → cell. Pass the
+ * latest month the server takes in to refuse later months as the upload would.
+ */
+export function rowSchema(kind: IntakeKind, bounds: CellBounds = NO_BOUNDS) {
   const shape: Record<string, z.ZodType<string | number | null>> = {};
-  for (const col of intakeColumns[kind]) shape[col.name] = col.required ? cellSchema(col) : cellSchema(col).optional().transform((v) => v ?? null);
+  for (const col of intakeColumns[kind]) shape[col.name] = col.required ? cellSchema(col, bounds) : cellSchema(col, bounds).optional().transform((v) => v ?? null);
   return z.object(shape).strict();
 }
 

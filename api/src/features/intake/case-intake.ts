@@ -1,7 +1,10 @@
 import type { PoolClient } from 'pg';
+import type { CellBounds } from '@ratewarden/shared/intake-cell';
 import { caseColumns, reasons } from '@ratewarden/shared/intake-columns';
 import type { IntakeDiff } from '@ratewarden/shared/intake-schemas';
 import { cell, cellChecksInsertSql, isCalendarDateSql, lit } from './sql-checks';
+
+const onsetRule = caseColumns.find((c) => c.name === 'onset_date')!.rule;
 
 const current = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month`;
 
@@ -9,9 +12,9 @@ const current = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.
  * Every case-list check over the staging table. Leaves `intake_cases`: the well-formed rows typed
  * and resolved to worker and outcome ids, with the current stored version of the same case_ref.
  */
-export async function checkCases(client: PoolClient, stg: string): Promise<void> {
+export async function checkCases(client: PoolClient, stg: string, bounds: CellBounds): Promise<void> {
   const outcomes = (await client.query<{ code: string }>(`SELECT upper(code) AS code FROM outcomes`)).rows.map((r) => r.code);
-  for (const sql of cellChecksInsertSql(stg, caseColumns, { outcome: outcomes })) await client.query(sql);
+  for (const sql of cellChecksInsertSql(stg, caseColumns, { outcome: outcomes }, bounds)) await client.query(sql);
 
   await client.query(`
     INSERT INTO intake_problems (line, col, val, reason)
@@ -28,7 +31,7 @@ export async function checkCases(client: PoolClient, stg: string): Promise<void>
     JOIN outcomes o ON upper(o.code) = upper(${cell('s', 'outcome')})
     LEFT JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
     LEFT JOIN case_events ce ON ce.case_ref = ${cell('s', 'case_ref')} AND ce.superseded_by IS NULL
-    WHERE ${isCalendarDateSql(cell('s', 'onset_date'))}`);
+    WHERE ${isCalendarDateSql(cell('s', 'onset_date'), onsetRule)}`);
 
   await client.query(`
     INSERT INTO intake_problems (line, col, val, reason)

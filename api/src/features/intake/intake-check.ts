@@ -1,5 +1,6 @@
 import type { PoolClient } from 'pg';
 import type { IntakeKind } from '@ratewarden/shared/intake';
+import type { CellBounds } from '@ratewarden/shared/intake-cell';
 import type { IntakeDiff, IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { applyCases, caseDiff, caseScope, checkCases } from './case-intake';
 import { collectProblems, openProblemTable } from './problems';
@@ -26,13 +27,14 @@ export async function lockIntakes(client: PoolClient): Promise<void> {
 
 /**
  * Runs every check of the kind over the intake's staging `table`; computes the diff only for a
- * file without problems. For a roster, `staged` carries what the upload stream found; at apply it
+ * file without problems. `bounds` says up to which month rows are taken in (the case cells are
+ * judged here; a roster's were judged while streaming). For a roster, `staged` carries what the upload stream found; at apply it
  * is null and only the checks against the store run again (see checkRoster).
  */
-export async function runChecks(client: PoolClient, kind: IntakeKind, table: string, staged: RosterStaged | null = null): Promise<CheckOutcome> {
+export async function runChecks(client: PoolClient, kind: IntakeKind, table: string, bounds: CellBounds, staged: RosterStaged | null = null): Promise<CheckOutcome> {
   await openProblemTable(client);
   const st = rosterStage(table);
-  const unlisted = kind === 'roster' ? await checkRoster(client, st, staged) : (await checkCases(client, stagingRef(table)), 0);
+  const unlisted = kind === 'roster' ? await checkRoster(client, st, staged) : (await checkCases(client, stagingRef(table), bounds), 0);
   const { problems, count } = await collectProblems(client);
   const problemCount = count + unlisted;
   const scope = kind === 'roster' ? await rosterScope(client, st) : await caseScope(client);

@@ -8,17 +8,26 @@ import { AppError } from '../../lib/app-error';
 import { tooLarge } from './byte-meter';
 import { getIntake, listIntakes } from './intake-queries';
 import { applyIntake, DEFAULT_MAX_BYTES, discardIntake, receiveIntake, restoreIntake } from './intake-service';
+import { DEFAULT_EXPIRY_HOURS, sweepStaging } from './intake-expiry';
 import { firstFile } from './multipart-file';
 
 export interface IntakeRouterDeps {
   dataSource: DataSource;
   /** Largest file accepted, in bytes (default 512 MiB). */
   maxBytes?: number;
+  /** Take in months after the current one (INTAKE_ALLOW_FUTURE_MONTHS). */
+  allowFutureMonths?: boolean;
+  /** Hours a checked intake waits for apply before it expires (INTAKE_EXPIRY_HOURS). */
+  expiryHours?: number;
 }
 
-/** Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore. */
-export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES }: IntakeRouterDeps): Router {
+/**
+ * Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore.
+ * Uploads, the history and apply first sweep expired checked intakes away (intake-expiry.ts).
+ */
+export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, allowFutureMonths = false, expiryHours = DEFAULT_EXPIRY_HOURS }: IntakeRouterDeps): Router {
   const router = Router();
+  const sweep = () => sweepStaging(ds, expiryHours);
 
   router.get('/templates/:file', authorize('intake:formats'), (req, res) => {
     const kind = intakeKindSchema.safeParse(String(req.params.file).replace(/\.csv$/, ''));
@@ -38,9 +47,14 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES }: I
       req.resume();
       throw tooLarge(maxBytes);
     }
-    const file = await firstFile(req, maxBytes);
+    await sweep();
+    const file = await firstFile(req, maxBytes).catch((err: unknown) => {
+      // The body is not what it should be: answer, and do not read the rest of it.
+      res.set('connection', 'close');
+      throw err;
+    });
     try {
-      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip });
+      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip, allowFutureMonths });
       if (result.intake.state === 'rejected') {
         const first = result.intake.problems[0]?.reason ?? 'the file has problems';
         const more = result.intake.problemCount > 1 ? ` (and ${result.intake.problemCount - 1} more problems)` : '';
@@ -56,13 +70,15 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES }: I
   });
 
   router.get('/', authorize('intake:read'), async (req, res) => {
+    await sweep();
     res.json(await listIntakes(ds, req.principal!, intakeListQuerySchema.parse(req.query)));
   });
   router.get('/:id', authorize('intake:read'), async (req, res) => {
     res.json(await getIntake(ds, req.principal!, String(req.params.id)));
   });
   router.post('/:id/apply', authorize('intake:write'), async (req, res) => {
-    const intake = await applyIntake(ds, req.principal!, String(req.params.id), req.ip);
+    await sweep();
+    const intake = await applyIntake(ds, req.principal!, String(req.params.id), req.ip, { expiryHours, allowFutureMonths });
     if (intake.state === 'rejected') throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake });
     res.json(intake);
   });

@@ -1,20 +1,26 @@
 import { randomUUID } from 'node:crypto';
 import type { Readable } from 'node:stream';
 import type { PoolClient } from 'pg';
-import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import type { IntakeKind } from '@ratewarden/shared/intake';
-import { intakeColumns } from '@ratewarden/shared/intake-columns';
+import { monthOf, type CellBounds } from '@ratewarden/shared/intake-cell';
+import { intakeColumns, reasons } from '@ratewarden/shared/intake-columns';
 import type { IntakeDetail, IntakeProblem, IntakeUploadResponse } from '@ratewarden/shared/intake-schemas';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { ByteMeter } from './byte-meter';
+import { dataErrorProblem, isPgDataError } from './copy-errors';
 import { copyRows, createStagingTable, stagingRef, stagingTableName } from './copy-stage';
 import { detectDelimiter, matchHeader, readHead } from './csv-header';
 import { applyChecked, lockIntakes, runChecks, type CheckOutcome } from './intake-check';
+import { DEFAULT_EXPIRY_HOURS, expireIntake } from './intake-expiry';
 import { loadIntake } from './intake-queries';
-import { rosterStage, stageRoster, type RosterStaged } from './roster-stage';
+import { withTransaction } from './intake-transaction';
+import { stageRoster, type RosterStaged } from './roster-stage';
+import { DEFAULT_TALLY_LIMITS } from './roster-stream';
+import { dropStaging } from './staging-drop';
 import { restoreCases } from './case-intake';
 import { restoreRoster } from './roster-apply';
 
@@ -30,28 +36,21 @@ export interface ReceiveInput {
   principal: Principal;
   maxBytes?: number;
   ip?: string | null;
+  /** Whether months after the current one are taken in (INTAKE_ALLOW_FUTURE_MONTHS); default no. */
+  allowFutureMonths?: boolean;
+  /** The clock, for the current month. */
+  now?: Date;
+}
+
+/** The month bound of the cell rules: the current month, unless months still to come are allowed. */
+export function intakeBounds(allowFutureMonths = false, now = new Date()): CellBounds {
+  return { latestMonth: allowFutureMonths ? null : monthOf(now) };
 }
 
 /** The rejection of a file that cannot even be staged: header, encoding or CSV-structure problems. */
 class Unreadable extends Error {
   constructor(readonly problems: IntakeProblem[]) {
     super(problems[0]?.reason ?? 'the file cannot be read');
-  }
-}
-
-async function withTransaction<T>(ds: DataSource, fn: (client: PoolClient, em: EntityManager) => Promise<T>): Promise<T> {
-  const qr: QueryRunner = ds.createQueryRunner();
-  const client = (await qr.connect()) as PoolClient;
-  await qr.startTransaction();
-  try {
-    const result = await fn(client, qr.manager);
-    await qr.commitTransaction();
-    return result;
-  } catch (err) {
-    if (qr.isTransactionActive) await qr.rollbackTransaction().catch(() => undefined);
-    throw err;
-  } finally {
-    await qr.release();
   }
 }
 
@@ -74,11 +73,16 @@ function drain(src: Readable): Promise<void> {
  */
 export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promise<IntakeUploadResponse> {
   const defs = intakeColumns[input.kind];
+  const bounds = intakeBounds(input.allowFutureMonths, input.now);
   const meter = new ByteMeter(input.maxBytes ?? DEFAULT_MAX_BYTES);
-  input.stream.on('error', (err) => meter.destroy(err));
   // Failures are read from `meter.errored` by whoever reads next; this keeps them from going unhandled.
   meter.on('error', () => undefined);
-  input.stream.pipe(meter);
+  // The upload may have failed before it reached us (a multipart body cut short): its error event is gone.
+  if (input.stream.errored) meter.destroy(input.stream.errored);
+  else {
+    input.stream.on('error', (err) => meter.destroy(err));
+    input.stream.pipe(meter);
+  }
   const id = randomUUID();
   const table = stagingTableName(id);
   let columns: string[] = [];
@@ -101,7 +105,7 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
       let rowCount: number;
       if (input.kind === 'roster') {
         // Rosters are large: judged cell by cell while streaming, staged typed (roster-stream.ts).
-        staged = await stageRoster(client, table, columns, delimiter, head.eol, head.rest, head.ended ? null : meter);
+        staged = await stageRoster(client, table, columns, delimiter, head.eol, head.rest, head.ended ? null : meter, DEFAULT_TALLY_LIMITS, bounds);
         rowCount = staged.rowCount;
       } else {
         await createStagingTable(client, table, defs);
@@ -123,13 +127,15 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
          VALUES ($1, $2, 'received', $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
         [id, input.kind, input.fileName, checksum, meter.bytes, rowCount, submittedBy, submittedByClient, table, columns, delimiter],
       );
-      const outcome = await runChecks(client, input.kind, table, staged);
+      const outcome = await runChecks(client, input.kind, table, bounds, staged);
       assertSites(input.principal, outcome.scope.siteIds);
       await recordAudit(em, { actor: input.principal, action: 'intake.receive', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount } });
       await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply', input.principal, input.ip);
       return { intake: await loadIntake(em, id), duplicate: false };
     });
-  } catch (err) {
+  } catch (thrown) {
+    // A value PostgreSQL cannot take, met by the checks: a problem of the file, not of the server.
+    const err = isPgDataError(thrown) ? dataErrorProblem(thrown) : thrown;
     if (err instanceof Duplicate) {
       await recordAudit(ds, { actor: input.principal, action: 'intake.duplicate', target: `intake:${err.existingId}`, ip: input.ip, detail: { fileName: input.fileName, checksum: err.checksum } });
       return { intake: await loadIntake(ds, err.existingId), duplicate: true };
@@ -184,13 +190,6 @@ async function settleChecked(client: PoolClient, em: EntityManager, id: string, 
   if (apply) await applyNow(client, em, id, kind, table, principal, ip);
 }
 
-async function dropStaging(client: PoolClient, id: string, table: string): Promise<void> {
-  const st = rosterStage(table);
-  // A case list has only the first; a roster has all three.
-  await client.query(`DROP TABLE IF EXISTS ${st.rows}, ${st.workers}, ${st.slices}`);
-  await client.query(`UPDATE intakes SET staging_table = NULL WHERE id = $1`, [id]);
-}
-
 async function requestRun(client: PoolClient, id: string, reason: string): Promise<void> {
   await client.query(`INSERT INTO run_requests (reason, intake_id) VALUES ($1, $2)`, [reason, id]);
 }
@@ -203,38 +202,73 @@ async function applyNow(client: PoolClient, em: EntityManager, id: string, kind:
   await recordAudit(em, { actor: principal, action: 'intake.apply', target: `intake:${id}`, ip, detail: { kind, superseded } });
 }
 
-interface LockedIntake { id: string; kind: IntakeKind; state: string; staging_table: string | null; row_count: number; site_ids: number[] }
+interface LockedIntake {
+  id: string; kind: IntakeKind; state: string; staging_table: string | null; row_count: number; site_ids: number[];
+  /** Checked longer ago than the expiry allows. */
+  expired: boolean;
+  /** The first problem's reason (why a rejected intake was rejected). */
+  reason: string | null;
+}
 
-async function lockIntake(client: PoolClient, id: string): Promise<LockedIntake> {
+async function lockIntake(client: PoolClient, id: string, expiryHours = DEFAULT_EXPIRY_HOURS): Promise<LockedIntake> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw new AppError('not_found', 'no such intake');
   await lockIntakes(client);
-  const { rows } = await client.query<LockedIntake>(`SELECT id, kind, state, staging_table, row_count, site_ids FROM intakes WHERE id = $1 FOR UPDATE`, [id]);
+  const { rows } = await client.query<LockedIntake>(
+    `SELECT id, kind, state, staging_table, row_count, site_ids, coalesce(checked_at < now() - $2 * interval '1 hour', false) AS expired,
+            problems->0->>'reason' AS reason
+     FROM intakes WHERE id = $1 FOR UPDATE`,
+    [id, expiryHours],
+  );
   if (!rows[0]) throw new AppError('not_found', 'no such intake');
   return rows[0];
+}
+
+function notApplicable(state: string, reason: string | null): AppError {
+  return new AppError('conflict', `only a checked intake can be applied; this one is ${state}${state === 'rejected' && reason ? `: ${reason}` : ''}`);
+}
+
+export interface ApplyOptions {
+  /** Hours a checked intake may wait for apply (INTAKE_EXPIRY_HOURS). */
+  expiryHours?: number;
+  allowFutureMonths?: boolean;
+  now?: Date;
 }
 
 /**
  * Applies an intake that was checked earlier. The checks that depend on the store run again
  * first, in the same transaction, because the store may have moved since; new problems reject
  * the intake and store nothing. The in-file checks of a roster are not repeated: its staged rows
- * are intact (same count) and only this code writes them.
+ * are intact (same count) and only this code writes them. An intake checked longer ago than the
+ * expiry allows is expired here (kept so) and the apply refused.
  */
-export async function applyIntake(ds: DataSource, p: Principal, id: string, ip?: string | null): Promise<IntakeDetail> {
+export async function applyIntake(ds: DataSource, p: Principal, id: string, ip?: string | null, opts: ApplyOptions = {}): Promise<IntakeDetail> {
+  const hours = opts.expiryHours ?? DEFAULT_EXPIRY_HOURS;
   const detail = await withTransaction(ds, async (client, em) => {
-    const it = await lockIntake(client, id);
+    const it = await lockIntake(client, id, hours);
     assertSites(p, it.site_ids);
-    if (it.state !== 'checked') throw new AppError('conflict', `only a checked intake can be applied; this one is ${it.state}`);
+    if (it.state === 'checked' && it.expired) {
+      // Committed on return, so the intake stays expired; the refusal follows outside the transaction.
+      await expireIntake(client, em, id, it.staging_table, hours);
+      return null;
+    }
+    if (it.state !== 'checked') throw notApplicable(it.state, it.reason);
     const staged = it.staging_table
       ? await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${stagingRef(it.staging_table)}`).catch(() => null)
       : null;
     if (!staged || Number(staged.rows[0]!.n) !== it.row_count) {
       throw new AppError('conflict', 'the staged rows of this intake are gone (the database restarted since the check); upload the file again');
     }
-    const outcome = await runChecks(client, it.kind, it.staging_table!);
-    assertSites(p, outcome.scope.siteIds);
-    await settleChecked(client, em, id, it.kind, it.staging_table!, outcome, true, p, ip);
+    try {
+      const outcome = await runChecks(client, it.kind, it.staging_table!, intakeBounds(opts.allowFutureMonths, opts.now));
+      assertSites(p, outcome.scope.siteIds);
+      await settleChecked(client, em, id, it.kind, it.staging_table!, outcome, true, p, ip);
+    } catch (err) {
+      if (isPgDataError(err)) throw new AppError('validation_failed', `the intake cannot be applied: a value cannot be stored (${err.message ?? err.code})`);
+      throw err;
+    }
     return loadIntake(em, id);
   });
+  if (!detail) throw notApplicable('rejected', reasons.intakeExpired(hours));
   return detail;
 }
 

@@ -1,18 +1,29 @@
-import type { Readable } from 'node:stream';
+import { PassThrough, type Readable } from 'node:stream';
 import busboy from 'busboy';
 import type { Request } from 'express';
 import { AppError } from '../../lib/app-error';
 
 export interface UploadedFile {
   fileName: string;
+  /**
+   * The file's bytes. It may already have failed when handed over (a body cut short in the same
+   * chunk as the file's start): readers check `errored` before waiting for events.
+   */
   stream: Readable;
   /** Resolves once the whole request body has been read (or thrown away). */
   done: Promise<void>;
 }
 
+const broken = (why: string) => new AppError('bad_request', `the upload broke off: ${why}; send the file again as multipart/form-data with one file field`);
+
 /**
  * The first file of a multipart request, as a stream: busboy hands it over as the bytes arrive,
  * nothing is written to disk or kept in memory. Later files and all fields are ignored.
+ *
+ * A malformed or interrupted body must end the request, never the process: busboy fails its file
+ * streams (for instance "Unexpected end of form" when the closing boundary is missing), and an
+ * 'error' event with no listener would be thrown. So every file stream gets a listener the moment
+ * it exists, and the one handed over is our own stream, failed with a 400 problem.
  */
 export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile> {
   if (!req.is('multipart/form-data')) {
@@ -27,29 +38,43 @@ export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile>
       reject(new AppError('bad_request', 'the multipart request has no boundary'));
       return;
     }
-    let got: Readable | null = null;
+    let out: PassThrough | null = null;
+    let settled = false;
+    const fail = (err: AppError) => {
+      if (out) {
+        if (!out.destroyed) out.destroy(err);
+      } else if (!settled) {
+        settled = true;
+        reject(err);
+      }
+    };
     const done = new Promise<void>((res) => {
       bb.on('close', res);
       bb.on('error', () => res());
     });
     bb.on('file', (_field, stream, info) => {
-      if (got) {
+      stream.on('error', (err: Error) => fail(broken(err.message)));
+      if (out) {
         stream.resume();
         return;
       }
-      got = stream;
-      resolve({ fileName: (info.filename || 'upload.csv').slice(0, 255), stream, done });
+      out = new PassThrough();
+      out.on('error', () => undefined);
+      stream.pipe(out);
+      settled = true;
+      resolve({ fileName: (info.filename || 'upload.csv').slice(0, 255), stream: out, done });
     });
-    bb.on('error', (err) => {
-      const e = new AppError('bad_request', `the upload broke off: ${err instanceof Error ? err.message : String(err)}`);
-      if (got) got.destroy(e);
-      else reject(e);
-    });
+    bb.on('error', (err) => fail(broken(err instanceof Error ? err.message : String(err))));
     bb.on('close', () => {
-      if (!got) reject(new AppError('bad_request', 'the request holds no file; attach the CSV as a file field'));
+      if (!out && !settled) {
+        settled = true;
+        reject(new AppError('bad_request', 'the request holds no file; attach the CSV as a file field'));
+      }
     });
     // A client that hangs up mid-upload ends the intake (its transaction rolls back).
-    req.on('aborted', () => got?.destroy(new AppError('bad_request', 'the upload was interrupted')));
+    req.on('close', () => {
+      if (!req.complete) fail(new AppError('bad_request', 'the upload was interrupted'));
+    });
     req.pipe(bb);
   });
 }

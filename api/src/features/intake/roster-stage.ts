@@ -1,8 +1,10 @@
 import type { Readable } from 'node:stream';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
+import { NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { pumpCopy, stagingRef } from './copy-stage';
+import { assertAllRowsStaged } from './csv-record-scan';
 import { DEFAULT_TALLY_LIMITS, ROSTER_STAGE_COLUMNS, RosterStream, type CodeMap, type TallyLimits } from './roster-stream';
 
 /**
@@ -70,14 +72,18 @@ export async function stageRoster(
   head: Buffer,
   rest: Readable | null,
   limits: TallyLimits = DEFAULT_TALLY_LIMITS,
+  bounds: CellBounds = NO_BOUNDS,
 ): Promise<RosterStaged> {
   const st = rosterStage(table);
   await client.query(`CREATE UNLOGGED TABLE ${st.rows} (line_no bigint NOT NULL, worker_key text, site_id integer, group_id integer, month date,
     hours numeric(7, 2), birth_year smallint, sex text, job_title text)`);
   await client.query(`CREATE UNLOGGED TABLE ${st.workers} (k text NOT NULL, by_min integer, by_max integer, sex_min text, sex_max text)`);
   await client.query(`CREATE UNLOGGED TABLE ${st.slices} (site_id integer NOT NULL, site_code text NOT NULL, m text NOT NULL, month date NOT NULL, n bigint NOT NULL, hours numeric NOT NULL)`);
-  const stream = new RosterStream(columns, delimiter, eol, { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') }, 2, limits);
-  if (rest) await pumpCopy(client, `COPY ${st.rows} (${ROSTER_STAGE_COLUMNS.join(', ')}) FROM STDIN`, head, rest, stream);
+  const stream = new RosterStream(columns, delimiter, eol, { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') }, 2, limits, bounds);
+  if (rest) {
+    const staged = await pumpCopy(client, `COPY ${st.rows} (${ROSTER_STAGE_COLUMNS.join(', ')}) FROM STDIN`, head, rest, stream);
+    assertAllRowsStaged(stream.rows, staged);
+  }
 
   if (stream.overflow) {
     await client.query(`INSERT INTO ${st.workers} SELECT worker_key, min(birth_year), max(birth_year), min(sex), max(sex) FROM ${st.rows} WHERE worker_key IS NOT NULL GROUP BY 1`);

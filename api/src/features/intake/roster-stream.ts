@@ -1,9 +1,9 @@
 import { isUtf8 } from 'node:buffer';
 import { Transform, type TransformCallback } from 'node:stream';
-import { cellJudge } from '@ratewarden/shared/intake-cell';
+import { cellJudge, NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
 import { reasons, rosterColumns, type ColumnDef } from '@ratewarden/shared/intake-columns';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
-import { unreadable } from './copy-stage';
+import { unreadable } from './copy-errors';
 import { PROBLEMS_LISTED } from './problems';
 
 /** Columns of a roster's typed staging table, in the order the stream writes them. */
@@ -74,8 +74,8 @@ function copyText(s: string): string {
 /** A copy that does not keep the chunk it was sliced from alive (V8 sliced strings do). */
 const own = (s: string) => Buffer.from(s, 'utf8').toString('utf8');
 
-function slotJudge(def: ColumnDef, codes: { site: CodeMap; exposure_group: CodeMap }): (raw: string) => Judged {
-  const judge = cellJudge(def);
+function slotJudge(def: ColumnDef, codes: { site: CodeMap; exposure_group: CodeMap }, bounds: CellBounds): (raw: string) => Judged {
+  const judge = cellJudge(def, bounds);
   const rule = def.rule;
   return (raw) => {
     const v = judge(raw);
@@ -147,6 +147,7 @@ export class RosterStream extends Transform {
     codes: { site: CodeMap; exposure_group: CodeMap },
     firstLine = 2,
     private readonly limits: TallyLimits = DEFAULT_TALLY_LIMITS,
+    bounds: CellBounds = NO_BOUNDS,
   ) {
     super();
     this.ncols = columns.length;
@@ -155,7 +156,7 @@ export class RosterStream extends Transform {
     this.line = firstLine;
     this.slots = rosterColumns.map((def) => {
       const size = def.name === 'worker_key' ? KEY_CACHE : VERDICT_CACHE;
-      return { def, pos: columns.indexOf(def.name), judge: slotJudge(def, codes), cache: new Array<Entry | undefined>(size), mask: size - 1 };
+      return { def, pos: columns.indexOf(def.name), judge: slotJudge(def, codes, bounds), cache: new Array<Entry | undefined>(size), mask: size - 1 };
     });
     this.at = Object.fromEntries(this.slots.map((s) => [s.def.name, s]));
     this.byPos = columns.map((c) => this.at[c]!);
