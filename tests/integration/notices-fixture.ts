@@ -7,14 +7,14 @@ import { makeCohort, settings, type Cohort } from './runs-fixture';
 
 /**
  * Threshold notices for the sender's tests, made the product's way: a cohort whose exposed
- * group has three cases in March 2031, then for each call a new watch rule (rate above 1 per
+ * group has six cases in March 2031, then for each call a new watch rule (rate above 1 per
  * 1,000 person-years) with the given recipients and a run, which raises one flag and writes one
  * notice per recipient (and per physician) into the outbox. Run tests empty the cohort first.
  */
 export async function noticeCohort(ds: DataSource): Promise<Cohort> {
   const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NOISE', 'recurrent']] });
   const exposed: number[] = [];
-  for (let i = 0; i < 3; i++) {
+  for (let i = 0; i < 6; i++) {
     const e = await c.worker(`e${i}`, 1980, 'M');
     const r = await c.worker(`r${i}`, 1980, 'F');
     exposed.push(e);
@@ -27,7 +27,7 @@ export async function noticeCohort(ds: DataSource): Promise<Cohort> {
 /** A new watch rule for `recipients` and a run; returns the ids of the notices written for them. */
 export async function raiseNotices(ds: DataSource, c: Cohort, name: string, recipients: string[]): Promise<string[]> {
   await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
-    name, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 1, window: 'month', fdrControl: false, recipients,
+    name, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients,
   }));
   const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
   if (o.status !== 'succeeded') throw new Error(`the run that should raise notices ended ${o.status}`);
