@@ -54,7 +54,7 @@ export function createApp({ dataSource, config }: AppDeps): Express {
   app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource, maxBytes: config.INTAKE_MAX_BYTES, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS, expiryHours: config.INTAKE_EXPIRY_HOURS }));
   app.use('/api', groupsRouter({ dataSource }));
   app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
-  app.use('/api/rules', rulesRouter({ dataSource }));
+  app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
   app.use('/api', notFound);

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { patchSchemaOf } from './patch-schema';
+import { DEFAULT_SMALL_CELL_THRESHOLD } from './small-cells';
 
 /**
  * Watch rules: what a run's results are compared with to raise flags.
@@ -10,6 +12,9 @@ import { z } from 'zod';
  *   Rates and IRDs are in the run's units (its person-time basis and multiplier).
  * - `minCases`, `minExpected`: the group must have at least this many cases and this many
  *   expected at the reference rate (the u-chart centre line for `uchart`) before a flag is raised.
+ *   `minCases` is at least the small-cell threshold (and is that by default): a rule that could
+ *   fire on 1 to threshold − 1 cases would let a reader learn a withheld count from which rules
+ *   raised a flag.
  * - `consecutivePeriods`: the rule must hold in this many consecutive periods ending at the
  *   latest one.
  * - `fdrControl`: Benjamini–Hochberg across the groups the rule covers, at `fdrLevel` (on by
@@ -29,7 +34,7 @@ export type WindowKind = z.infer<typeof windowKindSchema>;
 const aNumber = { error: 'enter a number, e.g. 1.5' };
 const aWholeNumber = (min: number, max: number) => ({ error: `enter a whole number from ${min} to ${max.toLocaleString('en-GB')}` });
 
-const ruleFields = z.strictObject({
+const ruleFields = (smallCellThreshold: number) => z.strictObject({
   name: z.string().trim().min(1, 'give the rule a name').max(120, 'at most 120 characters'),
   outcomeId: z.number({ error: 'choose an outcome' }).int().positive(),
   /** null: every exposure group except the reference group. */
@@ -38,7 +43,12 @@ const ruleFields = z.strictObject({
   thresholdOn: thresholdOnSchema.default('lower_bound'),
   /** Required except for `uchart`, whose threshold is the upper control limit itself. */
   threshold: z.number(aNumber).finite(aNumber).nullable().default(null),
-  minCases: z.number(aWholeNumber(0, 100_000)).int(aWholeNumber(0, 100_000)).min(0, aWholeNumber(0, 100_000)).max(100_000, aWholeNumber(0, 100_000)).default(3),
+  minCases: z
+    .number(aWholeNumber(smallCellThreshold, 100_000))
+    .int(aWholeNumber(smallCellThreshold, 100_000))
+    .min(smallCellThreshold, `at least ${smallCellThreshold}: smaller counts are withheld from everyone but the physician`)
+    .max(100_000, aWholeNumber(smallCellThreshold, 100_000))
+    .default(smallCellThreshold),
   minExpected: z.number(aNumber).min(0, 'enter 0 or more').max(100_000, 'at most 100,000').default(0),
   window: windowKindSchema.default('rolling12'),
   consecutivePeriods: z.number(aWholeNumber(1, 24)).int(aWholeNumber(1, 24)).min(1, aWholeNumber(1, 24)).max(24, aWholeNumber(1, 24)).default(1),
@@ -60,12 +70,19 @@ function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: 
   }
 }
 
-/** Body of POST /api/rules. */
-export const watchRuleInputSchema = ruleFields.superRefine(checkRule);
-export type WatchRuleInput = z.input<typeof watchRuleInputSchema>;
+/**
+ * The bodies of POST /api/rules and PATCH /api/rules/:id for a server whose small-cell threshold
+ * is `smallCellThreshold` (the API's SMALL_CELL_THRESHOLD; the web app has it from the session).
+ * A patch is any subset, nothing defaulted; the merged rule is validated again.
+ */
+export function watchRuleSchemas(smallCellThreshold: number = DEFAULT_SMALL_CELL_THRESHOLD) {
+  const fields = ruleFields(smallCellThreshold);
+  return { input: fields.superRefine(checkRule), patch: patchSchemaOf(fields) };
+}
 
-/** Body of PATCH /api/rules/:id: any subset; the merged rule is validated again. */
-export const watchRulePatchSchema = ruleFields.partial();
+/** The bodies at the default threshold (5), for types and callers that have no configured one. */
+export const { input: watchRuleInputSchema, patch: watchRulePatchSchema } = watchRuleSchemas();
+export type WatchRuleInput = z.input<typeof watchRuleInputSchema>;
 export type WatchRulePatch = z.input<typeof watchRulePatchSchema>;
 
 /** Checks a complete rule after a patch has been merged into it. */

@@ -56,7 +56,7 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
 
     await page.waitForFunction(() => document.querySelectorAll('[aria-invalid="true"]').length >= 2);
     expect(await errorOf(page, 'Threshold')).toMatch(/number/);
-    expect(await errorOf(page, 'Minimum cases')).toMatch(/number/);
+    expect(await errorOf(page, 'Minimum cases')).toMatch(/at least 5: smaller counts are withheld/);
     expect(await errorOf(page, 'Name')).toBe('');
     expect(await field(page, 'Name').inputValue()).toBe(ruleName);
     expect(await field(page, 'Threshold').inputValue()).toBe('1.5x');
@@ -68,14 +68,14 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
     expect(await storedRule()).toEqual([]);
 
     await field(page, 'Threshold').fill('1.5');
-    await field(page, 'Minimum cases').fill('4');
+    await field(page, 'Minimum cases').fill('6');
     await page.getByRole('button', { name: 'Create the rule' }).click();
     await page.getByRole('heading', { level: 1, name: 'Watch rules' }).waitFor();
     const row = page.getByRole('table', { name: /^Watch rules/ }).getByRole('row').filter({ has: page.getByRole('link', { name: ruleName, exact: true }) });
     await row.waitFor();
     expect(await row.getByRole('cell').allTextContents()).toEqual(expect.arrayContaining([outcome, group, '1.500', 'active']));
-    expect(await row.textContent()).toContain('at least 4 cases');
-    expect(await storedRule()).toEqual([{ threshold: 1.5, min_cases: 4, window_kind: 'rolling12', recipients: [recipient], active: true }]);
+    expect(await row.textContent()).toContain('at least 6 cases');
+    expect(await storedRule()).toEqual([{ threshold: 1.5, min_cases: 6, window_kind: 'rolling12', recipients: [recipient], active: true }]);
 
     await row.getByRole('link', { name: ruleName, exact: true }).click();
     await page.getByRole('heading', { level: 1, name: ruleName }).waitFor();
@@ -94,10 +94,10 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
     await page.getByRole('heading', { level: 1, name: ruleName }).waitFor();
     await page.reload({ waitUntil: 'networkidle' });
     expect(await field(page, 'Threshold').inputValue()).toBe('2');
-    expect(await field(page, 'Minimum cases').inputValue()).toBe('4');
+    expect(await field(page, 'Minimum cases').inputValue()).toBe('6');
     expect(await field(page, 'Window').inputValue()).toBe('month');
     expect(await page.getByRole('form', { name: 'Watch rule' }).getByLabel('Active (checked after every run)').isChecked()).toBe(false);
-    expect(await storedRule()).toEqual([{ threshold: 2, min_cases: 4, window_kind: 'month', recipients: [recipient], active: false }]);
+    expect(await storedRule()).toEqual([{ threshold: 2, min_cases: 6, window_kind: 'month', recipients: [recipient], active: false }]);
     await page.close();
   });
 });

@@ -51,7 +51,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     const [s] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test safety', 'safety_manager') RETURNING id, email`, [`safe-${c.tag}`, `safe-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
     safety = { kind: 'user', id: s!.id, email: s!.email, name: 'Test safety', role: 'safety_manager', siteIds: c.sites };
     const rule = await createRule(ds, safety, watchRuleInputSchema.parse({
-      name: 'IRR lower bound above 1', outcomeId: c.outcomes.DERM, measure: 'irr', thresholdOn: 'lower_bound', threshold: 1, minCases: 3, window: 'rolling12', recipients: [recipient],
+      name: 'IRR lower bound above 1', outcomeId: c.outcomes.DERM, measure: 'irr', thresholdOn: 'lower_bound', threshold: 1, minCases: 5, window: 'rolling12', recipients: [recipient],
     }));
     ruleId = rule.id;
   });

@@ -58,8 +58,10 @@ describe('runs, rules and flags through the API', () => {
     await as.physician.agent.post('/api/rules').set('x-csrf-token', as.physician.csrf)
       .send({ name: 'x', outcomeId: c.outcomes.API, measure: 'rate', threshold: 1 }).expect(403);
     const ok = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
-      .send({ name: 'API rate rule', outcomeId: c.outcomes.API, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 2, window: 'month', fdrControl: false }).expect(201);
-    expect(ok.body).toMatchObject({ fdrLevel: 0.05, consecutivePeriods: 1, recipients: [] });
+      .send({ name: 'API rate rule', outcomeId: c.outcomes.API, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, window: 'month', fdrControl: false }).expect(201);
+    expect(ok.body).toMatchObject({ fdrLevel: 0.05, consecutivePeriods: 1, recipients: [], minCases: 5 });
+    // As a rule stored before minimum case counts were raised to the small-cell threshold: its flag on 4 cases must still withhold them.
+    await ds.query(`UPDATE watch_rules SET min_cases = 2 WHERE id = $1`, [ok.body.id]);
     for (let i = 0; i < 2; i++) {
       const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000/' });
       runs.push((o as { runId: string }).runId);

@@ -33,9 +33,11 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
 
   /** A new rule whose only extra recipient is `address`, then a run: one new flag, one notice to `address`. */
   async function flagWithNoticeTo(address: string): Promise<void> {
-    await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
-      name: `Rate above 1 per 1,000 person-years (${address})`, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 1, window: 'month', fdrControl: false, recipients: [address],
+    const rule = await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
+      name: `Rate above 1 per 1,000 person-years (${address})`, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients: [address],
     }));
+    // As a rule stored before minimum case counts were raised to the small-cell threshold: its notice still withholds the small count.
+    await ds.query(`UPDATE watch_rules SET min_cases = 1 WHERE id = $1`, [rule.id]);
     const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
     expect(o.status).toBe('succeeded');
     expect(await noticeOf(address)).toMatchObject([{ state: 'pending', attempts: 0 }]);

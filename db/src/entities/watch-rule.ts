@@ -35,7 +35,7 @@ export const WatchRuleEntity = new EntitySchema<WatchRuleRow>({
     measure: { type: 'text' },
     thresholdOn: { name: 'threshold_on', type: 'text' },
     threshold: { type: 'double precision', nullable: true },
-    minCases: { name: 'min_cases', type: 'integer', default: 0 },
+    minCases: { name: 'min_cases', type: 'integer', default: 5 },
     minExpected: { name: 'min_expected', type: 'double precision', default: 0 },
     windowKind: { name: 'window_kind', type: 'text' },
     consecutivePeriods: { name: 'consecutive_periods', type: 'integer', default: 1 },

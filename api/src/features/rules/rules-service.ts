@@ -1,8 +1,16 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
-import { watchRuleCompleteSchema, watchRuleInputSchema, type WatchRule, type WatchRuleInput, type WatchRulePatch } from '@ratewarden/shared/rules';
+import { watchRuleCompleteSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput, type WatchRulePatch } from '@ratewarden/shared/rules';
+import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
 import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
+import { changedFields } from '../../lib/changed-fields';
+
+export interface RuleWriteOptions {
+  ip?: string;
+  /** The configured SMALL_CELL_THRESHOLD: a rule's minimum case count may not be below it. */
+  smallCellThreshold?: number;
+}
 
 const cols = `id, name, outcome_id AS "outcomeId", exposure_group_id AS "exposureGroupId", measure, threshold_on AS "thresholdOn",
   threshold, min_cases AS "minCases", min_expected AS "minExpected", window_kind AS "window", consecutive_periods AS "consecutivePeriods",
@@ -32,8 +40,8 @@ async function assertTargets(em: EntityManager, outcomeId: number, groupId: numb
   if (problems.length) throw new AppError('validation_failed', 'the watch rule is not valid', problems);
 }
 
-export async function createRule(ds: DataSource, principal: Principal, input: WatchRuleInput, ip?: string): Promise<WatchRule> {
-  const r = watchRuleInputSchema.parse(input);
+export async function createRule(ds: DataSource, principal: Principal, input: WatchRuleInput, { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {}): Promise<WatchRule> {
+  const r = watchRuleSchemas(smallCellThreshold).input.parse(input);
   return ds.transaction(async (em) => {
     await assertTargets(em, r.outcomeId, r.exposureGroupId);
     const [row]: Array<{ id: string }> = await em.query(
@@ -55,20 +63,23 @@ const columnOf: Record<keyof WatchRulePatch, string> = {
   fdrControl: 'fdr_control', fdrLevel: 'fdr_level', recipients: 'recipients', active: 'active',
 };
 
-/** Applies a partial change; the merged rule is validated as a whole before it is stored. */
-export async function updateRule(ds: DataSource, principal: Principal, id: string, patch: WatchRulePatch, ip?: string): Promise<WatchRule> {
+/**
+ * Applies a partial change; the merged rule is validated as a whole before it is stored. A patch
+ * that changes nothing is neither written nor audited: the rule comes back as it was.
+ */
+export async function updateRule(ds: DataSource, principal: Principal, id: string, input: WatchRulePatch, { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {}): Promise<WatchRule> {
+  const patch = watchRuleSchemas(smallCellThreshold).patch.parse(input);
   return ds.transaction(async (em) => {
     const before = await ruleById(em, id, true);
+    const keys = changedFields(before, patch);
+    if (!keys.length) return before;
     const merged = { ...before, ...patch };
     watchRuleCompleteSchema.parse(merged);
     await assertTargets(em, merged.outcomeId, merged.exposureGroupId);
-    const keys = Object.keys(patch).filter((k) => (patch as Record<string, unknown>)[k] !== undefined) as Array<keyof WatchRulePatch>;
-    if (keys.length) {
-      await em.query(
-        `UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`,
-        [id, ...keys.map((k) => (patch as Record<string, unknown>)[k])],
-      );
-    }
+    await em.query(
+      `UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`,
+      [id, ...keys.map((k) => patch[k])],
+    );
     const after = await ruleById(em, id);
     await recordAudit(em, { actor: principal, action: 'rule.update', target: `watch_rule:${id}`, detail: { before, after }, ip });
     return after;

@@ -1,5 +1,5 @@
 import { roleMay } from '@ratewarden/shared/permissions';
-import { ruleMeasureSchema, thresholdOnSchema, watchRuleInputSchema, type WatchRule, type WatchRuleInput } from '@ratewarden/shared/rules';
+import { ruleMeasureSchema, thresholdOnSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput } from '@ratewarden/shared/rules';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router';
@@ -8,6 +8,7 @@ import { problemOf } from '../../components/feedback/route-error';
 import { SelectField } from '../../components/form/select-field';
 import { TextField } from '../../components/form/text-field';
 import { paths } from '../../config/paths';
+import { smallCellThreshold } from '../../lib/small-cells';
 import { useGroups } from '../../api/get-groups';
 import { useOutcomes } from '../../api/get-outcomes';
 import { useDeleteRule, useSaveRule } from './api/save-rule';
@@ -41,7 +42,7 @@ function draftOf(r: WatchRule | null, outcomeId: number | undefined): Draft {
     thresholdOn: r?.thresholdOn ?? 'lower_bound',
     threshold: r?.threshold === null || r?.threshold === undefined ? (r ? '' : '1') : String(r.threshold),
     window: r?.window ?? 'rolling12',
-    minCases: String(r?.minCases ?? 3),
+    minCases: String(r?.minCases ?? smallCellThreshold()),
     minExpected: String(r?.minExpected ?? 0),
     consecutivePeriods: String(r?.consecutivePeriods ?? 1),
     fdrControl: r?.fdrControl ?? true,
@@ -83,7 +84,8 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
   const navigate = useNavigate();
   const canWrite = roleMay(user.role, 'rules:write');
   const set = <K extends keyof Draft>(k: K, v: Draft[K]) => setD((x) => ({ ...x, [k]: v }));
-  const parsed = watchRuleInputSchema.safeParse(inputOf(d));
+  // The server's threshold (from the session): a rule may not select on counts that are withheld.
+  const parsed = watchRuleSchemas(smallCellThreshold()).input.safeParse(inputOf(d));
 
   function submit(e: React.FormEvent) {
     e.preventDefault();
