@@ -13,8 +13,8 @@ export const adminUserSchema = z.object({
 });
 export type AdminUser = z.infer<typeof adminUserSchema>;
 
-/** PATCH /api/admin/users/:id */
-export const userAccessUpdateSchema = z.object({
+/** PATCH /api/admin/users/:id: the role and the sites, both given (unknown keys refused, as in every write body). */
+export const userAccessUpdateSchema = z.strictObject({
   role: roleSchema.nullable(),
   siteIds: z.array(z.number().int().positive()).max(500),
 });
@@ -36,7 +36,7 @@ export const integrationClientSchema = z.object({
 export type IntegrationClientView = z.infer<typeof integrationClientSchema>;
 
 /** POST /api/admin/clients */
-export const clientRegistrationSchema = z.object({
+export const clientRegistrationSchema = z.strictObject({
   clientId: z.string().trim().regex(/^[A-Za-z0-9._:-]{3,128}$/, 'letters, digits and . _ : - only (3–128)'),
   name: z.string().trim().min(1).max(200),
 });

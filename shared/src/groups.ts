@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { countingRuleSchema } from './domain';
+import { patchSchemaOf } from './patch-schema';
 
 /** Codes appear in every roster and case file; the same rule the database CHECK holds. */
 export const configCodeSchema = z.string().trim().toUpperCase().regex(/^[A-Z0-9_-]{1,32}$/, 'letters, digits, _ or -, at most 32');
@@ -17,7 +18,8 @@ export const exposureGroupSchema = z.object({
 });
 export type ExposureGroupDto = z.infer<typeof exposureGroupSchema>;
 
-export const exposureGroupCreateSchema = z.object({
+/** Write bodies refuse unknown keys (a misspelt field would otherwise be dropped without a word). */
+export const exposureGroupCreateSchema = z.strictObject({
   code: configCodeSchema,
   name: z.string().trim().min(1).max(200),
   hazard: z.string().trim().min(1).max(500),
@@ -26,13 +28,13 @@ export const exposureGroupCreateSchema = z.object({
 });
 export type ExposureGroupCreate = z.infer<typeof exposureGroupCreateSchema>;
 
-/** PATCH: any subset; the code is fixed once rosters use it. */
-export const exposureGroupUpdateSchema = exposureGroupCreateSchema.omit({ code: true }).partial();
+/** PATCH: any subset, nothing defaulted; the code is fixed once rosters use it. */
+export const exposureGroupUpdateSchema = patchSchemaOf(exposureGroupCreateSchema.omit({ code: true }));
 export type ExposureGroupUpdate = z.infer<typeof exposureGroupUpdateSchema>;
 
 /** PUT /api/groups/levels: set every group's ordinal level at once (a reordering is one change). */
-export const exposureLevelsSchema = z.object({
-  levels: z.array(z.object({ id: z.number().int(), exposureLevel: z.number().int().min(0).max(100).nullable() })).min(1).max(500),
+export const exposureLevelsSchema = z.strictObject({
+  levels: z.array(z.strictObject({ id: z.number().int(), exposureLevel: z.number().int().min(0).max(100).nullable() })).min(1).max(500),
 });
 
 export const outcomeSchema = z.object({
@@ -48,7 +50,7 @@ export const outcomeSchema = z.object({
 });
 export type OutcomeDto = z.infer<typeof outcomeSchema>;
 
-export const outcomeCreateSchema = z.object({
+export const outcomeCreateSchema = z.strictObject({
   code: configCodeSchema,
   name: z.string().trim().min(1).max(200),
   caseDefinition: z.string().trim().min(1).max(4000),
@@ -57,7 +59,7 @@ export const outcomeCreateSchema = z.object({
   referenceGroupId: z.number().int().nullable().default(null),
 });
 export type OutcomeCreate = z.infer<typeof outcomeCreateSchema>;
-export const outcomeUpdateSchema = outcomeCreateSchema.omit({ code: true }).partial();
+export const outcomeUpdateSchema = patchSchemaOf(outcomeCreateSchema.omit({ code: true }));
 export type OutcomeUpdate = z.infer<typeof outcomeUpdateSchema>;
 
 export const siteSchema = z.object({ id: z.number().int(), code: z.string(), name: z.string(), region: z.string().nullable() });

@@ -16,11 +16,18 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
     status = err.status;
     problem = { code: err.code, message: err.message, ...(err.details === undefined ? {} : { details: err.details }) };
   } else if (err instanceof ZodError) {
+    // Write bodies are strict objects: each unknown key becomes its own detail, named.
+    const details = err.issues.flatMap((i) =>
+      i.code === 'unrecognized_keys'
+        ? i.keys.map((key) => ({ path: [...i.path, key].join('.'), message: `unknown field "${key}"` }))
+        : [{ path: i.path.join('.'), message: i.message }],
+    );
+    const unknown = err.issues.flatMap((i) => (i.code === 'unrecognized_keys' ? i.keys : []));
     status = 422;
     problem = {
       code: 'validation_failed',
-      message: 'the request is not valid',
-      details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
+      message: unknown.length ? `the request is not valid: unknown field${unknown.length > 1 ? 's' : ''} ${unknown.map((k) => `"${k}"`).join(', ')}` : 'the request is not valid',
+      details,
     };
   } else if (isPgError(err) && err.code.startsWith('22')) {
     // PostgreSQL data exceptions (a malformed id or date in the URL, a number out of range).

@@ -4,6 +4,7 @@ import type { Principal } from '@ratewarden/shared/permissions';
 import { rows as sqlRows } from '@ratewarden/db';
 import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
+import { changedFields } from '../../lib/changed-fields';
 
 const USERS_SQL = `
   SELECT u.id, u.email, u.name, u.role, u.subject IS NOT NULL AS signed_up, u.last_sign_in_at,
@@ -28,13 +29,19 @@ async function assertSitesExist(ds: DataSource | import('typeorm').EntityManager
   if (missing.length) throw new AppError('validation_failed', `unknown site ids: ${missing.join(', ')}`);
 }
 
-/** Sets a person's role and sites in one transaction, audited with the before and after. */
-export async function updateUserAccess(ds: DataSource, actor: Principal, userId: string, update: UserAccessUpdate, ip?: string): Promise<AdminUser> {
+/**
+ * Sets a person's role and sites in one transaction, audited with the before and after. The same
+ * role and sites again change nothing: nothing is written or audited, and the person comes back as they are.
+ */
+export async function updateUserAccess(ds: DataSource, actor: Principal, userId: string, requested: UserAccessUpdate, ip?: string): Promise<AdminUser> {
+  const update = { role: requested.role, siteIds: [...new Set(requested.siteIds)].sort((a, b) => a - b) };
   return ds.transaction(async (em) => {
     // PostgreSQL refuses FOR UPDATE beside GROUP BY: lock the person's row first, then read it.
     await em.query(`SELECT 1 FROM users WHERE id = $1 FOR UPDATE`, [userId]);
     const before: UserRow[] = await em.query(`${USERS_SQL} WHERE u.id = $1 GROUP BY u.id`, [userId]);
     if (!before[0]) throw new AppError('not_found', 'no such person');
+    const stored = toAdminUser(before[0]);
+    if (changedFields(stored, update).length === 0) return stored;
     if (actor.kind === 'user' && actor.id === userId && update.role !== 'administrator') {
       throw new AppError('conflict', 'you cannot remove your own administrator role; ask another administrator');
     }

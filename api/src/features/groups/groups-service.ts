@@ -5,6 +5,7 @@ import type {
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
+import { changedFields } from '../../lib/changed-fields';
 
 const groupCols = `id, code, name, hazard, exposure_level AS "exposureLevel", is_reference AS "isReference", description, updated_at AS "updatedAt"`;
 const outcomeCols = `id, code, name, case_definition AS "caseDefinition", counting_rule AS "countingRule", lag_months AS "lagMonths",
@@ -65,6 +66,8 @@ export async function createGroup(ds: DataSource, p: Principal, body: ExposureGr
 export async function updateGroup(ds: DataSource, p: Principal, id: number, body: ExposureGroupUpdate, ip?: string | null): Promise<ExposureGroupDto> {
   return ds.transaction(async (em) => {
     const before = await groupById(em, id, true);
+    // A PATCH that changes nothing is neither written nor audited.
+    if (!changedFields(before, body).length) return before;
     const next = { ...before, ...body };
     await em.query(
       `UPDATE exposure_groups SET name = $2, hazard = $3, exposure_level = $4, description = $5, updated_at = now() WHERE id = $1`,
@@ -126,6 +129,7 @@ export async function createOutcome(ds: DataSource, p: Principal, body: OutcomeC
 export async function updateOutcome(ds: DataSource, p: Principal, id: number, body: OutcomeUpdate, ip?: string | null): Promise<OutcomeDto> {
   return ds.transaction(async (em) => {
     const before = await outcomeById(em, id, true);
+    if (!changedFields(before, body).length) return before;
     await assertGroupExists(em, body.referenceGroupId);
     const next = { ...before, ...body };
     await em.query(
