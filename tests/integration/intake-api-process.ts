@@ -88,7 +88,7 @@ export interface RawAnswer {
 }
 
 /** POSTs `body` as it is (any bytes, any content type), with the session's cookie and token. */
-export function rawPost(baseUrl: string, path: string, s: ProcessSession, contentType: string, body: Buffer, opts: { chunked?: boolean; timeoutMs?: number } = {}): Promise<RawAnswer> {
+export function rawPost(baseUrl: string, path: string, s: ProcessSession, contentType: string, body: Buffer, opts: { chunked?: boolean; timeoutMs?: number; pauseAt?: number } = {}): Promise<RawAnswer> {
   return new Promise((resolve, reject) => {
     const req = http.request(new URL(path, baseUrl), {
       method: 'POST',
@@ -116,9 +116,21 @@ export function rawPost(baseUrl: string, path: string, s: ProcessSession, conten
       });
       res.on('error', reject);
     });
-    // Written in pieces, so a large body streams rather than arriving in one chunk.
-    for (let i = 0; i < body.length; i += 64 * 1024) req.write(body.subarray(i, i + 64 * 1024));
-    req.end();
+    // Written in pieces, so a large body streams rather than arriving in one chunk; with `pauseAt`,
+    // the server has the first part for a while before the rest comes.
+    const send = (part: Buffer) => {
+      for (let i = 0; i < part.length; i += 64 * 1024) req.write(part.subarray(i, i + 64 * 1024));
+    };
+    if (opts.pauseAt === undefined) {
+      send(body);
+      req.end();
+    } else {
+      send(body.subarray(0, opts.pauseAt));
+      setTimeout(() => {
+        send(body.subarray(opts.pauseAt));
+        req.end();
+      }, 300);
+    }
   });
 }
 

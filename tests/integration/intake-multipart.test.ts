@@ -71,8 +71,13 @@ describe('broken multipart uploads', () => {
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ intake: { state: 'checked', fileName: 'one.csv', rowCount: 2 } });
     // Two files, the second cut short: the first is read whole, the broken body still ends in 400.
-    const broken = Buffer.concat([filePart(roster(), 'three.csv'), filePart('worker_key,site\n', 'four.csv')]);
+    const first3 = filePart(roster(), 'three.csv');
+    const broken = Buffer.concat([first3, filePart('worker_key,site\n', 'four.csv')]);
     expect((await rawPost(api.baseUrl, path, hyg, MULTIPART, broken)).status).toBe(400);
+    // Also when the first file has long arrived before the body breaks: no intake is taken from it.
+    const late = Buffer.concat([filePart(roster(), 'five.csv'), filePart('worker_key,site\n', 'six.csv')]);
+    expect((await rawPost(api.baseUrl, path, hyg, MULTIPART, late, { pauseAt: late.lastIndexOf('worker_key,site') })).status).toBe(400);
+    expect(await ds.query(`SELECT count(*)::int AS n FROM intakes WHERE file_name IN ('three.csv', 'five.csv')`)).toEqual([{ n: 0 }]);
     await stillServing();
   });
 

@@ -40,6 +40,8 @@ export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile>
     }
     let out: PassThrough | null = null;
     let settled = false;
+    let fileEnded = false;
+    let bodyRead = false;
     const fail = (err: AppError) => {
       if (out) {
         if (!out.destroyed) out.destroy(err);
@@ -58,14 +60,23 @@ export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile>
         stream.resume();
         return;
       }
-      out = new PassThrough();
-      out.on('error', () => undefined);
-      stream.pipe(out);
+      const file = new PassThrough();
+      out = file;
+      file.on('error', () => undefined);
+      // The file ends for the intake only once the whole body has been read well-formed: a body
+      // that breaks after the file (a cut second part, no closing boundary) fails the intake too.
+      stream.pipe(file, { end: false });
+      stream.on('end', () => {
+        fileEnded = true;
+        if (bodyRead && !file.destroyed) file.end();
+      });
       settled = true;
       resolve({ fileName: (info.filename || 'upload.csv').slice(0, 255), stream: out, done });
     });
     bb.on('error', (err) => fail(broken(err instanceof Error ? err.message : String(err))));
     bb.on('close', () => {
+      bodyRead = true;
+      if (out && fileEnded && !out.destroyed) out.end();
       if (!out && !settled) {
         settled = true;
         reject(new AppError('bad_request', 'the request holds no file; attach the CSV as a file field'));
