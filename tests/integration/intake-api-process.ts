@@ -87,8 +87,12 @@ export interface RawAnswer {
   body: { code?: string; message?: string; details?: unknown } | null;
 }
 
-/** POSTs `body` as it is (any bytes, any content type), with the session's cookie and token. */
-export function rawPost(baseUrl: string, path: string, s: ProcessSession, contentType: string, body: Buffer, opts: { chunked?: boolean; timeoutMs?: number; pauseAt?: number } = {}): Promise<RawAnswer> {
+/**
+ * POSTs `body` as it is (any bytes, any content type), with the session's cookie and token. With
+ * `announced`, the content length says that many bytes but only `body` is sent, and the answer is
+ * awaited (a server refusing an announced size answers before reading and closes the connection).
+ */
+export function rawPost(baseUrl: string, path: string, s: ProcessSession, contentType: string, body: Buffer, opts: { chunked?: boolean; timeoutMs?: number; pauseAt?: number; announced?: number } = {}): Promise<RawAnswer> {
   return new Promise((resolve, reject) => {
     const req = http.request(new URL(path, baseUrl), {
       method: 'POST',
@@ -96,15 +100,22 @@ export function rawPost(baseUrl: string, path: string, s: ProcessSession, conten
         cookie: s.cookie,
         'x-csrf-token': s.csrf,
         'content-type': contentType,
-        ...(opts.chunked ? { 'transfer-encoding': 'chunked' } : { 'content-length': String(body.length) }),
+        ...(opts.chunked ? { 'transfer-encoding': 'chunked' } : { 'content-length': String(opts.announced ?? body.length) }),
       },
     });
     req.setTimeout(opts.timeoutMs ?? 30_000, () => req.destroy(new Error(`no answer within ${opts.timeoutMs ?? 30_000} ms`)));
-    req.on('error', reject);
+    let answered = false;
+    // The server may close the connection right after an early answer (413): the answer counts.
+    req.on('error', (err) => {
+      if (!answered) reject(err);
+    });
     req.on('response', (res) => {
+      answered = true;
       const chunks: Buffer[] = [];
       res.on('data', (c: Buffer) => chunks.push(c));
       res.on('end', () => {
+        // A body announced larger than sent is never finished: the answer came first.
+        if (opts.announced !== undefined) req.destroy();
         const text = Buffer.concat(chunks).toString();
         let parsed: RawAnswer['body'] = null;
         try {
@@ -121,7 +132,10 @@ export function rawPost(baseUrl: string, path: string, s: ProcessSession, conten
     const send = (part: Buffer) => {
       for (let i = 0; i < part.length; i += 64 * 1024) req.write(part.subarray(i, i + 64 * 1024));
     };
-    if (opts.pauseAt === undefined) {
+    if (opts.announced !== undefined) {
+      // Only the start of an announced body is sent; the server answers from the announcement.
+      send(body);
+    } else if (opts.pauseAt === undefined) {
       send(body);
       req.end();
     } else {

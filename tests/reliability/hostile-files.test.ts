@@ -84,7 +84,7 @@ describe('hostile intake files', () => {
         try {
           const answer = d.how === 'file'
             ? await rawPost(api.baseUrl, path, hyg, 'multipart/form-data; boundary=ratewarden-test-boundary', multipartBody(d.file, `${hc.category}.csv`), { chunked: d.chunked, timeoutMs: REQUEST_TIMEOUT_MS })
-            : await rawPost(api.baseUrl, path, hyg, d.contentType, d.body, { timeoutMs: REQUEST_TIMEOUT_MS });
+            : await rawPost(api.baseUrl, path, hyg, d.contentType, d.body, { timeoutMs: REQUEST_TIMEOUT_MS, announced: d.announced });
           outcome = { c: hc, status: answer.status, answer };
         } catch (err) {
           // A hang (past the timeout) or a connection the server dropped without answering.

@@ -34,7 +34,7 @@ export type Kind = 'roster' | 'cases';
 /** How a case is sent: a file in a well-formed multipart body (the usual), or a body of its own. */
 export type Delivery =
   | { how: 'file'; kind: Kind; file: Buffer; chunked?: boolean }
-  | { how: 'raw'; kind: Kind; contentType: string; body: Buffer; query?: string }
+  | { how: 'raw'; kind: Kind; contentType: string; body: Buffer; query?: string; announced?: number }
   | { how: 'abort'; kind: Kind; contentType: string; sent: Buffer; announced: number };
 
 export interface HostileCase {
@@ -225,7 +225,7 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   }
 
   // Oversize: announced (refused before reading), unannounced (chunked), and just over the limit.
-  add('oversize', 'announced, twice the limit', file('roster', Buffer.concat([roster, Buffer.alloc(maxBytes * 2, 'a')])));
+  add('oversize', 'announced, twice the limit', { how: 'raw', kind: 'roster', contentType: `multipart/form-data; boundary=ratewarden-test-boundary`, body: roster, announced: maxBytes * 2 });
   add('oversize', 'just over the limit', file('roster', Buffer.concat([Buffer.from(ROSTER_HEADER + '\n'), Buffer.alloc(maxBytes - ROSTER_HEADER.length, '\n')])));
   add('oversize', 'chunked, over the limit', file('cases', Buffer.concat([cases, Buffer.alloc(maxBytes + 4096, 'b')]), true));
   add('oversize', 'chunked, over the limit in rows', file('roster', Buffer.concat([roster, Buffer.from(`${k.W}001,${k.S1},${k.GA},2024-01,1,1961,M,x\n`.repeat(Math.ceil(maxBytes / 40)))]), true));
