@@ -2,8 +2,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
 import { translateCopyError } from '@ratewarden/api/features/intake/copy-errors';
-import { monthOf } from '@ratewarden/shared/intake-cell';
-import { reasons } from '@ratewarden/shared/intake-columns';
+import { cellCheckSql } from '@ratewarden/api/features/intake/sql-checks';
+import { cellJudge, monthOf } from '@ratewarden/shared/intake-cell';
+import { caseColumns, reasons, rosterColumns } from '@ratewarden/shared/intake-columns';
 import { rowSchema } from '@ratewarden/shared/intake-schemas';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
@@ -85,6 +86,20 @@ describe('month and date bounds of intake files', () => {
     expect(rowSchema('roster').safeParse({ ...row, month: '0000-01' }).error!.issues[0]!.message).toBe('month must be between 1950-01 and 2099-12');
     expect(rowSchema('roster', { latestMonth: '2025-06' }).safeParse({ ...row, month: '2025-07' }).error!.issues[0]!.message).toBe(reasons.future('month', '2025-06'));
     expect(rowSchema('roster', { latestMonth: '2025-06' }).safeParse({ ...row, month: '2025-06' }).success).toBe(true);
+  });
+
+  it('says the same in SQL (case lists) as in the shared judge (rosters, schemas), value by value', async () => {
+    const month = rosterColumns.find((x) => x.name === 'month')!;
+    const onset = caseColumns.find((x) => x.name === 'onset_date')!;
+    const values = ['0000-01', '1949-12', '1950-01', '2025-06', '2025-07', '2099-12', '2100-01', '9999-12', '2025-13', '', ' 2025-06 ',
+      '0000-01-01', '0000-02-30', '1899-12-31', '1900-01-01', '2024-02-29', '2023-02-29', '2025-06-30', '2025-07-01', '2099-12-31', '2100-01-01', '9999-12-31', '2025-06-31'];
+    for (const bounds of [{ latestMonth: '2025-06' }, { latestMonth: null }]) {
+      for (const def of [month, onset]) {
+        const judge = cellJudge(def, bounds);
+        const sql = (await ds.query(`SELECT v, ${cellCheckSql('d', def, {}, bounds)} AS reason FROM unnest($1::text[]) AS d(${def.name}) CROSS JOIN LATERAL (SELECT d.${def.name} AS v) x`, [values])) as Array<{ v: string; reason: string | null }>;
+        expect(sql.map((r) => [r.v, r.reason]), `${def.name} ${bounds.latestMonth}`).toEqual(values.map((v) => [v, judge(v).reason]));
+      }
+    }
   });
 
   it('turns any other PostgreSQL data error of COPY into a problem of its line and column', () => {
