@@ -62,7 +62,7 @@ export const runDetailSchema = runSummarySchema.extend({
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 
-export const withheldSchema = z.enum(['small', 'complement']);
+export const withheldSchema = z.enum(['small', 'complement', 'months', 'strata', 'earlier']);
 
 const limits = { estimate: jsonNumberSchema.nullable(), lower: jsonNumberSchema.nullable(), upper: jsonNumberSchema.nullable() };
 

@@ -42,21 +42,27 @@ describe('complementary suppression of the parts of a published total', () => {
     expect(marginSuppression([4, 4], 5)).toEqual({ parts: ['small', 'small'], total: true }); // 8 = 4 + 4 pins both
   });
 
-  it('a complement equal to the threshold beside a 1 would pin both; a second complement is added', () => {
+  it('complements of 5 and 6 beside a 1 would leave it 1 … 2 (12 − 5 − 5); a third complement is added', () => {
     const r = marginSuppression([1, 5, 6, 20], 5);
-    expect(r.parts).toEqual(['small', 'complement', 'complement', null]);
+    expect(r.parts).toEqual(['small', 'complement', 'complement', 'complement']);
   });
 
   // From a threshold of 3 up: with 2 a withheld count could only be 1, so the settings refuse it.
-  it('property: no small part can be pinned to one value by subtraction (brute force over what a reader can see)', () => {
+  it('a withheld sum of 7 in two small parts would narrow each to 3 … 4: a complement is added', () => {
+    expect(marginSuppression([3, 4, 100], 5).parts).toEqual(['small', 'small', 'complement']);
+  });
+
+  it('property: no small part can be narrowed below 1 … threshold − 1 by subtraction (brute force over what a reader can see)', () => {
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 0, max: 14 }), { minLength: 1, maxLength: 5 }), fc.integer({ min: 3, max: 6 }), (parts, t) => {
         const r = marginSuppression(parts, t);
         const total = parts.reduce((a, b) => a + b, 0);
         const totalShown = !r.total && !(total > 0 && total < t);
         parts.forEach((c, i) => {
-          if (r.parts[i] === 'small') expect(feasibleValues(parts, r.parts, totalShown, t, i).size).toBeGreaterThan(1);
-          else if (c > 0 && c < t) throw new Error('a small part was shown');
+          if (r.parts[i] !== 'small') return void (c > 0 && c < t && expect.fail('a small part was shown'));
+          const values = feasibleValues(parts, r.parts, totalShown, t, i);
+          expect(Math.min(...values)).toBe(1);
+          expect(Math.max(...values)).toBe(t - 1);
         });
       }),
       { numRuns: 300 },

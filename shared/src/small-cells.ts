@@ -13,8 +13,14 @@
 /** The threshold when none is configured: counts 1 to 4 are withheld (common practice). */
 export const DEFAULT_SMALL_CELL_THRESHOLD = 5;
 
-/** Why a count is not shown: 'small' (below the threshold), 'complement' (it would give a small one back). */
-export type Withheld = 'small' | 'complement';
+/**
+ * Why a count is not shown: 'small' (below the threshold), 'complement' (it would give a small
+ * one back), 'months' (single months and overlapping windows of a series with small months:
+ * they would give the months back by difference; read its yearly windows), 'strata' (a stratum
+ * table shown only in yearly windows without small strata), 'earlier' (a figure of an earlier
+ * run: the current run's only, or the two would give counts back by difference).
+ */
+export type Withheld = 'small' | 'complement' | 'months' | 'strata' | 'earlier';
 
 export function isSmallCount(count: number, threshold: number): boolean {
   return count > 0 && count < threshold;
@@ -29,23 +35,23 @@ export interface MarginSuppression {
 
 /**
  * Whether a reader who knows the published total, the shown parts, that each small part lies in
- * [1, threshold − 1] and each complementary one in [threshold, ∞) can pin a small part to one
- * value: its largest feasible value is the withheld sum minus the other parts' lower bounds, and
- * it is pinned when that leaves only 1 (or, with no complementary part, when every small part must
- * take the same extreme value).
+ * [1, threshold − 1] and each complementary one in [threshold, ∞) can narrow a small part below
+ * that whole range: its largest feasible value is the withheld sum minus the other parts' lower
+ * bounds, its smallest the withheld sum minus the others' upper bounds (none with a complement,
+ * which is unbounded above). The labels alone allow 1 … threshold − 1; the values must not narrow it.
  */
-function smallPartPinned(small: number[], complement: number[], threshold: number): boolean {
+function smallPartNarrowed(small: number[], complement: number[], threshold: number): boolean {
   const k = small.length;
   if (k === 0) return false;
   const sum = small.reduce((a, b) => a + b, 0) + complement.reduce((a, b) => a + b, 0);
   const upper = Math.min(threshold - 1, sum - (k - 1) - complement.length * threshold);
   const lower = complement.length > 0 ? 1 : Math.max(1, sum - (k - 1) * (threshold - 1));
-  return upper <= lower;
+  return upper < threshold - 1 || lower > 1;
 }
 
 /**
  * Suppression of the parts of one published total: the small parts, then, while a small part
- * could be pinned by subtraction, the smallest shown part (ties: the first) as its complement;
+ * could be narrowed by subtraction, the smallest shown part (ties: the first) as its complement;
  * when no shown part is left, the total is withheld instead.
  *
  * @example
@@ -58,7 +64,7 @@ export function marginSuppression(parts: number[], threshold: number): MarginSup
   // A small total is withheld in its own right, and then nothing can be subtracted from it.
   if (small.length === 0 || isSmallCount(total, threshold)) return { parts: out, total: false };
   const complement: number[] = [];
-  while (smallPartPinned(small, complement, threshold)) {
+  while (smallPartNarrowed(small, complement, threshold)) {
     let pick = -1;
     parts.forEach((c, i) => {
       if (out[i] === null && c > 0 && (pick < 0 || c < parts[pick]!)) pick = i;

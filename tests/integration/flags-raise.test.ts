@@ -9,8 +9,9 @@ import { openTestDataSource } from '../support/test-db';
 import { makeCohort, settings, type Cohort, clearCohortData } from './runs-fixture';
 
 /**
- * Watch rules raising flags. EXP has 12 cases in 1.6 person-years against REF's 1 in 1.6
- * (IRR 12, exact lower 95% bound well above 1); MID has 1 in 1.6 (IRR 1).
+ * Watch rules raising flags. EXP has 24 cases in 1.6 person-years against REF's 5 in 1.6
+ * (IRR 4.8, exact lower 95% bound well above 1); MID has 5 in 1.6 (IRR 1). Rules look only at
+ * counts every reader of flags may see, so the reference count is not small.
  */
 describe('watch rules raise, update, escalate and re-raise flags', () => {
   let ds: DataSource;
@@ -42,9 +43,9 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     }
     await c.roster(rows);
     await c.cases([
-      ...ids.EXP!.slice(0, 6).flatMap((w) => [[w, c.outcomes.DERM!, '2031-01-10'], [w, c.outcomes.DERM!, '2031-02-10']] as Array<[number, number, string]>),
-      [ids.REF![0]!, c.outcomes.DERM!, '2031-02-03'],
-      [ids.MID![0]!, c.outcomes.DERM!, '2031-02-03'],
+      ...ids.EXP!.slice(0, 6).flatMap((w) => ['2031-01-10', '2031-01-12', '2031-02-10', '2031-02-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+      ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-02-03'] as [number, number, string]),
+      ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-02-03'] as [number, number, string]),
     ]);
     const [p] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test physician', 'physician') RETURNING id, email`, [`phys-${c.tag}`, `phys-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
     physician = { kind: 'user', id: p!.id, email: p!.email, name: 'Test physician', role: 'physician', siteIds: c.sites };
@@ -64,7 +65,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     const flags = await flagsOfRule();
     expect(flags.map((f) => [f.exposure_group_id, f.state])).toEqual([[c.groups.EXP, 'raised']]);
     const detail = await getFlag(ds, flags[0]!.id);
-    expect(detail.figures).toMatchObject({ runId, cases: 12, period: '2031-02-01', window: 'rolling12', measure: 'irr' });
+    expect(detail.figures).toMatchObject({ runId, cases: 24, period: '2031-02-01', window: 'rolling12', measure: 'irr' });
     expect(detail.figures.value).toBeGreaterThan(1);
     expect(detail.figures.q).not.toBeNull(); // Benjamini–Hochberg is on by default
     expect(detail.events.map((e) => e.kind)).toEqual(['raised']);
@@ -79,7 +80,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     const text = notices.map((n) => `${n.subject}\n${n.body}`).join('\n');
     expect(text).toContain('IRR lower bound above 1');
     expect(text).toContain('Group EXP');
-    expect(text).toContain('Cases in the group: 12');
+    expect(text).toContain('Cases in the group: 24');
     expect(text).toContain(`/flags/${flag!.id}`);
     expect(text).not.toContain('Outcome DERM');
     expect(text).not.toContain(`${c.tag}-`); // every worker key and case reference starts with it
@@ -108,7 +109,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
   it('the physician sees the cases behind the flag, and the read is audited', async () => {
     const [flag] = await flagsOfRule();
     const cases = await flagCases(ds, physician, flag!.id);
-    expect(cases.length).toBe(16);
+    expect(cases.length).toBe(28);
     expect(cases.every((x) => x.workerKey.startsWith(`${c.tag}-EXP`))).toBe(true);
     const audits = (await ds.query(`SELECT action, actor_id FROM audit_events WHERE target = $1 AND action = 'cases.read'`, [`flag:${flag!.id}`])) as Array<{ actor_id: string }>;
     expect(audits.map((a) => a.actor_id)).toEqual([physician.kind === 'user' ? physician.id : '']);

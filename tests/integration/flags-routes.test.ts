@@ -3,10 +3,11 @@ import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
 import { flagSchema } from '@ratewarden/shared/flags';
 import { runDiffSchema, runSummarySchema } from '@ratewarden/shared/runs';
+import { applyVerdicts } from '@ratewarden/worker/flags/apply-verdicts';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixture';
 
 /** The runs, rules, flags and mailbox routes with signed-in demo people: who may do what. */
@@ -32,7 +33,8 @@ describe('runs, rules and flags through the API', () => {
     }
     await c.roster(rows);
     await c.cases(exposed.map((w) => [w, c.outcomes.API!, '2031-05-07'] as [number, number, string]));
-    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', c.sites);
+    // Company figures (a flag's) are for readers of every site; other test files' sites exist too.
+    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', c.sites);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', c.sites);
     await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
@@ -60,12 +62,20 @@ describe('runs, rules and flags through the API', () => {
     const ok = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
       .send({ name: 'API rate rule', outcomeId: c.outcomes.API, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, window: 'month', fdrControl: false }).expect(201);
     expect(ok.body).toMatchObject({ fdrLevel: 0.05, consecutivePeriods: 1, recipients: [], minCases: 5 });
-    // As a rule stored before minimum case counts were raised to the small-cell threshold: its flag on 4 cases must still withhold them.
+    // As a rule stored before minimum case counts were raised to the small-cell threshold: runs
+    // evaluate it at the threshold, and on shown counts only, so 4 cases raise no flag.
     await ds.query(`UPDATE watch_rules SET min_cases = 2 WHERE id = $1`, [ok.body.id]);
     for (let i = 0; i < 2; i++) {
       const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000/' });
       runs.push((o as { runId: string }).runId);
     }
+    expect(await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [ok.body.id])).toEqual([]);
+    // A flag raised on those 4 cases by a run before that change: what each role reads of it.
+    await ds.transaction((em) =>
+      applyVerdicts(em, runs[1]!, settings, 'http://127.0.0.1:3000/', new Map([[ok.body.id, { id: ok.body.id, name: 'API rate rule', measure: 'rate', thresholdOn: 'estimate', threshold: 1, windowKind: 'month', recipients: [] }]]), [
+        { ruleId: ok.body.id, outcomeId: c.outcomes.API!, exposureGroupId: c.groups.EXP!, crossing: true, period: '2031-05-01', value: 12_500, estimate: 12_500, lower: 3406, upper: 32_004, cases: 4, expected: null, personTime: 0.32, p: null, q: null },
+      ]),
+    );
     const [flag] = (await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [ok.body.id])) as Array<{ id: string }>;
     flagId = flag!.id;
   });
@@ -93,7 +103,8 @@ describe('runs, rules and flags through the API', () => {
   it('withholds a flag\'s small count and the figures that give it back, except from the physician', async () => {
     // 4 cases over 0.32 person-years: the rate (4 / 0.32 × 1,000 = 12,500) with the person-time shown would give 4 back.
     const safety = flagSchema.parse((await as.safety.agent.get(`/api/flags/${flagId}`).expect(200)).body);
-    expect(safety.figures).toMatchObject({ suppressed: true, withheld: 'small', cases: null, value: null, estimate: null, lower: null, upper: null, p: null });
+    // A month of a group with small months: single months are withheld ('months', see disclosure-frame.ts), and the flag's figures with them.
+    expect(safety.figures).toMatchObject({ suppressed: true, withheld: 'months', cases: null, value: null, estimate: null, lower: null, upper: null, p: null });
     expect(safety.value).toBeNull();
     expect(safety.worstValue).toBeNull();
     expect(safety.figures.personTime).toBeCloseTo(0.32, 12);

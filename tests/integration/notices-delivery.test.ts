@@ -36,8 +36,6 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     const rule = await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
       name: `Rate above 1 per 1,000 person-years (${address})`, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients: [address],
     }));
-    // As a rule stored before minimum case counts were raised to the small-cell threshold: its notice still withholds the small count.
-    await ds.query(`UPDATE watch_rules SET min_cases = 1 WHERE id = $1`, [rule.id]);
     const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
     expect(o.status).toBe('succeeded');
     expect(await noticeOf(address)).toMatchObject([{ state: 'pending', attempts: 0 }]);
@@ -50,7 +48,8 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     port = await freePort();
     sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50, sendingLeaseMs: 60_000 };
     c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NOISE', 'recurrent']] });
-    for (let i = 0; i < 3; i++) {
+    // Six exposed cases in one site's month: not small, so a rule may flag them (rules see only shown counts).
+    for (let i = 0; i < 6; i++) {
       const e = await c.worker(`e${i}`, 1980, 'M');
       const r = await c.worker(`r${i}`, 1980, 'F');
       exposed.push(e);
@@ -80,12 +79,11 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     const mails = await received(address);
     expect(mails.length).toBe(1);
     expect(mails[0]!.subject).toContain('raised a flag for Group EXP');
-    // 3 cases is under the small-cell threshold (5): a recipient who is not a physician gets no count and no value ...
-    expect(mails[0]!.text_body).toContain('Cases in the group: fewer than 5');
-    expect(mails[0]!.text_body).not.toMatch(/Value:|Cases in the group: 3/);
-    // ... the physician's notice of the same flag has them.
+    // A flag rests on a shown count (6), so every recipient reads it (compose-notice.test.ts covers a small one) ...
+    expect(mails[0]!.text_body).toContain('Cases in the group: 6');
+    // ... and the physician's notice of the same flag.
     const [forPhysician] = (await ds.query(`SELECT body FROM notices WHERE recipient = $1 ORDER BY created_at DESC LIMIT 1`, ['physician@demo.ratewarden.test'])) as Array<{ body: string }>;
-    expect(forPhysician!.body).toContain('Cases in the group: 3');
+    expect(forPhysician!.body).toContain('Cases in the group: 6');
     expect(forPhysician!.body).toMatch(/Value: /);
     expect(await noticeOf(address)).toMatchObject([{ state: 'sent', attempts: 1, last_error: null }]);
   });

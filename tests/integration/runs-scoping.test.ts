@@ -70,7 +70,9 @@ describe('run results: site scoping and small-cell suppression', () => {
   });
 
   const fetchResults = async (who: SignedInAgent, siteId?: number) => {
-    const res = await who.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SCO, window: 'month', ...(siteId && { siteId }) });
+    // Rolling twelve months ending in May: the cohort's one month, and (its groups having small
+    // months) the one window readers other than the physician get (disclosure-frame.ts).
+    const res = await who.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SCO, window: 'rolling12', ...(siteId && { siteId }) });
     return res;
   };
   const rowOf = (body: unknown, group: number): RunResult => {
@@ -94,10 +96,16 @@ describe('run results: site scoping and small-cell suppression', () => {
     // Mantel–Haenszel over the two sites: Σ aT0/T ÷ Σ bT1/T.
     const num = (CASES.aExp * PT.aRef) / (PT.aExp + PT.aRef) + (CASES.bExp * PT.bRef) / (PT.bExp + PT.bRef);
     const den = (CASES.aRef * PT.aExp) / (PT.aExp + PT.aRef) + (CASES.bRef * PT.bExp) / (PT.bExp + PT.bRef);
-    expect(exp.mhSite.irr.estimate).toBeCloseTo(num / den, 12);
+    // The adjustments are functions of their strata, which include small counts (site A's 3, the
+    // men's 3): withheld from the hygienist, shown to the physician.
+    expect(exp.mhSite.irr).toEqual({ estimate: null, lower: null, upper: null, p: null });
+    expect(exp.mhSex.irr).toEqual({ estimate: null, lower: null, upper: null, p: null });
+    expect(exp.detail).not.toHaveProperty('mhSiteHomogeneity');
+    const open = rowOf((await fetchResults(as.physician)).body, c.groups.EXP!);
+    expect(open.mhSite.irr.estimate).toBeCloseTo(num / den, 12);
     // Sex strata coincide with the sites here, so the adjustment by sex is the same number.
-    expect(exp.mhSex.irr.estimate).toBeCloseTo(num / den, 12);
-    expect(exp.mhSex.irr.lower).toBeCloseTo(exp.mhSite.irr.lower as number, 12);
+    expect(open.mhSex.irr.estimate).toBeCloseTo(num / den, 12);
+    expect(open.mhSex.irr.lower).toBeCloseTo(open.mhSite.irr.lower as number, 12);
   });
 
   it('serves one site computed from its cells alone, with small counts suppressed for a non-physician', async () => {
@@ -115,8 +123,10 @@ describe('run results: site scoping and small-cell suppression', () => {
     expect(exp.detail).toEqual({});
     expect(exp.personTime).toBeCloseTo(PT.aExp, 12); // person-time reveals no count
     // The reference group's 6 cases are not small, but the company's 8 minus them would give site
-    // B's 2 back: they are withheld as its complement (and so is the rate).
-    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'complement' });
+    // B's 2 back; and with 6 withheld beside it, 8 − (at least 5) would still leave 2 at most 3.
+    // The company's months are shown (8 is not small), so both sites' counts go unlabelled
+    // ('months': disclosure-frame.ts), and the rate with them.
+    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'months' });
     expect(ref.rate.estimate).toBeNull();
     expect(ref.personTime).toBeCloseTo(PT.aRef, 12);
   });
@@ -135,10 +145,11 @@ describe('run results: site scoping and small-cell suppression', () => {
     const exp = rowOf(res.body, c.groups.EXP!);
     const ref = rowOf(res.body, c.groups.REF!);
     // ... so site B's 7 would give site A's 3 back (10 − 7): withheld too, with what gives it back.
-    expect(exp).toMatchObject({ cases: null, suppressed: true, withheld: 'complement', expected: expect.anything() });
+    // (Its expected count comes from the reference count, withheld at site B: not shown either.)
+    expect(exp).toMatchObject({ cases: null, suppressed: true, withheld: 'complement', expected: null });
     expect(exp.rate).toEqual({ estimate: null, lower: null, upper: null });
     expect(exp.irr).toMatchObject({ estimate: null, lower: null, upper: null, p: null });
-    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'small' });
+    expect(ref).toMatchObject({ cases: null, suppressed: true, withheld: 'months' });
     // The physician sees both.
     const open = await fetchResults(as.physician, siteB);
     expect(rowOf(open.body, c.groups.EXP!)).toMatchObject({ cases: 7, withheld: null });
@@ -154,7 +165,7 @@ describe('run results: site scoping and small-cell suppression', () => {
     const own = await fetchResults(as.safety, siteA);
     expect(own.status).toBe(200);
     expect(rowOf(own.body, c.groups.EXP!)).toMatchObject({ siteId: siteA, cases: null, suppressed: true });
-    expect(rowOf(own.body, c.groups.REF!)).toMatchObject({ cases: null, withheld: 'complement' }); // as for everyone but the physician
+    expect(rowOf(own.body, c.groups.REF!)).toMatchObject({ cases: null, withheld: 'months' }); // as for everyone but the physician
     const diff = await as.safety.agent.get('/api/runs/diff').query({ from: runId, to: runId });
     expect(diff.status).toBe(403);
     const ownDiff = await as.safety.agent.get('/api/runs/diff').query({ from: runId, to: runId, siteId: siteA });
@@ -162,6 +173,9 @@ describe('run results: site scoping and small-cell suppression', () => {
   });
 
   it('takes the threshold from the SMALL_CELL_THRESHOLD setting, and withholds a comparison whose reference count is small', async () => {
+    // One setting for the worker (which decides the run's disclosure frame) and the API.
+    const at3 = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/', smallCellThreshold: 3 });
+    runId = (at3 as { runId: string }).runId;
     const app = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '3' }) });
     const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
     const siteAExp = rowOf((await fetchResults(hygienist, siteA)).body, c.groups.EXP!);
@@ -181,16 +195,20 @@ describe('run results: site scoping and small-cell suppression', () => {
     // A late case for site B's eighth exposed worker: 7 → 8 exposed cases at site B in May.
     const [w] = (await ds.query(`SELECT id FROM workers WHERE worker_key = $1`, [`${c.tag}-bExp7`])) as Array<{ id: string }>;
     await c.cases([[Number(w!.id), c.outcomes.SCO!, '2031-05-20']]);
-    const next = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
+    const next = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/', smallCellThreshold: 3 });
     expect(next.status).toBe('succeeded');
     const nextId = (next as { runId: string }).runId;
     const rowOfDiff = (body: { rows: Array<{ exposureGroupId: number; window: string; period: string; before: unknown; after: unknown }> }) =>
       body.rows.find((r) => r.exposureGroupId === c.groups.EXP && r.window === 'month' && r.period === '2031-05-01')!;
-    // Threshold 3: site B's exposed count is shown, its reference count (2) is not, so neither is the IRR.
+    // Threshold 3: site B's exposed count is shown, its reference count (2) is not, so neither is
+    // the IRR; the earlier run's figures are the physician's ('earlier').
     const app = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '3' }) });
     const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
     const seen = await hygienist.agent.get('/api/runs/diff').query({ from: runId, to: nextId, siteId: siteB }).expect(200);
-    expect(rowOfDiff(seen.body)).toMatchObject({ before: { cases: 7, irr: null, withheld: null }, after: { cases: 8, irr: null, withheld: null } });
+    expect(rowOfDiff(seen.body)).toMatchObject({ before: { cases: null, irr: null, withheld: 'earlier' }, after: { cases: 8, irr: null, withheld: null } });
+    // And the earlier run's own results are the physician's now.
+    expect((await hygienist.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SCO })).status).toBe(403);
+    expect((await as.physician.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SCO })).status).toBe(200);
     const open = await as.physician.agent.get('/api/runs/diff').query({ from: runId, to: nextId, siteId: siteB }).expect(200);
     const row = rowOfDiff(open.body) as { before: { irr: number }; after: { irr: number } };
     expect(row.before.irr).toBeCloseTo(7 / PT.bExp / (2 / PT.bRef), 9);

@@ -100,18 +100,27 @@ describe('run strata: the stratum table of the adjusted view', () => {
     expect(s.strata[0]).toMatchObject({ label: '30–39', exposed: { cases: 8, hours: '3200.00' } }); // April 2 + May 6, 2 × 1,600 h
   });
 
-  it('withholds a small stratum and its complement from everyone but the physician', async () => {
-    const s = await strata(as.hygienist, {});
+  it('withholds a table with a small stratum whole, and shows others only in yearly windows, to everyone but the physician', async () => {
+    // The latest rolling window (May) is the yearly one. Exposed: 8 + 3: the 3 is small, so the
+    // whole arm goes, zeros too (they would say how many strata share the 11); the reference arm
+    // (5 + 7) has nothing small and is shown, with its person-time.
+    const s = await strata(as.hygienist, { window: 'rolling12' });
     const [b30, b40, unknown] = s.strata;
-    // 3 is small; with the group's 9 shown in the results, 9 − 6 would give it back: 6 goes too.
-    expect(b40!.exposed).toMatchObject({ cases: null, withheld: 'small', rate: null });
-    expect(b30!.exposed).toMatchObject({ cases: null, withheld: 'complement', rate: null });
-    expect(b30!.irr).toBeNull();
-    expect(b30!.ird).toBeNull();
-    expect(unknown!.exposed).toMatchObject({ cases: 0, withheld: null });
-    // The reference arm has nothing small: shown.
+    for (const x of [b30!, b40!, unknown!]) {
+      expect(x.exposed).toMatchObject({ cases: null, withheld: 'strata', rate: null });
+      expect(x.irr).toBeNull();
+      expect(x.ird).toBeNull();
+    }
+    expect(b30!.exposed.personTime).toBeCloseTo(1.6, 12);
     expect(b30!.reference).toMatchObject({ cases: 5, withheld: null });
     expect(b40!.reference).toMatchObject({ cases: 7, withheld: null });
+    // Single months and earlier rolling windows overlap the yearly one: their tables are the physician's.
+    for (const q of [{ window: 'month' }, { window: 'rolling12', period: '2031-04-01' }]) {
+      const other = await strata(as.hygienist, q);
+      for (const x of other.strata) expect(x.exposed).toMatchObject({ cases: null, rate: null });
+      const open = await strata(as.physician, q);
+      expect(open.strata.some((x) => x.exposed.cases !== null && x.exposed.cases > 0)).toBe(true);
+    }
   });
 
   it('keeps the scope rules of the results, and refuses site strata of one site', async () => {

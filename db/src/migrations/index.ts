@@ -8,5 +8,7 @@ import { RunCells1764634200000 } from './1764634200000-RunCells';
 import { WatchRuleMinCases1764634300000 } from './1764634300000-WatchRuleMinCases';
 import { NoticeDelivery1764634400000 } from './1764634400000-NoticeDelivery';
 
+import { DisclosureFrame1764634500000 } from './1764634500000-DisclosureFrame';
+
 /** Every migration, oldest first. Listed by hand because the TypeORM CLI cannot glob TypeScript under tsx. */
-export const migrations = [Foundation1764633600000, CohortData1764633700000, IntakeStaging1764633800000, Access1764634000000, Runs1764633900000, RunScopes1764634100000, RunCells1764634200000, WatchRuleMinCases1764634300000, NoticeDelivery1764634400000];
+export const migrations = [Foundation1764633600000, CohortData1764633700000, IntakeStaging1764633800000, Access1764634000000, Runs1764633900000, RunScopes1764634100000, RunCells1764634200000, WatchRuleMinCases1764634300000, NoticeDelivery1764634400000, DisclosureFrame1764634500000];

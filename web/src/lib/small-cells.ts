@@ -31,7 +31,7 @@ export function smallCellThreshold(): number {
   return threshold;
 }
 
-/** What a count withheld as the complement of a small one shows (it is not small itself). */
+/** What a count withheld for another reason than being small shows (a complement, a month read by year, a stratum, an earlier run's). */
 export const COMPLEMENT_TEXT = 'withheld';
 
 /**
@@ -41,7 +41,8 @@ export const COMPLEMENT_TEXT = 'withheld';
  * subtraction (shared/src/small-cells.ts).
  */
 export function showCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | null = false): ShownCount {
-  if (withheld === 'complement') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
+  // Only a count withheld for being small says so; every other reason reads "withheld".
+  if (withheld && withheld !== true && withheld !== 'small') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
   if (withheld) return { text: `<${t}`, value: null, suppressed: true };
   if (count === null) return { text: 'not available', value: null, suppressed: false };
   if (!maySeeSmallCells(role) && count > 0 && count < t) return { text: `<${t}`, value: null, suppressed: true };

@@ -35,6 +35,10 @@ interface OpenFlag {
 
 const SYSTEM_ACTOR = 'system:run';
 
+/**
+ * The audit log is read by the administrator, who may not read aggregates: its entries name the
+ * flag, rule, group and period, never a count or a measure's value.
+ */
 async function audit(em: EntityManager, action: string, flagId: string, detail: Record<string, unknown>): Promise<void> {
   await em.query(`INSERT INTO audit_events (actor_label, action, target, detail) VALUES ($1, $2, $3, $4)`, [SYSTEM_ACTOR, action, `flag:${flagId}`, JSON.stringify(toJsonValue(detail))]);
 }
@@ -125,7 +129,7 @@ export async function applyVerdicts(
         tally.escalated++;
       } else if (value !== open.value || !open.crossing) {
         await addEvent(em, flagId, 'updated', runId, { period: v.period, value, previous: open.value });
-        await audit(em, 'flag.update', flagId, { runId, period: v.period, value });
+        await audit(em, 'flag.update', flagId, { runId, period: v.period });
         tally.updated++;
       }
     } else {
@@ -148,7 +152,7 @@ export async function applyVerdicts(
     }
     if (!kind) continue;
     const eventId = await addEvent(em, flagId, kind, runId, { period: v.period, value, ...(open ? { previousWorst: open.worst_value } : {}) });
-    await audit(em, kind === 'raised' ? 'flag.raise' : 'flag.escalate', flagId, { runId, ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, period: v.period, value });
+    await audit(em, kind === 'raised' ? 'flag.raise' : 'flag.escalate', flagId, { runId, ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, period: v.period });
 
     const group = groupOf.get(v.exposureGroupId);
     const facts = {

@@ -2,6 +2,9 @@ import { hostname } from 'node:os';
 import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
 import { toJsonValue } from '@ratewarden/shared/stats';
 import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
+import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
+import { disclosureFrame } from '../disclosure/disclosure-frame';
+import { frameIndex, frameKey, storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
 import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
 import { applyAggregationSettings, loadCaseTotals, loadCells } from './cells-query';
@@ -81,6 +84,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
   const requestIds = requests.map((r) => r.id);
   const reason = options.reason ?? (requests.length ? requests.map((r) => r.reason).join('; ').slice(0, 500) : null);
   const started = performance.now();
+  const threshold = options.smallCellThreshold ?? DEFAULT_SMALL_CELL_THRESHOLD;
   const [run]: Array<{ id: string }> = await qr.query(
     `INSERT INTO runs (trigger, reason, settings, code_version, worker, inputs) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`,
     [options.trigger, reason, JSON.stringify(options.settings), RUN_CODE_VERSION, `${hostname()}:${process.pid}`, JSON.stringify({ requestIds })],
@@ -114,15 +118,23 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       const computed = await computing;
       const t2 = performance.now();
       await writer.finish(computed.trends);
+      const frame = disclosureFrame(snapshot.cells, threshold);
+      await storeFrame(em, runId, frame);
       const t3 = performance.now();
       resultCount = computed.resultCount;
-      // Watch rules look at the whole company; the per-site rows serve people who see some sites only.
-      const companyResults = computed.companyResults;
-      const verdicts = snapshot.rules.flatMap((r) => evaluateRule(r, companyResults));
+      // Watch rules look at the whole company (the per-site rows serve people who see some sites
+      // only), at the counts everyone who reads flags may see: a flag raised on a withheld count, or
+      // on a comparison with one, would tell them which side of the threshold it lies.
+      const withheld = frameIndex(frame);
+      const shown = (groupId: number | null, r: (typeof computed.companyResults)[number]) =>
+        groupId === null || !withheld.has(frameKey(null, r.outcome_id, groupId, r.window_kind, r.period));
+      const companyResults = computed.companyResults.filter((r) => shown(r.exposure_group_id, r) && (r.is_reference || shown(r.reference_group_id, r)));
+      const verdicts = snapshot.rules.flatMap((r) => evaluateRule({ ...r, minCases: Math.max(r.minCases, threshold) }, companyResults));
       const summary = {
         cells: snapshot.cells.length,
-        results: companyResults.length,
-        siteResults: computed.resultCount - companyResults.length,
+        results: computed.companyResults.length,
+        withheld: frame.length,
+        siteResults: computed.resultCount - computed.companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
         analyzed,
@@ -135,7 +147,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
          ON CONFLICT (singleton) DO UPDATE SET run_id = EXCLUDED.run_id, switched_at = EXCLUDED.switched_at`,
         [runId],
       );
-      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts, options.smallCellThreshold);
+      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts, threshold);
       await markPicked(em);
       const seconds = (performance.now() - started) / 1000;
       await em.query(

@@ -1,57 +1,56 @@
 import type { DataSource } from 'typeorm';
-import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagDetail } from '@ratewarden/shared/flags';
-import { isSmallCount } from '@ratewarden/shared/small-cells';
-import { showsSmallCells as opens } from '../runs/runs-service';
-import { cellKey, siteMarginWithheld } from '../runs/site-margins';
+import type { Withheld } from '@ratewarden/shared/small-cells';
+import { readsEverySite, runFrame, seesEveryCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 
-/** Who reads a flag: every role but the physician gets small counts withheld. */
+/** Who reads a flag: every role but the physician gets withheld counts withheld here too. */
 export interface FlagReader {
-  principal: Principal;
+  principal: import('@ratewarden/shared/permissions').Principal;
   smallCellThreshold: number;
 }
 
 /** Event detail keys that carry the measure's value (with the person-time they give the count back). */
-const VALUE_KEYS = new Set(['value', 'previous', 'previousWorst']);
+const VALUE_KEYS = new Set(['value', 'previous', 'previousWorst', 'cases', 'expected']);
 
-/**
- * A flag as its reader may see it: when its count of cases is small, the count and every figure
- * computed from it (the measure's value, worst value, estimate and limits, expected count, p and q,
- * and the values in its history) are withheld, as in the run results; the rule, the group, the
- * period, the person-time and the decisions stay.
- */
-export function flagAsSeenBy<T extends Flag | FlagDetail>(flag: T, reader: FlagReader, withheldByMargin = false): T {
-  const small = isSmallCount(flag.figures.cases ?? 0, reader.smallCellThreshold);
-  if (opens(reader.principal) || (!withheldByMargin && !small)) return { ...flag, figures: { ...flag.figures, suppressed: false, withheld: null } };
-  const figures = { ...flag.figures, suppressed: true, withheld: small ? ('small' as const) : ('complement' as const), cases: null, value: null, estimate: null, lower: null, upper: null, expected: null, p: null, q: null };
-  const out = { ...flag, value: null, worstValue: null, figures };
-  if ('events' in flag) {
-    (out as FlagDetail).events = flag.events.map((e) => ({
+/** A flag with its figures withheld (and, for its history, every value the events carry). */
+function withheldFlag<T extends Flag | FlagDetail>(flag: T, why: Withheld): T {
+  const figures = { ...flag.figures, suppressed: true, withheld: why, cases: null, value: null, estimate: null, lower: null, upper: null, expected: null, p: null, q: null };
+  return { ...withoutEventValues(flag), value: null, worstValue: null, figures } as T;
+}
+
+/** The values in a flag's history are of earlier runs: the physician's (see runFrame). */
+function withoutEventValues<T extends Flag | FlagDetail>(flag: T): T {
+  if (!('events' in flag)) return flag;
+  return {
+    ...flag,
+    events: flag.events.map((e) => ({
       ...e,
       detail: e.detail && typeof e.detail === 'object' ? Object.fromEntries(Object.entries(e.detail as Record<string, unknown>).filter(([k]) => !VALUE_KEYS.has(k))) : e.detail,
-    }));
-  }
-  return out as T;
+    })),
+  };
 }
 
 /**
- * flagAsSeenBy for a list, with the site margin too: a flag's count is the company's figure of
- * its latest run, which the results withhold as a complement when every site's part of it is
- * small (site-margins.ts); the flag then withholds it as well. One margin read per run × outcome ×
- * window × period among the flags.
+ * Flags as their reader may see them. The physician sees every figure. For anyone else a flag's
+ * figures are the company's count and measures of its latest run, shown only when that run is
+ * the current one and the current run's disclosure frame shows the count (rules are evaluated on
+ * shown counts only, so a flag the current run raised or updated normally is): a flag left from
+ * an earlier run keeps its figures for the physician ('earlier'), and a reader who sees only some
+ * sites gets no company figures ('complement': they would give back the other sites' part of it).
+ * The rule, the group, the period, the person-time and the decisions stay.
  */
 export async function flagsAsSeenBy<T extends Flag | FlagDetail>(ds: DataSource, flags: T[], reader: FlagReader): Promise<T[]> {
-  if (opens(reader.principal)) return flags.map((f) => flagAsSeenBy(f, reader));
-  const margins = new Map<string, Promise<Set<string>>>();
-  const marginOf = (f: T) => {
-    const k = [f.figures.runId, f.outcomeId, f.figures.window, f.figures.period].join('|');
-    let m = margins.get(k);
-    if (!m) {
-      const q = { outcomeId: f.outcomeId, window: f.figures.window, from: f.figures.period, to: f.figures.period };
-      m = siteMarginWithheld(ds, f.figures.runId, q, reader.smallCellThreshold).then((w) => new Set(w.keys()));
-      margins.set(k, m);
-    }
-    return m;
-  };
-  return Promise.all(flags.map(async (f) => flagAsSeenBy(f, reader, (await marginOf(f)).has(cellKey(null, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period)))));
+  const shown = (f: T) => ({ ...f, figures: { ...f.figures, suppressed: false, withheld: null } });
+  if (seesEveryCount(reader.principal)) return flags.map(shown);
+  if (!(await readsEverySite(ds, reader.principal))) return flags.map((f) => withheldFlag(f, 'complement'));
+  const [current]: Array<{ run_id: string }> = await ds.query(`SELECT run_id FROM current_run`);
+  let frame: RunFrame | null | undefined;
+  if (current && flags.some((f) => f.figures.runId === current.run_id)) frame = await runFrame(ds, current.run_id, reader.principal).catch(() => undefined);
+  return flags.map((f) => {
+    if (!current || f.figures.runId !== current.run_id || frame === undefined) return withheldFlag(f, 'earlier');
+    const why = withheldIn(frame, null, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period);
+    const small = f.figures.cases !== null && f.figures.cases > 0 && f.figures.cases < reader.smallCellThreshold;
+    if (why || small) return withheldFlag(f, why ?? 'small');
+    return shown(withoutEventValues(f));
+  });
 }

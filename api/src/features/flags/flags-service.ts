@@ -122,6 +122,7 @@ export async function flagCases(ds: DataSource, principal: Principal, id: string
      ORDER BY c.onset_date, c.case_ref`,
     [f.outcome_id, JSON.stringify(f.statuses), f.exposure_group_id, f.period, months, scope === 'all' ? null : scope],
   );
-  await recordAudit(ds, { actor: principal, action: 'cases.read', target: `flag:${id}`, detail: { count: rows.length }, ip });
+  // No count in the entry: the administrator reads the audit log and may not see how many cases a flag has.
+  await recordAudit(ds, { actor: principal, action: 'cases.read', target: `flag:${id}`, ip });
   return rows.map((r) => ({ caseRef: r.case_ref, workerKey: r.worker_key, onsetDate: r.onset, status: r.status, siteId: r.site_id }));
 }

@@ -1,10 +1,10 @@
 import type { DataSource } from 'typeorm';
-import { isSmallCount, marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
+import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
 import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
-import { getRun, n, resultScope, showsSmallCells, type ResultReader } from './runs-service';
-import { cellKey, siteMarginWithheld } from './site-margins';
+import { runFrame, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import { getRun, n, resultScope, type ResultReader } from './runs-service';
 
 const KEY_SQL = { age: 'c.age_band::text', site: 'c.site_id::text', sex: 'c.sex' } as const;
 
@@ -64,7 +64,8 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     return q.by === 'age' ? Number(a) - Number(b) : label(a).localeCompare(label(b));
   });
 
-  const withheld = await armWithholding(ds, runId, q, siteId, reader, keys, arms, groupIds);
+  const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
+  const withheld = armWithholding(frame, q, siteId, reader.smallCellThreshold, keys, arms, groupIds);
   const { personTimeBasis, confidence, per } = run.settings as RunSettings;
   const personTime = (hours: string) => personTimeOfHours(Number(hours), personTimeBasis);
 
@@ -95,36 +96,37 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
 }
 
 /**
- * For each arm, which strata counts a reader may not see (group id → stratum key → why). The
- * strata of an arm add up to its group's count in the results; when that count is itself withheld,
- * so is every non-zero stratum; otherwise the strata are a margin of their own (marginSuppression),
- * and where even the total would have to go (it is already shown in the results), the small strata
- * are labelled only as withheld, so that they cannot be pinned to the threshold's edge.
+ * For each arm, which strata counts a reader may not see (group id → stratum key → why), as the
+ * run's disclosure frame says (worker/src/disclosure/disclosure-frame.ts). By site, the strata are
+ * the sites' own counts in the results, withheld as there. By age band and by sex, a reader other
+ * than the physician sees the company's tables in yearly rolling windows only, each whole or not
+ * at all ('strata'): zeros too, since the zeros of a table would say how many strata share its
+ * total. A whole arm is withheld when its group's count is.
  */
-async function armWithholding(
-  ds: DataSource,
-  runId: string,
+function armWithholding(
+  frame: RunFrame | null,
   q: RunStrataQuery,
   siteId: number | null,
-  reader: ResultReader,
+  threshold: number,
   keys: string[],
   arms: Map<string, Map<number, Arm>>,
   groupIds: number[],
-): Promise<Map<number, Map<string, Withheld>>> {
+): Map<number, Map<string, Withheld>> {
   const out = new Map<number, Map<string, Withheld>>();
-  if (showsSmallCells(reader.principal)) return out;
-  const threshold = reader.smallCellThreshold;
-  const margins = await siteMarginWithheld(ds, runId, { outcomeId: q.outcomeId, window: q.window, from: q.period, to: q.period }, threshold);
+  if (frame === null) return out;
   for (const g of groupIds) {
     const counts = keys.map((k) => arms.get(k)!.get(g)?.cases ?? 0);
     const total = counts.reduce((a, b) => a + b, 0);
-    const rowWithheld = isSmallCount(total, threshold) || margins.has(cellKey(siteId, q.outcomeId, g, q.window, q.period));
+    const row = withheldIn(frame, siteId, q.outcomeId, g, q.window, q.period) ?? (isSmallCount(total, threshold) ? 'small' : null);
     const m = new Map<string, Withheld>();
-    if (rowWithheld) {
-      counts.forEach((c, i) => c > 0 && m.set(keys[i]!, isSmallCount(c, threshold) ? 'small' : 'complement'));
+    if (q.by === 'site') {
+      keys.forEach((k, i) => {
+        const w = withheldIn(frame, Number(k), q.outcomeId, g, q.window, q.period) ?? (isSmallCount(counts[i]!, threshold) ? 'small' : null);
+        if (w || (row && counts[i]! > 0)) m.set(k, w ?? row!);
+      });
     } else {
-      const r = marginSuppression(counts, threshold);
-      r.parts.forEach((p, i) => p && m.set(keys[i]!, r.total ? 'complement' : p));
+      const tableShown = row === null && siteId === null && q.window === 'rolling12' && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
+      if (!tableShown) keys.forEach((k) => m.set(k, row ?? 'strata'));
     }
     out.set(g, m);
   }

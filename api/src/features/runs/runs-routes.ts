@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
 import { runStrata } from './run-strata';
-import { diffRuns, getRun, listResults, listRuns, requestRun } from './runs-service';
+import { diffRuns, getRun, listResults, listRuns, requestRun, runAsSeenBy } from './runs-service';
 
 export interface RunsRouterDeps {
   dataSource: DataSource;
@@ -29,11 +29,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold }: RunsRouterDep
     const q = runDiffQuerySchema.parse(req.query);
     res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
   });
-  router.get('/current', authorize('runs:read'), async (_req, res) => {
-    res.json(await getRun(ds, 'current'));
+  router.get('/current', authorize('runs:read'), async (req, res) => {
+    res.json(runAsSeenBy(await getRun(ds, 'current'), req.principal!));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
-    res.json(await getRun(ds, runId.parse(req.params.id)));
+    res.json(runAsSeenBy(await getRun(ds, runId.parse(req.params.id)), req.principal!));
   });
   /**
    * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows

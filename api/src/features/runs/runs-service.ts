@@ -6,7 +6,7 @@ import { recordAudit } from '../../audit/audit-log';
 import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
-import { cellKey, siteMarginWithheld } from './site-margins';
+import { readsEverySite, runFrame, seesEveryCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 
 type Row = Record<string, any>;
 
@@ -42,6 +42,17 @@ function detailOf(r: Row): RunDetail {
   };
 }
 
+/**
+ * A run's detail as its reader may see it: the summary's case totals (every case of an outcome,
+ * attributed or not, company-wide) are sums over counts the disclosure frame withholds, and are
+ * the physician's alone.
+ */
+export function runAsSeenBy(run: RunDetail, principal: Principal): RunDetail {
+  if (seesEveryCount(principal) || !run.summary || typeof run.summary !== 'object') return run;
+  const { cases: _cases, ...summary } = run.summary as Record<string, unknown>;
+  return { ...run, summary };
+}
+
 export async function listRuns(ds: DataSource, limit = 100): Promise<RunSummary[]> {
   const rows: Row[] = await ds.query(`SELECT ${runCols} FROM ${runFrom} ORDER BY r.number DESC LIMIT $1`, [limit]);
   return rows.map(summaryOf);
@@ -65,34 +76,58 @@ export interface ResultReader {
   smallCellThreshold: number;
 }
 
-/** Case-level insight is the physician's alone; for every other reader small counts are withheld. */
-export const showsSmallCells = (p: Principal) => p.kind === 'user' && p.role === 'physician';
-
 const nullLimits = () => ({ estimate: null, lower: null, upper: null });
 
 /**
- * Why a reader may not see a cell's count: small in itself, or withheld as the complement of a
- * small one (`margins`, see site-margins.ts); null when it is shown. `margins` is null for a
- * reader who sees every count.
+ * Why a reader may not see a count: as the run's disclosure frame says (null frame: the
+ * physician, who sees every count), and a small count in any case.
  */
-function withheldOf(cases: number | null, key: string, margins: Map<string, Withheld> | null, threshold: number): Withheld | null {
-  if (margins === null || cases === null) return null;
-  if (isSmallCount(cases, threshold)) return 'small';
-  return margins.get(key) ?? null;
+function withheldOf(frame: RunFrame | null, cases: number | null, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string, threshold: number): Withheld | null {
+  if (frame === null || cases === null) return null;
+  return withheldIn(frame, siteId, outcomeId, groupId, window, period) ?? (isSmallCount(cases, threshold) ? 'small' : null);
 }
 
-async function marginsFor(ds: DataSource, runId: string, q: Parameters<typeof siteMarginWithheld>[2], reader: ResultReader): Promise<Map<string, Withheld> | null> {
-  return showsSmallCells(reader.principal) ? null : siteMarginWithheld(ds, runId, q, reader.smallCellThreshold);
+/** "outcome|group|window|period" of every site count the frame withholds (a by-site adjustment is shown only without any). */
+function siteCountsWithheld(frame: RunFrame | null): Set<string> {
+  const out = new Set<string>();
+  for (const key of frame?.keys() ?? []) {
+    const [site, ...rest] = key.split('|');
+    if (site !== 'all') out.add(rest.join('|'));
+  }
+  return out;
 }
 
-function resultOf(r: Row, reader: ResultReader, margins: Map<string, Withheld> | null): RunResult {
+const MH_DETAIL = { age: ['mhAgeHomogeneity', 'mhAgeStrataUsed'], site: ['mhSiteHomogeneity', 'mhSiteStrataUsed'], sex: ['mhSexHomogeneity', 'mhSexStrataUsed'] } as const;
+
+/**
+ * A result row as its reader may see it. A withheld count goes with every figure that would give
+ * it back (rate and limits, u-chart, comparisons; a withheld reference count takes the
+ * comparisons and the expected count). An adjusted measure is a function of its strata, so it is
+ * shown only where they are: by age band and by sex where the company's stratum tables of both
+ * groups are shown (run-strata.ts), by site where every site's count of both groups is.
+ */
+function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): RunResult {
   const t = reader.smallCellThreshold;
-  const withheld = withheldOf(r.cases, cellKey(r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period_iso), margins, t);
+  const withheld = withheldOf(frame, r.cases, r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period_iso, t);
   const suppressed = withheld !== null;
-  const refWithheld = r.reference_group_id === null || r.is_reference ? null : withheldOf(r.ref_cases, cellKey(r.site_id, r.outcome_id, r.reference_group_id, r.window_kind, r.period_iso), margins, t);
+  const refId: number | null = r.reference_group_id === null || r.is_reference ? null : r.reference_group_id;
+  const refWithheld = refId === null ? null : withheldOf(frame, r.ref_cases, r.site_id, r.outcome_id, refId, r.window_kind, r.period_iso, t);
   const comparisonSuppressed = !suppressed && refWithheld !== null;
   const hide = suppressed || comparisonSuppressed;
-  const mh = (p: string) => (hide ? { irr: { ...nullLimits(), p: null }, ird: nullLimits() } : { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) });
+  const groups = refId === null ? [r.exposure_group_id] : [r.exposure_group_id, refId];
+  const strataShown = (by: 'age' | 'sex') =>
+    frame === null || (r.site_id === null && r.window_kind === 'rolling12' && groups.every((g) => withheldIn(frame, null, r.outcome_id, g, `strata_${by}`, r.period_iso) === null));
+  const open = {
+    age: !hide && strataShown('age'),
+    sex: !hide && strataShown('sex'),
+    site: !hide && (frame === null || (r.site_id === null && groups.every((g) => !sitesWithheld.has(`${r.outcome_id}|${g}|${r.window_kind}|${r.period_iso}`)))),
+  };
+  const mh = (by: 'age' | 'site' | 'sex') => {
+    const p = `mh_${by}`;
+    return open[by] ? { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) } : { irr: { ...nullLimits(), p: null }, ird: nullLimits() };
+  };
+  const detail = hide ? {} : (toJsonValue(r.detail) as Record<string, unknown>);
+  for (const by of ['age', 'site', 'sex'] as const) if (!open[by]) for (const k of MH_DETAIL[by]) delete detail[k];
   return {
     siteId: r.site_id,
     outcomeId: r.outcome_id,
@@ -110,15 +145,15 @@ function resultOf(r: Row, reader: ResultReader, margins: Map<string, Withheld> |
     personTime: r.person_time,
     // The rate times the person-time gives the count back, and so do its exact limits.
     rate: suppressed ? nullLimits() : limits(r, 'rate'),
-    // Expected cases come from the reference group's count.
-    expected: comparisonSuppressed ? null : r.expected,
+    // Expected cases come from the reference group's count: withheld with it, whether or not this row's count is.
+    expected: refWithheld !== null ? null : r.expected,
     irr: hide ? { ...nullLimits(), p: null, waldLower: null, waldUpper: null } : { ...limits(r, 'irr'), p: r.irr_p, waldLower: n(r.irr_wald_lower), waldUpper: n(r.irr_wald_upper) },
     ird: hide ? { ...nullLimits(), p: null } : { ...limits(r, 'ird'), p: r.ird_p },
-    mhAge: mh('mh_age'),
-    mhSite: mh('mh_site'),
-    mhSex: mh('mh_sex'),
+    mhAge: mh('age'),
+    mhSite: mh('site'),
+    mhSex: mh('sex'),
     uChart: suppressed ? { centre: null, lcl: null, ucl: null, signal: null } : { centre: r.u_centre, lcl: r.u_lcl, ucl: r.u_ucl, signal: r.u_signal },
-    detail: hide ? {} : (toJsonValue(r.detail) as Record<string, unknown>),
+    detail,
   };
 }
 
@@ -132,11 +167,8 @@ export async function resultScope(ds: DataSource, principal: Principal, siteId: 
     assertSites(principal, [siteId]);
     return siteId;
   }
-  const scope = siteScope(principal);
-  if (scope === 'all') return null;
-  const missing: Row[] = await ds.query(`SELECT id FROM sites WHERE NOT (id = ANY($1::int[])) LIMIT 1`, [scope]);
-  if (missing.length > 0) {
-    throw new AppError('forbidden', 'company-wide results include sites you have no access to: ask for one of your sites with ?siteId=', { siteIds: scope });
+  if (!(await readsEverySite(ds, principal))) {
+    throw new AppError('forbidden', 'company-wide results include sites you have no access to: ask for one of your sites with ?siteId=', { siteIds: siteScope(principal) });
   }
   return null;
 }
@@ -149,6 +181,7 @@ export async function resultScope(ds: DataSource, principal: Principal, siteId: 
 export async function listResults(ds: DataSource, runId: string, q: RunResultsQuery, reader: ResultReader): Promise<RunResult[]> {
   await getRun(ds, runId); // a run's existence is not scoped (the run list shows every run)
   const siteId = await resultScope(ds, reader.principal, q.siteId);
+  const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
   const rows: Row[] = await ds.query(
     `SELECT r.*, to_char(r.period, 'YYYY-MM-DD') AS period_iso, ref.cases AS ref_cases
      FROM run_results r
@@ -159,15 +192,16 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
      ORDER BY r.outcome_id, r.exposure_group_id, r.window_kind, r.period`,
     [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
   );
-  const margins = await marginsFor(ds, runId, q, reader);
-  return rows.map((r) => resultOf(r, reader, margins));
+  const sitesWithheld = siteCountsWithheld(frame);
+  return rows.map((r) => resultOf(r, reader, frame, sitesWithheld));
 }
 
 /**
  * What changed between two runs: every result cell (outcome × group × window × period) added,
  * removed, or with different cases, hours, rate or IRR, in the reader's scope (as listResults).
- * Restated numbers are never overwritten, so both sides are read as they were stored. A small
- * count is suppressed on its side as in the results (with its rate and IRR).
+ * Restated numbers are never overwritten, so both sides are read as they were stored. For readers
+ * other than the physician the later run is the current one, its side withheld as in the results
+ * (a count with its rate and IRR), and the earlier side's figures are withheld ('earlier').
  */
 export async function diffRuns(ds: DataSource, fromId: string, toId: string, siteIdAsked: number | undefined, reader: ResultReader): Promise<RunDiff> {
   const [from, to] = [await getRun(ds, fromId), await getRun(ds, toId)];
@@ -191,14 +225,18 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
      ORDER BY 1, 2, 3, 4`,
     [fromId, toId, siteId],
   );
-  const margins = { a: await marginsFor(ds, fromId, {}, reader), b: await marginsFor(ds, toId, {}, reader) };
+  // The reader's frame of the later run (which must be the current one for anyone but the
+  // physician); the earlier run's figures are the physician's (see runFrame).
+  const frame = await runFrame(ds, toId, reader.principal);
+  const t = reader.smallCellThreshold;
   const side = (r: Row, p: 'a' | 'b') => {
     const cases = r[`${p}_cases`] as number | null;
     if (cases === null) return null;
-    const withheld = withheldOf(cases, cellKey(siteId, r.outcome_id, r.exposure_group_id, r.window_kind, r.period), margins[p], reader.smallCellThreshold);
+    if (p === 'a' && frame !== null) return { cases: null, suppressed: true, withheld: 'earlier' as const, hours: r.a_hours, rate: null, irr: null };
+    const withheld = withheldOf(frame, cases, siteId, r.outcome_id, r.exposure_group_id, r.window_kind, r.period, t);
     const refGroup = r[`${p}_ref_group`] as number | null;
     const refCases = r[`${p}_ref_cases`] as number | null;
-    const refWithheld = refGroup !== null && refCases !== null && withheldOf(refCases, cellKey(siteId, r.outcome_id, refGroup, r.window_kind, r.period), margins[p], reader.smallCellThreshold) !== null;
+    const refWithheld = refGroup !== null && refCases !== null && withheldOf(frame, refCases, siteId, r.outcome_id, refGroup, r.window_kind, r.period, t) !== null;
     // The IRR is withheld with the count: with the reference row it would give the count back; and
     // with the reference count: with the group's rate it would give that back.
     return withheld

@@ -152,15 +152,18 @@ function sitesTogether(names: string[]): string {
   return names.length <= 6 ? `sites: ${names.join(', ')} (all sites together)` : `all ${names.length} sites together`;
 }
 
-/** Says why counts are missing, when some are: small ones, and the complements that protect them. */
+/** Says why counts are missing, when some are: small ones, the complements that protect them, and months read by year. */
 function SuppressionNote({ results }: { results: RunResult[] }) {
   const small = results.some((r) => r.withheld === 'small');
   const complement = results.some((r) => r.withheld === 'complement');
-  if (!small && !complement) return null;
+  const months = results.some((r) => r.withheld === 'months');
+  if (!small && !complement && !months) return null;
   return (
     <p className="mt-3 text-xs text-ink-soft">
       {small && `Counts from 1 to ${smallCellThreshold() - 1} are shown as “<${smallCellThreshold()}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
-      {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction.`}
+      {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction. `}
+      {months &&
+        `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown in rolling twelve-month windows ending at the latest month and every twelve months before it.`}
     </p>
   );
 }

@@ -17,7 +17,7 @@ function side(s: RunDiff['rows'][number]['before'], role: Role | null): string {
   if (!s) return '—';
   const c = showCount(s.cases, role);
   // The server withheld the count (small-cell suppression, or the complement of a small count elsewhere): only the hours are known.
-  if (s.suppressed || s.cases === null) return `${s.withheld === 'complement' ? 'withheld' : 'suppressed'} cases, ${formatEstimate(Number(s.hours))} h`;
+  if (s.suppressed || s.cases === null) return `${s.withheld === 'earlier' ? 'earlier run: physician only' : s.withheld === 'small' ? 'suppressed' : 'withheld'} cases, ${formatEstimate(Number(s.hours))} h`;
   if (c.suppressed) return `${c.text} cases, ${formatEstimate(Number(s.hours))} h`;
   return `${formatCount(s.cases)} cases, ${formatEstimate(Number(s.hours))} h, rate ${formatEstimate(toNumber(s.rate))}, IRR ${formatEstimate(toNumber(s.irr))}`;
 }
