@@ -6,8 +6,9 @@ import { allSiteIds } from '../support/test-db';
 
 /**
  * The adjusted view's stratum table in Chromium, on the flag fixture (flag-fixture.ts): in
- * February 2032 group EXP has 3 cases among its men and 3 among its women (workers 0–5 alternate
- * M, F), group REF one case, a man's. Counts worked out from the fixture by hand.
+ * February 2032 group EXP has 6 cases among its men and 6 among its women (workers 0–5 alternate
+ * M, F, two cases each), group REF 3 among its men and 2 among its women (workers 0–4). Over the
+ * rolling year ending in February EXP has 12 and 12. Counts worked out from the fixture by hand.
  */
 describe('the adjusted view shows the strata behind an adjusted figure', () => {
   let fx: FlagFixture;
@@ -18,10 +19,10 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
   });
 
-  const open = async (email: string) => {
+  const open = async (email: string, window = 'month') => {
     const page = await pageSignedInAs(h, email);
     const c = fx.cohort;
-    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=month&period=2032-02-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
+    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=${window}&period=2032-02-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
     const table = page.getByRole('table', { name: /^Group EXP against Group REF, by sex/ });
     await table.waitFor();
     return { page, table };
@@ -37,21 +38,30 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
     // Columns: stratum, EXP cases, person-time, rate, REF cases, person-time, rate, IRR, IRD.
     const male = await rowCells(table, 'male');
     const female = await rowCells(table, 'female');
-    // Men: EXP 3 cases, REF 1, on equal person-time (5 men each at 160 h): IRR 3. Women: EXP 3, REF 0.
-    expect([male[1], male[4]]).toEqual(['3', '1']);
-    expect(male[7]).toMatch(/^3\.000 \(/);
-    expect([female[1], female[4]]).toEqual(['3', '0']);
+    // Men: EXP 6 cases, REF 3, on equal person-time (5 men each at 160 h): IRR 2. Women: EXP 6, REF 2: IRR 3.
+    expect([male[1], male[4]]).toEqual(['6', '3']);
+    expect(male[7]).toMatch(/^2\.000 \(/);
+    expect([female[1], female[4]]).toEqual(['6', '2']);
+    expect(female[7]).toMatch(/^3\.000 \(/);
     await page.getByRole('combobox', { name: 'Group', exact: true }).selectOption({ label: 'Group MID' });
     await page.getByRole('table', { name: /^Group MID against Group REF, by sex/ }).waitFor();
     await page.close();
   });
 
-  it('withholds the small counts from the hygienist, in the table and its export', async () => {
-    const { page, table } = await open('hygienist@demo.ratewarden.test');
+  it("withholds from the hygienist a single month's strata, and a yearly table with a small stratum, in the table and its export", async () => {
+    const month = await open('hygienist@demo.ratewarden.test');
+    for (const name of ['male', 'female']) {
+      const cells = await rowCells(month.table, name);
+      expect([cells[1], cells[3], cells[4], cells[7]]).toEqual(['withheld', 'not shown', 'withheld', 'not shown']);
+    }
+    await month.page.close();
+    // The rolling year ending in February is the yearly window: EXP's table (12, 12) is shown,
+    // REF's (3, 2) holds small counts and is withheld whole, and the stratum IRR with it.
+    const { page, table } = await open('hygienist@demo.ratewarden.test', 'rolling12');
     const male = await rowCells(table, 'male');
     const female = await rowCells(table, 'female');
-    expect([male[1], male[3], male[4], male[7]]).toEqual(['<5', 'not shown', '<5', 'not shown']); // counts, rate and IRR withheld
-    expect([female[1], female[4]]).toEqual(['<5', '0']); // a zero points at nobody
+    expect([male[1], male[4], male[7]]).toEqual(['12', 'withheld', 'not shown']);
+    expect([female[1], female[4], female[7]]).toEqual(['12', 'withheld', 'not shown']);
     // The export is built in the page: keep the file's content as it is handed to the browser.
     await page.evaluate(() => {
       const keep = URL.createObjectURL.bind(URL);
@@ -61,8 +71,8 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
     });
     await page.getByRole('button', { name: /^Export CSV\W+Group EXP against Group REF/ }).click();
     const csv = await page.evaluate(() => (window as unknown as { exported: Blob[] }).exported.at(-1)!.text());
-    expect(csv).toContain('<5');
-    expect(csv).not.toMatch(/^male,3,/m);
+    expect(csv).toContain('withheld');
+    expect(csv).not.toMatch(/^male,12,[^\n]*,3,/m);
     await page.close();
   });
 });

@@ -5,8 +5,9 @@ import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
 /**
  * A private cohort with one flag for the browser tests, made with SQL and one real run: groups
  * REF (reference), MID and EXP with 10 workers each over two months of 2032 (160 h a month);
- * EXP has 12 confirmed cases, REF and MID one each, so EXP's IRR is 12 with an exact lower 95%
- * bound well above 1 and the watch rule "IRR lower bound above 1" raises exactly one flag.
+ * EXP has 24 confirmed cases, REF and MID five each, so EXP's IRR is 4.8 with an exact lower 95%
+ * bound well above 1 and the watch rule "IRR lower bound above 1" raises exactly one flag (rules
+ * look at counts every reader may see only, so the reference count is not small).
  */
 export interface FlagFixture {
   cohort: Cohort;
@@ -28,13 +29,13 @@ export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
   }
   await c.roster(rows);
   await c.cases([
-    ...ids.EXP!.slice(0, 6).flatMap((w) => [[w, c.outcomes.DERM!, '2032-01-10'], [w, c.outcomes.DERM!, '2032-02-10']] as Array<[number, number, string]>),
-    [ids.REF![0]!, c.outcomes.DERM!, '2032-02-03'],
-    [ids.MID![0]!, c.outcomes.DERM!, '2032-02-03'],
+    ...ids.EXP!.slice(0, 6).flatMap((w) => ['2032-01-10', '2032-01-12', '2032-02-10', '2032-02-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+    ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-02-03'] as [number, number, string]),
+    ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-02-03'] as [number, number, string]),
   ]);
   const [rule] = (await ds.query(
     `INSERT INTO watch_rules (name, outcome_id, measure, threshold_on, threshold, min_cases, window_kind)
-     VALUES ($1, $2, 'irr', 'lower_bound', 1, 3, 'rolling12') RETURNING id`,
+     VALUES ($1, $2, 'irr', 'lower_bound', 1, 5, 'rolling12') RETURNING id`,
     [`IRR lower bound above 1 (${c.tag})`, c.outcomes.DERM],
   )) as Array<{ id: string }>;
   const run = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', waitForLockMs: 60_000 });

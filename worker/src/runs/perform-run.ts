@@ -112,13 +112,14 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       const early: string[] = [];
       const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)));
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
+      // The disclosure frame needs the cells only: decided here while the threads compute.
+      const frame = disclosureFrame(snapshot.cells, threshold);
       await storeCells(em, runId, snapshot.cells);
       writer = await openResultWriter(em, runId);
       for (const lines of early.splice(0)) writer.lines(lines);
       const computed = await computing;
       const t2 = performance.now();
       await writer.finish(computed.trends);
-      const frame = disclosureFrame(snapshot.cells, threshold);
       await storeFrame(em, runId, frame);
       const t3 = performance.now();
       resultCount = computed.resultCount;
