@@ -51,6 +51,7 @@ export async function flagsAsSeenBy<T extends Flag | FlagDetail>(ds: DataSource,
     const why = withheldIn(frame, null, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period);
     const small = f.figures.cases !== null && f.figures.cases > 0 && f.figures.cases < reader.smallCellThreshold;
     if (why || small) return withheldFlag(f, why ?? 'small');
-    return shown(withoutEventValues(f));
+    // The worst value so far may come from an earlier run: the physician's, like the history's values.
+    return { ...shown(withoutEventValues(f)), worstValue: null };
   });
 }
