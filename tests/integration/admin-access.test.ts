@@ -58,4 +58,18 @@ describe('changing a person\'s access', () => {
     const [me] = (await ds.query(`SELECT role FROM users WHERE id = $1`, [adminId])) as Array<{ role: string }>;
     expect(me!.role).toBe('administrator');
   });
+
+  it('reads audit entries without counts or measure values, old entries included (the log itself is append-only)', async () => {
+    const target = `flag:legacy-${Date.now()}`;
+    // As written before entries stopped carrying them: a physician's read of 3 cases, a flag raised at a value of 12.5.
+    await ds.query(`INSERT INTO audit_events (actor_label, action, target, detail) VALUES ('physician@demo.ratewarden.test', 'cases.read', $1, '{"count": 3}'), ('system', 'flag.raise', $1, '{"runId": "r", "value": 12.5, "period": "2031-05-01"}')`, [target]);
+    const mine: Array<{ action: string; target: string; detail: Record<string, unknown> }> = [];
+    for (const action of ['cases.read', 'flag.raise']) {
+      const res = await admin.agent.get('/api/admin/audit').query({ action }).expect(200);
+      mine.push(...(res.body as typeof mine).filter((e) => e.target === target));
+    }
+    expect(mine.map((e) => e.action).sort()).toEqual(['cases.read', 'flag.raise']);
+    expect(mine.find((e) => e.action === 'flag.raise')!.detail).toEqual({ runId: 'r', period: '2031-05-01' });
+    expect(mine.find((e) => e.action === 'cases.read')!.detail).toEqual({});
+  });
 });

@@ -113,6 +113,14 @@ export async function revokeClient(ds: DataSource, actor: Principal, clientId: s
   });
 }
 
+/** Detail keys of entries written before audit entries stopped carrying counts and measure values (the log is append-only). */
+const FIGURE_KEYS = new Set(['count', 'value', 'cases', 'previous', 'previousWorst', 'expected']);
+
+/** An entry's detail without counts or measure values: the administrator reads the log and may not read aggregates. */
+function withoutFigures(detail: Record<string, unknown>): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(detail ?? {}).filter(([k]) => !FIGURE_KEYS.has(k)));
+}
+
 /** The audit log, newest first, filtered; read-only by construction (the table refuses changes). */
 export async function queryAudit(ds: DataSource, q: AuditQuery): Promise<AuditEventView[]> {
   const where: string[] = [];
@@ -133,5 +141,5 @@ export async function queryAudit(ds: DataSource, q: AuditQuery): Promise<AuditEv
         ORDER BY id DESC LIMIT $${args.length}`,
       args,
     );
-  return rows.map((r) => ({ id: Number(r.id), at: r.at.toISOString(), actor: r.actor_label, action: r.action, target: r.target, detail: r.detail, ip: r.ip }));
+  return rows.map((r) => ({ id: Number(r.id), at: r.at.toISOString(), actor: r.actor_label, action: r.action, target: r.target, detail: withoutFigures(r.detail), ip: r.ip }));
 }
