@@ -57,7 +57,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   };
 
   const pages = (flagId: string, outcome: number) => [
-    '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-02-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-02-01&stratify=sex`,
+    '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
     '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/groups', '/outcomes', '/ad-hoc',
   ];
 

@@ -6,9 +6,9 @@ import { allSiteIds } from '../support/test-db';
 
 /**
  * The adjusted view's stratum table in Chromium, on the flag fixture (flag-fixture.ts): in
- * February 2032 group EXP has 6 cases among its men and 6 among its women (workers 0–5 alternate
+ * December 2032 group EXP has 6 cases among its men and 6 among its women (workers 0–5 alternate
  * M, F, two cases each), group REF 3 among its men and 2 among its women (workers 0–4). Over the
- * rolling year ending in February EXP has 12 and 12. Counts worked out from the fixture by hand.
+ * rolling year ending in December EXP has 12 and 12. Counts worked out from the fixture by hand.
  */
 describe('the adjusted view shows the strata behind an adjusted figure', () => {
   let fx: FlagFixture;
@@ -22,7 +22,7 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
   const open = async (email: string, window = 'month') => {
     const page = await pageSignedInAs(h, email);
     const c = fx.cohort;
-    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=${window}&period=2032-02-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
+    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=${window}&period=2032-12-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
     const table = page.getByRole('table', { name: /^Group EXP against Group REF, by sex/ });
     await table.waitFor();
     return { page, table };
@@ -55,7 +55,7 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
       expect([cells[1], cells[3], cells[4], cells[7]]).toEqual(['withheld', 'not shown', 'withheld', 'not shown']);
     }
     await month.page.close();
-    // The rolling year ending in February is the yearly window: EXP's table (12, 12) is shown,
+    // The rolling year ending in December is a calendar year: EXP's table (12, 12) is shown,
     // REF's (3, 2) holds small counts and is withheld whole, and the stratum IRR with it.
     const { page, table } = await open('hygienist@demo.ratewarden.test', 'rolling12');
     const male = await rowCells(table, 'male');

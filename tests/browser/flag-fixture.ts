@@ -24,14 +24,14 @@ export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
     for (let i = 0; i < 10; i++) {
       const w = await c.worker(`${g}${i}`, 1970 + i * 3, i % 2 ? 'F' : 'M');
       ids[g]!.push(w);
-      for (const m of ['2032-01-01', '2032-02-01']) rows.push([w, m, c.sites[i % 2]!, c.groups[g]!, 160]);
+      for (const m of ['2032-11-01', '2032-12-01']) rows.push([w, m, c.sites[i % 2]!, c.groups[g]!, 160]);
     }
   }
   await c.roster(rows);
   await c.cases([
-    ...ids.EXP!.slice(0, 6).flatMap((w) => ['2032-01-10', '2032-01-12', '2032-02-10', '2032-02-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
-    ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-02-03'] as [number, number, string]),
-    ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-02-03'] as [number, number, string]),
+    ...ids.EXP!.slice(0, 6).flatMap((w) => ['2032-11-10', '2032-11-12', '2032-12-10', '2032-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+    ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-12-03'] as [number, number, string]),
+    ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-12-03'] as [number, number, string]),
   ]);
   const [rule] = (await ds.query(
     `INSERT INTO watch_rules (name, outcome_id, measure, threshold_on, threshold, min_cases, window_kind)

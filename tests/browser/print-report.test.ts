@@ -19,7 +19,7 @@ describe('printing a results page', () => {
 
   it('leaves out navigation, filters and buttons, keeps the figures, units and cautions, on one A4 page', async () => {
     const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
-    await page.goto(`${h.app.baseUrl}/comparison?outcome=${fx.cohort.outcomes.DERM}&window=month&period=2032-02-01`, { waitUntil: 'networkidle' });
+    await page.goto(`${h.app.baseUrl}/comparison?outcome=${fx.cohort.outcomes.DERM}&window=month&period=2032-12-01`, { waitUntil: 'networkidle' });
     await page.getByRole('table', { name: /^Comparison with the reference group/ }).waitFor();
     await page.emulateMedia({ media: 'print' });
     const shown = (role: Parameters<typeof page.getByRole>[0], name?: RegExp) => page.getByRole(role, name ? { name } : {}).first().isVisible();

@@ -33,8 +33,8 @@ describe('the site margin of a shown company count', () => {
       for (let i = 0; i < 6; i++) {
         const e = await c.worker(`e${s}-${i}`, 1980, 'F');
         const r = await c.worker(`r${s}-${i}`, 1980, 'M');
-        rows.push([e, '2031-08-01', site, c.groups.EXP!, 160], [r, '2031-08-01', site, c.groups.REF!, 160]);
-        if (i < 4) cases.push([e, c.outcomes.EDGE!, '2031-08-05']);
+        rows.push([e, '2031-12-01', site, c.groups.EXP!, 160], [r, '2031-12-01', site, c.groups.REF!, 160]);
+        if (i < 4) cases.push([e, c.outcomes.EDGE!, '2031-12-05']);
       }
     }
     await c.roster(rows);

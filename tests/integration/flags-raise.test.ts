@@ -38,14 +38,14 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
       for (let i = 0; i < 10; i++) {
         const w = await c.worker(`${g}${i}`, 1970 + i * 3, i % 2 ? 'F' : 'M');
         ids[g]!.push(w);
-        for (const m of ['2031-01-01', '2031-02-01']) rows.push([w, m, c.sites[i % 2]!, c.groups[g]!, 160]);
+        for (const m of ['2031-11-01', '2031-12-01']) rows.push([w, m, c.sites[i % 2]!, c.groups[g]!, 160]);
       }
     }
     await c.roster(rows);
     await c.cases([
-      ...ids.EXP!.slice(0, 6).flatMap((w) => ['2031-01-10', '2031-01-12', '2031-02-10', '2031-02-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
-      ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-02-03'] as [number, number, string]),
-      ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-02-03'] as [number, number, string]),
+      ...ids.EXP!.slice(0, 6).flatMap((w) => ['2031-11-10', '2031-11-12', '2031-12-10', '2031-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+      ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-12-03'] as [number, number, string]),
+      ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-12-03'] as [number, number, string]),
     ]);
     const [p] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test physician', 'physician') RETURNING id, email`, [`phys-${c.tag}`, `phys-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
     physician = { kind: 'user', id: p!.id, email: p!.email, name: 'Test physician', role: 'physician', siteIds: c.sites };
@@ -65,7 +65,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     const flags = await flagsOfRule();
     expect(flags.map((f) => [f.exposure_group_id, f.state])).toEqual([[c.groups.EXP, 'raised']]);
     const detail = await getFlag(ds, flags[0]!.id);
-    expect(detail.figures).toMatchObject({ runId, cases: 24, period: '2031-02-01', window: 'rolling12', measure: 'irr' });
+    expect(detail.figures).toMatchObject({ runId, cases: 24, period: '2031-12-01', window: 'rolling12', measure: 'irr' });
     expect(detail.figures.value).toBeGreaterThan(1);
     expect(detail.figures.q).not.toBeNull(); // Benjamini–Hochberg is on by default
     expect(detail.events.map((e) => e.kind)).toEqual(['raised']);
@@ -96,7 +96,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
 
   it('more cases escalate the open flag and write new notices', async () => {
     const [flag] = await flagsOfRule();
-    await c.cases(ids.EXP!.slice(6, 10).map((w) => [w, c.outcomes.DERM!, '2031-02-20'] as [number, number, string]));
+    await c.cases(ids.EXP!.slice(6, 10).map((w) => [w, c.outcomes.DERM!, '2031-12-20'] as [number, number, string]));
     await run();
     const flags = await flagsOfRule();
     expect(flags.length).toBe(1);
@@ -126,7 +126,7 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     expect((await flagsOfRule()).length).toBe(1); // same numbers: stays closed, nothing new
 
     // Worse: four more exposed cases.
-    await c.cases(ids.EXP!.slice(0, 4).map((w) => [w, c.outcomes.DERM!, '2031-02-25'] as [number, number, string]));
+    await c.cases(ids.EXP!.slice(0, 4).map((w) => [w, c.outcomes.DERM!, '2031-12-25'] as [number, number, string]));
     await run();
     const flags = await flagsOfRule();
     expect(flags.map((f) => f.state)).toEqual(['closed', 'raised']);

@@ -41,13 +41,13 @@ describe('run results: site scoping and small-cell suppression', () => {
       for (const k of Object.keys(people) as Array<keyof typeof CASES>) {
         const w = await c.worker(`${k}${i}`, 1980, k.startsWith('a') ? 'M' : 'F');
         people[k].push(w);
-        rows.push([w, '2031-05-01', k.startsWith('a') ? siteA : siteB, k.endsWith('Exp') ? c.groups.EXP! : c.groups.REF!, k === 'bExp' ? 100 : 160]);
+        rows.push([w, '2031-12-01', k.startsWith('a') ? siteA : siteB, k.endsWith('Exp') ? c.groups.EXP! : c.groups.REF!, k === 'bExp' ? 100 : 160]);
       }
     }
     await c.roster(rows);
     const cases: Array<[number, number, string]> = [];
     for (const k of Object.keys(CASES) as Array<keyof typeof CASES>) {
-      for (let i = 0; i < CASES[k]; i++) cases.push([people[k][i]!, c.outcomes.SCO!, '2031-05-10']);
+      for (let i = 0; i < CASES[k]; i++) cases.push([people[k][i]!, c.outcomes.SCO!, '2031-12-10']);
     }
     await c.cases(cases);
     const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
@@ -70,14 +70,14 @@ describe('run results: site scoping and small-cell suppression', () => {
   });
 
   const fetchResults = async (who: SignedInAgent, siteId?: number) => {
-    // Rolling twelve months ending in May: the cohort's one month, and (its groups having small
+    // Rolling twelve months ending in December: the cohort's one month, and (its groups having small
     // months) the one window readers other than the physician get (disclosure-frame.ts).
     const res = await who.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SCO, window: 'rolling12', ...(siteId && { siteId }) });
     return res;
   };
   const rowOf = (body: unknown, group: number): RunResult => {
     const rows = (body as unknown[]).map((r) => runResultSchema.parse(r));
-    const row = rows.find((r) => r.exposureGroupId === group && r.period === '2031-05-01');
+    const row = rows.find((r) => r.exposureGroupId === group && r.period === '2031-12-01');
     expect(row).toBeDefined();
     return row!;
   };
@@ -192,14 +192,14 @@ describe('run results: site scoping and small-cell suppression', () => {
     expect(siteBExp.mhAge.irr.estimate).toBeNull();
   });
   it('withholds in the run diff what the results withhold, the IRR too when the reference count is small', async () => {
-    // A late case for site B's eighth exposed worker: 7 → 8 exposed cases at site B in May.
+    // A late case for site B's eighth exposed worker: 7 → 8 exposed cases at site B in December.
     const [w] = (await ds.query(`SELECT id FROM workers WHERE worker_key = $1`, [`${c.tag}-bExp7`])) as Array<{ id: string }>;
-    await c.cases([[Number(w!.id), c.outcomes.SCO!, '2031-05-20']]);
+    await c.cases([[Number(w!.id), c.outcomes.SCO!, '2031-12-20']]);
     const next = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/', smallCellThreshold: 3 });
     expect(next.status).toBe('succeeded');
     const nextId = (next as { runId: string }).runId;
     const rowOfDiff = (body: { rows: Array<{ exposureGroupId: number; window: string; period: string; before: unknown; after: unknown }> }) =>
-      body.rows.find((r) => r.exposureGroupId === c.groups.EXP && r.window === 'month' && r.period === '2031-05-01')!;
+      body.rows.find((r) => r.exposureGroupId === c.groups.EXP && r.window === 'month' && r.period === '2031-12-01')!;
     // Threshold 3: site B's exposed count is shown, its reference count (2) is not, so neither is
     // the IRR; the earlier run's figures are the physician's ('earlier').
     const app = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '3' }) });

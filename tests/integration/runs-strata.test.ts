@@ -12,9 +12,9 @@ import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixtu
 /**
  * The stratum table behind an adjusted figure, from the cells a run stored. Hand-built cohort at
  * one site, 160 h a worker-month (0.08 person-years at 2,000 h a year):
- *   EXP, May 2031: 10 workers born 1995 (age band 30–39) with 6 cases, 10 born 1985 (40–49) with
- *        3 cases, 2 of unknown birth year at 100 h with none; April 2031: 10 born 1995, 2 cases.
- *   REF, May 2031: 10 born 1995 with 5 cases, 10 born 1985 with 7 cases.
+ *   EXP, December 2031: 10 workers born 1995 (age band 30–39) with 6 cases, 10 born 1985 (40–49) with
+ *        3 cases, 2 of unknown birth year at 100 h with none; November 2031: 10 born 1995, 2 cases.
+ *   REF, December 2031: 10 born 1995 with 5 cases, 10 born 1985 with 7 cases.
  * Expected figures are worked out here: each stratum's IRR is the ratio of its rates, (a/T1)/(b/T0).
  */
 describe('run strata: the stratum table of the adjusted view', () => {
@@ -37,15 +37,15 @@ describe('run strata: the stratum table of the adjusted view', () => {
         for (const [m, count] of Object.entries(caseCounts)) if (i < count) cases.push([w, c.outcomes.STR!, `${m.slice(0, 8)}12`]);
       }
     };
-    await people('e30', 10, 1995, c.groups.EXP!, ['2031-04-01', '2031-05-01'], 160, { '2031-04-01': 2, '2031-05-01': 0 });
-    await people('e40', 10, 1985, c.groups.EXP!, ['2031-05-01'], 160, { '2031-05-01': 3 });
-    await people('eunk', 2, null, c.groups.EXP!, ['2031-05-01'], 100, {});
-    await people('r30', 10, 1995, c.groups.REF!, ['2031-05-01'], 160, { '2031-05-01': 5 });
-    await people('r40', 10, 1985, c.groups.REF!, ['2031-05-01'], 160, { '2031-05-01': 7 });
+    await people('e30', 10, 1995, c.groups.EXP!, ['2031-11-01', '2031-12-01'], 160, { '2031-11-01': 2, '2031-12-01': 0 });
+    await people('e40', 10, 1985, c.groups.EXP!, ['2031-12-01'], 160, { '2031-12-01': 3 });
+    await people('eunk', 2, null, c.groups.EXP!, ['2031-12-01'], 100, {});
+    await people('r30', 10, 1995, c.groups.REF!, ['2031-12-01'], 160, { '2031-12-01': 5 });
+    await people('r40', 10, 1985, c.groups.REF!, ['2031-12-01'], 160, { '2031-12-01': 7 });
     await c.roster(rows);
-    // 6 May cases in the 30–39 band, on other workers than April's two: e304 … e309.
+    // 6 December cases in the 30–39 band, on other workers than November's two: e304 … e309.
     const e30 = ((await ds.query(`SELECT id FROM workers WHERE worker_key LIKE $1 ORDER BY worker_key`, [`${c.tag}-e30_`])) as Array<{ id: string }>).map((r) => Number(r.id));
-    for (const w of e30.slice(4)) cases.push([w, c.outcomes.STR!, '2031-05-20']);
+    for (const w of e30.slice(4)) cases.push([w, c.outcomes.STR!, '2031-12-20']);
     await c.cases(cases);
     const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
     expect(outcome.status).toBe('succeeded');
@@ -66,7 +66,7 @@ describe('run strata: the stratum table of the adjusted view', () => {
   });
 
   const strata = async (who: SignedInAgent, query: Record<string, string | number>): Promise<RunStrata> => {
-    const res = await who.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-05-01', by: 'age', ...query });
+    const res = await who.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age', ...query });
     expect(res.status).toBe(200);
     return runStrataSchema.parse(res.body);
   };
@@ -88,7 +88,7 @@ describe('run strata: the stratum table of the adjusted view', () => {
     expect(b40!.ird!.estimate).toBeCloseTo(-5000, 9);
     expect(unknown).toMatchObject({ key: null, exposed: { cases: 0, hours: '200.00' }, reference: { cases: 0, hours: '0.00' } });
     const [row] = (await ds.query(
-      `SELECT cases, hours::text FROM run_results WHERE run_id = $1 AND site_id IS NULL AND outcome_id = $2 AND exposure_group_id = $3 AND window_kind = 'month' AND period = '2031-05-01'`,
+      `SELECT cases, hours::text FROM run_results WHERE run_id = $1 AND site_id IS NULL AND outcome_id = $2 AND exposure_group_id = $3 AND window_kind = 'month' AND period = '2031-12-01'`,
       [runId, c.outcomes.STR, c.groups.EXP],
     )) as Array<{ cases: number; hours: string }>;
     expect(s.strata.reduce((t, x) => t + x.exposed.cases!, 0)).toBe(row!.cases);
@@ -97,11 +97,11 @@ describe('run strata: the stratum table of the adjusted view', () => {
 
   it('sums the months of a rolling window', async () => {
     const s = await strata(as.physician, { window: 'rolling12' });
-    expect(s.strata[0]).toMatchObject({ label: '30–39', exposed: { cases: 8, hours: '3200.00' } }); // April 2 + May 6, 2 × 1,600 h
+    expect(s.strata[0]).toMatchObject({ label: '30–39', exposed: { cases: 8, hours: '3200.00' } }); // November 2 + December 6, 2 × 1,600 h
   });
 
   it('withholds a table with a small stratum whole, and shows others only in yearly windows, to everyone but the physician', async () => {
-    // The latest rolling window (May) is the yearly one. Exposed: 8 + 3: the 3 is small, so the
+    // The latest rolling window (December) is the yearly one. Exposed: 8 + 3: the 3 is small, so the
     // whole arm goes, zeros too (they would say how many strata share the 11); the reference arm
     // (5 + 7) has nothing small and is shown, with its person-time.
     const s = await strata(as.hygienist, { window: 'rolling12' });
@@ -115,7 +115,7 @@ describe('run strata: the stratum table of the adjusted view', () => {
     expect(b30!.reference).toMatchObject({ cases: 5, withheld: null });
     expect(b40!.reference).toMatchObject({ cases: 7, withheld: null });
     // Single months and earlier rolling windows overlap the yearly one: their tables are the physician's.
-    for (const q of [{ window: 'month' }, { window: 'rolling12', period: '2031-04-01' }]) {
+    for (const q of [{ window: 'month' }, { window: 'rolling12', period: '2031-11-01' }]) {
       const other = await strata(as.hygienist, q);
       for (const x of other.strata) expect(x.exposed).toMatchObject({ cases: null, rate: null });
       const open = await strata(as.physician, q);
@@ -124,11 +124,11 @@ describe('run strata: the stratum table of the adjusted view', () => {
   });
 
   it('keeps the scope rules of the results, and refuses site strata of one site', async () => {
-    expect((await as.safety.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-05-01', by: 'age' })).status).toBe(403);
+    expect((await as.safety.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age' })).status).toBe(403);
     const own = await strata(as.safety, { siteId: c.sites[0]! });
     expect(own.siteId).toBe(c.sites[0]);
     expect(own.strata.map((x) => x.label)).toEqual(['30–39', '40–49', 'not recorded']);
-    const bySite = await as.hygienist.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-05-01', by: 'site', siteId: c.sites[0] });
+    const bySite = await as.hygienist.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'site', siteId: c.sites[0] });
     expect(bySite.status).toBe(400);
     const bad = await as.hygienist.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: 'May', by: 'age' });
     expect(bad.status).toBe(422);

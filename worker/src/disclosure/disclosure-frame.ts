@@ -32,9 +32,11 @@ const STRATA_WINDOW = { age: 'strata_age', sex: 'strata_sex' } as const;
  *   such counts is 0 or at least the threshold too.
  * - Otherwise its single months, series total (behind the u-chart) and most rolling windows would
  *   give the small months back by difference (month m = R12(m) − R12(m − 1) + month(m − 12)), so
- *   those readers get its rolling twelve months only at the latest month and every twelfth month
- *   before it ("yearly windows": disjoint, so no difference of two is a month; the earliest
- *   may hold fewer than twelve months).
+ *   those readers get its rolling twelve months only where they end in December: calendar years
+ *   ("yearly windows"), disjoint, so no difference of two is a month, and the same in every run,
+ *   so neither is a difference of this run's window and the last run's (a window ending at the
+ *   latest month would move a month each run). The year in progress is not shown; the first year
+ *   of the data may hold fewer than twelve months.
  * - In each yearly window the sites add up to the company: small site counts and their
  *   complements by marginSuppression, one deterministic order for every table. Where the company's
  *   months are shown its yearly count is known anyway, and a margin that would need the total
@@ -77,8 +79,9 @@ export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount
     const [first, last] = range.get(outcomeId)!;
     const push = (siteId: number | null, window: WithheldCount['window'], period: number | null, reason: FrameReason) =>
       out.push({ siteId, outcomeId, exposureGroupId, window, period: period === null ? null : monthIso(period), reason });
+    // Calendar years: the rolling windows ending in December, disjoint, the same in every run.
     const ends = new Set<number>();
-    for (let p = last; p >= first; p -= 12) ends.add(p);
+    for (let p = first; p <= last; p++) if (p % 12 === 11) ends.add(p);
     const siteIds = [...sitesOf.get(g)!].sort((a, b) => a - b);
     const company = series.get(`${g}|company`)!;
     const sites = siteIds.map((s) => series.get(`${g}|site|${s}`)!);

@@ -163,7 +163,7 @@ function SuppressionNote({ results }: { results: RunResult[] }) {
       {small && `Counts from 1 to ${smallCellThreshold() - 1} are shown as “<${smallCellThreshold()}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
       {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction. `}
       {months &&
-        `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown in rolling twelve-month windows ending at the latest month and every twelve months before it.`}
+        `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown by calendar year, in the rolling twelve-month windows that end in December; the year in progress is the physician's.`}
     </p>
   );
 }
