@@ -145,9 +145,10 @@ export class LinearSystem {
 
   /**
    * The least value of `target` the system allows, and the greatest up to `cap` (a count above
-   * the cap tells the reader nothing more about a small one).
+   * the cap tells the reader nothing more about a small one). `integer: false` solves the linear
+   * relaxation instead (quicker; its range holds the integer one: min rounded down, max up).
    */
-  range(target: Terms, cap: number): { min: number; max: number } {
+  range(target: Terms, cap: number, { integer = true }: { integer?: boolean } = {}): { min: number; max: number } {
     this.prepare();
     let c = 0;
     const free: Terms = new Map();
@@ -185,12 +186,12 @@ export class LinearSystem {
     const ints: Record<string, 1> = Object.fromEntries([...names.values()].map((n) => [n, 1 as const]));
     const solve = (opType: 'min' | 'max', extra: Record<string, { max: number }>) => {
       this.solves++;
-      const out = solver.Solve({ optimize: 'obj', opType, constraints: { ...constraints, ...extra }, variables, ints }) as { feasible: boolean; result: number; bounded?: boolean };
+      const out = solver.Solve({ optimize: 'obj', opType, constraints: { ...constraints, ...extra }, variables, ...(integer && { ints }) }) as { feasible: boolean; result: number; bounded?: boolean };
       if (!out.feasible) throw new Error(`the attacker's system has no solution for ${termsKey(target)}`);
       return out.result;
     };
     const min = solve('min', {});
     const max = solve('max', { cap: { max: cap - c } });
-    return { min: Math.round(c + min), max: Math.round(c + max) };
+    return integer ? { min: Math.round(c + min), max: Math.round(c + max) } : { min: Math.floor(c + min + EPS), max: Math.ceil(c + max - EPS) };
   }
 }
