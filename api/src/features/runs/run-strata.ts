@@ -126,7 +126,8 @@ function armWithholding(
       });
     } else {
       const tableShown = row === null && siteId === null && q.window === 'rolling12' && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
-      if (!tableShown) keys.forEach((k) => m.set(k, row ?? 'strata'));
+      // One label for a withheld table's every entry: each stratum's own would say which are small.
+      if (!tableShown) keys.forEach((k) => m.set(k, 'strata'));
     }
     out.set(g, m);
   }
