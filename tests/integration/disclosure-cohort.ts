@@ -1,5 +1,6 @@
 import type { DataSource } from 'typeorm';
 import { makeCohort, type Cohort } from './runs-fixture';
+import { prng } from '@ratewarden/db/seed/demo-generator';
 
 /**
  * An invented cohort for the disclosure attacks, the same on every run (seeded generator): four
@@ -23,18 +24,6 @@ export interface DisclosureCohort {
   workers: Map<string, number[]>;
   /** Adds confirmed cases (worker, outcome, onset date). */
   addCases(rows: Array<[worker: number, outcome: number, onset: string]>): Promise<void>;
-}
-
-/** A small deterministic generator (mulberry32). */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 function poisson(rnd: () => number, mean: number): number {
@@ -65,7 +54,7 @@ function casesIn(rnd: () => number, outcome: 'SPA' | 'BUS', group: GroupName, si
 }
 
 export async function makeDisclosureCohort(ds: DataSource, seed = 20261202): Promise<DisclosureCohort> {
-  const rnd = seededRandom(seed);
+  const rnd = prng(seed);
   const cohort = await makeCohort(ds, { groups: [['REF', 0], ['LOW', 1], ['HIGH', 2]], reference: 'REF', outcomes: [['SPA', 'recurrent'], ['BUS', 'recurrent']] });
   const more = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Run test site three'), ($2, 'Run test site four') RETURNING id`, [
     `RC${cohort.tag}`,

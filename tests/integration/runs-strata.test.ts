@@ -115,7 +115,7 @@ describe('run strata: the stratum table of the adjusted view', () => {
     expect(b30!.reference).toMatchObject({ cases: 5, withheld: null });
     expect(b40!.reference).toMatchObject({ cases: 7, withheld: null });
     // Single months and earlier rolling windows overlap the yearly one: their tables are the physician's.
-    for (const q of [{ window: 'month' }, { window: 'rolling12', period: '2031-11-01' }]) {
+    for (const q of [{ window: 'month' }, { window: 'rolling12', period: '2031-11-01' }] as Array<Record<string, string>>) {
       const other = await strata(as.hygienist, q);
       for (const x of other.strata) expect(x.exposed).toMatchObject({ cases: null, rate: null });
       const open = await strata(as.physician, q);
