@@ -9,7 +9,8 @@ import { keepInMailbox } from '@ratewarden/worker/smtp-fake/keep-in-mailbox';
 import { freePort } from '../support/free-port';
 import { provisionUser } from '../support/sign-in';
 import { openTestDataSource } from '../support/test-db';
-import { makeCohort, settings, type Cohort, clearCohortData } from './runs-fixture';
+import { noticeCohort } from './notices-fixture';
+import { settings, type Cohort, clearCohortData } from './runs-fixture';
 
 /** Threshold notices from the outbox to the SMTP fake: once each, and retried while it is down. */
 describe('threshold notices reach the SMTP fake exactly once', () => {
@@ -18,7 +19,6 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
   let port: number;
   let smtp: FakeSmtp | null = null;
   let sender: SenderSettings;
-  const exposed: number[] = [];
   const startSmtp = async () => {
     smtp = await startFakeSmtp({ port, keep: (m) => keepInMailbox(ds, m) });
   };
@@ -47,15 +47,8 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician');
     port = await freePort();
     sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50, sendingLeaseMs: 60_000 };
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NOISE', 'recurrent']] });
     // Six exposed cases in one site's month: not small, so a rule may flag them (rules see only shown counts).
-    for (let i = 0; i < 6; i++) {
-      const e = await c.worker(`e${i}`, 1980, 'M');
-      const r = await c.worker(`r${i}`, 1980, 'F');
-      exposed.push(e);
-      await c.roster([[e, '2031-03-01', c.sites[0]!, c.groups.EXP!, 150], [r, '2031-03-01', c.sites[0]!, c.groups.REF!, 150]]);
-    }
-    await c.cases(exposed.map((w) => [w, c.outcomes.NOISE!, '2031-03-04'] as [number, number, string]));
+    c = await noticeCohort(ds);
     await startSmtp();
   });
   afterAll(async () => {
