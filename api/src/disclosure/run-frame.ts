@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import { roleMay, type Principal } from '@ratewarden/shared/permissions';
-import type { Withheld } from '@ratewarden/shared/small-cells';
+import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
 import { siteScope } from '../auth/authorize';
 import { AppError } from '../lib/app-error';
 
@@ -50,4 +50,13 @@ export async function runFrame(ds: DataSource, runId: string, principal: Princip
 /** Why a reader may not see a count (null: shown). */
 export function withheldIn(frame: RunFrame | null, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string | null): Withheld | null {
   return frame?.get(frameKey(siteId, outcomeId, groupId, window, period)) ?? null;
+}
+
+/**
+ * Why a reader may not see a count of `cases`: as the frame says, and a small count in any case
+ * (null frame: the physician, who sees every count).
+ */
+export function withheldCount(frame: RunFrame | null, cases: number, threshold: number, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string): Withheld | null {
+  if (frame === null) return null;
+  return withheldIn(frame, siteId, outcomeId, groupId, window, period) ?? (isSmallCount(cases, threshold) ? 'small' : null);
 }

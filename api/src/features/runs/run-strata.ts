@@ -1,9 +1,9 @@
 import type { DataSource } from 'typeorm';
-import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
+import type { Withheld } from '@ratewarden/shared/small-cells';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
 import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
-import { runFrame, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import { runFrame, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 import { getRun, n, resultScope, type ResultReader } from './runs-service';
 
 const KEY_SQL = { age: 'c.age_band::text', site: 'c.site_id::text', sex: 'c.sex' } as const;
@@ -117,11 +117,11 @@ function armWithholding(
   for (const g of groupIds) {
     const counts = keys.map((k) => arms.get(k)!.get(g)?.cases ?? 0);
     const total = counts.reduce((a, b) => a + b, 0);
-    const row = withheldIn(frame, siteId, q.outcomeId, g, q.window, q.period) ?? (isSmallCount(total, threshold) ? 'small' : null);
+    const row = withheldCount(frame, total, threshold, siteId, q.outcomeId, g, q.window, q.period);
     const m = new Map<string, Withheld>();
     if (q.by === 'site') {
       keys.forEach((k, i) => {
-        const w = withheldIn(frame, Number(k), q.outcomeId, g, q.window, q.period) ?? (isSmallCount(counts[i]!, threshold) ? 'small' : null);
+        const w = withheldCount(frame, counts[i]!, threshold, Number(k), q.outcomeId, g, q.window, q.period);
         if (w || (row && counts[i]! > 0)) m.set(k, w ?? row!);
       });
     } else {

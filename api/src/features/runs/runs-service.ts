@@ -5,8 +5,8 @@ import type { RunDetail, RunDiff, RunRequested, RunResult, RunResultsQuery, RunS
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
-import { readsEverySite, runFrame, seesEveryCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import type { Withheld } from '@ratewarden/shared/small-cells';
+import { readsEverySite, runFrame, seesEveryCount, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 
 type Row = Record<string, any>;
 
@@ -78,13 +78,9 @@ export interface ResultReader {
 
 const nullLimits = () => ({ estimate: null, lower: null, upper: null });
 
-/**
- * Why a reader may not see a count: as the run's disclosure frame says (null frame: the
- * physician, who sees every count), and a small count in any case.
- */
+/** withheldCount for a row's count, which may be missing (no row: nothing to withhold). */
 function withheldOf(frame: RunFrame | null, cases: number | null, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string, threshold: number): Withheld | null {
-  if (frame === null || cases === null) return null;
-  return withheldIn(frame, siteId, outcomeId, groupId, window, period) ?? (isSmallCount(cases, threshold) ? 'small' : null);
+  return cases === null ? null : withheldCount(frame, cases, threshold, siteId, outcomeId, groupId, window, period);
 }
 
 /** "outcome|group|window|period" of every site count the frame withholds (a by-site adjustment is shown only without any). */
