@@ -120,6 +120,15 @@ export const intakeUploadQuerySchema = z.object({
   kind: intakeKindSchema,
   /** check: stop after checking, the hygienist applies or discards later; apply: apply when no problem is found. */
   mode: z.enum(['check', 'apply']).default('check'),
+  /**
+   * Case lists: the last month whose cases the list reports (YYYY-MM), for the uploader's sites;
+   * by default the later of its last onset month and the latest rostered month of those sites.
+   */
+  reportsThrough: z
+    .string()
+    .regex(/^[0-9]{4}-(0[1-9]|1[0-2])$/, 'reportsThrough is a month, YYYY-MM')
+    .transform((m) => `${m}-01`)
+    .optional(),
 });
 
 /** Response of POST /api/intakes: the intake, and whether the file was already known (checksum). */

@@ -75,6 +75,11 @@ export async function makeCohort(
          ON CONFLICT (site_id, month) DO UPDATE SET intake_id = EXCLUDED.intake_id`,
         [rosterIntake],
       );
+      // The case list reports every rostered month of the cohort's sites: those months are complete.
+      await ds.query(
+        `UPDATE intakes SET reports_site_ids = $2, reports_through = (SELECT max(month) FROM roster_slices WHERE site_id = ANY($2)) WHERE id = $1`,
+        [casesIntake, sites],
+      );
     },
     async cases(rows) {
       for (const [worker, outcome, onset, status] of rows) {

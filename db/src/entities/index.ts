@@ -20,10 +20,12 @@ import { RunCellsEntity } from './run-cells';
 import { RunResultEntity } from './run-result';
 import { RunTrendEntity } from './run-trend';
 import { WatchRuleEntity } from './watch-rule';
+import { PeriodClosureEntity } from './period-closure';
+import { RunPeriodEntity } from './run-period';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -48,4 +50,6 @@ export type { FlagRow } from './flag';
 export type { FlagEventRow } from './flag-event';
 export type { NoticeRow } from './notice';
 export type { DevMailboxMessage } from './dev-mailbox-message';
-export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity };
+export type { PeriodClosure } from './period-closure';
+export type { RunPeriod } from './run-period';
+export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };

@@ -22,6 +22,9 @@ export interface Intake {
   checkedAt: Date | null;
   appliedAt: Date | null;
   supersededAt: Date | null;
+  /** Case lists: the last month whose cases the list reports (every earlier month too), and for which sites. */
+  reportsThrough: string | null;
+  reportsSiteIds: number[] | null;
 }
 
 export const IntakeEntity = new EntitySchema<Intake>({
@@ -47,5 +50,7 @@ export const IntakeEntity = new EntitySchema<Intake>({
     checkedAt: { name: 'checked_at', type: 'timestamptz', nullable: true },
     appliedAt: { name: 'applied_at', type: 'timestamptz', nullable: true },
     supersededAt: { name: 'superseded_at', type: 'timestamptz', nullable: true },
+    reportsThrough: { name: 'reports_through', type: 'date', nullable: true },
+    reportsSiteIds: { name: 'reports_site_ids', type: 'integer', array: true, nullable: true },
   },
 });

@@ -74,10 +74,15 @@ export async function loadDemoCohort(em: EntityManager, shape: CohortShape = dem
   const caseHash = createHash('sha256').update(caseCsvHeader);
   for (const c of cases) caseHash.update(caseCsvLine(c));
   const [{ id: caseIntake }] = await em.query(
-    `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, site_ids, row_count, submitted_by_client, checked_at, applied_at)
-     VALUES ('cases', 'applied', 'kestrelmoor-cases.csv', $1, 0, $2, $3, 'demo-generator', now(), now()) RETURNING id`,
+    `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, site_ids, row_count, submitted_by_client, checked_at, applied_at, reports_site_ids, reports_through)
+     VALUES ('cases', 'applied', 'kestrelmoor-cases.csv', $1, 0, $2, $3, 'demo-generator', now(), now(), $2, (SELECT max(month) FROM roster_slices)) RETURNING id`,
     [caseHash.digest('hex'), [...siteIds.values()], cases.length],
   );
+  // The hygienist has closed every month but the last three of each site.
+  await em.query(`
+    INSERT INTO period_closures (site_id, month, action, reason)
+    SELECT site_id, month, 'close', 'demo: month reviewed and closed' FROM roster_slices rs
+    WHERE month <= (SELECT max(month) FROM roster_slices x WHERE x.site_id = rs.site_id) - interval '3 months'`);
   await copyLines(client, `COPY case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) FROM STDIN`,
     cases.map((c) => tsv([caseIntake, c.caseRef, workerIds.get(c.workerKey)!, outcomeIds.get(c.outcome)!, c.onsetDate, c.status])));
   await em.query(`INSERT INTO run_requests (reason, intake_id) VALUES ('demo scenario loaded', $1)`, [caseIntake]);

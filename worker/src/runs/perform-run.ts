@@ -3,6 +3,8 @@ import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
 import { toJsonValue } from '@ratewarden/shared/stats';
 import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
+import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
+import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import { disclosureFrame } from '../disclosure/disclosure-frame';
 import { frameIndex, frameKey, storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
@@ -14,6 +16,7 @@ import type { GroupInfo, OutcomeInfo } from './compute-results';
 import { refreshPlannerStatistics } from './planner-statistics';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { openResultWriter, storeCells } from './store-results';
+import { storeRunPeriods } from './store-run-periods';
 
 export interface PerformRunOptions {
   trigger: RunTrigger;
@@ -35,6 +38,8 @@ export interface PerformRunOptions {
   keepComputeThreads?: boolean;
   /** Notices to anyone but a physician withhold case counts below this (SMALL_CELL_THRESHOLD; default 5). */
   smallCellThreshold?: number;
+  /** Let watch rules look at partial periods too (RULES_ON_PARTIAL_PERIODS; off by default). */
+  rulesOnPartialPeriods?: boolean;
 }
 
 export type RunOutcome =
@@ -121,6 +126,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       const t2 = performance.now();
       await writer.finish(computed.trends);
       await storeFrame(em, runId, frame);
+      await storeRunPeriods(em, runId, snapshot.sitePeriods);
       const t3 = performance.now();
       resultCount = computed.resultCount;
       // Watch rules look at the whole company (the per-site rows serve people who see some sites
@@ -129,7 +135,11 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       const withheld = frameIndex(frame);
       const shown = (groupId: number | null, r: (typeof computed.companyResults)[number]) =>
         groupId === null || !withheld.has(frameKey(null, r.outcome_id, groupId, r.window_kind, r.period));
-      const companyResults = computed.companyResults.filter((r) => shown(r.exposure_group_id, r) && (r.is_reference || shown(r.reference_group_id, r)));
+      // Rules look at complete periods only (shared/src/periods.ts), unless told otherwise: a roster
+      // in before its case list is a month of person-time without its cases.
+      const complete = (r: (typeof computed.companyResults)[number]) =>
+        options.rulesOnPartialPeriods === true || snapshot.periods.windowComplete(r.window_kind, r.period, r.site_id === null ? null : [r.site_id]);
+      const companyResults = computed.companyResults.filter((r) => complete(r) && shown(r.exposure_group_id, r) && (r.is_reference || shown(r.reference_group_id, r)));
       const verdicts = snapshot.rules.flatMap((r) => evaluateRule({ ...r, minCases: Math.max(r.minCases, threshold) }, companyResults));
       const summary = {
         cells: snapshot.cells.length,
@@ -173,6 +183,9 @@ interface Snapshot {
   caseTotals: Awaited<ReturnType<typeof loadCaseTotals>>;
   rules: RuleToEvaluate[];
   ruleInfo: Map<string, RuleForFlags>;
+  /** Every site × month's reporting state when the run read its data. */
+  sitePeriods: SitePeriod[];
+  periods: PeriodBook;
 }
 
 /** Everything a run reads, from one snapshot so that cells, inputs and rules agree. */
@@ -188,6 +201,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const cells = await loadCells(qr, settings.countedStatuses);
     const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
     const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
+    const sitePeriods = await readSitePeriods(qr.manager);
     await qr.commitTransaction();
     const rules: RuleToEvaluate[] = ruleRows.map((r) => ({
       id: r.id as string,
@@ -225,6 +239,8 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
       caseTotals,
       rules,
       ruleInfo,
+      sitePeriods,
+      periods: new PeriodBook(sitePeriods),
     };
   } catch (err) {
     if (qr.isTransactionActive) await qr.rollbackTransaction();

@@ -54,7 +54,10 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, all
       throw err;
     });
     try {
-      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip, allowFutureMonths });
+      if (q.reportsThrough && !allowFutureMonths && q.reportsThrough > new Date().toISOString().slice(0, 8) + '01') {
+        throw new AppError('validation_failed', 'reportsThrough cannot be a month still to come');
+      }
+      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip, allowFutureMonths, reportsThrough: q.reportsThrough ?? null });
       if (result.intake.state === 'rejected') {
         const first = result.intake.problems[0]?.reason ?? 'the file has problems';
         const more = result.intake.problemCount > 1 ? ` (and ${result.intake.problemCount - 1} more problems)` : '';

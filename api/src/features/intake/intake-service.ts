@@ -7,6 +7,7 @@ import { monthOf, type CellBounds } from '@ratewarden/shared/intake-cell';
 import { intakeColumns, reasons } from '@ratewarden/shared/intake-columns';
 import type { IntakeDetail, IntakeProblem, IntakeUploadResponse } from '@ratewarden/shared/intake-schemas';
 import type { Principal } from '@ratewarden/shared/permissions';
+import { recordCaseReporting } from './case-reporting';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
@@ -40,6 +41,8 @@ export interface ReceiveInput {
   allowFutureMonths?: boolean;
   /** The clock, for the current month. */
   now?: Date;
+  /** Case lists: the last month the list reports (first day, YYYY-MM-DD); by default worked out (case-reporting.ts). */
+  reportsThrough?: string | null;
 }
 
 /** The month bound of the cell rules: the current month, unless months still to come are allowed. */
@@ -130,6 +133,7 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
       const outcome = await runChecks(client, input.kind, table, bounds, staged);
       assertSites(input.principal, outcome.scope.siteIds);
       await recordAudit(em, { actor: input.principal, action: 'intake.receive', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount } });
+      if (input.kind === 'cases') await recordCaseReporting(client, id, input.principal, input.reportsThrough ?? null);
       await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply', input.principal, input.ip);
       return { intake: await loadIntake(em, id), duplicate: false };
     });

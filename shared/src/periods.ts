@@ -1,0 +1,122 @@
+import { z } from 'zod';
+
+/**
+ * Reporting periods: the state of one site × month, decided from what has been received.
+ *
+ * - `awaiting`: nothing received for the month (a site is expected when it had a roster in the
+ *   12 months ending there).
+ * - `hours_in`: the roster (hours worked) is in, no case list reports through the month yet.
+ * - `cases_in`: a case list reports through the month, the roster is not in.
+ * - `ready`: roster and case list are both in; the month counts as complete.
+ * - `closed`: the hygienist closed the month. A closed month can still be corrected: the
+ *   correction is applied and the period shows it (`correctedAfterClose`).
+ *
+ * A case list reports through a month for a set of sites (the upload's `reportsThrough`, by
+ * default the latest rostered month of those sites when it was checked): every earlier month of
+ * those sites counts as reported too, because a case list is cumulative.
+ *
+ * Complete: `ready` or `closed`. A company-wide month is complete when every expected site's
+ * month is; a window (rolling 12 months) is complete when each of its months is. This file is the
+ * one statement of these rules: the worker (watch rules), the API (results) and the web app
+ * (calendar, labels) all use it.
+ */
+export const periodStates = ['awaiting', 'hours_in', 'cases_in', 'ready', 'closed'] as const;
+export const periodStateSchema = z.enum(periodStates);
+export type PeriodState = z.infer<typeof periodStateSchema>;
+
+/** Words people read for each state (shown with a shape, never by colour alone). */
+export const periodStateLabels: Record<PeriodState, string> = {
+  awaiting: 'Nothing received',
+  hours_in: 'Hours in, cases awaited',
+  cases_in: 'Cases in, hours awaited',
+  ready: 'Complete, open',
+  closed: 'Closed',
+};
+
+export function isCompleteState(state: PeriodState): boolean {
+  return state === 'ready' || state === 'closed';
+}
+
+/** The state from what is received; `closed` only when both are in or the hygienist closed it anyway. */
+export function periodStateOf(p: { roster: boolean; cases: boolean; closed: boolean }): PeriodState {
+  if (p.closed) return 'closed';
+  if (p.roster && p.cases) return 'ready';
+  if (p.roster) return 'hours_in';
+  if (p.cases) return 'cases_in';
+  return 'awaiting';
+}
+
+/** One site × month as the calendar and the runs see it. */
+export const sitePeriodSchema = z.object({
+  siteId: z.number().int(),
+  /** First day of the month, YYYY-MM-DD. */
+  month: z.string(),
+  state: periodStateSchema,
+  /** Received after the month was closed (a correction). */
+  correctedAfterClose: z.boolean(),
+  closedAt: z.string().nullable(),
+  closedBy: z.string().nullable(),
+});
+export type SitePeriod = z.infer<typeof sitePeriodSchema>;
+
+/** Whether a window's result is built on complete months only. */
+export type Completeness = 'complete' | 'partial';
+
+/** Month arithmetic on YYYY-MM-DD first-of-month strings. */
+export function addMonths(month: string, n: number): string {
+  const y = Number(month.slice(0, 4));
+  const m = Number(month.slice(5, 7)) - 1 + n;
+  const yy = y + Math.floor(m / 12);
+  const mm = ((m % 12) + 12) % 12;
+  return `${String(yy).padStart(4, '0')}-${String(mm + 1).padStart(2, '0')}-01`;
+}
+
+/** Months a window covers, ending at `period`: 1 for a month, 12 for rolling 12 months. */
+export function windowMonths(windowKind: 'month' | 'rolling12', period: string): string[] {
+  const n = windowKind === 'month' ? 1 : 12;
+  return Array.from({ length: n }, (_, i) => addMonths(period, i - n + 1));
+}
+
+/**
+ * Period states of one run or of now, answering completeness questions for any scope. `states`
+ * holds every site × month the data spans; a site is expected in a month when it has a state
+ * other than `awaiting` in the 12 months ending there.
+ */
+export class PeriodBook {
+  private readonly bySiteMonth = new Map<string, PeriodState>();
+  private readonly sites: number[];
+
+  constructor(states: Pick<SitePeriod, 'siteId' | 'month' | 'state'>[]) {
+    for (const s of states) this.bySiteMonth.set(`${s.siteId}|${s.month}`, s.state);
+    this.sites = [...new Set(states.map((s) => s.siteId))].sort((a, b) => a - b);
+  }
+
+  stateOf(siteId: number, month: string): PeriodState {
+    return this.bySiteMonth.get(`${siteId}|${month}`) ?? 'awaiting';
+  }
+
+  /** Sites expected to report `month`: those with something received in the 12 months ending there. */
+  expectedSites(month: string, among: readonly number[] = this.sites): number[] {
+    return among.filter((s) => windowMonths('rolling12', month).some((m) => this.stateOf(s, m) !== 'awaiting'));
+  }
+
+  /** A month of a scope (null: the company; else these sites) is complete when each expected site's month is. */
+  monthComplete(month: string, siteIds: readonly number[] | null = null): boolean {
+    const expected = this.expectedSites(month, siteIds ?? this.sites);
+    return expected.length > 0 && expected.every((s) => isCompleteState(this.stateOf(s, month)));
+  }
+
+  /**
+   * A window is complete when its last month is, and so is each earlier month in which some site
+   * of the scope was expected (months before the scope's first data do not make it partial).
+   */
+  windowComplete(windowKind: 'month' | 'rolling12', period: string, siteIds: readonly number[] | null = null): boolean {
+    if (!this.monthComplete(period, siteIds)) return false;
+    const among = siteIds ?? this.sites;
+    return windowMonths(windowKind, period).every((m) => this.expectedSites(m, among).length === 0 || this.monthComplete(m, siteIds));
+  }
+
+  completeness(windowKind: 'month' | 'rolling12', period: string, siteIds: readonly number[] | null = null): Completeness {
+    return this.windowComplete(windowKind, period, siteIds) ? 'complete' : 'partial';
+  }
+}
