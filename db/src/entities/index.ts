@@ -20,12 +20,13 @@ import { RunCellsEntity } from './run-cells';
 import { RunResultEntity } from './run-result';
 import { RunTrendEntity } from './run-trend';
 import { WatchRuleEntity } from './watch-rule';
+import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -53,3 +54,5 @@ export type { DevMailboxMessage } from './dev-mailbox-message';
 export type { PeriodClosure } from './period-closure';
 export type { RunPeriod } from './run-period';
 export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
+export type { RunUnattributed } from './run-unattributed';
+export { RunUnattributedEntity };
