@@ -20,7 +20,7 @@ runMain(async () => {
   }
   try {
     say('running ...');
-    const outcome = await performRun(ds, { trigger: 'cli', reason: 'npm run run-now', settings: runSettingsOf(config), appUrl: config.APP_BASE_URL, waitForLockMs: 30 * 60_000, smallCellThreshold: config.SMALL_CELL_THRESHOLD });
+    const outcome = await performRun(ds, { trigger: 'cli', reason: 'npm run run-now', settings: runSettingsOf(config), appUrl: config.APP_BASE_URL, waitForLockMs: 30 * 60_000, smallCellThreshold: config.SMALL_CELL_THRESHOLD, rulesOnPartialPeriods: config.RULES_ON_PARTIAL_PERIODS });
     say(describeOutcome(outcome));
     return outcome.status === 'succeeded' ? 0 : 1;
   } finally {

@@ -33,7 +33,8 @@ runMain(async () => {
     const vitest = spawn(process.execPath, [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', ...process.argv.slice(2)], {
       cwd: root,
       stdio: 'inherit',
-      env: { ...process.env, DATABASE_URL: url, TEST_DATABASE_URL: url, TEST_PGPORT: String(settings.TEST_PGPORT), NODE_ENV: 'test' },
+      // Workers the tests start run a requested run at once (no quiet interval), unless a test says otherwise.
+      env: { RUN_QUIET_SECONDS: '0', ...process.env, DATABASE_URL: url, TEST_DATABASE_URL: url, TEST_PGPORT: String(settings.TEST_PGPORT), NODE_ENV: 'test' },
     });
     vitest.on('exit', (c, signal) => resolve(c ?? (signal ? 1 : 0)));
   });

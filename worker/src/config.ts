@@ -12,6 +12,8 @@ const schema = z.object({
     .describe('when the nightly run starts (cron syntax, minute first)'),
   RUN_TIMEZONE: z.string().default('UTC').describe('IANA time zone of RUN_SCHEDULE, e.g. Europe/Berlin'),
   RUN_POLL_MS: z.coerce.number().int().min(50).default(5_000).describe('how often the worker looks for run requests (after an intake, the run button)'),
+  RUN_QUIET_SECONDS: z.coerce.number().int().min(0).default(180).describe("seconds without a new run request before an intake's request is run, so a roster and its case list give one run; the run button does not wait"),
+  RULES_ON_PARTIAL_PERIODS: z.enum(['true', 'false', '1', '0']).default('false').transform((s) => s === 'true' || s === '1').describe('let watch rules look at partial periods too (a month without its roster or case list); off by default'),
   RUN_PERSON_TIME_BASIS: personTimeBasisSchema.default('person_years').describe('person_years (2,000 h) or hours_200k (OSHA/BLS 200,000 hours)'),
   RUN_PER: z.coerce.number().positive().default(1000).describe('rate multiplier: 1000 = per 1,000 person-years; 1 with hours_200k = the OSHA rate'),
   RUN_CONFIDENCE: z.coerce.number().gt(0).lt(1).default(0.95).describe('confidence level of every interval'),

@@ -19,11 +19,16 @@ const settings = runSettingsOf(config);
 const task = startSchedule(config, async () => {
   console.log(describeOutcome(await nightlyRun(dataSource, config, settings)));
 });
-console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}`);
+console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}; requested runs after ${config.RUN_QUIET_SECONDS} s without a new request`);
 
 const requests = startLoop('run request check', config.RUN_POLL_MS, async () => {
   // A long-lived worker keeps its statistics threads warm between runs; process.exit ends them.
-  const outcome = await runIfRequested(dataSource, settings, config.APP_BASE_URL, { keepComputeThreads: true, smallCellThreshold: config.SMALL_CELL_THRESHOLD });
+  const outcome = await runIfRequested(dataSource, settings, config.APP_BASE_URL, {
+    keepComputeThreads: true,
+    smallCellThreshold: config.SMALL_CELL_THRESHOLD,
+    rulesOnPartialPeriods: config.RULES_ON_PARTIAL_PERIODS,
+    quietSeconds: config.RUN_QUIET_SECONDS,
+  });
   if (outcome) console.log(describeOutcome(outcome));
 });
 

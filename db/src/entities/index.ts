@@ -23,10 +23,11 @@ import { WatchRuleEntity } from './watch-rule';
 import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
+import { RunRequestEntity } from './run-request';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -53,6 +54,8 @@ export type { NoticeRow } from './notice';
 export type { DevMailboxMessage } from './dev-mailbox-message';
 export type { PeriodClosure } from './period-closure';
 export type { RunPeriod } from './run-period';
+export type { RunRequest } from './run-request';
+export { RunRequestEntity };
 export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
 export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };

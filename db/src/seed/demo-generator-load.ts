@@ -85,6 +85,7 @@ export async function loadDemoCohort(em: EntityManager, shape: CohortShape = dem
     WHERE month <= (SELECT max(month) FROM roster_slices x WHERE x.site_id = rs.site_id) - interval '3 months'`);
   await copyLines(client, `COPY case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) FROM STDIN`,
     cases.map((c) => tsv([caseIntake, c.caseRef, workerIds.get(c.workerKey)!, outcomeIds.get(c.outcome)!, c.onsetDate, c.status])));
-  await em.query(`INSERT INTO run_requests (reason, intake_id) VALUES ('demo scenario loaded', $1)`, [caseIntake]);
+  // The demo's first figures should not wait for uploads to settle: nothing else is coming.
+  await em.query(`INSERT INTO run_requests (reason, intake_id, immediate) VALUES ('demo scenario loaded', $1, true)`, [caseIntake]);
   return { rosterRows: roster.length, cases: cases.length };
 }

@@ -20,5 +20,6 @@ export function nightlyRun(ds: DataSource, config: WorkerConfig, settings: RunSe
     consumeRequests: true,
     keepComputeThreads: true,
     smallCellThreshold: config.SMALL_CELL_THRESHOLD,
+    rulesOnPartialPeriods: config.RULES_ON_PARTIAL_PERIODS,
   });
 }
