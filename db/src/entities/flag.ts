@@ -1,12 +1,14 @@
 import { EntitySchema } from 'typeorm';
 import type { CloseReason, FlagFigures, FlagState } from '@ratewarden/shared/flags';
 
-/** What a watch rule raised for one exposure group × outcome; at most one open per rule × group × outcome. */
+/** What a watch rule raised for one exposure group × outcome in one scope; at most one open per rule × group × outcome × scope. */
 export interface FlagRow {
   id: string;
   ruleId: string;
   outcomeId: number;
   exposureGroupId: number;
+  /** The site whose results crossed the rule; null: the whole company. */
+  siteId: number | null;
   state: FlagState;
   closeReason: CloseReason | null;
   closeComment: string | null;
@@ -34,6 +36,7 @@ export const FlagEntity = new EntitySchema<FlagRow>({
     ruleId: { name: 'rule_id', type: 'uuid' },
     outcomeId: { name: 'outcome_id', type: 'integer' },
     exposureGroupId: { name: 'exposure_group_id', type: 'integer' },
+    siteId: { name: 'site_id', type: 'integer', nullable: true },
     state: { type: 'text', default: 'raised' },
     closeReason: { name: 'close_reason', type: 'text', nullable: true },
     closeComment: { name: 'close_comment', type: 'text', nullable: true },

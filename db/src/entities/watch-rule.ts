@@ -8,6 +8,8 @@ export interface WatchRuleRow {
   outcomeId: number;
   /** null: every group except the reference group. */
   exposureGroupId: number | null;
+  /** null: the whole company; else the sites watched, each on its own results. */
+  siteIds: number[] | null;
   measure: RuleMeasure;
   thresholdOn: ThresholdOn;
   threshold: number | null;
@@ -32,6 +34,7 @@ export const WatchRuleEntity = new EntitySchema<WatchRuleRow>({
     name: { type: 'text' },
     outcomeId: { name: 'outcome_id', type: 'integer' },
     exposureGroupId: { name: 'exposure_group_id', type: 'integer', nullable: true },
+    siteIds: { name: 'site_ids', type: 'integer', array: true, nullable: true },
     measure: { type: 'text' },
     thresholdOn: { name: 'threshold_on', type: 'text' },
     threshold: { type: 'double precision', nullable: true },
