@@ -34,7 +34,7 @@ describe('reporting periods', () => {
   });
 
   it('expects a site that reported in the last 12 months, not one silent for longer', () => {
-    const b = book([[1, '2023-01-01', 'closed'], [2, '2024-06-01', 'ready']]);
+    const b = book([[1, '2023-01-01', 'closed'], [2, '2024-06-01', 'ready'], [3, '2024-06-01', 'cases_in']]);
     expect(b.expectedSites('2024-06-01')).toEqual([2]);
     expect(b.expectedSites('2023-12-01')).toEqual([1]);
     expect(b.monthComplete('2024-06-01')).toBe(true);
@@ -46,5 +46,19 @@ describe('reporting periods', () => {
     const gap = first.map((r): [number, string, PeriodState] => (r[1] === '2025-03-01' ? [1, r[1], 'hours_in'] : r));
     expect(book(gap).windowComplete('rolling12', '2025-06-01')).toBe(false);
     expect(book(gap).windowComplete('month', '2025-06-01')).toBe(true);
+  });
+});
+
+describe('latest complete month', () => {
+  it('is the newest month each expected site of the scope has complete', () => {
+    const b = book([
+      [1, '2025-06-01', 'closed'], [2, '2025-06-01', 'ready'],
+      [1, '2025-07-01', 'ready'], [2, '2025-07-01', 'hours_in'],
+      [1, '2025-08-01', 'hours_in'], [2, '2025-08-01', 'awaiting'],
+    ]);
+    expect(b.latestComplete()).toBe('2025-06-01');
+    expect(b.latestComplete([1])).toBe('2025-07-01');
+    expect(b.latestComplete([2])).toBe('2025-06-01');
+    expect(book([[1, '2025-01-01', 'hours_in']]).latestComplete()).toBeNull();
   });
 });

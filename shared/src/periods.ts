@@ -15,8 +15,8 @@ import { z } from 'zod';
  * default the latest rostered month of those sites when it was checked): every earlier month of
  * those sites counts as reported too, because a case list is cumulative.
  *
- * Complete: `ready` or `closed`. A company-wide month is complete when every expected site's
- * month is; a window (rolling 12 months) is complete when each of its months is. This file is the
+ * Complete: `ready` or `closed`. A site is expected in a month when it had a roster in the 12
+ * months ending there. A company-wide month is complete when every expected site's month is; a window (rolling 12 months) is complete when each of its months is. This file is the
  * one statement of these rules: the worker (watch rules), the API (results) and the web app
  * (calendar, labels) all use it.
  */
@@ -32,6 +32,11 @@ export const periodStateLabels: Record<PeriodState, string> = {
   ready: 'Complete, open',
   closed: 'Closed',
 };
+
+/** The roster of the month is in (a month can be closed without one only when the site did not work it). */
+export function hasRoster(state: PeriodState): boolean {
+  return state === 'hours_in' || state === 'ready' || state === 'closed';
+}
 
 export function isCompleteState(state: PeriodState): boolean {
   return state === 'ready' || state === 'closed';
@@ -60,7 +65,11 @@ export const sitePeriodSchema = z.object({
 export type SitePeriod = z.infer<typeof sitePeriodSchema>;
 
 /** Whether a window's result is built on complete months only. */
-export type Completeness = 'complete' | 'partial';
+export const completenessSchema = z.enum(['complete', 'partial']);
+export type Completeness = z.infer<typeof completenessSchema>;
+
+/** Words for a partial period, wherever one is marked (with a hollow shape beside it, never colour alone). */
+export const PARTIAL_PERIOD_TEXT = 'partial: a roster or case list of this period is not in yet';
 
 /** Month arithmetic on YYYY-MM-DD first-of-month strings. */
 export function addMonths(month: string, n: number): string {
@@ -79,8 +88,7 @@ export function windowMonths(windowKind: 'month' | 'rolling12', period: string):
 
 /**
  * Period states of one run or of now, answering completeness questions for any scope. `states`
- * holds every site × month the data spans; a site is expected in a month when it has a state
- * other than `awaiting` in the 12 months ending there.
+ * holds every site × month the data spans.
  */
 export class PeriodBook {
   private readonly bySiteMonth = new Map<string, PeriodState>();
@@ -95,9 +103,12 @@ export class PeriodBook {
     return this.bySiteMonth.get(`${siteId}|${month}`) ?? 'awaiting';
   }
 
-  /** Sites expected to report `month`: those with something received in the 12 months ending there. */
+  /**
+   * Sites expected to report `month`: those with a roster in the 12 months ending there (a case
+   * list alone does not make a site active: a company-wide list names every site).
+   */
   expectedSites(month: string, among: readonly number[] = this.sites): number[] {
-    return among.filter((s) => windowMonths('rolling12', month).some((m) => this.stateOf(s, m) !== 'awaiting'));
+    return among.filter((s) => windowMonths('rolling12', month).some((m) => hasRoster(this.stateOf(s, m))));
   }
 
   /** A month of a scope (null: the company; else these sites) is complete when each expected site's month is. */
@@ -119,4 +130,17 @@ export class PeriodBook {
   completeness(windowKind: 'month' | 'rolling12', period: string, siteIds: readonly number[] | null = null): Completeness {
     return this.windowComplete(windowKind, period, siteIds) ? 'complete' : 'partial';
   }
+
+  /** The latest complete month of a scope (null: the company), or null when none is. */
+  latestComplete(siteIds: readonly number[] | null = null): string | null {
+    const months = [...new Set([...this.bySiteMonth.keys()].map((k) => k.slice(k.indexOf('|') + 1)))].sort().reverse();
+    return months.find((m) => this.monthComplete(m, siteIds)) ?? null;
+  }
 }
+
+/** The latest complete month of the company (for readers of every site) and of each of the reader's sites. */
+export const completeThroughSchema = z.object({
+  company: z.string().nullable(),
+  sites: z.array(z.object({ siteId: z.number().int(), month: z.string().nullable() })),
+});
+export type CompleteThrough = z.infer<typeof completeThroughSchema>;
