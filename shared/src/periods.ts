@@ -68,9 +68,6 @@ export type SitePeriod = z.infer<typeof sitePeriodSchema>;
 export const completenessSchema = z.enum(['complete', 'partial']);
 export type Completeness = z.infer<typeof completenessSchema>;
 
-/** Words for a partial period, wherever one is marked (with a hollow shape beside it, never colour alone). */
-export const PARTIAL_PERIOD_TEXT = 'partial: a roster or case list of this period is not in yet';
-
 /** Month arithmetic on YYYY-MM-DD first-of-month strings. */
 export function addMonths(month: string, n: number): string {
   const y = Number(month.slice(0, 4));

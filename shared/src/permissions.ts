@@ -17,6 +17,8 @@ export const rolePermissions = {
   'rules:write': ['hygienist', 'safety_manager'],
   'flags:read': ['hygienist', 'safety_manager', 'physician'],
   'flags:review': ['safety_manager'],
+  'periods:read': ['hygienist', 'safety_manager', 'physician'],
+  'periods:close': ['hygienist'],
   'cases:read': ['physician'],
   'cases:review': ['physician'],
   'users:manage': ['administrator'],

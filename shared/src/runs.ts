@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { caseStatusSchema } from './intake';
 import { windowKindSchema } from './rules';
+import { completenessSchema, completeThroughSchema } from './periods';
 
 /**
  * Runs and their results as the API returns them. Numbers that the statistics core may make
@@ -59,6 +60,8 @@ export const runDetailSchema = runSummarySchema.extend({
   worker: z.string(),
   /** Counts and timings: cells, results, flags raised, cases that matched no roster row, seconds. */
   summary: z.record(z.string(), z.unknown()),
+  /** The latest complete month when the run read its data (shared/src/periods.ts), in the reader's scope. */
+  completeThrough: completeThroughSchema.nullable(),
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 
@@ -99,6 +102,8 @@ export const runResultSchema = z.object({
   mhSex: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
   uChart: z.object({ centre: z.number().nullable(), lcl: z.number().nullable(), ucl: z.number().nullable(), signal: z.enum(['above', 'below', 'within']).nullable() }),
   detail: z.record(z.string(), z.unknown()),
+  /** Whether every month of the window was complete in the row's scope when the run read its data (shared/src/periods.ts). */
+  completeness: completenessSchema,
 });
 export type RunResult = z.infer<typeof runResultSchema>;
 
@@ -149,6 +154,15 @@ export type RunDiff = z.infer<typeof runDiffSchema>;
 /** Answer of POST /api/runs: the request the worker will pick up. */
 export const runRequestedSchema = z.object({ requestId: z.string(), requestedAt: z.string() });
 export type RunRequested = z.infer<typeof runRequestedSchema>;
+
+/**
+ * GET /api/runs/pending: run requests not yet taken up, and when the worker runs them (after the
+ * latest has been quiet for RUN_QUIET_SECONDS, at once for the run button); null when none wait.
+ */
+export const pendingRunSchema = z.object({
+  pending: z.object({ count: z.number().int(), immediate: z.boolean(), latestAt: z.string(), dueAt: z.string() }).nullable(),
+});
+export type PendingRunAnswer = z.infer<typeof pendingRunSchema>;
 
 /** The stratifications a run adjusts by. */
 export const stratificationSchema = z.enum(['age', 'site', 'sex']);

@@ -4,18 +4,21 @@ import { z } from 'zod';
 import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
 import { runStrata } from './run-strata';
+import { pendingRunOf, withCompleteThrough } from './run-periods';
 import { diffRuns, getRun, listResults, listRuns, requestRun, runAsSeenBy } from './runs-service';
 
 export interface RunsRouterDeps {
   dataSource: DataSource;
   /** Case counts below this are suppressed for every role but the physician (SMALL_CELL_THRESHOLD). */
   smallCellThreshold: number;
+  /** RUN_QUIET_SECONDS: how long the worker lets uploads settle before an intake's run (to say when it comes). */
+  runQuietSeconds: number;
 }
 
 const runId = z.string().uuid();
 
 /** Runs: history, one run, its results, the difference between two, and the run button; mounted at /api/runs. */
-export function runsRouter({ dataSource: ds, smallCellThreshold }: RunsRouterDeps): Router {
+export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds }: RunsRouterDeps): Router {
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
   const router = Router();
   router.get('/', authorize('runs:read'), async (_req, res) => {
@@ -24,16 +27,20 @@ export function runsRouter({ dataSource: ds, smallCellThreshold }: RunsRouterDep
   router.post('/', authorize('runs:trigger'), async (req, res) => {
     res.status(202).json(await requestRun(ds, req.principal!, req.ip));
   });
+  // Whether a run is waiting for uploads to settle, and until when.
+  router.get('/pending', authorize('runs:read'), async (_req, res) => {
+    res.json(await pendingRunOf(ds, runQuietSeconds));
+  });
   // Same scope and suppression as the results below.
   router.get('/diff', authorize('runs:read'), async (req, res) => {
     const q = runDiffQuerySchema.parse(req.query);
     res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
   });
   router.get('/current', authorize('runs:read'), async (req, res) => {
-    res.json(runAsSeenBy(await getRun(ds, 'current'), req.principal!));
+    res.json(await withCompleteThrough(ds, runAsSeenBy(await getRun(ds, 'current'), req.principal!), req.principal!));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
-    res.json(runAsSeenBy(await getRun(ds, runId.parse(req.params.id)), req.principal!));
+    res.json(await withCompleteThrough(ds, runAsSeenBy(await getRun(ds, runId.parse(req.params.id)), req.principal!), req.principal!));
   });
   /**
    * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows

@@ -7,6 +7,7 @@ import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import type { Withheld } from '@ratewarden/shared/small-cells';
 import { readsEverySite, runFrame, seesEveryCount, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import { completenessOf, runPeriodBook } from './run-periods';
 
 type Row = Record<string, any>;
 
@@ -39,6 +40,7 @@ function detailOf(r: Row): RunDetail {
     settings: r.settings,
     worker: r.worker,
     summary: r.summary,
+    completeThrough: null,
   };
 }
 
@@ -102,7 +104,7 @@ const MH_DETAIL = { age: ['mhAgeHomogeneity', 'mhAgeStrataUsed'], site: ['mhSite
  * shown only where they are: by age band and by sex where the company's stratum tables of both
  * groups are shown (run-strata.ts), by site where every site's count of both groups is.
  */
-function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): RunResult {
+function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): Omit<RunResult, 'completeness'> {
   const t = reader.smallCellThreshold;
   const withheld = withheldOf(frame, r.cases, r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period_iso, t);
   const suppressed = withheld !== null;
@@ -189,7 +191,8 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
     [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
   );
   const sitesWithheld = siteCountsWithheld(frame);
-  return rows.map((r) => resultOf(r, reader, frame, sitesWithheld));
+  const completeness = completenessOf(await runPeriodBook(ds, runId));
+  return rows.map((r) => ({ ...resultOf(r, reader, frame, sitesWithheld), completeness: completeness(r.window_kind, r.period_iso, r.site_id) }));
 }
 
 /**
@@ -257,11 +260,11 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
   };
 }
 
-/** The run button: a request the worker picks up within seconds. */
+/** The run button: a request the worker picks up within seconds (immediate: it does not wait for uploads to settle). */
 export async function requestRun(ds: DataSource, principal: Principal, ip?: string): Promise<RunRequested> {
   return ds.transaction(async (em) => {
     const who = principal.kind === 'user' ? principal.email : `client:${principal.clientId}`;
-    const [row]: Row[] = await em.query(`INSERT INTO run_requests (reason) VALUES ($1) RETURNING id::text AS id, requested_at`, [`run requested by ${who}`]);
+    const [row]: Row[] = await em.query(`INSERT INTO run_requests (reason, immediate) VALUES ($1, true) RETURNING id::text AS id, requested_at`, [`run requested by ${who}`]);
     await recordAudit(em, { actor: principal, action: 'run.request', target: `run_request:${row!.id}`, ip });
     return { requestId: row!.id, requestedAt: iso(row!.requested_at)! };
   });

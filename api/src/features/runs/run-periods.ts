@@ -1,0 +1,59 @@
+import type { DataSource } from 'typeorm';
+import { pendingRun } from '@ratewarden/db/run-requests';
+import type { Principal } from '@ratewarden/shared/permissions';
+import type { PendingRunAnswer, RunDetail } from '@ratewarden/shared/runs';
+import { PeriodBook, type CompleteThrough, type Completeness, type PeriodState } from '@ratewarden/shared/periods';
+import { siteScope } from '../../auth/authorize';
+import { readsEverySite } from '../../disclosure/run-frame';
+
+/**
+ * The reporting periods as a run saw them (run_periods), not as they stand today: a result says
+ * whether its period was complete when it was computed. A run stored before periods were
+ * recorded has none, and all its periods read as partial (not known to be complete).
+ */
+export async function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
+  const rows: Array<{ site_id: number; month: string; state: PeriodState }> = await ds.query(
+    `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state FROM run_periods WHERE run_id = $1`,
+    [runId],
+  );
+  return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state })));
+}
+
+/** Completeness of a result row (company-wide when `siteId` is null), remembered per window × period × scope. */
+export function completenessOf(book: PeriodBook): (window: 'month' | 'rolling12', period: string, siteId: number | null) => Completeness {
+  const seen = new Map<string, Completeness>();
+  return (window, period, siteId) => {
+    const key = `${window}|${period}|${siteId ?? 'all'}`;
+    let c = seen.get(key);
+    if (c === undefined) {
+      c = book.completeness(window, period, siteId === null ? null : [siteId]);
+      seen.set(key, c);
+    }
+    return c;
+  };
+}
+
+/**
+ * The latest complete month of a run, company-wide (for readers of every site, who read the
+ * company's figures) and for each of the reader's sites.
+ */
+export async function completeThroughFor(ds: DataSource, runId: string, principal: Principal): Promise<CompleteThrough> {
+  const book = await runPeriodBook(ds, runId);
+  const scope = siteScope(principal);
+  const sites: Array<{ id: number }> = await ds.query(`SELECT id FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY id`, [scope === 'all' ? null : scope]);
+  return {
+    company: (await readsEverySite(ds, principal)) ? book.latestComplete() : null,
+    sites: sites.map((s) => ({ siteId: s.id, month: book.latestComplete([s.id]) })),
+  };
+}
+
+/** A run's detail with its latest complete months in the reader's scope. */
+export async function withCompleteThrough(ds: DataSource, run: RunDetail, principal: Principal): Promise<RunDetail> {
+  return { ...run, completeThrough: await completeThroughFor(ds, run.id, principal) };
+}
+
+/** The pending run requests and when the worker runs them (db/src/run-requests.ts states the rule). */
+export async function pendingRunOf(ds: DataSource, quietSeconds: number): Promise<PendingRunAnswer> {
+  const p = await pendingRun(ds, quietSeconds);
+  return { pending: p ? { count: p.count, immediate: p.immediate, latestAt: p.latestAt.toISOString(), dueAt: p.dueAt.toISOString() } : null };
+}
