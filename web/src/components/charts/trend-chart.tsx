@@ -21,6 +21,8 @@ export interface TrendPoint {
   /** Already suppressed for the reader's role where needed: "<5" or a number. */
   cases: string;
   personTime: number;
+  /** A period not complete when the run read its data: drawn hollow, and said in the tooltip and table. */
+  partial?: boolean;
 }
 
 export interface TrendSeries {
@@ -35,6 +37,8 @@ export interface UChartLimits {
 }
 
 const symbols = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'arrow'];
+/** ECharts draws a built-in symbol hollow with the `empty` prefix. */
+const hollow = (symbol: string) => `empty${symbol[0]!.toUpperCase()}${symbol.slice(1)}`;
 
 export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
   const option = useMemo<EChartsOption>(() => {
@@ -59,7 +63,17 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
         silent: true,
         tooltip: { show: false },
       });
-      out.push({ type: 'line', name: s.name, data: pts.map((p) => p?.rate ?? null), symbol: symbols[i % symbols.length], symbolSize: 7, lineStyle: { color: colour, width: 2 }, itemStyle: { color: colour }, connectNulls: false });
+      const symbol = symbols[i % symbols.length]!;
+      out.push({
+        type: 'line',
+        name: s.name,
+        data: pts.map((p) => (p?.partial ? { value: p.rate, symbol: hollow(symbol), symbolSize: 9 } : (p?.rate ?? null))),
+        symbol,
+        symbolSize: 7,
+        lineStyle: { color: colour, width: 2 },
+        itemStyle: { color: colour },
+        connectNulls: false,
+      });
     });
     if (limits) {
       out.push({ type: 'line', name: 'u-chart centre', data: periods.map(() => limits.centre), symbol: 'none', itemStyle: { color: ink }, lineStyle: { color: ink, type: 'solid', width: 1 } });
@@ -81,7 +95,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
           const s = series.find((x) => x.name === seriesName);
           const pt = s?.points.find((x) => x.period === periods[dataIndex]);
           if (!s || !pt) return seriesName;
-          return `${s.name}, ${pt.period}<br/>Rate ${formatEstimate(pt.rate)} ${unit}<br/>Interval ${formatEstimate(pt.lower)} to ${formatEstimate(pt.upper)}<br/>Cases ${pt.cases} · person-time ${formatAmount(pt.personTime)}`;
+          return `${s.name}, ${pt.period}${pt.partial ? ' (partial period)' : ''}<br/>Rate ${formatEstimate(pt.rate)} ${unit}<br/>Interval ${formatEstimate(pt.lower)} to ${formatEstimate(pt.upper)}<br/>Cases ${pt.cases} · person-time ${formatAmount(pt.personTime)}`;
         },
       },
       series: out,
@@ -99,7 +113,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
         <>
           <thead>
             <tr className="border-b border-ink text-left">
-              {['Group', 'Period', 'Cases', 'Person-time', `Rate ${unit}`, 'Lower', 'Upper', ...(limits ? ['Upper limit (3σ)', 'Signal'] : [])].map((c) => (
+              {['Group', 'Period', 'Cases', 'Person-time', `Rate ${unit}`, 'Lower', 'Upper', ...(limits ? ['Upper limit (3σ)', 'Signal'] : []), 'Completeness'].map((c) => (
                 <th key={c} scope="col" className="px-2 py-1">{c}</th>
               ))}
             </tr>
@@ -120,6 +134,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
                     <td className="px-2 py-1 tabular-nums">{formatEstimate(pt.upper)}</td>
                     {limits && <td className="px-2 py-1 tabular-nums">{formatEstimate(ucl)}</td>}
                     {limits && <td className="px-2 py-1">{pt.rate !== null && ucl !== null && pt.rate > ucl ? 'above the upper limit' : 'within'}</td>}
+                    <td className="px-2 py-1">{pt.partial ? 'partial' : 'complete'}</td>
                   </tr>
                 );
               }),

@@ -19,6 +19,7 @@ export const navItems: NavItem[] = [
   { to: paths.flags, label: 'Flags', permission: 'flags:read' },
   { to: paths.rules, label: 'Watch rules', permission: 'rules:write' },
   { to: paths.intakes, label: 'Intakes', permission: 'intake:read' },
+  { to: paths.periods, label: 'Reporting periods', permission: 'periods:read' },
   { to: paths.runs, label: 'Runs', permission: 'runs:read' },
   { to: paths.groups, label: 'Exposure groups', permission: 'groups:write' },
   { to: paths.outcomes, label: 'Outcomes', permission: 'groups:write' },

@@ -10,6 +10,7 @@ import { formatAmount, formatCount } from '../../lib/format';
 import { useDecideIntake, type IntakeDecision } from './api/decide-intake';
 import { useIntake } from './api/get-intake';
 import { IntakeStateBadge } from './intake-state-badge';
+import { IntakeRunWait } from './intake-run-wait';
 
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
 
@@ -104,6 +105,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
           )}
         </p>
       )}
+      {intake.runRequest && !intake.runRequest.pickedAt && <IntakeRunWait />}
       {mayWrite && (
         <div className="no-print mt-6 flex flex-wrap gap-3">
           {intake.state === 'checked' && intake.staged && (

@@ -1,4 +1,5 @@
 import type { IntakeKind } from '@ratewarden/shared/intake';
+import { hasRoster } from '@ratewarden/shared/periods';
 import { intakeDetailSchema } from '@ratewarden/shared/intake-schemas';
 import { useId, useRef, useState, type DragEvent } from 'react';
 import { Link } from 'react-router';
@@ -6,6 +7,8 @@ import { z } from 'zod';
 import { paths } from '../../config/paths';
 import { isApiError } from '../../lib/api-error';
 import { formatCount } from '../../lib/format';
+import { formatMonth } from '../../lib/dates';
+import { usePeriodCalendar } from '../../api/get-period-calendar';
 import { useUploadIntake } from './api/upload-intake';
 
 const rejectedDetails = z.object({ intake: intakeDetailSchema });
@@ -18,8 +21,10 @@ export function UploadPanel() {
   const [progress, setProgress] = useState(0);
   const [dragging, setDragging] = useState(false);
   const input = useRef<HTMLInputElement>(null);
+  const [reportsThrough, setReportsThrough] = useState('');
   const upload = useUploadIntake();
   const ids = useId();
+  const latestRostered = useLatestRosteredMonth(kind === 'cases');
 
   function choose(f: File | undefined) {
     if (!f) return;
@@ -35,7 +40,7 @@ export function UploadPanel() {
   function send() {
     if (!file) return;
     setProgress(0);
-    upload.mutate({ file, kind, mode, onProgress: setProgress });
+    upload.mutate({ file, kind, mode, reportsThrough: reportsThrough || undefined, onProgress: setProgress });
   }
 
   const rejected = upload.error && isApiError(upload.error) ? rejectedDetails.safeParse(upload.error.problem.details) : null;
@@ -63,6 +68,16 @@ export function UploadPanel() {
             apply at once if it has no problems
           </label>
         </fieldset>
+        {kind === 'cases' && (
+          <div className="flex max-w-md flex-col gap-1">
+            <label htmlFor={`${ids}-through`} className="text-sm font-medium">Reports cases through (month)</label>
+            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 rounded-sm border border-rule px-2 py-1" />
+            <p id={`${ids}-through-hint`} className="text-xs text-ink-soft">
+              Every case of your sites up to the end of this month is in the list. Left empty: the later of the list's last onset month and the latest month with hours in for your sites
+              {latestRostered ? ` (now ${formatMonth(latestRostered)})` : ''}.
+            </p>
+          </div>
+        )}
       </div>
       <div
         onDragOver={(e) => {
@@ -115,4 +130,11 @@ export function UploadPanel() {
       </div>
     </section>
   );
+}
+
+/** The latest month with hours in for the reader's sites (the default month a case list reports through, with its onsets). */
+function useLatestRosteredMonth(enabled: boolean): string | null {
+  const calendar = usePeriodCalendar({}, enabled);
+  const withHours = calendar.data?.periods.filter((p) => hasRoster(p.state)) ?? [];
+  return withHours.reduce<string | null>((m, p) => (m === null || p.month > m ? p.month : m), null);
 }

@@ -11,6 +11,7 @@ import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult } from './shown-result';
 import { StratumTable } from './stratum-table';
+import { partialSuffix } from './partial-period';
 import { levelRows, trendOf } from './trend-levels';
 
 interface ChiSquare {
@@ -34,7 +35,9 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
   const unit = rateUnit(run.settings);
   const cells = results.filter((r) => r.window === filters.window && r.period === period);
   const compared = cells.filter((r) => !r.isReference);
-  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}`;
+  const partial = cells.some((r) => r.completeness === 'partial');
+  const completeness = partial ? 'partial' : 'complete';
+  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}${partialSuffix(partial)}`;
 
   const rows = compared.map((r) => {
     const s = shownResult(r, user.role);
@@ -69,16 +72,16 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
       <IntervalPlot
         title={`${outcome.name}: crude and ${st.label}-adjusted IRR with ${pct}% intervals`}
         items={items}
-        csv={{ name: `adjusted-irr-${outcome.code}-${filters.stratify}-${period}`, header: ['Comparison', 'IRR', 'Lower limit', 'Upper limit'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper]) }}
+        csv={{ name: `adjusted-irr-${outcome.code}-${filters.stratify}-${period}`, header: ['Comparison', 'IRR', 'Lower limit', 'Upper limit', 'Period'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper, completeness]) }}
       />
       <ResultTable
         caption={`Crude and Mantel–Haenszel adjusted comparisons, stratified by ${st.label} (${pct}% intervals, IRD ${unit})`}
-        columns={['Exposure group', 'Crude IRR', `Adjusted IRR (${st.label})`, 'p (MH, IRR = 1)', 'Crude IRD', `Adjusted IRD (${st.label})`, 'Homogeneity χ² (df)', 'Homogeneity p', 'Strata used']}
+        columns={['Exposure group', 'Crude IRR', `Adjusted IRR (${st.label})`, 'p (MH, IRR = 1)', 'Crude IRD', `Adjusted IRD (${st.label})`, 'Homogeneity χ² (df)', 'Homogeneity p', 'Strata used', 'Period']}
         exportName={`adjusted-${outcome.code}-${filters.stratify}-${period}`}
         rows={rows.map((r) => ({
           key: r.name,
           cells: r.hidden
-            ? [r.name, r.ownHidden ? 'not shown (small count)' : "not shown (the reference group's count is small)", '—', '—', '—', '—', '—', '—', '—']
+            ? [r.name, r.ownHidden ? 'not shown (small count)' : "not shown (the reference group's count is small)", '—', '—', '—', '—', '—', '—', '—', completeness]
             : [
                 r.name,
                 ci(r.crude.irr, r.crude.lo, r.crude.hi),
@@ -89,8 +92,9 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
                 `${formatEstimate(r.hom.chi2)} (${r.hom.df ?? '—'})`,
                 formatP(r.hom.p),
                 r.used ? String(r.used.irr) : '—',
+                completeness,
               ],
-          csv: [r.name, r.crude.irr, r.mh.irr, r.mh.p, r.crude.ird, r.mh.ird, r.hom.chi2, r.hom.p, r.used?.irr ?? null],
+          csv: [r.name, r.crude.irr, r.mh.irr, r.mh.p, r.crude.ird, r.mh.ird, r.hom.chi2, r.hom.p, r.used?.irr ?? null, completeness],
         }))}
       />
       <p className="mt-2 text-xs text-ink-soft">
@@ -107,15 +111,15 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
           </p>
           <ResultTable
             caption={`Cases, person-time and rate by ordinal exposure level, ${when}`}
-            columns={['Exposure level', 'Groups', 'Cases', `Person-time (${personTimeUnit(run.settings)})`, `Rate ${unit}`]}
+            columns={['Exposure level', 'Groups', 'Cases', `Person-time (${personTimeUnit(run.settings)})`, `Rate ${unit}`, 'Period']}
             exportName={`trend-levels-${outcome.code}-${period}`}
             rows={levels.map((l, i) => {
               const c = showCount(l.cases, user.role);
               const rate = c.suppressed ? null : (trend.levels[i]?.rate.estimate ?? null);
               return {
                 key: String(l.level),
-                cells: [String(l.level), l.groups.join(', '), c.text, formatAmount(l.personTime), c.suppressed ? 'not shown' : formatEstimate(rate)],
-                csv: [l.level, l.groups.join('; '), exportCount(l.cases, user.role), l.personTime, rate],
+                cells: [String(l.level), l.groups.join(', '), c.text, formatAmount(l.personTime), c.suppressed ? 'not shown' : formatEstimate(rate), completeness],
+                csv: [l.level, l.groups.join('; '), exportCount(l.cases, user.role), l.personTime, rate, completeness],
               };
             })}
           />

@@ -8,11 +8,13 @@ import { formatAmount, formatEstimate, formatP } from '../../lib/format';
 import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult, type ShownResult } from './shown-result';
+import { PARTIAL_SHAPE, partialSuffix } from './partial-period';
 
 interface Row {
   group: string;
   reference: boolean;
   s: ShownResult;
+  completeness: 'complete' | 'partial';
 }
 
 const withInterval = (h: boolean, e: number | null, l: number | null, u: number | null) => (h ? 'not shown' : `${formatEstimate(e)} (${formatEstimate(l)} to ${formatEstimate(u)})`);
@@ -30,6 +32,7 @@ function columns(unit: string, ptUnit: string) {
     col.accessor((r) => sortable(r.s.ird), { id: 'ird', header: `IRD ${unit} (interval)`, cell: (c) => (c.row.original.reference ? '0 (reference)' : withInterval(c.row.original.s.comparisonHidden, c.row.original.s.ird, c.row.original.s.irdLower, c.row.original.s.irdUpper)), meta: { numeric: true, csv: (r) => (r.reference ? '0 (reference)' : withInterval(r.s.comparisonHidden, r.s.ird, r.s.irdLower, r.s.irdUpper)) } }),
     col.accessor((r) => sortable(r.s.irdP), { id: 'irdP', header: 'p (IRD = 0)', cell: (c) => (c.row.original.reference ? '—' : c.row.original.s.comparisonHidden ? 'not shown' : formatP(c.row.original.s.irdP)), meta: { numeric: true, csv: (r) => r.s.irdP } }),
     col.accessor(() => `IRR ${METHODS.irrExact.split(' (')[0]}, p ${METHODS.pExact}; IRD ${METHODS.irdWald}`, { id: 'method', header: 'Interval method', enableSorting: false, cell: (c) => <span className="text-xs">{c.getValue()}</span> }),
+    col.accessor('completeness', { header: 'Period', cell: (c) => (c.getValue() === 'partial' ? <><span aria-hidden="true">{PARTIAL_SHAPE} </span>partial</> : 'complete') }),
   ];
 }
 
@@ -37,10 +40,11 @@ function ComparisonBody({ ctx }: { ctx: ResultsContext }) {
   const { results, filters, period, groupName, outcome, run } = ctx;
   const rows: Row[] = results
     .filter((r) => r.window === filters.window && r.period === period)
-    .map((r) => ({ group: groupName(r.exposureGroupId), reference: r.isReference, s: shownResult(r, ctx.user.role) }));
+    .map((r) => ({ group: groupName(r.exposureGroupId), reference: r.isReference, s: shownResult(r, ctx.user.role), completeness: r.completeness }));
   const unit = rateUnit(run.settings);
   const pct = Math.round(run.settings.confidence * 100);
-  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}`;
+  const partial = rows.some((r) => r.completeness === 'partial');
+  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}${partialSuffix(partial)}`;
   const refName = rows.find((r) => r.reference)?.group;
   const items = rows.map((r) => ({ label: r.group, estimate: r.reference ? 1 : r.s.irr, lower: r.reference ? null : r.s.irrLower, upper: r.reference ? null : r.s.irrUpper, reference: r.reference }));
   return (
@@ -51,7 +55,7 @@ function ComparisonBody({ ctx }: { ctx: ResultsContext }) {
       <IntervalPlot
         title={`${outcome.name}: incidence rate ratio against ${refName ?? 'the reference'} with ${pct}% exact intervals`}
         items={items}
-        csv={{ name: `irr-${outcome.code}-${filters.window}-${period}`, header: ['Exposure group', 'IRR', 'Lower limit', 'Upper limit'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper]) }}
+        csv={{ name: `irr-${outcome.code}-${filters.window}-${period}`, header: ['Exposure group', 'IRR', 'Lower limit', 'Upper limit', 'Period'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper, partial ? 'partial' : 'complete']) }}
       />
       <DataTable
         caption={`Comparison with the reference group, ${when} (${pct}% intervals)`}

@@ -12,12 +12,14 @@ import type { ResultsContext } from './results-frame';
 import { ResultsFrame } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult, type ShownResult } from './shown-result';
+import { PARTIAL_SHAPE, partialSuffix } from './partial-period';
 
 interface Row {
   group: string;
   reference: boolean;
   shown: ShownResult;
   months: number;
+  completeness: 'complete' | 'partial';
 }
 
 function columns(unit: string, ptUnit: string) {
@@ -30,6 +32,7 @@ function columns(unit: string, ptUnit: string) {
     col.accessor((r) => r.shown.rateLower ?? -1, { id: 'lower', header: 'Lower limit', cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateLower)), meta: { numeric: true, csv: (r) => r.shown.rateLower } }),
     col.accessor((r) => r.shown.rateUpper ?? -1, { id: 'upper', header: 'Upper limit', cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateUpper)), meta: { numeric: true, csv: (r) => r.shown.rateUpper } }),
     col.accessor('months', { header: 'Months with data', meta: { numeric: true } }),
+    col.accessor('completeness', { header: 'Period', cell: (c) => (c.getValue() === 'partial' ? <><span aria-hidden="true">{PARTIAL_SHAPE} </span>partial</> : 'complete') }),
   ];
 }
 
@@ -38,7 +41,7 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
   const flags = useQuery(flagsQueryOptions({ outcomeId: outcome.id }));
   const rows: Row[] = results
     .filter((r) => r.window === 'rolling12' && r.period === period)
-    .map((r) => ({ group: groupName(r.exposureGroupId), reference: r.isReference, shown: shownResult(r, user.role), months: r.monthsCovered }));
+    .map((r) => ({ group: groupName(r.exposureGroupId), reference: r.isReference, shown: shownResult(r, user.role), months: r.monthsCovered, completeness: r.completeness }));
   const raised = flags.data?.filter((f) => f.state === 'raised').length;
   const inReview = flags.data?.filter((f) => f.state === 'in_review').length;
   const unit = rateUnit(run.settings);
@@ -68,7 +71,7 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
         </div>
       </dl>
       <DataTable
-        caption={`Rolling 12-month rate per exposure group, twelve months ending ${period ? formatMonth(period) : '—'} (${unit}, ${Math.round(run.settings.confidence * 100)}% interval)`}
+        caption={`Rolling 12-month rate per exposure group, twelve months ending ${period ? formatMonth(period) : '—'}${partialSuffix(rows.some((r) => r.completeness === 'partial'))} (${unit}, ${Math.round(run.settings.confidence * 100)}% interval)`}
         columns={columns(unit, personTimeUnit(run.settings))}
         data={rows}
         exportName={`overview-${outcome.code}-${period ?? 'none'}`}

@@ -20,6 +20,8 @@ import { useSites } from '../../api/get-sites';
 import { useRunResults } from './api/get-run-results';
 import { useCurrentRun } from '../../api/get-run';
 import { periodsOf, useResultsFilters, type ResultsFilters } from './results-filters';
+import { defaultPeriod, isPartialPeriod } from './default-period';
+import { PartialPeriodNote, partialSuffix } from './partial-period';
 import { unitsOf } from './results-units';
 
 export interface ResultsContext {
@@ -31,7 +33,7 @@ export interface ResultsContext {
   /** Every result of the chosen outcome in the current run. */
   results: RunResult[];
   filters: ResultsFilters;
-  /** The chosen period, or the newest one of the chosen window. */
+  /** The chosen period, or the latest complete one the reader can see (default-period.ts). */
   period: string | null;
   setFilters: ReturnType<typeof useResultsFilters>[1];
 }
@@ -116,9 +118,9 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         {periodChoice && results.data && (
           <SelectField
             label={filters.window === 'month' ? 'Month' : 'Twelve months ending'}
-            value={filters.period ?? periodsOf(results.data, filters.window)[0] ?? ''}
+            value={filters.period ?? defaultPeriod(results.data, filters.window) ?? ''}
             onChange={(e) => setFilters({ period: e.target.value })}
-            options={periodsOf(results.data, filters.window).map((p) => ({ value: p, label: formatMonth(p) }))}
+            options={periodsOf(results.data, filters.window).map((p) => ({ value: p, label: `${formatMonth(p)}${partialSuffix(isPartialPeriod(results.data!, filters.window, p))}` }))}
           />
         )}
         {extraControls?.({ filters, setFilters, groups })}
@@ -132,9 +134,10 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
       </div>
       <QueryState query={results} label="results">
         {(data) => {
-          const period = filters.period && periodsOf(data, filters.window).includes(filters.period) ? filters.period : (periodsOf(data, filters.window)[0] ?? null);
+          const period = filters.period && periodsOf(data, filters.window).includes(filters.period) ? filters.period : defaultPeriod(data, filters.window);
           return (
             <>
+              {periodChoice && isPartialPeriod(data, filters.window, period) && <PartialPeriodNote period={period!} window={filters.window} latestComplete={defaultPeriod(data.filter((r) => r.completeness === 'complete'), filters.window)} />}
               {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
               <SuppressionNote results={data} />
             </>

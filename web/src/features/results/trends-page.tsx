@@ -6,6 +6,7 @@ import { exportCount } from '../../lib/small-cells';
 import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult } from './shown-result';
+import { PARTIAL_SHAPE } from './partial-period';
 
 const month = (p: string) => p.slice(0, 7);
 
@@ -17,13 +18,13 @@ function seriesOf(results: RunResult[], periods: string[], name: string, ctx: Re
       .filter((r) => inRange.has(r.period))
       .map((r) => {
         const s = shownResult(r, ctx.user.role);
-        return { period: month(r.period), rate: s.rate, lower: s.rateLower, upper: s.rateUpper, cases: s.cases.text, personTime: r.personTime };
+        return { period: month(r.period), rate: s.rate, lower: s.rateLower, upper: s.rateUpper, cases: s.cases.text, personTime: r.personTime, partial: r.completeness === 'partial' };
       }),
   };
 }
 
 function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits: boolean) {
-  const header = ['Exposure group', 'Period', 'Window', 'Cases', `Person-time (${personTimeUnit(ctx.run.settings)})`, `Rate ${rateUnit(ctx.run.settings)}`, 'Lower limit', 'Upper limit', ...(withLimits ? ['u-chart centre', 'Upper control limit', 'Lower control limit', 'Signal'] : [])];
+  const header = ['Exposure group', 'Period', 'Window', 'Cases', `Person-time (${personTimeUnit(ctx.run.settings)})`, `Rate ${rateUnit(ctx.run.settings)}`, 'Lower limit', 'Upper limit', ...(withLimits ? ['u-chart centre', 'Upper control limit', 'Lower control limit', 'Signal'] : []), 'Completeness'];
   return {
     name,
     header,
@@ -31,7 +32,7 @@ function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits:
       const s = shownResult(r, ctx.user.role);
       const per = ctx.run.settings.per;
       const x = (v: number | null) => (v === null ? null : v * per);
-      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role, undefined, r.withheld ?? r.suppressed), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : [])];
+      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role, undefined, r.withheld ?? r.suppressed), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : []), r.completeness];
     }),
   };
 }
@@ -69,6 +70,7 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
     ucl: months.map((p) => (hiddenMonth(p) ? null : scaled(byMonth.get(p)?.uChart.ucl))),
     lcl: months.map((p) => (hiddenMonth(p) ? null : scaled(byMonth.get(p)?.uChart.lcl))),
   };
+  const partialMonths = [...new Set(windowRows.filter((r) => r.completeness === 'partial').map((r) => month(r.period)))];
   const above = monthRows.filter((r) => r.uChart.signal === 'above' && !shownResult(r, ctx.user.role).hidden).map((r) => month(r.period));
 
   return (
@@ -103,6 +105,11 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
         />
       )}
       <p className="mt-2 text-sm" role="status">
+        {partialMonths.length > 0 && (
+          <>
+            <span aria-hidden="true">{PARTIAL_SHAPE} </span>Hollow markers are partial periods (a roster or case list of some site was not in when the run read the data): {partialMonths.join(', ')}.{' '}
+          </>
+        )}
         {above.length ? `Months above the upper limit: ${above.join(', ')}.` : 'No month is above the upper limit in the period shown.'}
       </p>
     </>

@@ -10,7 +10,11 @@ import { StateTag, type Tone } from '../../components/status/state-tag';
 import { DataTable } from '../../components/table/data-table';
 import { formatDuration, formatWhen } from '../../lib/dates';
 import { formatCount } from '../../lib/format';
-import { runQueryOptions } from '../../api/get-run';
+import { PendingRunNote } from '../../components/status/pending-run-note';
+import { formatMonth } from '../../lib/dates';
+import { usePendingRun } from '../../api/get-pending-run';
+import { runQueryOptions, useCurrentRun } from '../../api/get-run';
+import { useSites } from '../../api/get-sites';
 import { runsQueryOptions, useRuns } from './api/get-runs';
 import { useRequestRun } from './api/request-run';
 import { RunDiffPanel } from './run-diff-panel';
@@ -50,9 +54,27 @@ function RunNow({ onRequested }: { onRequested: (at: string) => void }) {
   );
 }
 
+/** The latest complete month of the live figures (shared/src/periods.ts): company-wide and per site. */
+function CompleteThrough({ run }: { run: RunDetail | null }) {
+  const { data: sites } = useSites();
+  const ct = run?.completeThrough;
+  if (!run || !ct) return null;
+  const name = (id: number) => sites.find((s) => s.id === id)?.name ?? `site ${id}`;
+  const month = (m: string | null) => (m ? formatMonth(m) : 'no complete month');
+  return (
+    <p className="mt-3 text-sm">
+      Run #{run.number} (live) read complete months
+      {ct.company !== null && <> through <strong>{month(ct.company)}</strong> for all sites together</>}
+      {ct.sites.length > 0 && <>{ct.company !== null ? '; by site: ' : ': '}{ct.sites.map((s) => `${name(s.siteId)} ${month(s.month)}`).join(', ')}</>}. Later months are partial: their roster or case list was not in.
+    </p>
+  );
+}
+
 export function RunsPage({ user }: { user: SessionUser }) {
   useRuns();
   const [requestedAt, setRequestedAt] = useState<string | null>(null);
+  const pending = usePendingRun();
+  const { data: current } = useCurrentRun();
   // Poll while a requested run has not finished yet, or while one is running.
   const runs = useQuery({
     ...runsQueryOptions(),
@@ -60,6 +82,7 @@ export function RunsPage({ user }: { user: SessionUser }) {
       const data = q.state.data ?? [];
       if (data.some((r) => r.state === 'running')) return 2_000;
       if (requestedAt && !data.some((r) => r.finishedAt && r.startedAt >= requestedAt)) return 2_000;
+      if (pending.data?.pending) return 5_000;
       return false;
     },
   });
@@ -74,6 +97,8 @@ export function RunsPage({ user }: { user: SessionUser }) {
         Every night, and whenever the hygienist asks, a run recomputes every rate from the applied intakes. A run either succeeds whole and becomes the live figures, or fails and leaves the previous ones live.
       </p>
       {roleMay(user.role, 'runs:trigger') && <RunNow onRequested={setRequestedAt} />}
+      <PendingRunNote pending={pending.data?.pending} />
+      <CompleteThrough run={current} />
       {requestedAt && (
         <p role="status" className="mt-2 text-sm font-medium">
           {finishedRequest ? `Run #${finishedRequest.number} ${finishedRequest.state === 'succeeded' ? 'has finished' : 'failed'} (${formatDuration(finishedRequest.startedAt, finishedRequest.finishedAt)}).` : 'Run requested; waiting for the worker …'}

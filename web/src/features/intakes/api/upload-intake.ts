@@ -8,13 +8,16 @@ export interface UploadVars {
   file: File;
   kind: IntakeKind;
   mode: 'check' | 'apply';
+  /** Case lists: the last month the list reports (YYYY-MM); empty for the default. */
+  reportsThrough?: string;
   onProgress: (fraction: number) => void;
 }
 
-export function uploadIntake({ file, kind, mode, onProgress }: UploadVars) {
+export function uploadIntake({ file, kind, mode, reportsThrough, onProgress }: UploadVars) {
   const form = new FormData();
   form.append('file', file, file.name);
-  return uploadWithProgress(`/api/intakes?${new URLSearchParams({ kind, mode })}`, form, intakeUploadResponseSchema, onProgress);
+  const query = new URLSearchParams({ kind, mode, ...(kind === 'cases' && reportsThrough ? { reportsThrough } : {}) });
+  return uploadWithProgress(`/api/intakes?${query}`, form, intakeUploadResponseSchema, onProgress);
 }
 
 export function useUploadIntake() {

@@ -1,0 +1,24 @@
+import type { WindowKind } from '@ratewarden/shared/rules';
+import { formatMonth } from '../../lib/dates';
+
+/** The hollow marker of a partial period, beside its words (never colour alone). */
+export const PARTIAL_SHAPE = '◌';
+
+/** " (partial)" after a period's name where it is partial. */
+export const partialSuffix = (partial: boolean) => (partial ? ' (partial)' : '');
+
+/**
+ * Says that the period shown was partial when the run read its data: a site's roster or case
+ * list of one of its months was not in, so its figures may still change (person-time without its
+ * cases makes rates too low).
+ */
+export function PartialPeriodNote({ period, window, latestComplete }: { period: string; window: WindowKind; latestComplete: string | null }) {
+  const what = window === 'month' ? formatMonth(period) : `The twelve months ending ${formatMonth(period)}`;
+  return (
+    <p role="note" className="mt-4 max-w-3xl border-l-4 border-dashed border-amber bg-amber-soft px-4 py-2 text-sm">
+      <span aria-hidden="true" className="mr-1 font-bold">{PARTIAL_SHAPE}</span>
+      <strong>Partial period.</strong> {what} {window === 'month' ? 'was' : 'were'} not complete when this run read the data: a roster or a case list of some site was not in yet, so these
+      figures may still change. {latestComplete ? `The latest complete period is ${formatMonth(latestComplete)}.` : 'No period was complete yet.'}
+    </p>
+  );
+}
