@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { caseStatusSchema, intakeKindSchema, intakeStateSchema, type IntakeKind } from './intake';
 import { cellJudge, isCalendarDate, NO_BOUNDS, type CellBounds } from './intake-cell';
 import { intakeColumns, type ColumnDef } from './intake-columns';
+import { splitWithheldSchema } from './small-cells';
 
 export { isCalendarDate };
 
@@ -53,24 +54,77 @@ export const rosterSliceDiffSchema = z.object({
   unchanged: z.number().int(),
   storedHours: z.number(),
   newHours: z.number(),
-  /** Up to 10 worker keys of each kind, to spot-check. */
-  examples: z.object({ added: z.array(z.string()), removed: z.array(z.string()), moved: z.array(z.string()), hoursChanged: z.array(z.string()) }),
+  /**
+   * The workers (pseudonymous keys, sorted) of each kind, the first ROSTER_DIFF_WORKER_CAP of
+   * each; the counts above are whole. Empty for a new slice (every worker in it is added). Absent
+   * from diffs stored before workers were named.
+   */
+  workers: z.object({ added: z.array(z.string()), removed: z.array(z.string()), moved: z.array(z.string()), hoursChanged: z.array(z.string()) }).optional(),
 });
 export type RosterSliceDiff = z.infer<typeof rosterSliceDiffSchema>;
+
+/** How many worker keys of each kind a roster diff names per site × month. */
+export const ROSTER_DIFF_WORKER_CAP = 200;
+
+/** A stored current case that applying a roster would leave without a roster row (case-level: the physician's). */
+export const orphanedCaseSchema = z.object({
+  caseRef: z.string(),
+  workerKey: z.string(),
+  outcomeCode: z.string(),
+  onsetDate: z.string(),
+  status: caseStatusSchema,
+  /** The site and month (YYYY-MM, the onset month minus the outcome's lag) whose row the case loses. */
+  siteCode: z.string(),
+  month: z.string(),
+});
+export type OrphanedCase = z.infer<typeof orphanedCaseSchema>;
+
+/**
+ * Stored cases the roster would orphan: the count (null, withheld 'small', when from 1 to the
+ * threshold − 1 for anyone but the physician) and, for holders of `cases:read` only, the first 200.
+ */
+export const orphanedCasesSchema = z.object({
+  count: z.number().int().nullable(),
+  withheld: z.literal('small').nullable(),
+  cases: z.array(orphanedCaseSchema).optional(),
+});
+export type OrphanedCases = z.infer<typeof orphanedCasesSchema>;
 
 export const rosterDiffSchema = z.object({
   kind: z.literal('roster'),
   newWorkers: z.number().int(),
   slices: z.array(rosterSliceDiffSchema),
   totals: z.object({ added: z.number().int(), removed: z.number().int(), moved: z.number().int(), hoursChanged: z.number().int(), unchanged: z.number().int(), newSlices: z.number().int(), replacedSlices: z.number().int() }),
+  /** Absent from diffs stored before orphaned cases were looked for. */
+  orphanedCases: orphanedCasesSchema.optional(),
 });
 
+/** A count of new or changed cases as its reader may see it (nestedSuppression, shared/src/small-cells.ts). */
+const diffCount = z.object({ count: z.number().int().nullable(), withheld: splitWithheldSchema.nullable() });
+
+/** New and changed cases of one outcome × status × exposure group (the new version's). */
+export const caseDiffCellSchema = z.object({
+  outcomeCode: z.string(),
+  status: caseStatusSchema,
+  /** Code of the exposure group of the roster row that attributes the case (onset month minus the lag); null: not rostered. */
+  groupCode: z.string().nullable(),
+  new: diffCount,
+  changed: diffCount,
+});
+export type CaseDiffCell = z.infer<typeof caseDiffCellSchema>;
+
+/**
+ * What applying a case list changes. The totals are the file's own; per outcome and in the split,
+ * counts from 1 to the threshold − 1 are withheld for anyone but the physician, with the counts
+ * that would give them back (the split is absent from diffs stored before it existed).
+ */
 export const caseDiffSchema = z.object({
   kind: z.literal('cases'),
   new: z.number().int(),
   changed: z.number().int(),
   unchanged: z.number().int(),
-  byOutcome: z.array(z.object({ outcomeCode: z.string(), new: z.number().int(), changed: z.number().int() })),
+  byOutcome: z.array(z.object({ outcomeCode: z.string(), new: z.number().int().nullable(), changed: z.number().int().nullable(), newWithheld: splitWithheldSchema.nullable().optional(), changedWithheld: splitWithheldSchema.nullable().optional() })),
+  split: z.array(caseDiffCellSchema).optional(),
 });
 
 export const intakeDiffSchema = z.discriminatedUnion('kind', [rosterDiffSchema, caseDiffSchema]);

@@ -9,7 +9,8 @@ export const rolePermissions = {
   'config:read': ['hygienist', 'safety_manager', 'physician', 'administrator'],
   'groups:write': ['hygienist'],
   'intake:formats': ['hygienist', 'safety_manager', 'physician', 'administrator'],
-  'intake:read': ['hygienist'],
+  // The physician reads intakes too: a roster check names the stored cases it would orphan (to them only).
+  'intake:read': ['hygienist', 'physician'],
   'intake:write': ['hygienist'],
   'runs:read': ['hygienist', 'safety_manager', 'physician'],
   'runs:trigger': ['hygienist'],

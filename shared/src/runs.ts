@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { caseStatusSchema } from './intake';
 import { windowKindSchema } from './rules';
+import { unattributedCountSchema } from './unattributed';
 import { completenessSchema, completeThroughSchema } from './periods';
 
 /**
@@ -60,6 +61,13 @@ export const runDetailSchema = runSummarySchema.extend({
   worker: z.string(),
   /** Counts and timings: cells, results, flags raised, cases that matched no roster row, seconds. */
   summary: z.record(z.string(), z.unknown()),
+  /**
+   * Per outcome, the counted cases no roster row attributes, by reason; small counts withheld for
+   * everyone but the physician. Null when the run did not record them (runs before they were
+   * recorded, failed runs), or for a reader outside the figures: company-wide, so for readers of
+   * every site; of the current run, except for the physician.
+   */
+  unattributed: z.array(unattributedCountSchema).nullable(),
   /** The latest complete month when the run read its data (shared/src/periods.ts), in the reader's scope. */
   completeThrough: completeThroughSchema.nullable(),
 });

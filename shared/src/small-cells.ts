@@ -1,3 +1,5 @@
+import { z } from 'zod';
+
 /**
  * Small-cell suppression, shared by the API (which withholds) and the web (which explains).
  *
@@ -74,4 +76,65 @@ export function marginSuppression(parts: number[], threshold: number): MarginSup
     complement.push(parts[pick]!);
   }
   return { parts: out, total: false };
+}
+
+/** Why a count of a split table is not shown: small, a complement, or 'total' (a part whose total is withheld goes with it). */
+export const splitWithheldSchema = z.enum(['small', 'complement', 'total']);
+export type SplitWithheld = z.infer<typeof splitWithheldSchema>;
+
+export interface SplitSuppression {
+  total: 'small' | 'complement' | null;
+  parts: Array<SplitWithheld | null>;
+}
+
+/**
+ * Suppression of a count split into parts, both published (a count by reason, by status): the
+ * parts by marginSuppression; the total is withheld when it is small, or when no shown part is
+ * left to protect a small one. A withheld total takes every part with it, zeros too, so that the
+ * parts neither add up to it nor say which of them are empty (as a stratum table is shown whole
+ * or not at all).
+ *
+ * @example
+ * splitSuppression([6, 0, 7], 5) // { total: null, parts: [null, null, null] }
+ * splitSuppression([2, 0, 1], 5) // { total: 'small', parts: ['total', 'total', 'total'] }
+ */
+export function splitSuppression(parts: number[], threshold: number): SplitSuppression {
+  const margin = marginSuppression(parts, threshold);
+  const sum = parts.reduce((a, b) => a + b, 0);
+  const total = isSmallCount(sum, threshold) ? 'small' : margin.total ? 'complement' : null;
+  // marginSuppression labels parts 'small' or 'complement' only.
+  return total ? { total, parts: parts.map(() => 'total') } : { total: null, parts: margin.parts as Array<'small' | 'complement' | null> };
+}
+
+export interface NestedSuppression {
+  totals: Array<'small' | 'complement' | null>;
+  parts: Array<Array<SplitWithheld | null>>;
+}
+
+/**
+ * Suppression of a two-level table whose grand total is published: groups (an outcome) of parts
+ * (status × exposure group), each group's total shown beside its parts. The group totals are
+ * parts of the grand total (marginSuppression); within a group whose total is shown,
+ * splitSuppression, which may withhold that total too (as a complement: more unknowns never
+ * narrow a small count); a group whose total is withheld shows none of its parts. The grand total
+ * is not withheld here: the caller publishes it only where its reader knows it anyway (the rows
+ * of a file they uploaded themselves), and a pair such as 4 + 4 = 8 is then theirs already.
+ *
+ * @example
+ * // 2 = 8 − 6 would be narrowed to 1..3 within the first group, which has no other part: it goes whole.
+ * nestedSuppression([[6, 2], [9, 0]], 5) // { totals: ['complement', null], parts: [['total', 'total'], [null, null]] }
+ */
+export function nestedSuppression(groups: number[][], threshold: number): NestedSuppression {
+  const top = marginSuppression(groups.map((g) => g.reduce((a, b) => a + b, 0)), threshold);
+  const totals: NestedSuppression['totals'] = [];
+  const parts = groups.map((g, i) => {
+    if (top.parts[i] !== null) {
+      totals.push(top.parts[i] as 'small' | 'complement');
+      return g.map((): SplitWithheld => 'total');
+    }
+    const inner = splitSuppression(g, threshold);
+    totals.push(inner.total);
+    return inner.parts;
+  });
+  return { totals, parts };
 }

@@ -140,7 +140,15 @@ describe('intake checks (service level, real PostgreSQL)', () => {
     it('accepts a valid case list and counts new cases', async () => {
       const { intake } = await c.upload('cases', c.fixture('cases-valid.csv'));
       expect(intake.problems).toEqual([]);
-      expect(intake.diff).toEqual({ kind: 'cases', new: 2, changed: 0, unchanged: 0, byOutcome: [{ outcomeCode: c.codes.OA, new: 1, changed: 0 }, { outcomeCode: c.codes.OB, new: 1, changed: 0 }] });
+      expect(intake.diff).toEqual({
+        kind: 'cases', new: 2, changed: 0, unchanged: 0,
+        byOutcome: [{ outcomeCode: c.codes.OA, new: 1, changed: 0, newWithheld: null, changedWithheld: null }, { outcomeCode: c.codes.OB, new: 1, changed: 0, newWithheld: null, changedWithheld: null }],
+        // Each case in the group of its worker's roster row of the onset month (the service stores every count; the API withholds).
+        split: [
+          { outcomeCode: c.codes.OA, status: 'confirmed', groupCode: c.codes.GA, new: { count: 1, withheld: null }, changed: { count: 0, withheld: null } },
+          { outcomeCode: c.codes.OB, status: 'suspected', groupCode: c.codes.GB, new: { count: 1, withheld: null }, changed: { count: 0, withheld: null } },
+        ],
+      });
     });
 
     it('reports impossible dates, other date formats, unknown outcomes and statuses', async () => {

@@ -32,7 +32,8 @@ describe('intake versions: check, apply, supersede, restore (service level, real
     expect(v2.intake.diff).toMatchObject({
       kind: 'roster', newWorkers: 1,
       totals: { added: 1, removed: 0, moved: 1, hoursChanged: 1, unchanged: 1, newSlices: 0, replacedSlices: 1 },
-      slices: [{ siteCode: c.codes.S1, month: '2024-03', stored: true, storedHours: 450, newHours: 471.5, examples: { added: [`${c.codes.W}4`], moved: [`${c.codes.W}2`], hoursChanged: [`${c.codes.W}3`] } }],
+      orphanedCases: { count: 0, withheld: null, cases: [] },
+      slices: [{ siteCode: c.codes.S1, month: '2024-03', stored: true, storedHours: 450, newHours: 471.5, workers: { added: [`${c.codes.W}4`], removed: [], moved: [`${c.codes.W}2`], hoursChanged: [`${c.codes.W}3`] } }],
     });
     // Still the old version until apply.
     expect((await currentRoster(ds, c.siteIds)).map((r) => r.hours)).toEqual(['160.00', '150.00', '140.00']);

@@ -1,5 +1,6 @@
 import type { QueryRunner } from 'typeorm';
 import type { CaseStatus } from '@ratewarden/shared/intake';
+import type { UnattributedReason } from '@ratewarden/shared/unattributed';
 
 /**
  * The one set-wise aggregation of a run: cases and hours per outcome × month × site × exposure
@@ -14,7 +15,7 @@ import type { CaseStatus } from '@ratewarden/shared/intake';
  *   onset month itself is kept whole because hours are known per month only.
  * - A case is attributed to one roster row with hours (the one with most hours when a worker is
  *   on two sites' rosters in a month); a case with no such row matches no cell and is counted
- *   apart as unattributed.
+ *   apart as unattributed, with its reason (UNATTRIBUTED_SQL).
  * - Age band: 10-year bands of (calendar year of the month − birth year); null when unknown.
  */
 const SHIFT = (col: string) => `(${col} + make_interval(months => o.lag_months))::date`;
@@ -25,7 +26,7 @@ const CTES = `
   ),
   last_month AS (SELECT max(month) AS month FROM roster_slices),
   counted AS (
-    SELECT c.worker_id, c.outcome_id, date_trunc('month', c.onset_date)::date AS month
+    SELECT c.id, c.worker_id, c.outcome_id, c.onset_date, date_trunc('month', c.onset_date)::date AS month
     FROM case_events c
     WHERE c.superseded_by IS NULL AND c.status = ANY($1::text[])
   ),
@@ -114,6 +115,50 @@ export const COUNTED_CASES_SQL = `
   SELECT outcome_id, sum(n)::int AS counted FROM case_counts GROUP BY outcome_id`;
 
 /**
+ * Every counted case event that matches no cell, with its reason, in Ratewarden's words:
+ * - `lag_outside_data`: the onset month is after the last rostered month (the cells cut it), or
+ *   the onset month minus the lag is before the first rostered month: the data cannot say;
+ * - `removed_by_correction`: no current roster row with hours for the worker in that month, but a
+ *   superseded version of a site × month slice had one (a roster correction took it away);
+ * - `no_roster_month`: no roster row with hours for the worker in that month, in any version.
+ * A first-event outcome counts one event per worker (the earliest; on one day, the lowest id), as
+ * `case_counts` does, so per outcome these rows and the cells' cases add up to the counted cases.
+ */
+export const UNATTRIBUTED_SQL = `
+  WITH ${CTES},
+  first_month AS (SELECT min(month) AS month FROM roster_slices),
+  kept AS (
+    SELECT k.id, k.worker_id, k.outcome_id, k.month FROM counted k JOIN o USING (outcome_id) WHERE NOT o.first_only
+    UNION ALL
+    SELECT * FROM (
+      SELECT DISTINCT ON (k.worker_id, k.outcome_id) k.id, k.worker_id, k.outcome_id, k.month
+      FROM counted k JOIN o USING (outcome_id) WHERE o.first_only
+      ORDER BY k.worker_id, k.outcome_id, k.onset_date, k.id
+    ) f
+  ),
+  lagged AS (
+    SELECT k.id, k.worker_id, k.outcome_id, k.month, (k.month - make_interval(months => o.lag_months))::date AS roster_month
+    FROM kept k JOIN o USING (outcome_id)
+  )
+  SELECT x.id::text AS case_event_id, x.outcome_id,
+    CASE
+      WHEN lm.month IS NULL OR x.month > lm.month OR x.roster_month < fm.month THEN 'lag_outside_data'
+      WHEN EXISTS (
+        SELECT 1 FROM roster_entries r
+        WHERE r.worker_id = x.worker_id AND r.month = x.roster_month AND r.hours > 0
+          AND NOT EXISTS (SELECT 1 FROM roster_slices s WHERE s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month)
+      ) THEN 'removed_by_correction'
+      ELSE 'no_roster_month'
+    END AS reason
+  FROM lagged x CROSS JOIN last_month lm CROSS JOIN first_month fm
+  WHERE lm.month IS NULL OR x.month > lm.month OR NOT EXISTS (
+    SELECT 1 FROM roster_entries r
+    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+    WHERE r.worker_id = x.worker_id AND r.month = x.roster_month AND r.hours > 0
+  )
+  ORDER BY x.outcome_id, x.id`;
+
+/**
  * Session settings for the aggregation, applied with SET LOCAL inside the run's snapshot
  * transaction (and by the benchmark around its bare GROUP BY, so both sides run alike).
  * JIT off: the aggregation is one plan of some 250 expressions, and compiling them took longer
@@ -171,4 +216,16 @@ export async function loadCaseTotals(q: QueryRunner, countedStatuses: CaseStatus
   const attributed = new Map<number, number>();
   for (const c of cells) attributed.set(c.outcomeId, (attributed.get(c.outcomeId) ?? 0) + c.cases);
   return rows.map((r) => ({ outcomeId: r.outcome_id, counted: r.counted, attributed: attributed.get(r.outcome_id) ?? 0 }));
+}
+
+export interface UnattributedCase {
+  caseEventId: string;
+  outcomeId: number;
+  reason: UnattributedReason;
+}
+
+/** The counted cases no roster row attributes, with their reasons (UNATTRIBUTED_SQL). */
+export async function loadUnattributed(q: QueryRunner, countedStatuses: CaseStatus[]): Promise<UnattributedCase[]> {
+  const rows: Array<{ case_event_id: string; outcome_id: number; reason: UnattributedReason }> = await q.query(UNATTRIBUTED_SQL, [countedStatuses]);
+  return rows.map((r) => ({ caseEventId: r.case_event_id, outcomeId: r.outcome_id, reason: r.reason }));
 }

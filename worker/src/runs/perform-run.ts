@@ -9,13 +9,14 @@ import { disclosureFrame } from '../disclosure/disclosure-frame';
 import { frameIndex, frameKey, storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
 import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
-import { applyAggregationSettings, loadCaseTotals, loadCells } from './cells-query';
+import { applyAggregationSettings, loadCaseTotals, loadCells, loadUnattributed } from './cells-query';
 import { RUN_CODE_VERSION } from './code-version';
 import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
 import type { GroupInfo, OutcomeInfo } from './compute-results';
 import { refreshPlannerStatistics } from './planner-statistics';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { openResultWriter, storeCells } from './store-results';
+import { storeUnattributed, unattributedSummary } from './store-unattributed';
 import { storeRunPeriods } from './store-run-periods';
 
 export interface PerformRunOptions {
@@ -126,6 +127,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       const t2 = performance.now();
       await writer.finish(computed.trends);
       await storeFrame(em, runId, frame);
+      await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
       const t3 = performance.now();
       resultCount = computed.resultCount;
@@ -148,6 +150,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         siteResults: computed.resultCount - computed.companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
+        unattributed: unattributedSummary(snapshot.outcomes.map((o) => o.id), snapshot.unattributed),
         analyzed,
         outcomesWithoutReference: computed.outcomesWithoutReference,
         seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, storeAfterCompute: (t3 - t2) / 1000 },
@@ -181,6 +184,8 @@ interface Snapshot {
   inputs: Omit<RunInputs, 'requestIds'>;
   cells: Awaited<ReturnType<typeof loadCells>>;
   caseTotals: Awaited<ReturnType<typeof loadCaseTotals>>;
+  /** Counted cases no roster row attributes, read in the same snapshot as the cells. */
+  unattributed: Awaited<ReturnType<typeof loadUnattributed>>;
   rules: RuleToEvaluate[];
   ruleInfo: Map<string, RuleForFlags>;
   /** Every site × month's reporting state when the run read its data. */
@@ -200,6 +205,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
     const cells = await loadCells(qr, settings.countedStatuses);
     const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
+    const unattributed = await loadUnattributed(qr, settings.countedStatuses);
     const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
     const sitePeriods = await readSitePeriods(qr.manager);
     await qr.commitTransaction();
@@ -237,6 +243,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
       inputs: { rosterIntakeIds: roster.map((r) => r.id), caseIntakeIds: cases.map((r) => r.id) },
       cells,
       caseTotals,
+      unattributed,
       rules,
       ruleInfo,
       sitePeriods,

@@ -1,6 +1,7 @@
 import type { PoolClient } from 'pg';
 import type { CellBounds } from '@ratewarden/shared/intake-cell';
 import { caseColumns, reasons } from '@ratewarden/shared/intake-columns';
+import type { CaseStatus } from '@ratewarden/shared/intake';
 import type { IntakeDiff } from '@ratewarden/shared/intake-schemas';
 import { cell, cellChecksInsertSql, isCalendarDateSql, lit } from './sql-checks';
 
@@ -72,15 +73,45 @@ export async function caseScope(client: PoolClient): Promise<{ siteIds: number[]
   return { siteIds: r.site_ids ?? [], monthFrom: r.month_from, monthTo: r.month_to };
 }
 
-const changedWhere = `stored_id IS NOT NULL AND (stored_worker <> worker_id OR stored_outcome <> outcome_id OR stored_onset <> onset_date OR stored_status <> status)`;
+/** A case of the file that changes its stored version; `t` qualifies the columns of intake_cases. */
+const changedOf = (t = '') => `${t}stored_id IS NOT NULL AND (${t}stored_worker <> ${t}worker_id OR ${t}stored_outcome <> ${t}outcome_id OR ${t}stored_onset <> ${t}onset_date OR ${t}stored_status <> ${t}status)`;
+const changedWhere = changedOf();
 
+/**
+ * What applying the case list changes: new, changed and unchanged cases, per outcome, and the new
+ * and changed ones split by outcome × status × exposure group, the group of the roster row that
+ * attributes the case as a run would (onset month minus the outcome's lag, the current row with
+ * most hours; null when there is none). Stored with every count; the API withholds small ones
+ * from readers without `cases:read` (intake-disclosure.ts).
+ */
 export async function caseDiff(client: PoolClient): Promise<IntakeDiff> {
   const { rows } = await client.query<{ outcome_code: string; new: string; changed: string; unchanged: string }>(`
     SELECT outcome_code, count(*) FILTER (WHERE stored_id IS NULL) AS new, count(*) FILTER (WHERE ${changedWhere}) AS changed,
            count(*) FILTER (WHERE stored_id IS NOT NULL AND NOT (${changedWhere})) AS unchanged
     FROM intake_cases GROUP BY outcome_code ORDER BY outcome_code`);
+  const { rows: split } = await client.query<{ outcome_code: string; status: CaseStatus; group_code: string | null; new: string; changed: string }>(`
+    SELECT c.outcome_code, c.status, g.code AS group_code,
+           count(*) FILTER (WHERE c.stored_id IS NULL) AS new, count(*) FILTER (WHERE ${changedOf('c.')}) AS changed
+    FROM intake_cases c
+    JOIN outcomes o ON o.id = c.outcome_id
+    LEFT JOIN LATERAL (
+      SELECT re.exposure_group_id FROM roster_entries re JOIN roster_slices rs ON ${current}
+      WHERE re.worker_id = c.worker_id AND re.month = (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AND re.hours > 0
+      ORDER BY re.hours DESC, re.site_id LIMIT 1
+    ) a ON true
+    LEFT JOIN exposure_groups g ON g.id = a.exposure_group_id
+    WHERE c.stored_id IS NULL OR ${changedOf('c.')}
+    GROUP BY 1, 2, 3 ORDER BY 1, 2, 3 NULLS LAST`);
   const n = (k: 'new' | 'changed' | 'unchanged') => rows.reduce((t, r) => t + Number(r[k]), 0);
-  return { kind: 'cases', new: n('new'), changed: n('changed'), unchanged: n('unchanged'), byOutcome: rows.map((r) => ({ outcomeCode: r.outcome_code, new: Number(r.new), changed: Number(r.changed) })) };
+  const shown = (count: string) => ({ count: Number(count), withheld: null });
+  return {
+    kind: 'cases',
+    new: n('new'),
+    changed: n('changed'),
+    unchanged: n('unchanged'),
+    byOutcome: rows.map((r) => ({ outcomeCode: r.outcome_code, new: Number(r.new), changed: Number(r.changed), newWithheld: null, changedWithheld: null })),
+    split: split.map((r) => ({ outcomeCode: r.outcome_code, status: r.status, groupCode: r.group_code, new: shown(r.new), changed: shown(r.changed) })),
+  };
 }
 
 /**

@@ -1,11 +1,14 @@
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { intakeKindSchema } from '@ratewarden/shared/intake';
 import { intakeColumns, templateCsv } from '@ratewarden/shared/intake-columns';
-import { intakeListQuerySchema, intakeUploadQuerySchema } from '@ratewarden/shared/intake-schemas';
+import { intakeListQuerySchema, intakeUploadQuerySchema, type IntakeDetail } from '@ratewarden/shared/intake-schemas';
+import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
+import { recordAudit } from '../../audit/audit-log';
 import { authorize } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { tooLarge } from './byte-meter';
+import { intakeAsSeenBy, namesCases } from './intake-disclosure';
 import { getIntake, listIntakes } from './intake-queries';
 import { applyIntake, DEFAULT_MAX_BYTES, discardIntake, receiveIntake, restoreIntake } from './intake-service';
 import { DEFAULT_EXPIRY_HOURS, sweepStaging } from './intake-expiry';
@@ -19,15 +22,19 @@ export interface IntakeRouterDeps {
   allowFutureMonths?: boolean;
   /** Hours a checked intake waits for apply before it expires (INTAKE_EXPIRY_HOURS). */
   expiryHours?: number;
+  /** Counts of cases below this are withheld in diffs for everyone but the physician (SMALL_CELL_THRESHOLD). */
+  smallCellThreshold?: number;
 }
 
 /**
  * Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore.
  * Uploads, the history and apply first sweep expired checked intakes away (intake-expiry.ts).
  */
-export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, allowFutureMonths = false, expiryHours = DEFAULT_EXPIRY_HOURS }: IntakeRouterDeps): Router {
+export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, allowFutureMonths = false, expiryHours = DEFAULT_EXPIRY_HOURS, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: IntakeRouterDeps): Router {
   const router = Router();
   const sweep = () => sweepStaging(ds, expiryHours);
+  // Every intake answered goes through this: diffs hold case counts and, for rosters, case references.
+  const seen = (req: Request, intake: IntakeDetail) => intakeAsSeenBy(intake, req.principal!, smallCellThreshold);
 
   router.get('/templates/:file', authorize('intake:formats'), (req, res) => {
     const kind = intakeKindSchema.safeParse(String(req.params.file).replace(/\.csv$/, ''));
@@ -63,7 +70,7 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, all
         const more = result.intake.problemCount > 1 ? ` (and ${result.intake.problemCount - 1} more problems)` : '';
         throw new AppError('validation_failed', `the file was rejected: ${first}${more}`, result);
       }
-      res.status(result.duplicate ? 200 : 201).json(result);
+      res.status(result.duplicate ? 200 : 201).json({ ...result, intake: seen(req, result.intake) });
     } catch (err) {
       // Whatever is left of the upload is read and dropped, so the answer reaches the client.
       res.set('connection', 'close');
@@ -77,19 +84,22 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, all
     res.json(await listIntakes(ds, req.principal!, intakeListQuerySchema.parse(req.query)));
   });
   router.get('/:id', authorize('intake:read'), async (req, res) => {
-    res.json(await getIntake(ds, req.principal!, String(req.params.id)));
+    const intake = seen(req, await getIntake(ds, req.principal!, String(req.params.id)));
+    // The physician's view names the stored cases a roster would orphan: a case-level read. No count in the entry (the administrator reads the log).
+    if (namesCases(intake)) await recordAudit(ds, { actor: req.principal!, action: 'cases.read', target: `intake:${intake.id}`, ip: req.ip });
+    res.json(intake);
   });
   router.post('/:id/apply', authorize('intake:write'), async (req, res) => {
     await sweep();
     const intake = await applyIntake(ds, req.principal!, String(req.params.id), req.ip, { expiryHours, allowFutureMonths });
-    if (intake.state === 'rejected') throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake });
-    res.json(intake);
+    if (intake.state === 'rejected') throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake: seen(req, intake) });
+    res.json(seen(req, intake));
   });
   router.post('/:id/discard', authorize('intake:write'), async (req, res) => {
-    res.json(await discardIntake(ds, req.principal!, String(req.params.id), req.ip));
+    res.json(seen(req, await discardIntake(ds, req.principal!, String(req.params.id), req.ip)));
   });
   router.post('/:id/restore', authorize('intake:write'), async (req, res) => {
-    res.json(await restoreIntake(ds, req.principal!, String(req.params.id), req.ip));
+    res.json(seen(req, await restoreIntake(ds, req.principal!, String(req.params.id), req.ip)));
   });
   return router;
 }

@@ -1,5 +1,6 @@
 import type { PoolClient } from 'pg';
-import type { IntakeDiff, RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
+import { ROSTER_DIFF_WORKER_CAP, type IntakeDiff, type RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
+import { orphanedCases } from './roster-orphans';
 import type { RosterStage } from './roster-stage';
 
 const sliceJoin = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month`;
@@ -15,8 +16,9 @@ export async function rosterScope(client: PoolClient, st: RosterStage): Promise<
 
 /**
  * What applying the roster would change, per site × month already stored: workers added, removed,
- * moved to another group, hours changed. Only the stored slices are compared row by row; a slice
- * that is new is summarized from the staged site × month table.
+ * moved to another group, hours changed, each named (the first ROSTER_DIFF_WORKER_CAP keys), and
+ * the stored cases it would leave without a roster row (roster-orphans.ts). Only the stored slices
+ * are compared row by row; a slice that is new is summarized from the staged site × month table.
  */
 export async function rosterDiff(client: PoolClient, st: RosterStage): Promise<IntakeDiff> {
   await client.query(`DROP TABLE IF EXISTS pg_temp.intake_stored_slices`);
@@ -47,15 +49,17 @@ export async function rosterDiff(client: PoolClient, st: RosterStage): Promise<I
       count(*) FILTER (WHERE change = 'added') AS added, count(*) FILTER (WHERE change = 'removed') AS removed,
       count(*) FILTER (WHERE change = 'moved') AS moved, count(*) FILTER (WHERE change = 'hours') AS hours_changed,
       count(*) FILTER (WHERE change = 'same') AS unchanged, sum(oh) AS stored_hours, sum(fh) AS new_hours,
-      (array_agg(k ORDER BY k) FILTER (WHERE change = 'added'))[1:10] AS ex_added,
-      (array_agg(k ORDER BY k) FILTER (WHERE change = 'removed'))[1:10] AS ex_removed,
-      (array_agg(k ORDER BY k) FILTER (WHERE change = 'moved'))[1:10] AS ex_moved,
-      (array_agg(k ORDER BY k) FILTER (WHERE change = 'hours'))[1:10] AS ex_hours
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'added'))[1:${ROSTER_DIFF_WORKER_CAP}] AS ex_added,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'removed'))[1:${ROSTER_DIFF_WORKER_CAP}] AS ex_removed,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'moved'))[1:${ROSTER_DIFF_WORKER_CAP}] AS ex_moved,
+      (array_agg(k ORDER BY k) FILTER (WHERE change = 'hours'))[1:${ROSTER_DIFF_WORKER_CAP}] AS ex_hours
     FROM j GROUP BY site_code, m`);
   const { rows: fresh } = await client.query<{ site_code: string; m: string; n: string; hours: string | null }>(`
     SELECT sl.site_code, sl.m, sl.n, sl.hours FROM ${st.slices} sl
     WHERE NOT EXISTS (SELECT 1 FROM intake_stored_slices ss WHERE ss.site_id = sl.site_id AND ss.month = sl.month)`);
   const { rows: nw } = await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${st.workers} iw WHERE NOT EXISTS (SELECT 1 FROM workers w WHERE w.worker_key = iw.k)`);
+  // Only a slice already stored can lose a row a case is attributed to.
+  const orphans = changed.length === 0 ? { count: 0, cases: [] } : await orphanedCases(client, st);
 
   const slices: RosterSliceDiff[] = [
     ...changed.map((r) => ({
@@ -63,11 +67,11 @@ export async function rosterDiff(client: PoolClient, st: RosterStage): Promise<I
       rows: Number(r.added) + Number(r.moved) + Number(r.hours_changed) + Number(r.unchanged),
       added: Number(r.added), removed: Number(r.removed), moved: Number(r.moved), hoursChanged: Number(r.hours_changed), unchanged: Number(r.unchanged),
       storedHours: Number(r.stored_hours ?? 0), newHours: Number(r.new_hours ?? 0),
-      examples: { added: r.ex_added ?? [], removed: r.ex_removed ?? [], moved: r.ex_moved ?? [], hoursChanged: r.ex_hours ?? [] },
+      workers: { added: r.ex_added ?? [], removed: r.ex_removed ?? [], moved: r.ex_moved ?? [], hoursChanged: r.ex_hours ?? [] },
     })),
     ...fresh.map((r) => ({
       siteCode: r.site_code, month: r.m, stored: false, rows: Number(r.n), added: Number(r.n), removed: 0, moved: 0, hoursChanged: 0, unchanged: 0,
-      storedHours: 0, newHours: Number(r.hours ?? 0), examples: { added: [], removed: [], moved: [], hoursChanged: [] },
+      storedHours: 0, newHours: Number(r.hours ?? 0), workers: { added: [], removed: [], moved: [], hoursChanged: [] },
     })),
   ].sort((a, b) => a.siteCode.localeCompare(b.siteCode) || a.month.localeCompare(b.month));
   const sum = (k: 'added' | 'removed' | 'moved' | 'hoursChanged' | 'unchanged') => slices.reduce((t, s) => t + s[k], 0);
@@ -76,6 +80,8 @@ export async function rosterDiff(client: PoolClient, st: RosterStage): Promise<I
     newWorkers: Number(nw[0]!.n),
     slices,
     totals: { added: sum('added'), removed: sum('removed'), moved: sum('moved'), hoursChanged: sum('hoursChanged'), unchanged: sum('unchanged'), newSlices: fresh.length, replacedSlices: changed.length },
+    // Stored whole; the API withholds the cases and a small count from readers without `cases:read` (intake-disclosure.ts).
+    orphanedCases: { count: orphans.count, withheld: null, cases: orphans.cases },
   };
 }
 

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
 import { runStrata } from './run-strata';
+import { listUnattributed } from './run-unattributed';
 import { pendingRunOf, withCompleteThrough } from './run-periods';
 import { diffRuns, getRun, listResults, listRuns, requestRun, runAsSeenBy } from './runs-service';
 
@@ -37,10 +38,14 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
     res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
   });
   router.get('/current', authorize('runs:read'), async (req, res) => {
-    res.json(await withCompleteThrough(ds, runAsSeenBy(await getRun(ds, 'current'), req.principal!), req.principal!));
+    res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, 'current'), reader(req)), req.principal!));
+  });
+  // Case-level: the current run's unattributed cases one by one (the counts are in the run's detail).
+  router.get('/current/unattributed', authorize('cases:read'), async (req, res) => {
+    res.json(await listUnattributed(ds, req.principal!, req.ip));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
-    res.json(await withCompleteThrough(ds, runAsSeenBy(await getRun(ds, runId.parse(req.params.id)), req.principal!), req.principal!));
+    res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!));
   });
   /**
    * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows

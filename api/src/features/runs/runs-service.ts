@@ -7,6 +7,7 @@ import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import type { Withheld } from '@ratewarden/shared/small-cells';
 import { readsEverySite, runFrame, seesEveryCount, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import { unattributedFor } from './run-unattributed';
 import { completenessOf, runPeriodBook } from './run-periods';
 
 type Row = Record<string, any>;
@@ -40,6 +41,7 @@ function detailOf(r: Row): RunDetail {
     settings: r.settings,
     worker: r.worker,
     summary: r.summary,
+    unattributed: null,
     completeThrough: null,
   };
 }
@@ -47,12 +49,20 @@ function detailOf(r: Row): RunDetail {
 /**
  * A run's detail as its reader may see it: the summary's case totals (every case of an outcome,
  * attributed or not, company-wide) are sums over counts the disclosure frame withholds, and are
- * the physician's alone.
+ * the physician's alone, as are the raw unattributed counts; the unattributed cases come counted
+ * as the reader may see them (run-unattributed.ts).
  */
-export function runAsSeenBy(run: RunDetail, principal: Principal): RunDetail {
-  if (seesEveryCount(principal) || !run.summary || typeof run.summary !== 'object') return run;
-  const { cases: _cases, ...summary } = run.summary as Record<string, unknown>;
-  return { ...run, summary };
+export async function runAsSeenBy(ds: DataSource, run: RunDetail, reader: ResultReader): Promise<RunDetail> {
+  const unattributed = await unattributedFor(ds, run, reader);
+  if (seesEveryCount(reader.principal) || !run.summary || typeof run.summary !== 'object') return { ...run, unattributed };
+  const { cases: _cases, unattributed: _unattributed, ...summary } = run.summary as Record<string, unknown>;
+  return { ...run, summary, unattributed };
+}
+
+/** The summary fields of a run's detail only (its `summary` holds figures a reader may not see). */
+function summaryPart(d: RunDetail): RunSummary {
+  const { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, resultCount } = d;
+  return { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, resultCount };
 }
 
 export async function listRuns(ds: DataSource, limit = 100): Promise<RunSummary[]> {
@@ -244,8 +254,8 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
   };
   const changed = rows.filter((r) => r.changed);
   return {
-    from,
-    to,
+    from: summaryPart(from),
+    to: summaryPart(to),
     settingsChanged: JSON.stringify(from.settings) !== JSON.stringify(to.settings) || from.codeVersion !== to.codeVersion,
     unchangedCount: rows.length - changed.length,
     rows: changed.map((r) => ({
