@@ -1,7 +1,9 @@
 import { join } from 'node:path';
+import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
+import { readDbConfig } from '@ratewarden/db';
 import type { ApiConfig } from './config';
 import { authRouter, sessionRouter } from './auth/auth-routes';
 import { csrfProtection } from './auth/csrf';
@@ -15,6 +17,7 @@ import { mailboxRouter } from './features/mailbox/mailbox-routes';
 import { periodsRouter } from './features/periods/periods-routes';
 import { rulesRouter } from './features/rules/rules-routes';
 import { runsRouter } from './features/runs/runs-routes';
+import { databaseSaturation } from './middleware/database-saturation';
 import { errorHandler, notFound } from './middleware/error-handler';
 import { intakeRateLimit } from './middleware/rate-limits';
 import { healthRouter } from './routes/health';
@@ -23,10 +26,12 @@ import { webAppRouter } from './routes/web-app';
 export interface AppDeps {
   dataSource: DataSource;
   config: ApiConfig;
+  /** Requests allowed to wait for a database connection before 503 (DB_QUEUE_MAX). */
+  dbQueueMax?: number;
 }
 
 /** Builds the Express app; `server.ts` listens, tests call it through supertest. */
-export function createApp({ dataSource, config }: AppDeps): Express {
+export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_QUEUE_MAX }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   // Off unless configured: a client could otherwise pick its own address with X-Forwarded-For.
@@ -43,11 +48,13 @@ export function createApp({ dataSource, config }: AppDeps): Express {
       },
     }),
   );
+  // JSON compresses about tenfold; small answers (under 1 KiB) go as they are.
+  app.use(compression({ threshold: 1024 }));
   app.use(express.json({ limit: '1mb' }));
   app.use(express.urlencoded({ extended: false, limit: '16kb' }));
 
   app.use('/api/health', healthRouter(dataSource));
-  app.use(['/api', '/auth'], sessionMiddleware(dataSource, config), principalMiddleware(dataSource, config));
+  app.use(['/api', '/auth'], databaseSaturation(dataSource, dbQueueMax), sessionMiddleware(dataSource, config), principalMiddleware(dataSource, config));
   app.use('/auth', authRouter(dataSource, config));
   app.use('/api', csrfProtection);
   app.use('/api/session', sessionRouter(config.SMALL_CELL_THRESHOLD));

@@ -1,4 +1,4 @@
-export { createDataSource } from './data-source';
+export { createDataSource, poolOf } from './data-source';
 export { readDbConfig, type DbConfig } from './config';
 export { migrate } from './migrate';
 export { rows } from './sql';

@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { Problem } from '@ratewarden/shared/domain';
 import { ZodError } from 'zod';
 import { AppError } from '../lib/app-error';
+import { isPoolWaitTimeout, RETRY_AFTER_SECONDS } from './database-saturation';
 
 /** Unknown routes under /api become a problem too, never Express's HTML page. */
 export const notFound: RequestHandler = (req, _res, next) => {
@@ -33,6 +34,11 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
     // PostgreSQL data exceptions (a malformed id or date in the URL, a number out of range).
     status = 422;
     problem = { code: 'validation_failed', message: 'a value in the request is malformed or out of range' };
+  } else if (isPoolWaitTimeout(err)) {
+    // Every connection busy for longer than DB_POOL_WAIT_MS: overload, said as such.
+    status = 503;
+    problem = { code: 'service_unavailable', message: 'the database is busy; try again in a moment' };
+    res.set('retry-after', String(RETRY_AFTER_SECONDS));
   } else if (isHttpError(err)) {
     // body-parser and friends throw errors carrying a status; keep the status, word the message ourselves.
     status = err.status;
