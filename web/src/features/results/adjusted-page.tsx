@@ -13,6 +13,7 @@ import { shownResult } from './shown-result';
 import { StratumTable } from './stratum-table';
 import { partialSuffix } from './partial-period';
 import { levelRows, trendOf } from './trend-levels';
+import { trendReading } from './trend-reading';
 
 interface ChiSquare {
   chi2: number | null;
@@ -106,8 +107,8 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
       {trend ? (
         <>
           <p className="mt-2" role="status">
-            Score test for trend: χ² = <strong>{formatEstimate(trend.chi2)}</strong> (1 df), p = <strong>{formatP(trend.p)}</strong>;{' '}
-            {trend.u === null ? 'direction not defined' : trend.u > 0 ? 'rates rise with the exposure level' : trend.u < 0 ? 'rates fall as the exposure level rises' : 'no direction'}.
+            Score test for trend: χ² = <strong>{formatEstimate(trend.chi2)}</strong> (1 df), p = <strong>{formatP(trend.p)}</strong>.{' '}
+            {trendReading({ u: trend.u, p: trend.p, alpha: 1 - run.settings.confidence, levels: levels.map((l, i) => ({ label: `level ${l.level}`, rate: trend.levels[i]?.rate.estimate ?? null })) })}
           </p>
           <ResultTable
             caption={`Cases, person-time and rate by ordinal exposure level, ${when}`}
