@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
+import { answeredFromCache } from './run-cache';
 import { runStrata } from './run-strata';
 import { listUnattributed } from './run-unattributed';
 import { pendingRunOf, withCompleteThrough } from './run-periods';
@@ -34,10 +35,12 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
   });
   // Same scope and suppression as the results below.
   router.get('/diff', authorize('runs:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     const q = runDiffQuerySchema.parse(req.query);
     res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
   });
   router.get('/current', authorize('runs:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, 'current'), reader(req)), req.principal!));
   });
   // Case-level: the current run's unattributed cases one by one (the counts are in the run's detail).
@@ -45,6 +48,7 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
     res.json(await listUnattributed(ds, req.principal!, req.ip));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!));
   });
   /**
@@ -57,6 +61,7 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
    * that would reveal them, for every role but the physician (see runResultSchema).
    */
   router.get('/:id/results', authorize('aggregates:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
   });
   /**
@@ -66,6 +71,7 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
    * give a small one back by subtraction from the group's count).
    */
   router.get('/:id/strata', authorize('aggregates:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     res.json(await runStrata(ds, runId.parse(req.params.id), runStrataQuerySchema.parse(req.query), reader(req)));
   });
   return router;
