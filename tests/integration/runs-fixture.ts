@@ -109,9 +109,9 @@ export async function currentRunId(ds: DataSource): Promise<string | null> {
 
 /**
  * Runs are company-wide, so a run test must see no cohort rows of other test files: empties the
- * cohort, run and flag tables (configuration rows other tests made go with them).
+ * cohort, run, flag and month-closing tables (configuration rows other tests made go with them).
  */
 export async function clearCohortData(ds: DataSource): Promise<void> {
   await ds.query(`TRUNCATE run_requests, current_run, run_results, run_cells, run_trends, runs, flag_events, notices, flags, watch_rules, dev_mailbox,
-    case_events, roster_entries, roster_slices, workers, intakes RESTART IDENTITY CASCADE`);
+    case_events, roster_entries, roster_slices, workers, intakes, period_closures RESTART IDENTITY CASCADE`);
 }
