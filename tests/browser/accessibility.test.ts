@@ -58,7 +58,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   const pages = (flagId: string, outcome: number) => [
     '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
-    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/groups', '/outcomes', '/ad-hoc',
+    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc',
   ];
 
   it('as the hygienist, on every page', async () => {
