@@ -10,7 +10,7 @@ import { signInThroughPage, useBrowserApp } from '../support/browser-app';
 const accounts = [
   { email: 'hygienist@demo.ratewarden.test', role: 'hygienist', landing: '/overview', heading: 'Overview', shows: ['Overview', 'Intakes', 'Runs', 'Exposure groups', 'Watch rules'], hides: ['Administration', 'Mailbox'] },
   { email: 'safety@demo.ratewarden.test', role: 'safety_manager', landing: '/flags', heading: 'Flags', shows: ['Flags', 'Watch rules', 'Trends', 'Runs'], hides: ['Intakes', 'Administration', 'Exposure groups'] },
-  { email: 'physician@demo.ratewarden.test', role: 'physician', landing: '/flags', heading: 'Flags', shows: ['Flags', 'Overview', 'Group comparison'], hides: ['Intakes', 'Watch rules', 'Administration'] },
+  { email: 'physician@demo.ratewarden.test', role: 'physician', landing: '/flags', heading: 'Flags', shows: ['Flags', 'Overview', 'Group comparison', 'Intakes'], hides: ['Watch rules', 'Administration'] },
   { email: 'admin@demo.ratewarden.test', role: 'administrator', landing: '/admin', heading: 'Administration', shows: ['Administration', 'Mailbox'], hides: ['Overview', 'Flags', 'Intakes', 'Runs'] },
 ] as const;
 

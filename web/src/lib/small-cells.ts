@@ -1,5 +1,5 @@
 import type { Role } from '@ratewarden/shared/domain';
-import { DEFAULT_SMALL_CELL_THRESHOLD, type Withheld } from '@ratewarden/shared/small-cells';
+import { DEFAULT_SMALL_CELL_THRESHOLD, type SplitWithheld, type Withheld } from '@ratewarden/shared/small-cells';
 
 /**
  * Small-cell suppression: a count below the threshold (the server's SMALL_CELL_THRESHOLD, default 5) could
@@ -40,7 +40,7 @@ export const COMPLEMENT_TEXT = 'withheld';
  * count, 'complement' for one withheld so that a small count elsewhere cannot be got back by
  * subtraction (shared/src/small-cells.ts).
  */
-export function showCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | null = false): ShownCount {
+export function showCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | SplitWithheld | null = false): ShownCount {
   // Only a count withheld for being small says so; every other reason reads "withheld".
   if (withheld && withheld !== true && withheld !== 'small') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
   if (withheld) return { text: `<${t}`, value: null, suppressed: true };
@@ -50,7 +50,7 @@ export function showCount(count: number | null, role: Role | null | undefined, t
 }
 
 /** For CSV: the count itself, or the "<5" text when suppressed, never the hidden number. */
-export function exportCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | null = false): string | number | null {
+export function exportCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | SplitWithheld | null = false): string | number | null {
   const shown = showCount(count, role, t, withheld);
   return shown.suppressed ? shown.text : shown.value;
 }

@@ -13,5 +13,5 @@ export async function loader() {
 }
 
 export function Component() {
-  return <RequirePermission permission="intake:read">{() => <IntakesPage />}</RequirePermission>;
+  return <RequirePermission permission="intake:read">{(user) => <IntakesPage user={user} />}</RequirePermission>;
 }

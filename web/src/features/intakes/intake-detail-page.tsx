@@ -1,15 +1,18 @@
 import { roleMay } from '@ratewarden/shared/permissions';
-import type { IntakeDetail, IntakeProblem, RosterSliceDiff } from '@ratewarden/shared/intake-schemas';
+import type { Role } from '@ratewarden/shared/domain';
+import type { IntakeDetail, IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { createColumnHelper } from '@tanstack/react-table';
 import { Link } from 'react-router';
 import { DataTable } from '../../components/table/data-table';
 import { paths } from '../../config/paths';
 import { isApiError } from '../../lib/api-error';
-import { formatAmount, formatCount } from '../../lib/format';
+import { formatCount } from '../../lib/format';
 import { useDecideIntake, type IntakeDecision } from './api/decide-intake';
 import { useIntake } from './api/get-intake';
+import { CaseDiffView } from './case-diff';
 import { IntakeStateBadge } from './intake-state-badge';
+import { RosterDiffView } from './roster-diff';
 import { IntakeRunWait } from './intake-run-wait';
 
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
@@ -22,41 +25,10 @@ const problemColumns = [
   pcol.accessor('reason', { header: 'Problem' }),
 ];
 
-const scol = createColumnHelper<RosterSliceDiff>();
-const sliceColumns = [
-  scol.accessor((s) => `${s.siteCode} ${s.month}`, { id: 'slice', header: 'Site and month' }),
-  scol.accessor((s) => (s.stored ? 'replaces the stored version' : 'new'), { id: 'stored', header: 'Effect' }),
-  scol.accessor('added', { header: 'Workers added', meta: { numeric: true } }),
-  scol.accessor('removed', { header: 'Removed', meta: { numeric: true } }),
-  scol.accessor('moved', { header: 'Moved group', meta: { numeric: true } }),
-  scol.accessor('hoursChanged', { header: 'Hours changed', meta: { numeric: true } }),
-  scol.accessor('unchanged', { header: 'Unchanged', meta: { numeric: true } }),
-  scol.accessor('storedHours', { header: 'Hours stored', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
-  scol.accessor('newHours', { header: 'Hours in file', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
-];
-
-function Diff({ intake }: { intake: IntakeDetail }) {
+function Diff({ intake, role }: { intake: IntakeDetail; role: Role | null }) {
   const d = intake.diff;
   if (!d) return null;
-  if (d.kind === 'cases') {
-    return (
-      <section className="mt-6">
-        <h2 className="text-lg font-semibold">What applying changes</h2>
-        <p className="mt-1">
-          {formatCount(d.new)} new cases, {formatCount(d.changed)} changed, {formatCount(d.unchanged)} unchanged.
-        </p>
-      </section>
-    );
-  }
-  return (
-    <section className="mt-6">
-      <h2 className="text-lg font-semibold">What applying changes</h2>
-      <p className="mt-1">
-        {formatCount(d.totals.newSlices)} new and {formatCount(d.totals.replacedSlices)} replaced site-months; {formatCount(d.newWorkers)} workers not seen before.
-      </p>
-      <DataTable caption="Changes by site and month" columns={sliceColumns} data={d.slices} exportName={`intake-${intake.id}-changes`} rowHeader="slice" />
-    </section>
-  );
+  return d.kind === 'cases' ? <CaseDiffView diff={d} role={role} intakeId={intake.id} /> : <RosterDiffView diff={d} role={role} intakeId={intake.id} />;
 }
 
 export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }) {
@@ -130,7 +102,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
           {isApiError(decide.error) ? decide.error.problem.message : String(decide.error)}
         </p>
       )}
-      <Diff intake={intake} />
+      <Diff intake={intake} role={user.role} />
       {intake.problems.length > 0 && (
         <section className="mt-6">
           <DataTable

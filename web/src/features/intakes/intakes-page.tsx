@@ -1,4 +1,6 @@
 import type { IntakeSummary } from '@ratewarden/shared/intake-schemas';
+import { roleMay } from '@ratewarden/shared/permissions';
+import type { SessionUser } from '@ratewarden/shared/session';
 import { createColumnHelper } from '@tanstack/react-table';
 import { Link } from 'react-router';
 import { DataTable } from '../../components/table/data-table';
@@ -22,7 +24,7 @@ const columns = [
   col.accessor('submittedBy', { header: 'By', cell: (c) => c.getValue() ?? 'integration client' }),
 ];
 
-export function IntakesPage() {
+export function IntakesPage({ user }: { user: SessionUser }) {
   const { data } = useIntakes({ offset: 0 });
   return (
     <section>
@@ -31,9 +33,12 @@ export function IntakesPage() {
         Rosters and case lists are checked row by row and applied whole, replacing an earlier version of the same site and
         month (kept as superseded), or rejected whole with every problem listed.
       </p>
-      <div className="mt-6">
-        <UploadPanel />
-      </div>
+      {/* The physician reads intakes (a roster check names the cases it would orphan to them) but does not upload. */}
+      {roleMay(user.role, 'intake:write') && (
+        <div className="mt-6">
+          <UploadPanel />
+        </div>
+      )}
       <DataTable caption={`Intake history (${formatCount(data.total)})`} columns={columns} data={data.items} exportName="intakes" rowHeader="fileName" />
     </section>
   );
