@@ -65,6 +65,10 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!))).toEqual([]);
   });
 
+  it('as the physician, on the unattributed cases and the intakes they read', async () => {
+    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes'])).toEqual([]);
+  });
+
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {
     expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`])).toEqual([]);
     expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'])).toEqual([]);

@@ -9,5 +9,6 @@ export const runKeys = {
   results: (id: string, q: RunResultsQuery) => [...runKeys.all, 'results', id, q] as const,
   strata: (id: string, q: RunStrataQuery) => [...runKeys.all, 'strata', id, q] as const,
   diff: (from: string, to: string) => [...runKeys.all, 'diff', from, to] as const,
+  unattributed: () => [...runKeys.all, 'unattributed'] as const,
   pending: () => [...runKeys.all, 'pending'] as const,
 };

@@ -31,6 +31,7 @@ export const router = createBrowserRouter([
           { path: 'rules/new', lazy: () => import('./routes/rule-new') },
           { path: 'rules/:id', lazy: () => import('./routes/rule') },
           { path: 'runs', lazy: () => import('./routes/runs') },
+          { path: 'runs/unattributed', lazy: () => import('./routes/unattributed') },
           { path: 'periods', lazy: () => import('./routes/periods') },
           { path: 'groups', lazy: () => import('./routes/groups') },
           { path: 'outcomes', lazy: () => import('./routes/outcomes') },

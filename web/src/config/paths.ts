@@ -13,6 +13,7 @@ export const paths = {
   intakes: '/intakes',
   intake: (id: string | number) => `/intakes/${id}`,
   runs: '/runs',
+  unattributed: '/runs/unattributed',
   periods: '/periods',
   rules: '/rules',
   ruleNew: '/rules/new',

@@ -10,6 +10,7 @@ import { Cautions } from '../../components/cautions/cautions';
 import { QueryState } from '../../components/feedback/query-state';
 import { SelectField } from '../../components/form/select-field';
 import { UnitsStrip } from '../../components/units/units-strip';
+import { UnattributedNote } from '../../components/data-quality/unattributed-note';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
 import { COMPLEMENT_TEXT, smallCellThreshold } from '../../lib/small-cells';
@@ -131,6 +132,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
           Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
           {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : sitesTogether(sites.map((s) => s.name))}
         </p>
+        <UnattributedNote run={run} outcomes={outcomes} role={user.role} outcomeId={outcome.id} />
       </div>
       <QueryState query={results} label="results">
         {(data) => {

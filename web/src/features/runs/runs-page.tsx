@@ -14,6 +14,8 @@ import { PendingRunNote } from '../../components/status/pending-run-note';
 import { formatMonth } from '../../lib/dates';
 import { usePendingRun } from '../../api/get-pending-run';
 import { runQueryOptions, useCurrentRun } from '../../api/get-run';
+import { useOutcomes } from '../../api/get-outcomes';
+import { UnattributedNote } from '../../components/data-quality/unattributed-note';
 import { useSites } from '../../api/get-sites';
 import { runsQueryOptions, useRuns } from './api/get-runs';
 import { useRequestRun } from './api/request-run';
@@ -75,6 +77,7 @@ export function RunsPage({ user }: { user: SessionUser }) {
   const [requestedAt, setRequestedAt] = useState<string | null>(null);
   const pending = usePendingRun();
   const { data: current } = useCurrentRun();
+  const { data: outcomes } = useOutcomes();
   // Poll while a requested run has not finished yet, or while one is running.
   const runs = useQuery({
     ...runsQueryOptions(),
@@ -99,6 +102,7 @@ export function RunsPage({ user }: { user: SessionUser }) {
       {roleMay(user.role, 'runs:trigger') && <RunNow onRequested={setRequestedAt} />}
       <PendingRunNote pending={pending.data?.pending} />
       <CompleteThrough run={current} />
+      <UnattributedNote run={current} outcomes={outcomes} role={user.role} />
       {requestedAt && (
         <p role="status" className="mt-2 text-sm font-medium">
           {finishedRequest ? `Run #${finishedRequest.number} ${finishedRequest.state === 'succeeded' ? 'has finished' : 'failed'} (${formatDuration(finishedRequest.startedAt, finishedRequest.finishedAt)}).` : 'Run requested; waiting for the worker …'}
