@@ -15,6 +15,7 @@ import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
 describe('the physician sees the cases no roster row attributes', () => {
   let c: Cohort;
   const refs = { removed: '', noRoster: '' };
+  const intakes = { roster: '', cases: '' };
 
   const h = useBrowserApp(async (ds) => {
     c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['SKIN', 'recurrent'], ['LUNG', 'recurrent', 1]] });
@@ -47,6 +48,26 @@ describe('the physician sees the cases no roster row attributes', () => {
     await ds.query(`UPDATE roster_slices SET intake_id = $1 WHERE site_id = $2 AND month = '2033-01-01'`, [fix!.id, site]);
     const run = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', waitForLockMs: 60_000 });
     if (run.status !== 'succeeded') throw new Error(`the run did not succeed: ${JSON.stringify(run)}`);
+    // Two checked intakes as the checks store them (intake-routes and the integration tests make real ones):
+    // a roster correction that would orphan R's case, and a case list split by outcome, status and group.
+    const checked = async (kind: 'roster' | 'cases', diff: unknown) =>
+      ((await ds.query(
+        `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, site_ids, row_count, submitted_by_client, checked_at, diff)
+         VALUES ($1, 'checked', $2, $3, 1, $4, 3, 'browser-test', now(), $5) RETURNING id`,
+        [kind, `${kind}-check.csv`, randomBytes(32).toString('hex'), [site], JSON.stringify(diff)],
+      )) as Array<{ id: string }>)[0]!.id;
+    const slice = { siteCode: `RA${c.tag}`, month: '2033-01', stored: true, rows: 5, added: 0, removed: 1, moved: 0, hoursChanged: 0, unchanged: 5, storedHours: 960, newHours: 800 };
+    intakes.roster = await checked('roster', {
+      kind: 'roster', newWorkers: 0, totals: { added: 0, removed: 1, moved: 0, hoursChanged: 0, unchanged: 5, newSlices: 0, replacedSlices: 1 },
+      slices: [{ ...slice, workers: { added: [], removed: [`${c.tag}-R`], moved: [], hoursChanged: [] } }],
+      orphanedCases: { count: 1, withheld: null, cases: [{ caseRef: refs.removed, workerKey: `${c.tag}-R`, outcomeCode: `SKIN${c.tag}`, onsetDate: '2033-01-15', status: 'confirmed', siteCode: `RA${c.tag}`, month: '2033-01' }] },
+    });
+    const cell = (status: string, group: string | null, n: number) => ({ outcomeCode: `SKIN${c.tag}`, status, groupCode: group, new: { count: n, withheld: null }, changed: { count: 0, withheld: null } });
+    intakes.cases = await checked('cases', {
+      kind: 'cases', new: 23, changed: 0, unchanged: 0,
+      byOutcome: [{ outcomeCode: `SKIN${c.tag}`, new: 23, changed: 0, newWithheld: null, changedWithheld: null }],
+      split: [cell('confirmed', `EXP${c.tag}`, 12), cell('confirmed', null, 9), cell('suspected', `EXP${c.tag}`, 2)],
+    });
     const sites = await allSiteIds(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', sites);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', sites);
@@ -92,5 +113,37 @@ describe('the physician sees the cases no roster row attributes', () => {
     await page.getByRole('heading', { name: 'Not part of your role' }).waitFor();
     expect((await page.content()).includes(refs.removed)).toBe(false);
     await page.close();
+  });
+
+  it('reads a roster check that would orphan a case, and a case list split by outcome, status and group', async () => {
+    const hyg = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
+    await hyg.goto(`${h.app.baseUrl}/intakes/${intakes.roster}`, { waitUntil: 'networkidle' });
+    const warning = hyg.getByRole('alert').filter({ hasText: 'without a roster row' });
+    await warning.waitFor();
+    expect(await warning.textContent()).toContain('Applying this roster leaves <5 stored cases without a roster row');
+    expect(await hyg.getByText(`${c.tag}-R`, { exact: true }).count()).toBe(1);
+    expect((await hyg.content()).includes(refs.removed)).toBe(false);
+    await hyg.goto(`${h.app.baseUrl}/intakes/${intakes.cases}`, { waitUntil: 'networkidle' });
+    const table = hyg.getByRole('table', { name: /New and changed cases by outcome, status and exposure group/ });
+    await table.waitFor();
+    const text = (await table.textContent()) ?? '';
+    // 12 + 9 + 2 under a shown 23: the 2 is small and the 9 its complement ("withheld"); 12 stays.
+    expect(text).toContain('not rostered');
+    expect(text).toContain('<5');
+    expect(text).toContain('withheld');
+    expect(text).toContain('12');
+    await hyg.close();
+
+    const phys = await pageSignedInAs(h, 'physician@demo.ratewarden.test');
+    await phys.goto(`${h.app.baseUrl}/intakes/${intakes.roster}`, { waitUntil: 'networkidle' });
+    const cases = phys.getByRole('table', { name: /^Cases that would lose their roster row/ });
+    await cases.waitFor();
+    expect(await cases.textContent()).toContain(refs.removed);
+    expect(await phys.getByRole('alert').filter({ hasText: 'without a roster row' }).textContent()).toContain('Applying this roster leaves 1 stored case without a roster row');
+    // The physician reads intakes, but uploads none.
+    await phys.goto(`${h.app.baseUrl}/intakes`, { waitUntil: 'networkidle' });
+    await phys.getByRole('heading', { level: 1, name: 'Intakes' }).waitFor();
+    expect(await phys.getByRole('button', { name: /upload|check/i }).count()).toBe(0);
+    await phys.close();
   });
 });
