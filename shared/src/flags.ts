@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ruleMeasureSchema, thresholdOnSchema, windowKindSchema } from './rules';
+import { completenessSchema } from './periods';
 import { withheldSchema } from './runs';
 
 /** raised → in review → closed (with a reason). */
@@ -9,7 +10,13 @@ export type FlagState = z.infer<typeof flagStateSchema>;
 export const closeReasonSchema = z.enum(['explained', 'action_taken', 'not_substantiated']);
 export type CloseReason = z.infer<typeof closeReasonSchema>;
 
-export const flagEventKindSchema = z.enum(['raised', 'updated', 'escalated', 'cleared', 'review_started', 'closed']);
+/**
+ * What happened to a flag. By a run: raised, updated, escalated (past its worst: notices), eased
+ * (an escalation withdrawn, the value back at or below its level before: follow-up notices),
+ * cleared (no longer past the rule: follow-up notices), crossed_again (past the rule again after
+ * being cleared: notices). By a person: review_started, closed.
+ */
+export const flagEventKindSchema = z.enum(['raised', 'updated', 'escalated', 'eased', 'cleared', 'crossed_again', 'review_started', 'closed']);
 export type FlagEventKind = z.infer<typeof flagEventKindSchema>;
 
 /**
@@ -35,6 +42,8 @@ export const flagFiguresSchema = z.object({
   q: z.number().nullable(),
   personTimeBasis: z.string(),
   per: z.number(),
+  /** Whether the period's window was built on complete reporting periods (absent on flags raised before periods existed). */
+  completeness: completenessSchema.optional(),
   suppressed: z.boolean().optional(),
   /** Why the count is withheld (see small-cells.ts): small itself, or the complement of small site counts. */
   withheld: withheldSchema.nullable().optional(),
@@ -48,6 +57,9 @@ export const flagSchema = z.object({
   outcomeId: z.number().int(),
   exposureGroupId: z.number().int(),
   exposureGroupName: z.string(),
+  /** The site whose own results crossed the rule; null: the whole company's. */
+  siteId: z.number().int().nullable(),
+  siteName: z.string().nullable(),
   state: flagStateSchema,
   closeReason: closeReasonSchema.nullable(),
   closeComment: z.string().nullable(),

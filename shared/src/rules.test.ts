@@ -46,4 +46,12 @@ describe('watch rule validation', () => {
     expect(watchRulePatchSchema.safeParse({ nmae: 'x' }).error?.issues[0]).toMatchObject({ code: 'unrecognized_keys', keys: ['nmae'] });
     expect(watchRuleInputSchema.safeParse({ ...rule, owner: 'me' }).error?.issues[0]).toMatchObject({ code: 'unrecognized_keys', keys: ['owner'] });
   });
+
+  it('watches the company by default, or chosen sites, each once and in order; no empty choice', () => {
+    expect(watchRuleInputSchema.parse(rule).siteIds).toBeNull();
+    expect(watchRuleInputSchema.parse({ ...rule, siteIds: [4, 2, 4] }).siteIds).toEqual([2, 4]);
+    expect(watchRuleInputSchema.safeParse({ ...rule, siteIds: [] }).error?.issues[0]).toMatchObject({ path: ['siteIds'], message: 'choose at least one site, or watch the whole company' });
+    expect(watchRulePatchSchema.parse({ siteIds: null })).toEqual({ siteIds: null });
+    expect(watchRulePatchSchema.parse({ name: 'x' })).not.toHaveProperty('siteIds');
+  });
 });

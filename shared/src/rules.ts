@@ -17,9 +17,13 @@ import { DEFAULT_SMALL_CELL_THRESHOLD } from './small-cells';
  *   raised a flag.
  * - `consecutivePeriods`: the rule must hold in this many consecutive periods ending at the
  *   latest one.
- * - `fdrControl`: Benjamini–Hochberg across the groups the rule covers, at `fdrLevel` (on by
- *   default); it does not apply to u-chart rules, whose 3-sigma limits already fix the
- *   false-alarm rate per point.
+ * - `siteIds`: null for a company-wide rule (the company's results); else the chosen sites, each
+ *   evaluated on its own results (a site's excess that the company's figures dilute). Only a
+ *   person who reads every site may write a company-wide rule; others choose among their sites.
+ * - `fdrControl`: Benjamini–Hochberg at `fdrLevel` (on by default) over one family per rule and
+ *   period: every group the rule covers × every site it watches (the company for a company-wide
+ *   rule). It does not apply to u-chart rules, whose 3-sigma limits already fix the false-alarm
+ *   rate per point.
  */
 export const ruleMeasureSchema = z.enum(['irr', 'ird', 'rate', 'uchart']);
 export type RuleMeasure = z.infer<typeof ruleMeasureSchema>;
@@ -39,6 +43,14 @@ const ruleFields = (smallCellThreshold: number) => z.strictObject({
   outcomeId: z.number({ error: 'choose an outcome' }).int().positive(),
   /** null: every exposure group except the reference group. */
   exposureGroupId: z.number().int().positive().nullable().default(null),
+  /** null: the whole company; else the sites watched (kept sorted, each once). */
+  siteIds: z
+    .array(z.number({ error: 'choose a site' }).int().positive())
+    .min(1, 'choose at least one site, or watch the whole company')
+    .max(500, 'at most 500 sites')
+    .transform((ids) => [...new Set(ids)].sort((a, b) => a - b))
+    .nullable()
+    .default(null),
   measure: ruleMeasureSchema,
   thresholdOn: thresholdOnSchema.default('lower_bound'),
   /** Required except for `uchart`, whose threshold is the upper control limit itself. */
@@ -96,6 +108,7 @@ export const watchRuleSchema = z.object({
   name: z.string(),
   outcomeId: z.number().int(),
   exposureGroupId: z.number().int().nullable(),
+  siteIds: z.array(z.number().int()).nullable(),
   measure: ruleMeasureSchema,
   thresholdOn: thresholdOnSchema,
   threshold: z.number().nullable(),
@@ -111,3 +124,9 @@ export const watchRuleSchema = z.object({
   updatedAt: z.string(),
 });
 export type WatchRule = z.infer<typeof watchRuleSchema>;
+
+/** The family Benjamini–Hochberg controls for a rule, as one sentence (the rule form shows it; the README says the same). */
+export function fdrFamilySentence(siteIds: readonly number[] | null): string {
+  const family = siteIds === null ? 'every exposure group the rule covers, on the company’s results' : 'every exposure group the rule covers × every chosen site, each on its own results';
+  return `False discovery control (Benjamini–Hochberg) holds the rate over one family per period: ${family}.`;
+}

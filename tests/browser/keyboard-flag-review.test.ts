@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
 import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 import { makeFlagFixture, type FlagFixture } from './flag-fixture';
+import { allSiteIds } from '../support/test-db';
 
 /** What has the keyboard focus: its label (form fields) or its text (buttons, links). */
 const focused = (page: Page) =>
@@ -26,7 +27,8 @@ describe('the flag review works from the keyboard', () => {
   let fx: FlagFixture;
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
-    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', fx.cohort.sites);
+    // The fixture's flag is company-wide: seen by readers of every site (other files' sites exist too).
+    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
   });
 
   it('starts the review, picks a reason with the arrow keys, writes the comment and closes the flag', async () => {

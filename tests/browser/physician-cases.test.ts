@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { provisionUser } from '../support/sign-in';
 import { signInThroughPage, useBrowserApp } from '../support/browser-app';
 import { makeFlagFixture, type FlagFixture } from './flag-fixture';
+import { allSiteIds } from '../support/test-db';
 
 /** The physician opens a flag in Chromium and sees the case-level records behind it. */
 describe('the physician sees the cases behind a flag in Chromium', () => {
@@ -9,7 +10,8 @@ describe('the physician sees the cases behind a flag in Chromium', () => {
 
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
-    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', fx.cohort.sites);
+    // The fixture's flag is company-wide: seen by readers of every site (other files' sites exist too).
+    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', await allSiteIds(ds));
   });
 
   it('lists the cases counted in the flag, and the read is audited', async () => {

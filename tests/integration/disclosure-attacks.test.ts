@@ -69,12 +69,20 @@ describe('small-count disclosure against a hostile reader', () => {
         .send({ name: `Watch ${measure} ${window}`, outcomeId, measure, thresholdOn: 'estimate', threshold: 0, minCases: THRESHOLD, window, fdrControl: false });
       expect(res.status, JSON.stringify(res.body)).toBe(201);
     }
+    // Site rules too: the partial reader's own, on their two sites, and legacy ones on every site.
+    for (const [outcomeId, measure, window] of [[dc.outcomes.SPA, 'rate', 'rolling12'], [dc.outcomes.BUS, 'irr', 'rolling12'], [dc.outcomes.BUS, 'rate', 'month']] as const) {
+      const res = await as.partial.agent.post('/api/rules').set('x-csrf-token', as.partial.csrf)
+        .send({ name: `Site watch ${measure} ${window}`, outcomeId, siteIds: dc.sites.slice(0, 2), measure, thresholdOn: 'estimate', threshold: 0, minCases: THRESHOLD, window, fdrControl: false });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+    }
     for (const outcomeId of u.outcomes) {
       for (const [measure, window] of [['rate', 'month'], ['rate', 'rolling12'], ['irr', 'month'], ['irr', 'rolling12']]) {
-        await ds.query(
-          `INSERT INTO watch_rules (name, outcome_id, measure, threshold_on, threshold, min_cases, window_kind, fdr_control) VALUES ($1, $2, $3, 'estimate', 0, 1, $4, false)`,
-          [`Legacy ${measure} ${window}`, outcomeId, measure, window],
-        );
+        for (const siteIds of [null, dc.sites]) {
+          await ds.query(
+            `INSERT INTO watch_rules (name, outcome_id, site_ids, measure, threshold_on, threshold, min_cases, window_kind, fdr_control) VALUES ($1, $2, $3, $4, 'estimate', 0, 1, $5, false)`,
+            [`Legacy ${siteIds ? 'site ' : ''}${measure} ${window}`, outcomeId, siteIds, measure, window],
+          );
+        }
       }
     }
 
@@ -232,6 +240,7 @@ describe('small-count disclosure against a hostile reader', () => {
     const legacy = new Set(((await ds.query(`SELECT id FROM watch_rules WHERE min_cases < 5`)) as Array<{ id: string }>).map((r) => r.id));
     expect(real.some((f) => legacy.has(f.ruleId))).toBe(true);
     expect(real.filter((f) => f.figures.runId === runId).length).toBeGreaterThan(5);
+    expect(real.filter((f) => f.siteId !== null && f.figures.runId === runId).length, 'site flags of the current run').toBeGreaterThan(5);
     for (const f of real) {
       expect(f.figures.cases, f.ruleName).toBeGreaterThanOrEqual(THRESHOLD);
       const shown = mine.find((m) => m.id === f.id)!;
@@ -241,10 +250,11 @@ describe('small-count disclosure against a hostile reader', () => {
         expect(shown.figures).toMatchObject({ suppressed: true, withheld: 'earlier', cases: null, value: null, estimate: null, expected: null });
         continue;
       }
-      const row = seen.results.get(resultKey(null, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period))!;
+      // A site flag's count is its site's own, shown in that site's results.
+      const row = seen.results.get(resultKey(f.siteId, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period))!;
       expect(row.cases, `${f.ruleName}: the flag's count is shown in the results`).toBe(f.figures.cases);
       if (f.figures.measure === 'irr' || f.figures.measure === 'ird') {
-        const ref = seen.results.get(resultKey(null, f.outcomeId, row.referenceGroupId!, f.figures.window, f.figures.period))!;
+        const ref = seen.results.get(resultKey(f.siteId, f.outcomeId, row.referenceGroupId!, f.figures.window, f.figures.period))!;
         expect(ref.cases, `${f.ruleName}: its reference count is shown`).not.toBeNull();
       }
       expect(shown.figures).toMatchObject({ suppressed: false, cases: f.figures.cases, value: f.figures.value });
@@ -253,7 +263,7 @@ describe('small-count disclosure against a hostile reader', () => {
     const latest = dc.months.at(-1)!;
     const smallLatest = [...truth.results.values()].filter((r) => r.siteId === null && r.period === latest && isSmall(r.cases!));
     expect(smallLatest.length).toBeGreaterThan(0);
-    for (const r of smallLatest) expect(real.some((f) => f.outcomeId === r.outcomeId && f.exposureGroupId === r.exposureGroupId && f.figures.window === r.window)).toBe(false);
+    for (const r of smallLatest) expect(real.some((f) => f.siteId === null && f.outcomeId === r.outcomeId && f.exposureGroupId === r.exposureGroupId && f.figures.window === r.window)).toBe(false);
   });
 
   it('attack 3: by-site strata withhold as the site results do, and site tables by age or sex are never shown', async () => {
@@ -359,12 +369,25 @@ describe('small-count disclosure against a hostile reader', () => {
     }
   });
 
-  it('attack 6: a safety manager of some sites gets no company figures from flags nor case totals from the run', async () => {
+  it('attack 6: a safety manager of some sites gets no company flags, their sites\' flags with their sites\' figures only, and no case totals from the run', async () => {
+    const mySites = dc.sites.slice(0, 2);
     const flags = flagSchema.array().parse((await as.partial.agent.get('/api/flags').expect(200)).body);
+    const real = flagSchema.array().parse((await as.physician.agent.get('/api/flags').expect(200)).body);
+    expect(real.some((f) => f.siteId === null)).toBe(true);
+    expect(real.some((f) => f.siteId !== null && !mySites.includes(f.siteId))).toBe(true);
+    expect(flags.map((f) => f.id).sort()).toEqual(real.filter((f) => f.siteId !== null && mySites.includes(f.siteId)).map((f) => f.id).sort());
     expect(flags.length).toBeGreaterThan(0);
+    for (const f of real.filter((x) => x.siteId === null || !mySites.includes(x.siteId))) await as.partial.agent.get(`/api/flags/${f.id}`).expect(404);
     for (const f of flags) {
-      expect(f.figures).toMatchObject({ suppressed: true, cases: null, value: null, estimate: null, lower: null, upper: null, expected: null, p: null });
-      expect([f.value, f.worstValue]).toEqual([null, null]);
+      expect([f.worstValue]).toEqual([null]);
+      if (f.figures.runId !== runId) {
+        expect(f.figures).toMatchObject({ suppressed: true, withheld: 'earlier', cases: null, value: null });
+        continue;
+      }
+      // The figures are the site's own, as its results show them to every reader but the physician.
+      const row = seen.results.get(resultKey(f.siteId, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period))!;
+      expect(row.cases).not.toBeNull();
+      expect(f.figures).toMatchObject({ suppressed: false, cases: row.cases });
     }
     const current = runDetailSchema.parse((await as.partial.agent.get('/api/runs/current').expect(200)).body);
     expect(current.id).toBe(runId);

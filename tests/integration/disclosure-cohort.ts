@@ -84,6 +84,11 @@ export async function makeDisclosureCohort(ds: DataSource, seed = 20261202): Pro
     }
   }
   await cohort.roster(roster);
+  // The case list reports every rostered month of all four sites (makeCohort's roster() names its own two): complete periods.
+  await ds.query(
+    `UPDATE intakes SET reports_site_ids = $2, reports_through = (SELECT max(month) FROM roster_slices WHERE site_id = ANY($2)) WHERE id = $1`,
+    [cohort.casesIntake, sites],
+  );
 
   let caseNo = 0;
   const addCases = async (rows: Array<[number, number, string]>) => {

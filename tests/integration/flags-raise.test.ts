@@ -5,7 +5,7 @@ import { watchRuleInputSchema } from '@ratewarden/shared/rules';
 import { closeFlag, flagCases, getFlag, startReview } from '@ratewarden/api/features/flags/flags-service';
 import { createRule } from '@ratewarden/api/features/rules/rules-service';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 import { makeCohort, settings, type Cohort, clearCohortData } from './runs-fixture';
 
 /**
@@ -48,9 +48,11 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
       ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-12-03'] as [number, number, string]),
     ]);
     const [p] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test physician', 'physician') RETURNING id, email`, [`phys-${c.tag}`, `phys-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
-    physician = { kind: 'user', id: p!.id, email: p!.email, name: 'Test physician', role: 'physician', siteIds: c.sites };
+    // A company-wide rule and its flag are for people who read every site (other files' sites exist too).
+    const allSites = await allSiteIds(ds);
+    physician = { kind: 'user', id: p!.id, email: p!.email, name: 'Test physician', role: 'physician', siteIds: allSites };
     const [s] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test safety', 'safety_manager') RETURNING id, email`, [`safe-${c.tag}`, `safe-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
-    safety = { kind: 'user', id: s!.id, email: s!.email, name: 'Test safety', role: 'safety_manager', siteIds: c.sites };
+    safety = { kind: 'user', id: s!.id, email: s!.email, name: 'Test safety', role: 'safety_manager', siteIds: allSites };
     const rule = await createRule(ds, safety, watchRuleInputSchema.parse({
       name: 'IRR lower bound above 1', outcomeId: c.outcomes.DERM, measure: 'irr', thresholdOn: 'lower_bound', threshold: 1, minCases: 5, window: 'rolling12', recipients: [recipient],
     }));

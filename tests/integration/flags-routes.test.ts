@@ -33,10 +33,11 @@ describe('runs, rules and flags through the API', () => {
     }
     await c.roster(rows);
     await c.cases(exposed.map((w) => [w, c.outcomes.API!, '2031-05-07'] as [number, number, string]));
-    // Company figures (a flag's) are for readers of every site; other test files' sites exist too.
-    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
-    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', c.sites);
-    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', c.sites);
+    // Company flags and their figures are for readers of every site; other test files' sites exist too.
+    const allSites = await allSiteIds(ds);
+    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
+    await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
+    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
     await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
     app = createApp({ dataSource: ds, config: testApiConfig() });
     as = {
@@ -73,7 +74,7 @@ describe('runs, rules and flags through the API', () => {
     // A flag raised on those 4 cases by a run before that change: what each role reads of it.
     await ds.transaction((em) =>
       applyVerdicts(em, runs[1]!, settings, 'http://127.0.0.1:3000/', new Map([[ok.body.id, { id: ok.body.id, name: 'API rate rule', measure: 'rate', thresholdOn: 'estimate', threshold: 1, windowKind: 'month', recipients: [] }]]), [
-        { ruleId: ok.body.id, outcomeId: c.outcomes.API!, exposureGroupId: c.groups.EXP!, crossing: true, period: '2031-05-01', value: 12_500, estimate: 12_500, lower: 3406, upper: 32_004, cases: 4, expected: null, personTime: 0.32, p: null, q: null },
+        { ruleId: ok.body.id, outcomeId: c.outcomes.API!, exposureGroupId: c.groups.EXP!, siteId: null, completeness: 'complete', crossing: true, period: '2031-05-01', value: 12_500, estimate: 12_500, lower: 3406, upper: 32_004, cases: 4, expected: null, personTime: 0.32, p: null, q: null },
       ]),
     );
     const [flag] = (await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [ok.body.id])) as Array<{ id: string }>;

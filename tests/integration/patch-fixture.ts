@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
+import { allSiteIds } from '../support/test-db';
 
 export interface WriteFixture {
   tag: string;
@@ -28,7 +29,8 @@ export async function writeFixture(ds: DataSource): Promise<WriteFixture> {
   const personId = await provisionUser(ds, `patch-${tag.toLowerCase()}@kestrelmoor.test`, 'hygienist', siteIds);
   await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
   await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist');
-  await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager');
+  // A company-wide watch rule is written by someone who reads every site.
+  await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
   const app = createApp({ dataSource: ds, config: testApiConfig() });
   const as = {
     admin: await signIn(app, 'admin@demo.ratewarden.test'),

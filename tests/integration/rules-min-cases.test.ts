@@ -6,7 +6,7 @@ import { watchRuleSchema } from '@ratewarden/shared/rules';
 import { WatchRuleMinCases1764634300000 } from '@ratewarden/db/migrations/1764634300000-WatchRuleMinCases';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
-import { openTestDataSource } from '../support/test-db';
+import { allSiteIds, openTestDataSource } from '../support/test-db';
 
 const WORDS = 'at least 5: smaller counts are withheld from everyone but the physician';
 
@@ -28,7 +28,8 @@ describe('minimum case counts of watch rules', () => {
       `INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ($1, 'Min cases outcome', 'test', 'recurrent') RETURNING id`,
       [`MIN${tag}`],
     )) as Array<{ id: number }>)[0]!.id;
-    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager');
+    // Company-wide rules: written by someone who reads every site.
+    await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
     safety = await signIn(createApp({ dataSource: ds, config: testApiConfig() }), 'safety@demo.ratewarden.test');
   });
   afterAll(async () => {

@@ -1,4 +1,4 @@
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import { roleMay, type Principal } from '@ratewarden/shared/permissions';
 import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
 import { siteScope } from '../auth/authorize';
@@ -8,7 +8,7 @@ import { AppError } from '../lib/app-error';
 export const seesEveryCount = (p: Principal) => p.kind === 'user' && roleMay(p.role, 'cases:read');
 
 /** Whether a person may read every site (and so the company's figures, which include every site's workers). */
-export async function readsEverySite(ds: DataSource, principal: Principal): Promise<boolean> {
+export async function readsEverySite(ds: DataSource | EntityManager, principal: Principal): Promise<boolean> {
   const scope = siteScope(principal);
   if (scope === 'all') return true;
   const missing: unknown[] = await ds.query(`SELECT id FROM sites WHERE NOT (id = ANY($1::int[])) LIMIT 1`, [scope]);

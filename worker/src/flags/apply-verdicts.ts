@@ -4,8 +4,9 @@ import type { FlagFigures } from '@ratewarden/shared/flags';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
-import { composeNotice } from '../notices/compose-notice';
-import type { RuleVerdict } from '../rules/evaluate-rules';
+import { composeNotice, type NoticeKind } from '../notices/compose-notice';
+import type { ScopedVerdict } from '../rules/rule-verdicts';
+import { standingEscalations, withdrawnBy, type RunFlagEvent } from './escalations';
 
 export interface RuleForFlags {
   id: string;
@@ -20,8 +21,10 @@ export interface RuleForFlags {
 export interface FlagTally {
   raised: number;
   escalated: number;
+  eased: number;
   updated: number;
   cleared: number;
+  crossedAgain: number;
   notRaisedAgain: number;
   notices: number;
 }
@@ -37,7 +40,7 @@ const SYSTEM_ACTOR = 'system:run';
 
 /**
  * The audit log is read by the administrator, who may not read aggregates: its entries name the
- * flag, rule, group and period, never a count or a measure's value.
+ * flag, rule, group, site and period, never a count or a measure's value.
  */
 async function audit(em: EntityManager, action: string, flagId: string, detail: Record<string, unknown>): Promise<void> {
   await em.query(`INSERT INTO audit_events (actor_label, action, target, detail) VALUES ($1, $2, $3, $4)`, [SYSTEM_ACTOR, action, `flag:${flagId}`, JSON.stringify(toJsonValue(detail))]);
@@ -51,15 +54,32 @@ async function addEvent(em: EntityManager, flagId: string, kind: string, runId: 
   return rows[0]!.id;
 }
 
+const auditAction: Record<NoticeKind, string> = {
+  raised: 'flag.raise',
+  escalated: 'flag.escalate',
+  eased: 'flag.ease',
+  cleared: 'flag.clear',
+  crossed_again: 'flag.cross_again',
+};
+
 /**
- * Raises, updates, escalates or clears flags from a run's rule verdicts, inside the run's final
- * transaction, and writes the threshold notices of every new or escalated flag into the outbox
- * in that same transaction (so a notice exists exactly when its flag change commits).
+ * Raises, updates, escalates, eases or clears flags from a run's rule verdicts, inside the run's
+ * final transaction, and writes every notice into the outbox in that same transaction (so a
+ * notice exists exactly when its flag change commits). A flag belongs to a rule × group ×
+ * outcome × scope (the company, or one site of a site rule).
  *
- * - crossing, open flag: updated; "escalated" (with notices) when the value is past its worst.
+ * - crossing, open flag: its figures become this run's; "updated" when the value changed,
+ *   "escalated" (notices) when it is past its worst; "eased"
+ *   (follow-up notices) when it is back at or below the level before a standing escalation, which
+ *   is withdrawn (escalations.ts); "crossed_again" (notices) when the flag had been cleared.
  * - crossing, no open flag: raised with notices, unless the latest closed flag of the same rule ×
- *   group × outcome had a worst value at least as bad (a closed flag re-raises only on worsening).
- * - not crossing, open flag still marked crossing: "cleared" (it stays open until a person closes it).
+ *   group × outcome × scope had a worst value at least as bad (a closed flag re-raises only on
+ *   worsening).
+ * - not crossing, open flag still marked crossing: "cleared" (follow-up notices; it stays open
+ *   until a person closes it).
+ *
+ * Notices go to the rule's recipients and to the physicians: every physician for a company-wide
+ * flag, those with the site for a site flag. Anyone but a physician gets a small count withheld.
  */
 export async function applyVerdicts(
   em: EntityManager,
@@ -67,27 +87,81 @@ export async function applyVerdicts(
   settings: RunSettings,
   appUrl: string,
   rules: Map<string, RuleForFlags>,
-  verdicts: RuleVerdict[],
+  verdicts: ScopedVerdict[],
   smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD,
 ): Promise<FlagTally> {
-  const tally: FlagTally = { raised: 0, escalated: 0, updated: 0, cleared: 0, notRaisedAgain: 0, notices: 0 };
-  const physicians: Array<{ email: string }> = await em.query(`SELECT email FROM users WHERE role = 'physician' ORDER BY email`);
+  const tally: FlagTally = { raised: 0, escalated: 0, eased: 0, updated: 0, cleared: 0, crossedAgain: 0, notRaisedAgain: 0, notices: 0 };
+  const physicians: Array<{ email: string; site_ids: number[] }> = await em.query(
+    `SELECT u.email, coalesce(array_agg(us.site_id) FILTER (WHERE us.site_id IS NOT NULL), '{}') AS site_ids
+     FROM users u LEFT JOIN user_sites us ON us.user_id = u.id WHERE u.role = 'physician' GROUP BY u.email ORDER BY u.email`,
+  );
   const groups: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM exposure_groups`);
   const groupOf = new Map(groups.map((g) => [g.id, g]));
+  const sites: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM sites`);
+  const siteOf = new Map(sites.map((s) => [s.id, s]));
+
+  const notify = async (kind: NoticeKind, flagId: string, eventId: string, rule: RuleForFlags, v: ScopedVerdict) => {
+    const group = groupOf.get(v.exposureGroupId);
+    const site = v.siteId === null ? null : siteOf.get(v.siteId) ?? { code: String(v.siteId), name: `site ${v.siteId}` };
+    const facts = {
+      flagId,
+      kind,
+      ruleName: rule.name,
+      measure: rule.measure,
+      thresholdOn: rule.thresholdOn,
+      threshold: rule.threshold,
+      window: rule.windowKind,
+      period: v.period,
+      completeness: v.completeness,
+      groupCode: group?.code ?? String(v.exposureGroupId),
+      groupName: group?.name ?? `group ${v.exposureGroupId}`,
+      site: site && { code: site.code, name: site.name },
+      value: v.value,
+      estimate: v.estimate,
+      lower: v.lower,
+      upper: v.upper,
+      cases: v.cases,
+      expected: v.expected,
+      personTime: v.personTime,
+      settings,
+      appUrl,
+    };
+    // A physician's notice has every figure; anyone else's leaves a small count out, as the app does.
+    const full = composeNotice(facts);
+    const withheld = isSmallCount(v.cases, smallCellThreshold) ? composeNotice({ ...facts, withholdFigures: { threshold: smallCellThreshold } }) : full;
+    const told = physicians.filter((p) => v.siteId === null || p.site_ids.includes(v.siteId));
+    const physicianEmails = new Set(told.map((p) => p.email.trim().toLowerCase()));
+    const recipients = [...new Set([...told.map((p) => p.email), ...rule.recipients].map((e) => e.trim().toLowerCase()).filter(Boolean))];
+    for (const recipient of recipients) {
+      const { subject, text } = physicianEmails.has(recipient) ? full : withheld;
+      await em.query(
+        `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body) VALUES ($1, $2, $3, $4, $5) ON CONFLICT DO NOTHING`,
+        [flagId, eventId, recipient, subject, text],
+      );
+      tally.notices++;
+    }
+  };
+
+  /** A run's change of a flag that people are told about: its event, audit entry and notices. */
+  const told = async (kind: NoticeKind, flagId: string, rule: RuleForFlags, v: ScopedVerdict, detail: Record<string, unknown>) => {
+    const eventId = await addEvent(em, flagId, kind, runId, { period: v.period, ...detail });
+    await audit(em, auditAction[kind], flagId, { runId, ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, siteId: v.siteId, period: v.period });
+    await notify(kind, flagId, eventId, rule, v);
+  };
 
   for (const v of verdicts) {
     const rule = rules.get(v.ruleId)!;
     const open: OpenFlag | undefined = (
       await em.query(
-        `SELECT id, value, worst_value, crossing FROM flags WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND state <> 'closed' FOR UPDATE`,
-        [v.ruleId, v.exposureGroupId, v.outcomeId],
+        `SELECT id, value, worst_value, crossing FROM flags
+         WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND site_id IS NOT DISTINCT FROM $4::int AND state <> 'closed' FOR UPDATE`,
+        [v.ruleId, v.exposureGroupId, v.outcomeId, v.siteId],
       )
     )[0];
     if (!v.crossing || v.value === null) {
       if (open?.crossing) {
         await em.query(`UPDATE flags SET crossing = false, last_run_id = $2, updated_at = now() WHERE id = $1`, [open.id, runId]);
-        await addEvent(em, open.id, 'cleared', runId, { period: v.period, value: v.value });
-        await audit(em, 'flag.clear', open.id, { runId, period: v.period });
+        await told('cleared', open.id, rule, v, { value: v.value });
         tally.cleared++;
       }
       continue;
@@ -111,83 +185,55 @@ export async function applyVerdicts(
       q: v.q,
       personTimeBasis: settings.personTimeBasis,
       per: settings.per,
+      completeness: v.completeness,
     };
     const detailJson = JSON.stringify(toJsonValue(figures));
-    let flagId: string;
-    let kind: 'raised' | 'escalated' | null = null;
-    if (open) {
-      flagId = open.id;
-      const worse = value > open.worst_value;
-      if (worse || value !== open.value || !open.crossing) {
-        await em.query(
-          `UPDATE flags SET last_run_id = $2, period = $3, value = $4, worst_value = greatest(worst_value, $4), crossing = true, detail = $5, updated_at = now() WHERE id = $1`,
-          [flagId, runId, v.period, value, detailJson],
-        );
-      }
-      if (worse) {
-        kind = 'escalated';
-        tally.escalated++;
-      } else if (value !== open.value || !open.crossing) {
-        await addEvent(em, flagId, 'updated', runId, { period: v.period, value, previous: open.value });
-        await audit(em, 'flag.update', flagId, { runId, period: v.period });
-        tally.updated++;
-      }
-    } else {
+
+    if (!open) {
       const closed: Array<{ id: string; worst_value: number }> = await em.query(
-        `SELECT id, worst_value FROM flags WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND state = 'closed' ORDER BY closed_at DESC NULLS LAST LIMIT 1`,
-        [v.ruleId, v.exposureGroupId, v.outcomeId],
+        `SELECT id, worst_value FROM flags WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND site_id IS NOT DISTINCT FROM $4::int AND state = 'closed'
+         ORDER BY closed_at DESC NULLS LAST LIMIT 1`,
+        [v.ruleId, v.exposureGroupId, v.outcomeId, v.siteId],
       );
       if (closed[0] && !(value > closed[0].worst_value)) {
         tally.notRaisedAgain++;
         continue;
       }
       const rows: Array<{ id: string }> = await em.query(
-        `INSERT INTO flags (rule_id, outcome_id, exposure_group_id, raised_run_id, last_run_id, period, value, worst_value, detail)
-         VALUES ($1, $2, $3, $4, $4, $5, $6, $6, $7) RETURNING id`,
-        [v.ruleId, v.outcomeId, v.exposureGroupId, runId, v.period, value, detailJson],
+        `INSERT INTO flags (rule_id, outcome_id, exposure_group_id, site_id, raised_run_id, last_run_id, period, value, worst_value, detail)
+         VALUES ($1, $2, $3, $4, $5, $5, $6, $7, $7, $8) RETURNING id`,
+        [v.ruleId, v.outcomeId, v.exposureGroupId, v.siteId, runId, v.period, value, detailJson],
       );
-      flagId = rows[0]!.id;
-      kind = 'raised';
+      await told('raised', rows[0]!.id, rule, v, { value });
       tally.raised++;
+      continue;
     }
-    if (!kind) continue;
-    const eventId = await addEvent(em, flagId, kind, runId, { period: v.period, value, ...(open ? { previousWorst: open.worst_value } : {}) });
-    await audit(em, kind === 'raised' ? 'flag.raise' : 'flag.escalate', flagId, { runId, ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, period: v.period });
 
-    const group = groupOf.get(v.exposureGroupId);
-    const facts = {
-      flagId,
-      kind,
-      ruleName: rule.name,
-      measure: rule.measure,
-      thresholdOn: rule.thresholdOn,
-      threshold: rule.threshold,
-      window: rule.windowKind,
-      period: v.period,
-      groupCode: group?.code ?? String(v.exposureGroupId),
-      groupName: group?.name ?? `group ${v.exposureGroupId}`,
-      value,
-      estimate: v.estimate,
-      lower: v.lower,
-      upper: v.upper,
-      cases: v.cases,
-      expected: v.expected,
-      personTime: v.personTime,
-      settings,
-      appUrl,
-    };
-    // A physician's notice has every figure; anyone else's leaves a small count out, as the app does.
-    const full = composeNotice(facts);
-    const withheld = isSmallCount(v.cases, smallCellThreshold) ? composeNotice({ ...facts, withholdFigures: { threshold: smallCellThreshold } }) : full;
-    const physicianEmails = new Set(physicians.map((p) => p.email.trim().toLowerCase()));
-    const recipients = [...new Set([...physicians.map((p) => p.email), ...rule.recipients].map((e) => e.trim().toLowerCase()).filter(Boolean))];
-    for (const recipient of recipients) {
-      const { subject, text } = physicianEmails.has(recipient) ? full : withheld;
-      await em.query(
-        `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body) VALUES ($1, $2, $3, $4, $5) ON CONFLICT DO NOTHING`,
-        [flagId, eventId, recipient, subject, text],
-      );
-      tally.notices++;
+    const worse = value > open.worst_value;
+    const events: RunFlagEvent[] = worse ? [] : await em.query(`SELECT kind, detail FROM flag_events WHERE flag_id = $1 AND run_id IS NOT NULL ORDER BY id`, [open.id]);
+    const withdrawal = worse ? null : withdrawnBy(standingEscalations(events), value);
+    const worst = withdrawal ? withdrawal.worstBefore : Math.max(open.worst_value, value);
+    // The figures are this run's even when they have not changed: readers other than the
+    // physician see a flag's figures only when they are the current run's (flag-suppression.ts).
+    const changed = worse || withdrawal !== null || value !== open.value || !open.crossing;
+    await em.query(
+      `UPDATE flags SET last_run_id = $2, period = $3, value = $4, worst_value = $5, crossing = true, detail = $6,
+         updated_at = CASE WHEN $7 THEN now() ELSE updated_at END WHERE id = $1`,
+      [open.id, runId, v.period, value, worst, detailJson, changed],
+    );
+    if (worse) {
+      await told('escalated', open.id, rule, v, { value, previousWorst: open.worst_value });
+      tally.escalated++;
+    } else if (!open.crossing) {
+      await told('crossed_again', open.id, rule, v, { value, ...(withdrawal ? { withdrawn: withdrawal.withdrawn, previousWorst: open.worst_value } : {}) });
+      tally.crossedAgain++;
+    } else if (withdrawal) {
+      await told('eased', open.id, rule, v, { value, withdrawn: withdrawal.withdrawn, previousWorst: open.worst_value });
+      tally.eased++;
+    } else if (value !== open.value) {
+      await addEvent(em, open.id, 'updated', runId, { period: v.period, value, previous: open.value });
+      await audit(em, 'flag.update', open.id, { runId, period: v.period });
+      tally.updated++;
     }
   }
   return tally;

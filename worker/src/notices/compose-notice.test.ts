@@ -10,8 +10,10 @@ const facts: NoticeFacts = {
   threshold: 20,
   window: 'rolling12',
   period: '2031-05-01',
+  completeness: 'complete',
   groupCode: 'WET',
   groupName: 'Wet work',
+  site: null,
   value: 21.5,
   estimate: 64.2,
   lower: 21.5,
@@ -24,13 +26,22 @@ const facts: NoticeFacts = {
 };
 
 describe('threshold notice text', () => {
-  it('names the rule, group and period, gives the aggregate figures and a sign-in link', () => {
+  it('names the rule, group, scope and period with its completeness, gives the aggregate figures and a sign-in link', () => {
     const { subject, text } = composeNotice(facts);
     expect(subject).toBe('Ratewarden: watch rule "Dermatitis rate above 20" raised a flag for Wet work');
-    expect(text).toContain('Period: 12 months ending 2031-05');
+    expect(text).toContain('Scope: the whole company');
+    expect(text).toContain('Period: 12 months ending May 2031, complete');
     expect(text).toContain('Cases in the group: 4; expected at the reference rate: 1.1');
     expect(text).toContain('Value: 21.50 (estimate 64.20, 95% interval 21.50 to 149.80)');
     expect(text).toContain('Sign in to review the flag: https://ratewarden.example/flags/00000000-0000-4000-8000-000000000001');
+  });
+
+  it('says when the period was partial, and names the site of a site flag', () => {
+    const { subject, text } = composeNotice({ ...facts, window: 'month', period: '2031-12-01', completeness: 'partial', site: { code: 'NF', name: 'North Foundry' } });
+    expect(subject).toBe('Ratewarden: watch rule "Dermatitis rate above 20" raised a flag for Wet work at North Foundry');
+    expect(text).toContain('Period: month of Dec 2031, partial (a roster or case list of the period was not in when the run read it)');
+    expect(text).toContain("Site: North Foundry (NF), on this site's own results");
+    expect(text).not.toContain('whole company');
   });
 
   it('with the figures withheld, leaves out the small count and every figure computed from it', () => {
@@ -38,5 +49,18 @@ describe('threshold notice text', () => {
     expect(text).toContain('Cases in the group: fewer than 5');
     for (const figure of ['21.5', '64.2', '149.8', '1.1', 'Value:']) expect(text).not.toContain(figure);
     expect(text).toContain('Person-time: 62.3 person-years');
+  });
+
+  it('follow-ups say what a later run found, with the figures withheld alike', () => {
+    const eased = composeNotice({ ...facts, kind: 'eased' });
+    expect(eased.subject).toBe('Ratewarden: watch rule "Dermatitis rate above 20" follow-up, worsening withdrawn for Wet work');
+    expect(eased.text.split('\n')[0]).toMatch(/^Follow-up: a later run no longer supports the worsening reported earlier/);
+    const cleared = composeNotice({ ...facts, kind: 'cleared', value: 12.5, withholdFigures: { threshold: 5 } });
+    expect(cleared.subject).toContain('follow-up, no longer past the rule');
+    expect(cleared.text).toContain('no longer past its watch rule');
+    for (const figure of ['12.5', '64.2', 'Value:']) expect(cleared.text).not.toContain(figure);
+    const again = composeNotice({ ...facts, kind: 'crossed_again', value: null });
+    expect(again.subject).toContain('flag past the rule again');
+    expect(again.text).toContain('Value: not defined');
   });
 });

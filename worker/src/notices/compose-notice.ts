@@ -1,18 +1,31 @@
+import type { Completeness } from '@ratewarden/shared/periods';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 
+/**
+ * What a notice is about: a flag raised or worsened past its worst (threshold notices), or a
+ * follow-up when a later run withdraws a worsening (`eased`), finds the flag no longer past its
+ * rule (`cleared`), or past it again after that (`crossed_again`).
+ */
+export type NoticeKind = 'raised' | 'escalated' | 'eased' | 'cleared' | 'crossed_again';
+
 export interface NoticeFacts {
   flagId: string;
-  kind: 'raised' | 'escalated';
+  kind: NoticeKind;
   ruleName: string;
   measure: RuleMeasure;
   thresholdOn: ThresholdOn;
   threshold: number | null;
   window: WindowKind;
   period: string;
+  /** Whether the period was complete in the flag's scope when the run read it. */
+  completeness: Completeness;
   groupCode: string;
   groupName: string;
-  value: number;
+  /** The site whose own results the flag is about; null: the whole company. */
+  site: { code: string; name: string } | null;
+  /** The measure's value in this run; null when it is not defined (a cleared flag's may not be). */
+  value: number | null;
   estimate: number | null;
   lower: number | null;
   upper: number | null;
@@ -23,7 +36,7 @@ export interface NoticeFacts {
   appUrl: string;
   /**
    * The count is small and the recipient is not a physician: the count and every figure computed
-   * from it are left out (as the app withholds them), so the notice says only that the rule was crossed.
+   * from it are left out (as the app withholds them), so the notice says only what happened.
    */
   withholdFigures?: { threshold: number };
 }
@@ -33,6 +46,22 @@ const measureWords: Record<RuleMeasure, string> = {
   ird: 'incidence rate difference against the reference group',
   rate: 'incidence rate of the group',
   uchart: 'u-chart point against its upper control limit',
+};
+
+/** Subject words and the opening sentence of each kind. */
+const kindWords: Record<NoticeKind, { subject: string; opening: string }> = {
+  raised: { subject: 'raised a flag', opening: 'A watch rule in Ratewarden has been crossed.' },
+  escalated: { subject: 'flag worsened', opening: 'An open flag in Ratewarden has worsened past its watch rule.' },
+  eased: {
+    subject: 'follow-up, worsening withdrawn',
+    opening:
+      'Follow-up: a later run no longer supports the worsening reported earlier for this flag. Its value is back at or below its level before that worsening; the flag is still past its watch rule and stays open.',
+  },
+  cleared: {
+    subject: 'follow-up, no longer past the rule',
+    opening: 'Follow-up: a later run finds this flag no longer past its watch rule. The flag stays open until a person reviews and closes it.',
+  },
+  crossed_again: { subject: 'flag past the rule again', opening: 'An open flag that a run had found below its watch rule is past the rule again.' },
 };
 
 function num(x: number | null, digits = 2): string {
@@ -47,23 +76,36 @@ function unit(settings: RunSettings): string {
     : `per ${num(settings.per * 200_000, 0)} hours worked`;
 }
 
+/** "Dec 2031" for 2031-12-01. */
+function monthWords(period: string): string {
+  return new Date(`${period.slice(0, 7)}-01T00:00:00Z`).toLocaleString('en-GB', { month: 'short', year: 'numeric', timeZone: 'UTC' });
+}
+
+/** The period and its completeness as a notice states it, e.g. "12 months ending Dec 2031, complete". */
+export function periodText(window: WindowKind, period: string, completeness: Completeness): string {
+  const span = window === 'month' ? `month of ${monthWords(period)}` : `12 months ending ${monthWords(period)}`;
+  return completeness === 'complete' ? `${span}, complete` : `${span}, partial (a roster or case list of the period was not in when the run read it)`;
+}
+
 /**
- * The text of a threshold notice. By design it names the rule and the exposure group and gives
- * aggregate figures and a sign-in link only: no outcome or diagnosis, no worker identifier, no
- * case-level detail (those stay behind the physician's sign-in).
+ * The text of a threshold notice or a follow-up. By design it names the rule, the exposure group
+ * and the scope and gives aggregate figures of this run and a sign-in link only: no outcome or
+ * diagnosis, no worker identifier, no case-level detail, no figure of an earlier run (those stay
+ * behind the sign-in).
  */
 export function composeNotice(f: NoticeFacts): { subject: string; text: string } {
-  const verb = f.kind === 'raised' ? 'raised a flag' : 'flag worsened';
-  const subject = `Ratewarden: watch rule "${f.ruleName}" ${verb} for ${f.groupName}`;
+  const words = kindWords[f.kind];
+  const where = f.site ? ` at ${f.site.name}` : '';
+  const subject = `Ratewarden: watch rule "${f.ruleName}" ${words.subject} for ${f.groupName}${where}`;
   const pct = Math.round(f.settings.confidence * 100);
-  const periodWords = f.window === 'month' ? `month of ${f.period.slice(0, 7)}` : `12 months ending ${f.period.slice(0, 7)}`;
   const compared = f.measure === 'uchart' ? 'the u-chart point over its upper control limit' : f.thresholdOn === 'estimate' ? 'the estimate' : `the lower ${pct}% bound`;
   const lines = [
-    f.kind === 'raised' ? 'A watch rule in Ratewarden has been crossed.' : 'An open flag in Ratewarden has worsened past its watch rule.',
+    words.opening,
     '',
     `Watch rule: ${f.ruleName}`,
     `Exposure group: ${f.groupName} (${f.groupCode})`,
-    `Period: ${periodWords}`,
+    f.site ? `Site: ${f.site.name} (${f.site.code}), on this site's own results` : 'Scope: the whole company',
+    `Period: ${periodText(f.window, f.period, f.completeness)}`,
     `Measure: ${measureWords[f.measure]}; compared: ${compared}`,
     f.measure === 'uchart' ? 'Threshold: the upper control limit' : `Threshold: above ${num(f.threshold)}`,
     ...(f.withholdFigures

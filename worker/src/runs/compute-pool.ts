@@ -86,9 +86,18 @@ export type OnPart = (job: ComputeJob, answer: JobAnswer) => void;
  * threads: each idle thread takes the next job, costliest first, and `onPart` sees every answer
  * as it arrives; the result joins the answers in job order, so it does not depend on the number
  * of threads or their timing. On a single core everything runs on the calling thread.
+ * `ruleSites` (ruleSiteKey): the outcome × sites whose rows site-level watch rules read.
  */
-export async function computeAll(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, runId: string, onPart: OnPart = () => {}): Promise<MergedAnswers> {
-  const jobs = computeJobs(cells, outcomes);
+export async function computeAll(
+  cells: Cell[],
+  outcomes: OutcomeInfo[],
+  groups: GroupInfo[],
+  settings: RunSettings,
+  runId: string,
+  onPart: OnPart = () => {},
+  ruleSites: ReadonlySet<string> = new Set(),
+): Promise<MergedAnswers> {
+  const jobs = computeJobs(cells, outcomes, ruleSites);
   const parts: JobAnswer[] = new Array(jobs.length);
   if (COMPUTE_THREADS < 2) {
     jobs.forEach((j, i) => {

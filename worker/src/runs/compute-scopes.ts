@@ -8,15 +8,20 @@ export interface ComputeJob {
   siteId: number | null;
   outcome: OutcomeInfo;
   cells: Cell[];
+  /** A site job whose rows some site-level watch rule reads: they come back as objects too. */
+  forRules: boolean;
 }
+
+/** Key of an outcome × site that a site-level watch rule watches (see computeJobs). */
+export const ruleSiteKey = (outcomeId: number, siteId: number) => `${outcomeId}|${siteId}`;
 
 /**
  * Splits a run's cells into jobs: every outcome for the whole company and again for each site
  * alone, so that a person who may see only some sites is served results computed from those
  * sites' cells (never company figures). Jobs are independent, which lets them run on several
- * threads.
+ * threads. `ruleSites` (ruleSiteKey) names the outcome × site jobs site-level rules read.
  */
-export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[]): ComputeJob[] {
+export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[], ruleSites: ReadonlySet<string> = new Set()): ComputeJob[] {
   const byOutcome = new Map<number, Cell[]>();
   for (const c of cells) {
     const list = byOutcome.get(c.outcomeId);
@@ -27,27 +32,28 @@ export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[]): ComputeJob[
   for (const outcome of outcomes) {
     const own = byOutcome.get(outcome.id);
     if (!own) continue;
-    jobs.push({ siteId: null, outcome, cells: own });
+    jobs.push({ siteId: null, outcome, cells: own, forRules: false });
     const bySite = new Map<number, Cell[]>();
     for (const c of own) {
       const list = bySite.get(c.siteId);
       if (list) list.push(c);
       else bySite.set(c.siteId, [c]);
     }
-    for (const siteId of [...bySite.keys()].sort((a, b) => a - b)) jobs.push({ siteId, outcome, cells: bySite.get(siteId)! });
+    for (const siteId of [...bySite.keys()].sort((a, b) => a - b)) jobs.push({ siteId, outcome, cells: bySite.get(siteId)!, forRules: ruleSites.has(ruleSiteKey(outcome.id, siteId)) });
   }
   return jobs;
 }
 
 /**
  * A job's answer as the run needs it: every row as COPY text for run_results (made where it is
- * computed, so only one string crosses between threads), and as objects only the company rows
- * (the watch rules read them) with the trend tests.
+ * computed, so only one string crosses between threads), and as objects only the rows watch
+ * rules read (the company's, and the sites' that site-level rules watch) with the trend tests.
  */
 export interface JobAnswer {
   lines: string;
   resultCount: number;
   companyResults: ResultRow[];
+  siteRuleResults: ResultRow[];
   trends: TrendRow[];
   outcomesWithoutReference: number[];
 }
@@ -60,14 +66,17 @@ export function answerJob(job: ComputeJob, groups: GroupInfo[], settings: RunSet
     lines,
     resultCount: c.results.length,
     companyResults: job.siteId === null ? c.results : [],
+    siteRuleResults: job.siteId !== null && job.forRules ? c.results : [],
     trends: c.trends,
     outcomesWithoutReference: job.siteId === null ? c.outcomesWithoutReference : [],
   };
 }
 
 export interface MergedAnswers {
-  /** Company-wide rows (the watch rules' input). */
+  /** Company-wide rows (the company-wide watch rules' input). */
   companyResults: ResultRow[];
+  /** Rows of the outcome × sites that site-level watch rules watch. */
+  siteRuleResults: ResultRow[];
   /** Every row stored, company and sites. */
   resultCount: number;
   trends: TrendRow[];
@@ -76,9 +85,10 @@ export interface MergedAnswers {
 
 /** Joins the jobs' answers in job order. */
 export function mergeAnswers(answers: JobAnswer[]): MergedAnswers {
-  const merged: MergedAnswers = { companyResults: [], resultCount: 0, trends: [], outcomesWithoutReference: [] };
+  const merged: MergedAnswers = { companyResults: [], siteRuleResults: [], resultCount: 0, trends: [], outcomesWithoutReference: [] };
   for (const a of answers) {
     for (const r of a.companyResults) merged.companyResults.push(r);
+    for (const r of a.siteRuleResults) merged.siteRuleResults.push(r);
     for (const t of a.trends) merged.trends.push(t);
     merged.resultCount += a.resultCount;
     merged.outcomesWithoutReference.push(...a.outcomesWithoutReference);

@@ -6,9 +6,10 @@ import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
 import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import { disclosureFrame } from '../disclosure/disclosure-frame';
-import { frameIndex, frameKey, storeFrame } from '../disclosure/store-frame';
+import { storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
-import { evaluateRule, type RuleToEvaluate } from '../rules/evaluate-rules';
+import type { RuleToEvaluate } from '../rules/evaluate-rules';
+import { ruleSites, ruleVerdicts } from '../rules/rule-verdicts';
 import { applyAggregationSettings, loadCaseTotals, loadCells, loadUnattributed } from './cells-query';
 import { RUN_CODE_VERSION } from './code-version';
 import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
@@ -116,7 +117,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       // (one COPY each, on the transaction's connection), so storing overlaps computing.
       let writer: Awaited<ReturnType<typeof openResultWriter>> | null = null;
       const early: string[] = [];
-      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)));
+      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)), ruleSites(snapshot.rules));
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
       // The disclosure frame needs the cells only: decided here while the threads compute.
       const frame = disclosureFrame(snapshot.cells, threshold);
@@ -131,18 +132,14 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
       const t3 = performance.now();
       resultCount = computed.resultCount;
-      // Watch rules look at the whole company (the per-site rows serve people who see some sites
-      // only), at the counts everyone who reads flags may see: a flag raised on a withheld count, or
-      // on a comparison with one, would tell them which side of the threshold it lies.
-      const withheld = frameIndex(frame);
-      const shown = (groupId: number | null, r: (typeof computed.companyResults)[number]) =>
-        groupId === null || !withheld.has(frameKey(null, r.outcome_id, groupId, r.window_kind, r.period));
-      // Rules look at complete periods only (shared/src/periods.ts), unless told otherwise: a roster
-      // in before its case list is a month of person-time without its cases.
-      const complete = (r: (typeof computed.companyResults)[number]) =>
-        options.rulesOnPartialPeriods === true || snapshot.periods.windowComplete(r.window_kind, r.period, r.site_id === null ? null : [r.site_id]);
-      const companyResults = computed.companyResults.filter((r) => complete(r) && shown(r.exposure_group_id, r) && (r.is_reference || shown(r.reference_group_id, r)));
-      const verdicts = snapshot.rules.flatMap((r) => evaluateRule({ ...r, minCases: Math.max(r.minCases, threshold) }, companyResults));
+      // Watch rules: company-wide ones on the company's rows, site rules on their sites' own rows;
+      // complete periods and counts shown to readers of flags only (rule-verdicts.ts).
+      const verdicts = ruleVerdicts(snapshot.rules, [...computed.companyResults, ...computed.siteRuleResults], {
+        frame,
+        periods: snapshot.periods,
+        rulesOnPartialPeriods: options.rulesOnPartialPeriods === true,
+        threshold,
+      });
       const summary = {
         cells: snapshot.cells.length,
         results: computed.companyResults.length,
@@ -213,6 +210,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
       id: r.id as string,
       outcomeId: r.outcome_id as number,
       exposureGroupId: r.exposure_group_id as number | null,
+      siteIds: (r.site_ids as number[] | null) ?? null,
       measure: r.measure as RuleToEvaluate['measure'],
       thresholdOn: r.threshold_on as RuleToEvaluate['thresholdOn'],
       threshold: r.threshold as number | null,

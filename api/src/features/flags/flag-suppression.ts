@@ -31,24 +31,27 @@ function withoutEventValues<T extends Flag | FlagDetail>(flag: T): T {
 }
 
 /**
- * Flags as their reader may see them. The physician sees every figure. For anyone else a flag's
- * figures are the company's count and measures of its latest run, shown only when that run is
- * the current one and the current run's disclosure frame shows the count (rules are evaluated on
- * shown counts only, so a flag the current run raised or updated normally is): a flag left from
- * an earlier run keeps its figures for the physician ('earlier'), and a reader who sees only some
- * sites gets no company figures ('complement': they would give back the other sites' part of it).
- * The rule, the group, the period, the person-time and the decisions stay.
+ * Flags as their reader may see them (the reader's flags only: flags-service.ts FlagScope). The
+ * physician sees every figure. For anyone else a flag's figures are the count and measures of
+ * its scope (the company's, or its site's own) in its latest run, shown only when that run is
+ * the current one and the current run's disclosure frame shows the count in that scope (rules are
+ * evaluated on shown counts only, so a flag the current run raised or updated normally is): a
+ * flag left from an earlier run keeps its figures for the physician ('earlier'), and company
+ * figures never reach a reader who sees only some sites ('complement': they would give back the
+ * other sites' part; such readers are not given company flags at all). The rule, the group, the
+ * site, the period, the person-time and the decisions stay.
  */
 export async function flagsAsSeenBy<T extends Flag | FlagDetail>(ds: DataSource, flags: T[], reader: FlagReader): Promise<T[]> {
   const shown = (f: T) => ({ ...f, figures: { ...f.figures, suppressed: false, withheld: null } });
   if (seesEveryCount(reader.principal)) return flags.map(shown);
-  if (!(await readsEverySite(ds, reader.principal))) return flags.map((f) => withheldFlag(f, 'complement'));
+  const everySite = await readsEverySite(ds, reader.principal);
   const [current]: Array<{ run_id: string }> = await ds.query(`SELECT run_id FROM current_run`);
   let frame: RunFrame | null | undefined;
   if (current && flags.some((f) => f.figures.runId === current.run_id)) frame = await runFrame(ds, current.run_id, reader.principal).catch(() => undefined);
   return flags.map((f) => {
+    if (f.siteId === null && !everySite) return withheldFlag(f, 'complement');
     if (!current || f.figures.runId !== current.run_id || frame === undefined) return withheldFlag(f, 'earlier');
-    const why = withheldIn(frame, null, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period);
+    const why = withheldIn(frame, f.siteId, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period);
     const small = f.figures.cases !== null && f.figures.cases > 0 && f.figures.cases < reader.smallCellThreshold;
     if (why || small) return withheldFlag(f, why ?? 'small');
     // The worst value so far may come from an earlier run: the physician's, like the history's values.

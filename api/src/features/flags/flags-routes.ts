@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { flagCloseInputSchema, flagListQuerySchema, flagReviewInputSchema } from '@ratewarden/shared/flags';
 import { authorize } from '../../auth/authorize';
 import { flagsAsSeenBy } from './flag-suppression';
-import { closeFlag, flagCases, getFlag, listFlags, startReview } from './flags-service';
+import { closeFlag, flagCases, flagScopeOf, getFlag, listFlags, startReview } from './flags-service';
 
 export interface FlagsRouterDeps {
   dataSource: DataSource;
@@ -18,11 +18,12 @@ const flagId = z.string().uuid();
 export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterDeps): Router {
   const router = Router();
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
+  // A person sees the flags of their sites, and the company's only with every site (FlagScope).
   router.get('/', authorize('flags:read'), async (req, res) => {
-    res.json(await flagsAsSeenBy(ds, await listFlags(ds, flagListQuerySchema.parse(req.query)), reader(req)));
+    res.json(await flagsAsSeenBy(ds, await listFlags(ds, flagListQuerySchema.parse(req.query), await flagScopeOf(ds, req.principal!)), reader(req)));
   });
   router.get('/:id', authorize('flags:read'), async (req, res) => {
-    res.json((await flagsAsSeenBy(ds, [await getFlag(ds, flagId.parse(req.params.id))], reader(req)))[0]);
+    res.json((await flagsAsSeenBy(ds, [await getFlag(ds, flagId.parse(req.params.id), await flagScopeOf(ds, req.principal!))], reader(req)))[0]);
   });
   router.post('/:id/review', authorize('flags:review'), async (req, res) => {
     res.json((await flagsAsSeenBy(ds, [await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip)], reader(req)))[0]);

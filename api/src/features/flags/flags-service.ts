@@ -1,15 +1,35 @@
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
 import { recordAudit } from '../../audit/audit-log';
 import { siteScope } from '../../auth/authorize';
+import { readsEverySite } from '../../disclosure/run-frame';
 import { AppError } from '../../lib/app-error';
 
 type Row = Record<string, any>;
 const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
 
-const flagSelect = `SELECT f.*, to_char(f.period, 'YYYY-MM-DD') AS period_iso, r.name AS rule_name, g.name AS group_name
-  FROM flags f JOIN watch_rules r ON r.id = f.rule_id JOIN exposure_groups g ON g.id = f.exposure_group_id`;
+const flagSelect = `SELECT f.*, to_char(f.period, 'YYYY-MM-DD') AS period_iso, r.name AS rule_name, g.name AS group_name, s.name AS site_name
+  FROM flags f JOIN watch_rules r ON r.id = f.rule_id JOIN exposure_groups g ON g.id = f.exposure_group_id LEFT JOIN sites s ON s.id = f.site_id`;
+
+/**
+ * Which flags a person may see: a site's flags with access to that site, the company's only with
+ * access to every site (their figures hold every site's workers). Applied in SQL on every read
+ * and before every decision, as `($sites::int[] IS NULL OR …)`: `sites` null means every site.
+ */
+export interface FlagScope {
+  sites: number[] | null;
+  company: boolean;
+}
+export const everyFlag: FlagScope = { sites: null, company: true };
+
+export async function flagScopeOf(ds: DataSource | EntityManager, principal: Principal): Promise<FlagScope> {
+  const scope = siteScope(principal);
+  return { sites: scope === 'all' ? null : scope, company: await readsEverySite(ds, principal) };
+}
+
+/** The SQL condition of a FlagScope on flags `f`, its two parameters at $n and $n+1. */
+const visible = (n: number) => `((f.site_id IS NULL AND $${n + 1}::boolean) OR (f.site_id IS NOT NULL AND ($${n}::int[] IS NULL OR f.site_id = ANY($${n}::int[]))))`;
 
 function flagOf(r: Row): Flag {
   return {
@@ -19,6 +39,8 @@ function flagOf(r: Row): Flag {
     outcomeId: r.outcome_id,
     exposureGroupId: r.exposure_group_id,
     exposureGroupName: r.group_name,
+    siteId: r.site_id,
+    siteName: r.site_name,
     state: r.state,
     closeReason: r.close_reason,
     closeComment: r.close_comment,
@@ -33,17 +55,18 @@ function flagOf(r: Row): Flag {
   };
 }
 
-export async function listFlags(ds: DataSource, q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number }): Promise<Flag[]> {
+export async function listFlags(ds: DataSource, q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number }, scope: FlagScope = everyFlag): Promise<Flag[]> {
   const rows: Row[] = await ds.query(
-    `${flagSelect} WHERE ($1::text IS NULL OR f.state = $1) AND ($2::int IS NULL OR f.outcome_id = $2) AND ($3::int IS NULL OR f.exposure_group_id = $3)
+    `${flagSelect} WHERE ($1::text IS NULL OR f.state = $1) AND ($2::int IS NULL OR f.outcome_id = $2) AND ($3::int IS NULL OR f.exposure_group_id = $3) AND ${visible(4)}
      ORDER BY (f.state = 'closed'), f.raised_at DESC LIMIT 500`,
-    [q.state ?? null, q.outcomeId ?? null, q.exposureGroupId ?? null],
+    [q.state ?? null, q.outcomeId ?? null, q.exposureGroupId ?? null, scope.sites, scope.company],
   );
   return rows.map(flagOf);
 }
 
-export async function getFlag(ds: DataSource, id: string): Promise<FlagDetail> {
-  const rows: Row[] = await ds.query(`${flagSelect} WHERE f.id = $1`, [id]);
+/** One flag with its history and notices; a flag outside the reader's scope is "no such flag". */
+export async function getFlag(ds: DataSource, id: string, scope: FlagScope = everyFlag): Promise<FlagDetail> {
+  const rows: Row[] = await ds.query(`${flagSelect} WHERE f.id = $1 AND ${visible(2)}`, [id, scope.sites, scope.company]);
   if (!rows[0]) throw new AppError('not_found', 'no such flag');
   const events: Row[] = await ds.query(`SELECT id::text, at, kind, actor_id, run_id, detail FROM flag_events WHERE flag_id = $1 ORDER BY at, id`, [id]);
   const notices: Row[] = await ds.query(`SELECT id, recipient, state, attempts, last_error, created_at, sent_at FROM notices WHERE flag_id = $1 ORDER BY created_at, recipient`, [id]);
@@ -56,23 +79,30 @@ export async function getFlag(ds: DataSource, id: string): Promise<FlagDetail> {
 
 const actorId = (p: Principal) => (p.kind === 'user' ? p.id : null);
 
+/** A flag's state, locked for a decision, when the person may see the flag. */
+async function lockVisible(em: EntityManager, principal: Principal, id: string): Promise<Row | undefined> {
+  const scope = await flagScopeOf(em, principal);
+  const [f]: Row[] = await em.query(`SELECT f.state FROM flags f WHERE f.id = $1 AND ${visible(2)} FOR UPDATE`, [id, scope.sites, scope.company]);
+  return f;
+}
+
 /** raised → in review. */
 export async function startReview(ds: DataSource, principal: Principal, id: string, comment: string | undefined, ip?: string): Promise<FlagDetail> {
   await ds.transaction(async (em) => {
-    const [f]: Row[] = await em.query(`SELECT state FROM flags WHERE id = $1 FOR UPDATE`, [id]);
+    const f = await lockVisible(em, principal, id);
     if (!f) throw new AppError('not_found', 'no such flag');
     if (f.state !== 'raised') throw new AppError('conflict', `the flag is ${f.state.replace('_', ' ')}, not raised`);
     await em.query(`UPDATE flags SET state = 'in_review', updated_at = now() WHERE id = $1`, [id]);
     await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'review_started', $2, $3)`, [id, actorId(principal), JSON.stringify({ comment: comment ?? null })]);
     await recordAudit(em, { actor: principal, action: 'flag.review', target: `flag:${id}`, detail: { comment: comment ?? null }, ip });
   });
-  return getFlag(ds, id);
+  return getFlag(ds, id, await flagScopeOf(ds, principal));
 }
 
 /** raised or in review → closed, with a reason and a comment. */
 export async function closeFlag(ds: DataSource, principal: Principal, id: string, input: FlagCloseInput, ip?: string): Promise<FlagDetail> {
   await ds.transaction(async (em) => {
-    const [f]: Row[] = await em.query(`SELECT state FROM flags WHERE id = $1 FOR UPDATE`, [id]);
+    const f = await lockVisible(em, principal, id);
     if (!f) throw new AppError('not_found', 'no such flag');
     if (f.state === 'closed') throw new AppError('conflict', 'the flag is already closed');
     await em.query(
@@ -82,20 +112,21 @@ export async function closeFlag(ds: DataSource, principal: Principal, id: string
     await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'closed', $2, $3)`, [id, actorId(principal), JSON.stringify(input)]);
     await recordAudit(em, { actor: principal, action: 'flag.close', target: `flag:${id}`, detail: { ...input, from: f.state }, ip });
   });
-  return getFlag(ds, id);
+  return getFlag(ds, id, await flagScopeOf(ds, principal));
 }
 
 /**
- * The cases counted in a flag's group and window, as the run counted them (same counted
- * statuses, lag and first-event rule; attributed to the worker's roster row of the onset month
- * minus the lag). Case-level data: the route lets only the physician in, within their sites, and
- * every read is audited.
+ * The cases counted in a flag's group, window and scope (a site flag: that site's), as the run
+ * counted them (same counted statuses, lag and first-event rule; attributed to the worker's
+ * roster row of the onset month minus the lag). Case-level data: the route lets only the
+ * physician in, for flags they may see and within their sites, and every read is audited.
  */
 export async function flagCases(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<FlagCase[]> {
+  const visibleTo = await flagScopeOf(ds, principal);
   const [f]: Row[] = await ds.query(
-    `SELECT f.outcome_id, f.exposure_group_id, f.period, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
-     FROM flags f JOIN runs r ON r.id = f.last_run_id WHERE f.id = $1`,
-    [id],
+    `SELECT f.outcome_id, f.exposure_group_id, f.site_id, f.period, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
+     FROM flags f JOIN runs r ON r.id = f.last_run_id WHERE f.id = $1 AND ${visible(2)}`,
+    [id, visibleTo.sites, visibleTo.company],
   );
   if (!f) throw new AppError('not_found', 'no such flag');
   const months = f.window_kind === 'rolling12' ? 12 : 1;
@@ -115,12 +146,13 @@ export async function flagCases(ds: DataSource, principal: Principal, id: string
        AND a.exposure_group_id = $3
        AND date_trunc('month', c.onset_date) BETWEEN ($4::date - make_interval(months => $5 - 1)) AND $4::date
        AND ($6::int[] IS NULL OR a.site_id = ANY($6::int[]))
+       AND ($7::int IS NULL OR a.site_id = $7)
        AND (o.counting_rule = 'recurrent' OR NOT EXISTS (
          SELECT 1 FROM case_events e WHERE e.superseded_by IS NULL AND e.worker_id = c.worker_id AND e.outcome_id = c.outcome_id
            AND e.status = ANY(ARRAY(SELECT jsonb_array_elements_text($2::jsonb)))
            AND date_trunc('month', e.onset_date) < date_trunc('month', c.onset_date)))
      ORDER BY c.onset_date, c.case_ref`,
-    [f.outcome_id, JSON.stringify(f.statuses), f.exposure_group_id, f.period, months, scope === 'all' ? null : scope],
+    [f.outcome_id, JSON.stringify(f.statuses), f.exposure_group_id, f.period, months, scope === 'all' ? null : scope, f.site_id],
   );
   // No count in the entry: the administrator reads the audit log and may not see how many cases a flag has.
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: `flag:${id}`, ip });
