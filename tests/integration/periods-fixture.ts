@@ -44,10 +44,11 @@ export async function monthCohort(ds: DataSource, app: Express, opts: { historyM
   const codes = { north: `N${tag}`, south: `S${tag}`, ref: `REF${tag}`, exp: `EXP${tag}`, outcome: `NOISE${tag}` };
   const [north, south] = ((await ds.query(`INSERT INTO sites (code, name) VALUES ($1, $2), ($3, $4) RETURNING id`, [codes.north, `North ${tag}`, codes.south, `South ${tag}`])) as Array<{ id: number }>).map((s) => s.id);
   const [ref, exp] = ((await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Reference', 'none', 0), ($2, 'Exposed', 'noise', 1) RETURNING id`, [codes.ref, codes.exp])) as Array<{ id: number }>).map((g) => g.id);
-  const [{ id: outcome }] = (await ds.query(
+  const [row] = (await ds.query(
     `INSERT INTO outcomes (code, name, case_definition, counting_rule, reference_group_id) VALUES ($1, 'Hearing loss', 'test', 'recurrent', $2) RETURNING id`,
     [codes.outcome, ref],
   )) as Array<{ id: number }>;
+  const outcome = row!.id;
   // The hygienist reads every site, so company figures and company-wide rules are theirs.
   await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', await allSiteIds(ds));
   const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
