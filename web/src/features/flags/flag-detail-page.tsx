@@ -38,13 +38,14 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
     ['Person-time', `${formatAmount(f.personTime)} ${f.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 h'}`, f.personTime],
     ['p', hidden ? '—' : formatP(f.p), hidden ? null : f.p],
     ['q (false discovery rate)', hidden ? '—' : formatP(f.q), hidden ? null : f.q],
-    ['Period', `${f.window === 'rolling12' ? 'twelve months ending ' : ''}${formatMonth(f.period)}`, f.period],
+    ['Site', flag.siteName ? `${flag.siteName} (its own results)` : 'Whole company', flag.siteName ?? 'whole company'],
+    ['Period', `${f.window === 'rolling12' ? 'twelve months ending ' : ''}${formatMonth(f.period)}${f.completeness === 'complete' ? ', complete' : f.completeness === 'partial' ? ', partial (a roster or case list was not in when the run read it)' : ''}`, f.period],
   ];
   return (
     <section>
       <p className="text-sm"><Link className="text-moss underline" to={paths.flags}>← All flags</Link></p>
       <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
-        {flag.exposureGroupName}: {outcome?.name ?? `outcome ${flag.outcomeId}`}
+        {flag.exposureGroupName}: {outcome?.name ?? `outcome ${flag.outcomeId}`}{flag.siteName ? ` at ${flag.siteName}` : ''}
         <StateTag {...flagStateLabels[flag.state]} />
       </h1>
       <p className="mt-2 text-ink-soft">

@@ -25,7 +25,9 @@ export const eventLabels: Record<FlagEventKind, string> = {
   raised: 'Raised by a run',
   updated: 'Figures updated by a run',
   escalated: 'Escalated by a run',
+  eased: 'Worsening withdrawn by a run',
   cleared: 'No longer past the rule',
+  crossed_again: 'Past the rule again',
   review_started: 'Review started',
   closed: 'Closed',
 };

@@ -16,6 +16,7 @@ const col = createColumnHelper<Flag & { outcomeName: string }>();
 const columns = [
   col.accessor('exposureGroupName', { header: 'Exposure group', cell: (c) => <Link className="font-medium text-moss underline" to={paths.flag(c.row.original.id)}>{c.getValue()}</Link> }),
   col.accessor('outcomeName', { header: 'Outcome' }),
+  col.accessor((f) => f.siteName ?? 'Whole company', { id: 'site', header: 'Site' }),
   col.accessor('ruleName', { header: 'Watch rule' }),
   col.accessor('state', { header: 'State', cell: (c) => <StateTag {...flagStateLabels[c.getValue()]} />, meta: { csv: (f) => flagStateLabels[f.state].text } }),
   col.accessor('period', { header: 'Period', cell: (c) => `${c.row.original.figures.window === 'rolling12' ? '12 months to ' : ''}${formatMonth(c.getValue())}` }),
@@ -44,7 +45,7 @@ export function FlagsPage() {
     <section>
       <h1 className="text-3xl font-bold tracking-tight">Flags</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        A run raises a flag when a watch rule's threshold is crossed. The safety manager reviews each one and closes it with a reason.
+        A run raises a flag when a watch rule's threshold is crossed, on the whole company's results or on one site's own. The safety manager reviews each one and closes it with a reason. You see the flags of your sites, and the company's when you have every site.
       </p>
       <form aria-label="Filter the flags" className="no-print mt-5 flex flex-wrap items-end gap-4 border border-rule bg-panel p-3" onSubmit={(e) => e.preventDefault()}>
         <SelectField

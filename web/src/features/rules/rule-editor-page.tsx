@@ -1,5 +1,5 @@
 import { roleMay } from '@ratewarden/shared/permissions';
-import { ruleMeasureSchema, thresholdOnSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput } from '@ratewarden/shared/rules';
+import { fdrFamilySentence, ruleMeasureSchema, thresholdOnSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput } from '@ratewarden/shared/rules';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router';
@@ -11,10 +11,12 @@ import { paths } from '../../config/paths';
 import { smallCellThreshold } from '../../lib/small-cells';
 import { useGroups } from '../../api/get-groups';
 import { useOutcomes } from '../../api/get-outcomes';
+import { useSites } from '../../api/get-sites';
 import { useDeleteRule, useSaveRule } from './api/save-rule';
 import { describeRule } from './describe-rule';
+import { RuleScopeField, type RuleScope } from './rule-scope-field';
 
-interface Draft {
+interface Draft extends RuleScope {
   name: string;
   outcomeId: string;
   exposureGroupId: string;
@@ -33,11 +35,14 @@ interface Draft {
 
 const measureOptions = { irr: 'Rate ratio (IRR) against the reference', ird: 'Rate difference (IRD) against the reference', rate: "The group's own rate", uchart: 'u-chart: a month above the upper limit' } as const;
 
-function draftOf(r: WatchRule | null, outcomeId: number | undefined): Draft {
+/** A new rule watches the company for a reader of every site, else every site of the person's. */
+function draftOf(r: WatchRule | null, outcomeId: number | undefined, everySite: boolean, mySiteIds: number[]): Draft {
   return {
     name: r?.name ?? '',
     outcomeId: String(r?.outcomeId ?? outcomeId ?? ''),
     exposureGroupId: r?.exposureGroupId ? String(r.exposureGroupId) : '',
+    scope: r ? (r.siteIds === null ? 'company' : 'sites') : everySite ? 'company' : 'sites',
+    siteIds: r ? (r.siteIds ?? []) : everySite ? [] : [...mySiteIds],
     measure: r?.measure ?? 'irr',
     thresholdOn: r?.thresholdOn ?? 'lower_bound',
     threshold: r?.threshold === null || r?.threshold === undefined ? (r ? '' : '1') : String(r.threshold),
@@ -59,6 +64,7 @@ function inputOf(d: Draft): unknown {
     name: d.name,
     outcomeId: Number(d.outcomeId),
     exposureGroupId: d.exposureGroupId ? Number(d.exposureGroupId) : null,
+    siteIds: d.scope === 'company' ? null : d.siteIds,
     measure: d.measure,
     thresholdOn: d.thresholdOn,
     threshold: d.measure === 'uchart' ? null : numOrNull(d.threshold),
@@ -77,12 +83,16 @@ function inputOf(d: Draft): unknown {
 export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: SessionUser }) {
   const { data: outcomes } = useOutcomes();
   const { data: groups } = useGroups();
-  const [d, setD] = useState<Draft>(() => draftOf(rule, outcomes[0]?.id));
+  const { data: sites } = useSites();
+  const everySite = sites.every((s) => user.siteIds.includes(s.id));
+  const [d, setD] = useState<Draft>(() => draftOf(rule, outcomes[0]?.id, everySite, user.siteIds));
   const [errors, setErrors] = useState<Record<string, string>>({});
   const save = useSaveRule();
   const remove = useDeleteRule();
   const navigate = useNavigate();
-  const canWrite = roleMay(user.role, 'rules:write');
+  // The server's rule: a company-wide rule is written by readers of every site, a site rule by people with each of its sites.
+  const mayScope = rule === null || (rule.siteIds === null ? everySite : rule.siteIds.every((id) => user.siteIds.includes(id)));
+  const canWrite = roleMay(user.role, 'rules:write') && mayScope;
   const set = <K extends keyof Draft>(k: K, v: Draft[K]) => setD((x) => ({ ...x, [k]: v }));
   // The server's threshold (from the session): a rule may not select on counts that are withheld.
   const parsed = watchRuleSchemas(smallCellThreshold()).input.safeParse(inputOf(d));
@@ -105,7 +115,8 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
       <h1 className="mt-2 text-3xl font-bold tracking-tight">{rule ? rule.name : 'New watch rule'}</h1>
       {parsed.success && (
         <p className="mt-2 border-l-4 border-moss bg-panel px-3 py-2" aria-live="polite">
-          Raises a flag for {d.exposureGroupId ? groups.find((g) => String(g.id) === d.exposureGroupId)?.name : 'any group but the reference'} when {describeRule(parsed.data)}.
+          Raises a flag for {d.exposureGroupId ? groups.find((g) => String(g.id) === d.exposureGroupId)?.name : 'any group but the reference'}
+          {d.scope === 'company' ? ' in the whole company' : ` at ${d.siteIds.length === 1 ? 'a site' : 'any chosen site'}, on that site's own results,`} when {describeRule(parsed.data)}.
         </p>
       )}
       {save.isError && <div className="mt-3"><ProblemNotice title="The rule was not saved" problem={problemOf(save.error).problem} /></div>}
@@ -119,6 +130,7 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
             onChange={(e) => set('exposureGroupId', e.target.value)}
             options={[{ value: '', label: 'Every group but the reference' }, ...groups.filter((g) => !g.isReference).map((g) => ({ value: String(g.id), label: g.name }))]}
           />
+          <RuleScopeField value={d} onChange={(v) => setD((x) => ({ ...x, ...v }))} sites={sites} mySiteIds={user.siteIds} error={errors.siteIds} />
           <SelectField label="Measure" value={d.measure} onChange={(e) => set('measure', e.target.value as Draft['measure'])} options={ruleMeasureSchema.options.map((m) => ({ value: m, label: measureOptions[m] }))} />
           {d.measure !== 'uchart' && (
             <>
@@ -137,6 +149,7 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
                 <span className="text-sm font-medium">Control the false discovery rate across groups (Benjamini–Hochberg)</span>
               </label>
               <TextField label="False discovery rate" inputMode="decimal" value={d.fdrLevel} onChange={(e) => set('fdrLevel', e.target.value)} error={errors.fdrLevel} disabled={!d.fdrControl} />
+              <p className="text-sm text-ink-soft sm:col-span-2">{fdrFamilySentence(d.scope === 'company' ? null : d.siteIds)}</p>
             </>
           )}
           <div className="sm:col-span-2">
@@ -170,7 +183,10 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
         </fieldset>
       </form>
       {remove.isError && <div className="mt-3"><ProblemNotice title="The rule was not deleted" problem={problemOf(remove.error).problem} /></div>}
-      {!canWrite && <p className="mt-3 text-sm text-ink-soft">Your role may read watch rules; the hygienist and the safety manager change them.</p>}
+      {!roleMay(user.role, 'rules:write') && <p className="mt-3 text-sm text-ink-soft">Your role may read watch rules; the hygienist and the safety manager change them.</p>}
+      {roleMay(user.role, 'rules:write') && !mayScope && (
+        <p className="mt-3 text-sm text-ink-soft">This rule watches {rule?.siteIds === null ? 'the whole company' : 'sites'} beyond your access; a person with access to {rule?.siteIds === null ? 'every site' : 'each of its sites'} changes it.</p>
+      )}
     </section>
   );
 }
