@@ -53,6 +53,7 @@ export async function readSitePeriods(db: DataSource | EntityManager, opts: { th
     siteId: r.site_id,
     month: r.month,
     state: periodStateOf(r),
+    roster: r.roster,
     correctedAfterClose: r.corrected === true,
     closedAt: r.closed_at ? r.closed_at.toISOString() : null,
     closedBy: r.closed_by,

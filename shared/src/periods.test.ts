@@ -61,4 +61,21 @@ describe('latest complete month', () => {
     expect(b.latestComplete([2])).toBe('2025-06-01');
     expect(book([[1, '2025-01-01', 'hours_in']]).latestComplete()).toBeNull();
   });
+
+  it('does not expect a site whose only month in the last year was closed without a roster', () => {
+    const b = new PeriodBook([
+      { siteId: 1, month: '2025-03-01', state: 'ready', roster: true },
+      { siteId: 2, month: '2025-02-01', state: 'closed', roster: false },
+      { siteId: 2, month: '2025-03-01', state: 'awaiting', roster: false },
+    ]);
+    expect(b.expectedSites('2025-03-01')).toEqual([1]);
+    expect(b.monthComplete('2025-03-01')).toBe(true);
+    // A closed month with its roster keeps its site expected.
+    const c = new PeriodBook([
+      { siteId: 1, month: '2025-03-01', state: 'ready', roster: true },
+      { siteId: 2, month: '2025-02-01', state: 'closed', roster: true },
+      { siteId: 2, month: '2025-03-01', state: 'awaiting', roster: false },
+    ]);
+    expect(c.monthComplete('2025-03-01')).toBe(false);
+  });
 });

@@ -33,8 +33,12 @@ export const periodStateLabels: Record<PeriodState, string> = {
   closed: 'Closed',
 };
 
-/** The roster of the month is in (a month can be closed without one only when the site did not work it). */
-export function hasRoster(state: PeriodState): boolean {
+/**
+ * Whether the month's roster is in, from the state alone: a closed month may have none (the site
+ * did not work it and the hygienist closed it anyway), so a closed month says so with `roster`.
+ */
+export function hasRoster(state: PeriodState, roster?: boolean | null): boolean {
+  if (roster !== undefined && roster !== null) return roster;
   return state === 'hours_in' || state === 'ready' || state === 'closed';
 }
 
@@ -57,6 +61,8 @@ export const sitePeriodSchema = z.object({
   /** First day of the month, YYYY-MM-DD. */
   month: z.string(),
   state: periodStateSchema,
+  /** The month's roster is in (a closed month may have none). */
+  roster: z.boolean(),
   /** Received after the month was closed (a correction). */
   correctedAfterClose: z.boolean(),
   closedAt: z.string().nullable(),
@@ -89,10 +95,16 @@ export function windowMonths(windowKind: 'month' | 'rolling12', period: string):
  */
 export class PeriodBook {
   private readonly bySiteMonth = new Map<string, PeriodState>();
+  private readonly rostered = new Set<string>();
   private readonly sites: number[];
 
-  constructor(states: Pick<SitePeriod, 'siteId' | 'month' | 'state'>[]) {
-    for (const s of states) this.bySiteMonth.set(`${s.siteId}|${s.month}`, s.state);
+  /** `roster` may be left out (runs stored before it was recorded): then the state alone decides. */
+  constructor(states: Array<Pick<SitePeriod, 'siteId' | 'month' | 'state'> & { roster?: boolean | null }>) {
+    for (const s of states) {
+      const key = `${s.siteId}|${s.month}`;
+      this.bySiteMonth.set(key, s.state);
+      if (hasRoster(s.state, s.roster)) this.rostered.add(key);
+    }
     this.sites = [...new Set(states.map((s) => s.siteId))].sort((a, b) => a - b);
   }
 
@@ -105,7 +117,7 @@ export class PeriodBook {
    * list alone does not make a site active: a company-wide list names every site).
    */
   expectedSites(month: string, among: readonly number[] = this.sites): number[] {
-    return among.filter((s) => windowMonths('rolling12', month).some((m) => hasRoster(this.stateOf(s, m))));
+    return among.filter((s) => windowMonths('rolling12', month).some((m) => this.rostered.has(`${s}|${m}`)));
   }
 
   /** A month of a scope (null: the company; else these sites) is complete when each expected site's month is. */

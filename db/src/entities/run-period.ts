@@ -7,6 +7,8 @@ export interface RunPeriod {
   siteId: number;
   month: string;
   state: PeriodState;
+  /** The month's roster was in (null for runs stored before it was recorded). */
+  roster: boolean | null;
 }
 
 export const RunPeriodEntity = new EntitySchema<RunPeriod>({
@@ -17,5 +19,6 @@ export const RunPeriodEntity = new EntitySchema<RunPeriod>({
     siteId: { name: 'site_id', type: 'integer', primary: true },
     month: { type: 'date', primary: true },
     state: { type: 'text' },
+    roster: { type: 'boolean', nullable: true },
   },
 });

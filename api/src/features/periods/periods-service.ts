@@ -17,7 +17,7 @@ const scopeIds = (p: Principal): number[] | null => {
   return scope === 'all' ? null : scope;
 };
 
-const awaiting = (siteId: number, month: string): SitePeriod => ({ siteId, month, state: 'awaiting', correctedAfterClose: false, closedAt: null, closedBy: null });
+const awaiting = (siteId: number, month: string): SitePeriod => ({ siteId, month, state: 'awaiting', roster: false, correctedAfterClose: false, closedAt: null, closedBy: null });
 
 /**
  * The calendar of the reader's sites × months: every cell's state (shared/src/periods.ts decides

@@ -12,11 +12,11 @@ import { readsEverySite } from '../../disclosure/run-frame';
  * recorded has none, and all its periods read as partial (not known to be complete).
  */
 export async function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
-  const rows: Array<{ site_id: number; month: string; state: PeriodState }> = await ds.query(
-    `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state FROM run_periods WHERE run_id = $1`,
+  const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null }> = await ds.query(
+    `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster FROM run_periods WHERE run_id = $1`,
     [runId],
   );
-  return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state })));
+  return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster })));
 }
 
 /** Completeness of a result row (company-wide when `siteId` is null), remembered per window × period × scope. */
