@@ -231,4 +231,26 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     const states = (await ds.query(`SELECT DISTINCT state FROM notices WHERE flag_id = $1`, [siteFlagId])) as Array<{ state: string }>;
     expect(states).toEqual([{ state: 'sent' }]);
   });
+
+  it('a roster without its case list: rules read the latest complete period, or with the partial setting say "partial"', async () => {
+    const [one] = c.sites as [number, number];
+    // January 2032's roster at site one, with no case list reporting it: that month is partial.
+    await c.roster([...exp, ...ref].map((w) => [w, '2032-01-01', one, exp.includes(w) ? c.groups.EXP! : c.groups.REF!, 160] as [number, string, number, number, number]));
+    await ds.query(`UPDATE intakes SET reports_through = '2031-12-01' WHERE id = $1`, [c.casesIntake]);
+    const rateRule = (name: string) => write(as.twoSites, '/api/rules', { name, outcomeId: c.outcomes.SKIN, siteIds: [one], measure: 'rate', thresholdOn: 'estimate', threshold: 1, window: 'rolling12', fdrControl: false });
+    const complete = watchRuleSchema.parse((await rateRule('Skin rate, site one').expect(201)).body);
+    await run();
+    const [onComplete] = (await ds.query(`SELECT id, to_char(period, 'YYYY-MM') AS period FROM flags WHERE rule_id = $1`, [complete.id])) as Array<{ id: string; period: string }>;
+    expect(onComplete!.period).toBe('2031-12');
+    for (const n of await noticesOf(onComplete!.id, 'raised')) expect(n.body).toContain('Period: 12 months ending Dec 2031, complete');
+
+    const partial = watchRuleSchema.parse((await rateRule('Skin rate, site one, partial periods too').expect(201)).body);
+    const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', rulesOnPartialPeriods: true });
+    expect(o.status).toBe('succeeded');
+    const [onPartial] = (await ds.query(`SELECT id, to_char(period, 'YYYY-MM') AS period, detail->>'completeness' AS completeness FROM flags WHERE rule_id = $1`, [partial.id])) as Array<{ id: string; period: string; completeness: string }>;
+    expect(onPartial).toMatchObject({ period: '2032-01', completeness: 'partial' });
+    const notices = await noticesOf(onPartial!.id, 'raised');
+    expect(notices.map((n) => n.recipient)).toEqual(['physician@demo.ratewarden.test']); // the rule names no one else
+    for (const n of notices) expect(n.body).toContain('Period: 12 months ending Jan 2032, partial (a roster or case list of the period was not in when the run read it)');
+  });
 });
