@@ -115,6 +115,25 @@ export const runResultSchema = z.object({
 });
 export type RunResult = z.infer<typeof runResultSchema>;
 
+/** Query of GET /api/runs/:id/periods: the periods of one outcome's window, in one scope. */
+export const runPeriodIndexQuerySchema = z.object({
+  siteId: z.coerce.number().int().positive().optional(),
+  outcomeId: z.coerce.number().int().positive(),
+  window: windowKindSchema,
+});
+export type RunPeriodIndexQuery = z.infer<typeof runPeriodIndexQuerySchema>;
+
+/**
+ * What a results page needs to choose its period without reading the figures: each period of the
+ * window, newest first, whether it was complete when the run read its data, and whether the
+ * reader sees every group's count in it (none kept back for being read by calendar year) or some.
+ */
+export const runPeriodIndexSchema = z.object({
+  window: windowKindSchema,
+  periods: z.array(z.object({ period: z.string(), completeness: completenessSchema, everyGroupShown: z.boolean(), someGroupShown: z.boolean() })),
+});
+export type RunPeriodIndex = z.infer<typeof runPeriodIndexSchema>;
+
 /** Query of GET /api/runs/:id/results. */
 export const runResultsQuerySchema = z.object({
   /** Results of one site; without it, the company-wide results (for people who see every site). */

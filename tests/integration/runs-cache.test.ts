@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
+import { runPeriodIndexSchema } from '@ratewarden/shared/runs';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
@@ -44,6 +45,23 @@ describe('run reads: conditional requests per run and reader', () => {
   });
   afterAll(async () => {
     await ds.destroy();
+  });
+
+  it('gives a page its periods first, then the figures of one period only', async () => {
+    const index = await hygienist.agent.get(`/api/runs/${firstRun}/periods?outcomeId=${c.outcomes.CAC}&window=month`).expect(200);
+    expect(runPeriodIndexSchema.parse(index.body)).toEqual({
+      window: 'month',
+      // One month of data, whose roster and case list are both in (the fixture's case list reports through it); no group withheld.
+      periods: [{ period: '2031-12-01', completeness: 'complete', everyGroupShown: true, someGroupShown: true }],
+    });
+    const all = await hygienist.agent.get(`/api/runs/${firstRun}/results?outcomeId=${c.outcomes.CAC}`).expect(200);
+    const one = await hygienist.agent.get(`/api/runs/${firstRun}/results?outcomeId=${c.outcomes.CAC}&window=month&from=2031-12-01&to=2031-12-01`).expect(200);
+    expect(one.body.length).toBe(2);
+    expect(one.body.every((r: { window: string; period: string }) => r.window === 'month' && r.period === '2031-12-01')).toBe(true);
+    expect(all.body.length).toBeGreaterThan(one.body.length);
+    // A reader of one site gets that site's periods, and the company's are refused as its figures are.
+    await safety.agent.get(`/api/runs/${firstRun}/periods?outcomeId=${c.outcomes.CAC}&window=month`).expect(403);
+    await safety.agent.get(`/api/runs/${firstRun}/periods?outcomeId=${c.outcomes.CAC}&window=month&siteId=${c.sites[0]}`).expect(200);
   });
 
   it('answers 304 to a matching If-None-Match, with an ETag per reader, and a new one after the next run', async () => {

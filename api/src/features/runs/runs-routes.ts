@@ -1,9 +1,10 @@
 import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { runDiffQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
+import { runDiffQuerySchema, runPeriodIndexQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
 import { answeredFromCache } from './run-cache';
+import { runPeriodIndex } from './run-period-index';
 import { runStrata } from './run-strata';
 import { listUnattributed } from './run-unattributed';
 import { pendingRunOf, withCompleteThrough } from './run-periods';
@@ -63,6 +64,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
   router.get('/:id/results', authorize('aggregates:read'), async (req, res) => {
     if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
     res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
+  });
+  /** The periods of one outcome's window with completeness and what the reader sees of them (same scope and frame as the results). */
+  router.get('/:id/periods', authorize('aggregates:read'), async (req, res) => {
+    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
+    res.json(await runPeriodIndex(ds, runId.parse(req.params.id), runPeriodIndexQuerySchema.parse(req.query), reader(req)));
   });
   /**
    * The stratum table behind an adjusted figure: one group and its reference group per age band,

@@ -1,31 +1,32 @@
-import type { WindowKind } from '@ratewarden/shared/rules';
-import type { RunResult } from '@ratewarden/shared/runs';
-import { periodsOf } from './results-filters';
+import type { RunPeriodIndex } from '@ratewarden/shared/runs';
+
+type IndexedPeriod = RunPeriodIndex['periods'][number];
 
 /**
- * The period a results page opens on: the latest one that was complete when the run read its data
- * (a month, or a rolling window, whose rosters and case lists were all in), and that the reader
- * can see. A group with small monthly counts is shown to non-physicians in the windows that end
- * in December only (README "Small counts"), so the latest complete period with every group shown
- * comes first, then the latest complete one showing some group, then the latest complete one,
- * and only when no period is complete the newest.
+ * The period a results page opens on, from the run's period index (newest first): the latest one
+ * that was complete when the run read its data (a month, or a rolling window, whose rosters and
+ * case lists were all in), and that the reader can see. A group with small monthly counts is
+ * shown to non-physicians in the windows that end in December only (README "Small counts"), so
+ * the latest complete period with every group shown comes first, then the latest complete one
+ * showing some group, then the latest complete one, and only when no period is complete the newest.
  */
-export function defaultPeriod(results: RunResult[], window: WindowKind): string | null {
-  const periods = periodsOf(results, window);
-  const rowsOf = (p: string) => results.filter((r) => r.window === window && r.period === p);
-  const complete = (p: string) => rowsOf(p).every((r) => r.completeness === 'complete');
-  const everyGroupShown = (p: string) => rowsOf(p).every((r) => r.withheld !== 'months');
-  const someGroupShown = (p: string) => rowsOf(p).some((r) => r.withheld === null);
+export function defaultPeriod(periods: IndexedPeriod[]): string | null {
+  const complete = (p: IndexedPeriod) => p.completeness === 'complete';
   return (
-    periods.find((p) => complete(p) && everyGroupShown(p)) ??
-    periods.find((p) => complete(p) && someGroupShown(p)) ??
-    periods.find(complete) ??
-    periods[0] ??
+    periods.find((p) => complete(p) && p.everyGroupShown)?.period ??
+    periods.find((p) => complete(p) && p.someGroupShown)?.period ??
+    periods.find(complete)?.period ??
+    periods[0]?.period ??
     null
   );
 }
 
-/** Whether any figure of the period was computed while one of its months was still partial. */
-export function isPartialPeriod(results: RunResult[], window: WindowKind, period: string | null): boolean {
-  return period !== null && results.some((r) => r.window === window && r.period === period && r.completeness === 'partial');
+/** Whether the period's figures were computed while one of its months was still partial. */
+export function isPartialPeriod(periods: IndexedPeriod[], period: string | null): boolean {
+  return period !== null && periods.some((p) => p.period === period && p.completeness === 'partial');
+}
+
+/** The latest complete period, for the note beside a partial one. */
+export function latestCompletePeriod(periods: IndexedPeriod[]): string | null {
+  return periods.find((p) => p.completeness === 'complete')?.period ?? null;
 }

@@ -1,5 +1,4 @@
 import type { WindowKind } from '@ratewarden/shared/rules';
-import type { RunResult } from '@ratewarden/shared/runs';
 import { useSearchParams } from 'react-router';
 
 /**
@@ -50,7 +49,3 @@ export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [Resu
   return [filters, set];
 }
 
-/** Periods present for a window, newest first. */
-export function periodsOf(results: RunResult[], window: WindowKind): string[] {
-  return [...new Set(results.filter((r) => r.window === window).map((r) => r.period))].sort().reverse();
-}

@@ -19,9 +19,10 @@ import { useGroups } from '../../api/get-groups';
 import { useOutcomes } from '../../api/get-outcomes';
 import { useSites } from '../../api/get-sites';
 import { useRunResults } from './api/get-run-results';
+import { useRunPeriods } from './api/get-run-periods';
 import { useCurrentRun } from '../../api/get-run';
-import { periodsOf, useResultsFilters, type ResultsFilters } from './results-filters';
-import { defaultPeriod, isPartialPeriod } from './default-period';
+import { useResultsFilters, type ResultsFilters } from './results-filters';
+import { defaultPeriod, isPartialPeriod, latestCompletePeriod } from './default-period';
 import { PartialPeriodNote, partialSuffix } from './partial-period';
 import { unitsOf } from './results-units';
 
@@ -31,7 +32,10 @@ export interface ResultsContext {
   outcome: OutcomeDto;
   groups: ExposureGroupDto[];
   groupName: (id: number) => string;
-  /** Every result of the chosen outcome in the current run. */
+  /**
+   * The results the page shows: with a period choice, the chosen window's rows of that period
+   * only; without one (the trends page), every result of the chosen outcome.
+   */
   results: RunResult[];
   filters: ResultsFilters;
   /** The chosen period, or the latest complete one the reader can see (default-period.ts). */
@@ -69,7 +73,16 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   const siteId = chosen.siteId !== null && ownSites.some((s) => s.id === chosen.siteId) ? chosen.siteId : seesAllSites ? null : (ownSites[0]?.id ?? null);
   const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window, siteId };
   const outcome = outcomes.find((o) => o.id === filters.outcomeId) ?? outcomes[0];
-  const results = useRunResults(run?.id ?? '', { outcomeId: outcome?.id, ...(siteId === null ? {} : { siteId }) });
+  const scope = siteId === null ? {} : { siteId };
+  // Each page asks for what it shows: first the window's periods (cheap), then that period's rows.
+  const index = useRunPeriods(run?.id, { outcomeId: outcome?.id, window: filters.window, ...scope });
+  const periods = index.data?.periods ?? [];
+  const period = filters.period && periods.some((p) => p.period === filters.period) ? filters.period : defaultPeriod(periods);
+  const results = useRunResults(
+    run?.id ?? '',
+    periodChoice ? { outcomeId: outcome?.id, window: filters.window, ...(period ? { from: period, to: period } : {}), ...scope } : { outcomeId: outcome?.id, ...scope },
+    !periodChoice || (index.isSuccess && period !== null),
+  );
   const siteOptions = [
     ...(seesAllSites ? [{ value: '', label: 'All sites together' }] : []),
     ...ownSites.map((s) => ({ value: String(s.id), label: s.name })),
@@ -116,12 +129,12 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         {!fixedWindow && (
           <SelectField label="Window" value={filters.window} onChange={(e) => setFilters({ window: e.target.value, period: null })} options={windowOptions} />
         )}
-        {periodChoice && results.data && (
+        {periodChoice && index.data && (
           <SelectField
             label={filters.window === 'month' ? 'Month' : 'Twelve months ending'}
-            value={filters.period ?? defaultPeriod(results.data, filters.window) ?? ''}
+            value={period ?? ''}
             onChange={(e) => setFilters({ period: e.target.value })}
-            options={periodsOf(results.data, filters.window).map((p) => ({ value: p, label: `${formatMonth(p)}${partialSuffix(isPartialPeriod(results.data!, filters.window, p))}` }))}
+            options={periods.map((p) => ({ value: p.period, label: `${formatMonth(p.period)}${partialSuffix(p.completeness === 'partial')}` }))}
           />
         )}
         {extraControls?.({ filters, setFilters, groups })}
@@ -134,18 +147,25 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         </p>
         <UnattributedNote run={run} outcomes={outcomes} role={user.role} outcomeId={outcome.id} />
       </div>
-      <QueryState query={results} label="results">
-        {(data) => {
-          const period = filters.period && periodsOf(data, filters.window).includes(filters.period) ? filters.period : defaultPeriod(data, filters.window);
-          return (
-            <>
-              {periodChoice && isPartialPeriod(data, filters.window, period) && <PartialPeriodNote period={period!} window={filters.window} latestComplete={defaultPeriod(data.filter((r) => r.completeness === 'complete'), filters.window)} />}
-              {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
-              <SuppressionNote results={data} />
-            </>
-          );
-        }}
-      </QueryState>
+      {periodChoice && index.isError ? (
+        <QueryState query={index} label="periods">
+          {() => null}
+        </QueryState>
+      ) : periodChoice && index.isSuccess && period === null ? (
+        <p role="status" className="mt-6 text-ink-soft">The current run has no figures of this outcome for this window{chosenSite ? ` at ${chosenSite.name}` : ''}.</p>
+      ) : (
+        <QueryState query={results} label="results">
+          {(data) => {
+            return (
+              <>
+                {periodChoice && isPartialPeriod(periods, period) && <PartialPeriodNote period={period!} window={filters.window} latestComplete={latestCompletePeriod(periods)} />}
+                {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
+                <SuppressionNote results={data} />
+              </>
+            );
+          }}
+        </QueryState>
+      )}
       <Cautions />
     </section>
   );

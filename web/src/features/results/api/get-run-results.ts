@@ -15,6 +15,6 @@ export const runResultsQueryOptions = (runId: string, q: RunResultsQuery) =>
   queryOptions({ queryKey: runKeys.results(runId, q), queryFn: ({ signal }) => getRunResults(runId, q, signal), staleTime: Infinity });
 
 /** Keeps the previous outcome's figures on screen while the next one loads, so the filters stay put. */
-export function useRunResults(runId: string, q: RunResultsQuery) {
-  return useQuery({ ...runResultsQueryOptions(runId, q), placeholderData: keepPreviousData });
+export function useRunResults(runId: string, q: RunResultsQuery, enabled = true) {
+  return useQuery({ ...runResultsQueryOptions(runId, q), placeholderData: keepPreviousData, enabled: enabled && runId !== '' && q.outcomeId !== undefined });
 }
