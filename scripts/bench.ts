@@ -1,36 +1,43 @@
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import pg from 'pg';
 import { migrate } from '@ratewarden/db';
+import { writeBenchCasesCsv } from './lib/bench-cases';
+import { benchEndToEnd } from './lib/bench-end-to-end';
 import { applySeconds, bareCopySeconds, discardIntake, peakRss, startIntakeChild, uploadSeconds } from './lib/bench-intake';
-import { BENCH_GROUPS, BENCH_SITES, writeBenchRoster } from './lib/bench-roster';
+import { mergeLatest } from './lib/bench-latest';
+import { benchReads } from './lib/bench-reads';
+import { insertBenchSitesAndGroups, writeBenchRoster } from './lib/bench-roster';
 import { benchRunAndWeb } from './lib/bench-run';
+import { readBenchSettings } from './lib/bench-settings';
 import { runMain, say } from './lib/log';
 import { recreateDatabase, startPostgres } from './lib/postgres';
 
 const root = join(import.meta.dirname, '..');
 const WORKERS = 20_000;
 const MONTHS = 60;
+const PGPORT = 54349;
 
 /**
  * `npm run bench`: its own PostgreSQL and database, a 1.2 M-row roster CSV, then side by side
  * (a) a bare COPY of the file and (b) Ratewarden's intake of it through the real HTTP route,
  * checks included; peak memory of the intake process. Then the run benchmark on that roster with
- * generated cases (scripts/lib/bench-run.ts) and the web bundle sizes. Figures go to .data/bench/latest.json,
- * merged with what other sections wrote there.
+ * generated cases (scripts/lib/bench-run.ts) and the web bundle sizes; the read routes under load
+ * through the real API, also during an apply (bench-reads.ts); and the whole path from upload to
+ * results beside a keyed COPY and pandas (bench-end-to-end.ts). Figures go to
+ * .data/bench/latest.json, merged with what other sections wrote there. BENCH_SECTIONS picks sections.
  */
 runMain(async () => {
+  const settings = readBenchSettings();
   const outDir = join(root, '.data', 'bench');
   mkdirSync(outDir, { recursive: true });
-  const db = await startPostgres({ folder: join(root, '.data', 'bench-postgres'), port: 54349, database: 'ratewarden_bench', durable: false });
+  const db = await startPostgres({ folder: join(root, '.data', 'bench-postgres'), port: PGPORT, database: 'ratewarden_bench', durable: false });
   process.on('exit', () => db.stop());
-  await recreateDatabase(54349, 'ratewarden_bench');
+  await recreateDatabase(PGPORT, 'ratewarden_bench');
   await migrate(db.url);
   const client = new pg.Client({ connectionString: db.url });
   await client.connect();
-  for (const s of BENCH_SITES) await client.query(`INSERT INTO sites (code, name) VALUES ($1, $1)`, [s]);
-  // BG0 (level 0) is the reference group the run compares the others with.
-  for (const [i, g] of BENCH_GROUPS.entries()) await client.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level, is_reference) VALUES ($1, $1, 'bench', $2, $3)`, [g, i, i === 0]);
+  await insertBenchSitesAndGroups(client);
   await client.end();
 
   const file = join(outDir, 'roster-1200k.csv');
@@ -69,20 +76,33 @@ runMain(async () => {
     const peakRssMb = Math.round(await peakRss(child.port));
     say(`peak RSS of the intake process: ${peakRssMb} MB`);
 
-    const latestPath = join(outDir, 'latest.json');
-    const latest = existsSync(latestPath) ? (JSON.parse(readFileSync(latestPath, 'utf8')) as Record<string, unknown>) : {};
-    latest.intake = {
+    const intake = {
       rows, copySeconds: round(copySeconds), intakeSeconds: round(intakeSeconds), ratio: round(intakeSeconds / copySeconds), peakRssMb,
-      applySeconds: round(apply.seconds), fileMb: Math.round(bytes / 1024 ** 2), measuredAt: new Date().toISOString(),
+      applySeconds: round(apply.seconds), fileMb: Math.round(bytes / 1024 ** 2),
     };
-    writeFileSync(latestPath, `${JSON.stringify(latest, null, 2)}\n`);
-    say(`figures written to ${latestPath}`);
+    say(`figures written to ${mergeLatest(root, { intake })}`);
   } finally {
     child.stop();
   }
+  if (!settings.sections.has('run')) return;
 
   // The run section (cases for the applied roster, then the run against its bare GROUP BY) and the web bundle.
   await benchRunAndWeb(root, db.url, say);
+  const casesFile = join(outDir, 'cases-1200k.csv');
+  const { cases } = await writeBenchCasesCsv(db.url, casesFile);
+
+  if (settings.sections.has('reads')) {
+    const figures = await benchReads({ root, databaseUrl: db.url, connections: settings.BENCH_READS_CONNECTIONS, seconds: settings.BENCH_READS_SECONDS, say });
+    say(`read figures written to ${mergeLatest(root, figures)}`);
+  }
+  if (settings.sections.has('endToEnd')) {
+    const endToEnd = await benchEndToEnd({ root, port: PGPORT, rosterFile: file, rosterRows: rows, casesFile, cases, rounds: settings.BENCH_END_TO_END_ROUNDS, say });
+    say(
+      `end to end, best round: ${endToEnd.seconds} s (check ${endToEnd.checkSeconds} s, apply ${endToEnd.applySeconds} s, run ${endToEnd.runSeconds} s); ` +
+        `keyed COPY ${endToEnd.bareCopyKeyedSeconds} s, roster apply ${endToEnd.applyToKeyedCopy}× it; pandas ${endToEnd.pandasSeconds} s, the path ${endToEnd.ratioToPandas}× it`,
+    );
+    say(`end-to-end figures written to ${mergeLatest(root, { endToEnd })}`);
+  }
 });
 
 const round = (x: number) => Math.round(x * 100) / 100;

@@ -1,10 +1,26 @@
+import { createWriteStream } from 'node:fs';
+import { pipeline } from 'node:stream/promises';
 import pg from 'pg';
+import { to as copyTo } from 'pg-copy-streams';
 
 /** The benchmark's outcomes: one counted as recurrent events, one as first event only with a lag. */
 export const BENCH_OUTCOMES = [
   { code: 'BINJ', name: 'Recordable injury (bench)', rule: 'recurrent', lag: 0, perRow: 0.0015, slope: 0.3, salt: 'inj' },
   { code: 'BHTS', name: 'Hearing threshold shift (bench)', rule: 'first_event', lag: 6, perRow: 0.0008, slope: 0.4, salt: 'hts' },
 ] as const;
+
+/** Creates the benchmark's outcomes; returns their ids by code. */
+export async function insertBenchOutcomes(client: pg.ClientBase): Promise<Map<string, number>> {
+  const ids = new Map<string, number>();
+  for (const o of BENCH_OUTCOMES) {
+    const { rows } = await client.query<{ id: number }>(
+      `INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, $2, 'benchmark outcome', $3, $4) RETURNING id`,
+      [o.code, o.name, o.rule, o.lag],
+    );
+    ids.set(o.code, rows[0]!.id);
+  }
+  return ids;
+}
 
 /**
  * Gives the benchmark roster (already applied) its case list: for every outcome, each roster row
@@ -27,13 +43,9 @@ export async function addBenchCases(url: string): Promise<{ cases: number }> {
       )
     ).rows as Array<{ id: string }>;
     let cases = 0;
+    const outcomeIds = await insertBenchOutcomes(client);
     for (const o of BENCH_OUTCOMES) {
-      const [outcome] = (
-        await client.query(
-          `INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, $2, 'benchmark outcome', $3, $4) RETURNING id`,
-          [o.code, o.name, o.rule, o.lag],
-        )
-      ).rows as Array<{ id: number }>;
+      const outcome = { id: outcomeIds.get(o.code)! };
       // u: a uniform draw in [0, 1) from the hash; the same draw picks the day and the status.
       const res = await client.query(
         `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status)
@@ -50,7 +62,7 @@ export async function addBenchCases(url: string): Promise<{ cases: number }> {
            JOIN exposure_groups g ON g.id = r.exposure_group_id
          ) d
          WHERE d.u < $4::float8 * (1 + $5::float8 * d.level)`,
-        [intake!.id, o.salt, outcome!.id, o.perRow, o.slope],
+        [intake!.id, o.salt, outcome.id, o.perRow, o.slope],
       );
       cases += res.rowCount ?? 0;
     }
@@ -60,6 +72,28 @@ export async function addBenchCases(url: string): Promise<{ cases: number }> {
   } catch (err) {
     await client.query('ROLLBACK').catch(() => undefined);
     throw err;
+  } finally {
+    await client.end();
+  }
+}
+
+/**
+ * Writes the benchmark's case list as a case-list intake file (case_ref, worker_key, outcome,
+ * onset_date, status), from the cases addBenchCases stored: the file the end-to-end section
+ * uploads beside its roster, and pandas reads.
+ */
+export async function writeBenchCasesCsv(url: string, path: string): Promise<{ cases: number }> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    const sql = `COPY (
+      SELECT c.case_ref, w.worker_key, o.code AS outcome, to_char(c.onset_date, 'YYYY-MM-DD') AS onset_date, c.status
+      FROM case_events c JOIN workers w ON w.id = c.worker_id JOIN outcomes o ON o.id = c.outcome_id
+      WHERE c.superseded_by IS NULL ORDER BY c.id
+    ) TO STDOUT WITH (FORMAT csv, HEADER true)`;
+    await pipeline(client.query(copyTo(sql)), createWriteStream(path));
+    const [row] = (await client.query(`SELECT count(*)::int AS n FROM case_events WHERE superseded_by IS NULL`)).rows as Array<{ n: number }>;
+    return { cases: row!.n };
   } finally {
     await client.end();
   }

@@ -40,10 +40,13 @@ export async function startIntakeChild(root: string, url: string): Promise<Intak
   return { port, stop: () => child.kill('SIGTERM') };
 }
 
-function call(port: number, method: string, path: string, body?: (req: import('node:http').ClientRequest) => Promise<void>): Promise<{ status: number; json: any }> {
+/** Headers a request rides on: a signed-in person's session cookie and CSRF token (none for the intake process). */
+export type CallHeaders = Record<string, string>;
+
+function call(port: number, method: string, path: string, headers: CallHeaders = {}, body?: (req: import('node:http').ClientRequest) => Promise<void>): Promise<{ status: number; json: any }> {
   return new Promise((resolve, reject) => {
     const boundary = 'ratewardenbench';
-    const req = request({ host: '127.0.0.1', port, method, path, headers: body ? { 'content-type': `multipart/form-data; boundary=${boundary}` } : {} }, (res) => {
+    const req = request({ host: '127.0.0.1', port, method, path, headers: { ...headers, ...(body ? { 'content-type': `multipart/form-data; boundary=${boundary}` } : {}) } }, (res) => {
       let text = '';
       res.setEncoding('utf8');
       res.on('data', (d) => (text += d));
@@ -56,10 +59,15 @@ function call(port: number, method: string, path: string, body?: (req: import('n
 }
 
 /** (b) The real intake: multipart upload over HTTP into the intake router, checks included. */
-export async function uploadSeconds(port: number, file: string, mode: 'check' | 'apply'): Promise<{ seconds: number; status: number; body: any }> {
+export async function uploadSeconds(
+  port: number,
+  file: string,
+  mode: 'check' | 'apply',
+  { kind = 'roster', headers = {} }: { kind?: 'roster' | 'cases'; headers?: CallHeaders } = {},
+): Promise<{ seconds: number; status: number; body: any }> {
   const boundary = 'ratewardenbench';
   const t = process.hrtime.bigint();
-  const res = await call(port, 'POST', `/api/intakes?kind=roster&mode=${mode}`, async (req) => {
+  const res = await call(port, 'POST', `/api/intakes?kind=${kind}&mode=${mode}`, headers, async (req) => {
     req.write(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${basename(file)}"\r\nContent-Type: text/csv\r\n\r\n`);
     await pipeline(createReadStream(file, { highWaterMark: 256 * 1024 }), req, { end: false });
     req.end(`\r\n--${boundary}--\r\n`);
@@ -67,10 +75,10 @@ export async function uploadSeconds(port: number, file: string, mode: 'check' | 
   return { seconds: Number(process.hrtime.bigint() - t) / 1e9, status: res.status, body: res.json };
 }
 
-export async function applySeconds(port: number, id: string): Promise<{ seconds: number; status: number }> {
+export async function applySeconds(port: number, id: string, headers: CallHeaders = {}): Promise<{ seconds: number; status: number; body: any }> {
   const t = process.hrtime.bigint();
-  const res = await call(port, 'POST', `/api/intakes/${id}/apply`);
-  return { seconds: Number(process.hrtime.bigint() - t) / 1e9, status: res.status };
+  const res = await call(port, 'POST', `/api/intakes/${id}/apply`, headers);
+  return { seconds: Number(process.hrtime.bigint() - t) / 1e9, status: res.status, body: res.json };
 }
 
 /** Discards a checked intake, so the same file can be checked again (the checksum guard skips only kept versions). */
