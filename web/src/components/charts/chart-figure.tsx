@@ -8,11 +8,11 @@ import { ExportButton, type CsvExport } from '../table/export-button';
 export function ChartFigure({ title, csv, chart, table }: { title: string; csv?: CsvExport; chart: ReactNode; table: ReactNode }) {
   const [showTable, setShowTable] = useState(false);
   return (
-    <figure className="mt-4 border border-rule bg-panel p-3">
+    <figure className="mt-4 card p-3">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-2">
         <span className="font-semibold">{title}</span>
         <span className="flex items-baseline gap-3">
-          <button type="button" className="no-print text-sm text-moss underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
+          <button type="button" className="no-print text-sm text-accent underline" aria-expanded={showTable} onClick={() => setShowTable((s) => !s)}>
             {showTable ? 'Hide the table' : 'Show as a table'}
           </button>
           {csv && <ExportButton csv={csv} label={title} />}

@@ -18,3 +18,8 @@ export function tokenColour(name: string, fallback: string): string {
   const v = getComputedStyle(document.documentElement).getPropertyValue(`--color-${name}`).trim();
   return v || fallback;
 }
+
+/** The series colours of the chart theme, in the order groups take them (styles/index.css). */
+export function chartSeriesColours(): string[] {
+  return [tokenColour('series-1', '#3a44a6'), tokenColour('series-2', '#0b6e78'), tokenColour('series-3', '#8b3a8f'), tokenColour('series-4', '#8a5300')];
+}

@@ -33,7 +33,7 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
     const lo = 2 ** Math.floor(Math.log2(min) - 0.01);
     const hi = 2 ** Math.ceil(Math.log2(max) + 0.01);
     const ink = tokenColour('ink', '#1f3a3d');
-    const amber = tokenColour('amber', '#b97a12');
+    const accent = tokenColour('accent', '#3a44a6');
     const labels = items.map((i) => i.label);
     return {
       aria: { enabled: true, description: `${title}. ${items.map((i) => `${i.label}: ${formatEstimate(i.estimate)} (${formatEstimate(i.lower)} to ${formatEstimate(i.upper)})`).join('; ')}.` },
@@ -78,7 +78,7 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
           name: 'estimate',
           data: items.map((i, idx) => (finite(i.estimate) ? { value: [i.estimate, idx], symbol: i.reference ? 'diamond' : 'rect' } : { value: [null, idx] })),
           symbolSize: 11,
-          itemStyle: { color: amber, borderColor: ink, borderWidth: 1 },
+          itemStyle: { color: accent, borderColor: ink, borderWidth: 1 },
           label: { show: true, position: 'top', formatter: (p: unknown) => formatEstimate(((p as { value: [number, number] }).value)[0]), color: ink, fontSize: 11 },
           markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: ink }, label: { formatter: 'no difference', position: 'start', color: ink }, data: [{ xAxis: 1 }] },
           z: 2,
@@ -108,7 +108,7 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
           </thead>
           <tbody>
             {items.map((i) => (
-              <tr key={i.label} className="border-b border-rule">
+              <tr key={i.label} className="border-b border-line">
                 <th scope="row" className="px-2 py-1 text-left font-medium">{i.label}</th>
                 <td className="px-2 py-1 tabular-nums">{formatEstimate(i.estimate)}</td>
                 <td className="px-2 py-1 tabular-nums">{formatEstimate(i.lower)}</td>

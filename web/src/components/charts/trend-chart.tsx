@@ -5,7 +5,7 @@ import { useMemo } from 'react';
 import { formatAmount, formatEstimate } from '../../lib/format';
 import type { CsvExport } from '../table/export-button';
 import { ChartFigure } from './chart-figure';
-import { echarts, tokenColour } from './echarts-setup';
+import { chartSeriesColours, echarts, tokenColour } from './echarts-setup';
 
 /**
  * Rate per period for one or more exposure groups, each with its interval as a shaded band, and
@@ -42,8 +42,8 @@ const hollow = (symbol: string) => `empty${symbol[0]!.toUpperCase()}${symbol.sli
 
 export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
   const option = useMemo<EChartsOption>(() => {
-    const palette = [tokenColour('moss', '#2e6b57'), tokenColour('amber', '#b97a12'), tokenColour('brick', '#a23b2a'), tokenColour('ink', '#1f3a3d')];
-    const ink = tokenColour('ink', '#1f3a3d');
+    const palette = chartSeriesColours();
+    const ink = tokenColour('ink', '#17202e');
     const byPeriod = (s: TrendSeries) => periods.map((p) => s.points.find((pt) => pt.period === p) ?? null);
     const out: LineSeriesOption[] = [];
     series.forEach((s, i) => {
@@ -124,7 +124,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
                 const idx = periods.indexOf(pt.period);
                 const ucl = limits?.ucl[idx] ?? null;
                 return (
-                  <tr key={`${s.name}-${pt.period}`} className="border-b border-rule">
+                  <tr key={`${s.name}-${pt.period}`} className="border-b border-line">
                     <th scope="row" className="px-2 py-1 text-left font-medium">{s.name}</th>
                     <td className="px-2 py-1">{pt.period}</td>
                     <td className="px-2 py-1 tabular-nums">{pt.cases}</td>

@@ -21,7 +21,7 @@ export function UnattributedNote({ run, outcomes, role, outcomeId }: { run: RunD
   if (!run || items.length === 0) return null;
   const name = (id: number) => outcomes.find((o) => o.id === id)?.name ?? `outcome ${id}`;
   return (
-    <section aria-label="Cases not attributed" className="mt-3 max-w-3xl border-l-4 border-amber bg-amber-soft px-4 py-2 text-sm">
+    <section aria-label="Cases not attributed" className="mt-3 max-w-3xl note note-watch px-4 py-2 text-sm">
       <ul className="space-y-1">
         {items.map((u) => {
           const reasons = u.reasons.filter((r) => r.count !== 0);
@@ -49,7 +49,7 @@ export function UnattributedNote({ run, outcomes, role, outcomeId }: { run: RunD
       </ul>
       {roleMay(role, 'cases:read') && (
         <p className="mt-1">
-          <Link className="text-moss underline" to={paths.unattributed}>
+          <Link className="text-accent underline" to={paths.unattributed}>
             See the unattributed cases
           </Link>
         </p>

@@ -2,7 +2,7 @@
 export function PageLoading({ label = 'Loading' }: { label?: string }) {
   return (
     <div role="status" aria-live="polite" className="flex items-center gap-3 py-10 text-ink-soft">
-      <span aria-hidden="true" className="h-4 w-4 animate-spin border-2 border-rule border-t-moss" />
+      <span aria-hidden="true" className="h-4 w-4 animate-spin border-2 border-line border-t-accent" />
       <span>{label} …</span>
     </div>
   );

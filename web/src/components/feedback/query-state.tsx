@@ -13,7 +13,7 @@ export function QueryState<T>({ query, label, children }: { query: UseQueryResul
   if (query.isError) {
     return (
       <ProblemNotice title={`The ${label} could not be loaded`} problem={problemOf(query.error).problem}>
-        <button type="button" className="mt-3 font-medium text-moss underline" onClick={() => void query.refetch()}>
+        <button type="button" className="mt-3 font-medium text-accent underline" onClick={() => void query.refetch()}>
           Try again
         </button>
       </ProblemNotice>

@@ -26,13 +26,13 @@ export function RouteError() {
       <ProblemNotice title={titles[status] ?? 'This page could not be shown'} problem={problem}>
         <p className="mt-3 flex gap-4">
           {status === 401 ? (
-            <a href={paths.signIn} className="font-medium text-moss underline">Sign in</a>
+            <a href={paths.signIn} className="font-medium text-accent underline">Sign in</a>
           ) : (
-            <button type="button" onClick={() => window.location.reload()} className="font-medium text-moss underline">
+            <button type="button" onClick={() => window.location.reload()} className="font-medium text-accent underline">
               Try again
             </button>
           )}
-          <Link to={paths.home} className="font-medium text-moss underline">Back to the start</Link>
+          <Link to={paths.home} className="font-medium text-accent underline">Back to the start</Link>
         </p>
       </ProblemNotice>
     </section>

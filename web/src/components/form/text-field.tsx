@@ -20,11 +20,11 @@ export function TextField({ label, hint, error, ...input }: { label: string; hin
         id={id}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy}
-        className={`rounded-sm border bg-panel px-2 py-1.5 font-mono tabular-nums ${error ? 'border-brick border-l-4' : 'border-rule'}`}
+        className={`rounded-sm border bg-surface px-2 py-1.5 font-mono tabular-nums ${error ? 'border-alarm border-l-4' : 'border-line'}`}
         {...input}
       />
       {error && (
-        <span id={errorId} className="text-sm text-brick">
+        <span id={errorId} className="text-sm text-alarm">
           <span aria-hidden="true">⚠ </span>
           {error}
         </span>

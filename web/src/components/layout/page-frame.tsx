@@ -1,75 +1,106 @@
 import { roleLabels } from '@ratewarden/shared/domain';
 import { roleMay } from '@ratewarden/shared/permissions';
-import { Suspense } from 'react';
-import { NavLink, Outlet } from 'react-router';
+import { Suspense, useEffect, useState } from 'react';
+import { NavLink, Outlet, useLocation } from 'react-router';
 import { paths } from '../../config/paths';
 import { useSession } from '../../api/get-session';
 import { SignOutButton } from './sign-out-button';
 import { PageLoading } from '../feedback/page-loading';
 import { navItems } from './nav-items';
+import { BrandMark } from './brand-mark';
 
-/** The frame every page sits in: masthead, role-aware navigation, main area, the standing caution. */
+/**
+ * The frame every page sits in: a light top bar (mark, person, sign-out), the role-aware
+ * navigation as a side rail on wide screens and behind a Menu button on narrow ones, the main
+ * area, and the standing statement on what the figures are.
+ */
 export function PageFrame() {
   const session = useSession();
   const user = session.data?.user ?? null;
   const visible = navItems.filter((item) => item.permission === null || (user !== null && roleMay(user.role, item.permission)));
+  const [menuOpen, setMenuOpen] = useState(false);
+  const location = useLocation();
+  useEffect(() => setMenuOpen(false), [location.pathname]);
   return (
     <div className="min-h-screen flex flex-col">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:p-2 focus:bg-panel">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:z-10 focus:rounded-sm focus:bg-surface focus:p-2">
         Skip to content
       </a>
-      <header className="no-print bg-ink text-paper">
-        <div className="mx-auto max-w-6xl px-4 min-h-14 flex flex-wrap items-center gap-x-6 gap-y-2 py-2">
-          <NavLink to={paths.home} className="flex items-center gap-2 font-semibold tracking-wide text-lg">
-            <svg aria-hidden="true" viewBox="0 0 32 32" className="h-6 w-6">
-              <path d="M5 24 L12 15 L18 19 L27 8" stroke="#e0a23a" strokeWidth="3.5" fill="none" strokeLinecap="square" />
-            </svg>
+      <header className="no-print sticky top-0 z-[5] bg-surface shadow-[var(--shadow-card)]">
+        <div className="mx-auto flex min-h-14 max-w-7xl flex-wrap items-center gap-x-4 gap-y-2 px-4 py-2">
+          <NavLink to={paths.home} className="flex items-center gap-2 text-lg font-bold tracking-tight text-accent-strong">
+            <BrandMark className="h-7 w-7" />
             Ratewarden
           </NavLink>
-          <div className="ml-auto flex items-center gap-3 text-sm">
+          {visible.length > 0 && (
+            <button
+              type="button"
+              className="btn btn-quiet btn-small lg:hidden"
+              aria-expanded={menuOpen}
+              aria-controls="main-nav"
+              onClick={() => setMenuOpen((o) => !o)}
+            >
+              {menuOpen ? 'Close the menu' : 'Menu'}
+            </button>
+          )}
+          <div className="ml-auto flex flex-wrap items-center gap-3 text-sm">
             {user ? (
               <>
                 <span>
-                  <span className="font-medium">{user.name}</span>
-                  <span className="text-paper/70"> · {user.role ? roleLabels[user.role] : 'no role yet'}</span>
+                  <span className="font-semibold">{user.name}</span>
+                  <span className="ml-2 rounded-full bg-accent-soft px-2 py-0.5 text-xs font-semibold text-accent-strong">
+                    {user.role ? roleLabels[user.role] : 'no role yet'}
+                  </span>
                 </span>
                 <SignOutButton />
               </>
             ) : (
-              <a href={paths.signIn} className="rounded-sm border border-paper/40 px-3 py-1 hover:bg-paper hover:text-ink">
+              <a href={paths.signIn} className="btn btn-primary px-4 py-1.5">
                 Sign in
               </a>
             )}
           </div>
         </div>
-        <nav aria-label="Main" className="border-t border-paper/15">
-          <ul className="mx-auto max-w-6xl px-4 flex flex-wrap gap-x-1 text-sm">
-            {visible.map((item) => (
-              <li key={item.to}>
-                <NavLink
-                  to={item.to}
-                  className={({ isActive }) =>
-                    `block border-b-3 px-2.5 py-2 ${isActive ? 'border-amber font-semibold' : 'border-transparent text-paper/85 hover:text-paper hover:border-paper/40'}`
-                  }
-                >
-                  {item.label}
-                </NavLink>
-              </li>
-            ))}
-          </ul>
-        </nav>
       </header>
-      <main id="main" className="flex-1 mx-auto w-full max-w-6xl px-4 py-8">
-        <Suspense fallback={<PageLoading />}>
-          <Outlet />
-        </Suspense>
-      </main>
-      <footer className="border-t border-rule text-xs text-ink-soft">
-        <p className="mx-auto max-w-6xl px-4 py-3">
-          Surveillance figures show associations, not causes. Flags are prompts for review by qualified people; medical
-          decisions belong to a licensed occupational physician under local regulations.
-        </p>
-      </footer>
+      <div className="mx-auto flex w-full max-w-7xl flex-1 flex-col lg:flex-row lg:gap-6 lg:px-4">
+        {visible.length > 0 && (
+          <nav id="main-nav" aria-label="Main" className={`no-print ${menuOpen ? 'block' : 'hidden'} border-b border-line bg-surface px-4 py-3 lg:block lg:w-56 lg:shrink-0 lg:border-0 lg:bg-transparent lg:px-0 lg:py-6`}>
+            <ul className="grid grid-cols-2 gap-1 text-sm sm:grid-cols-3 lg:grid-cols-1">
+              {visible.map((item) => (
+                <li key={item.to}>
+                  <NavLink
+                    to={item.to}
+                    className={({ isActive }) =>
+                      `flex items-center gap-2 rounded-sm px-3 py-2 ${isActive ? 'bg-accent-soft font-semibold text-accent-strong' : 'text-ink hover:bg-surface'}`
+                    }
+                  >
+                    {({ isActive }) => (
+                      <>
+                        <span aria-hidden="true" className={`h-1.5 w-1.5 rounded-full ${isActive ? 'bg-accent' : 'bg-line'}`} />
+                        {item.label}
+                      </>
+                    )}
+                  </NavLink>
+                </li>
+              ))}
+            </ul>
+          </nav>
+        )}
+        <div className="flex min-w-0 flex-1 flex-col">
+          <main id="main" className="w-full min-w-0 flex-1 px-4 py-6 lg:px-0 lg:py-8">
+            <Suspense fallback={<PageLoading />}>
+              <Outlet />
+            </Suspense>
+          </main>
+          <footer className="flex items-start gap-2 border-t border-line px-4 py-4 text-xs text-ink-soft lg:px-0">
+            <BrandMark className="mt-0.5 h-4 w-4 shrink-0" />
+            <p>
+              Surveillance figures show associations, not causes. Flags are prompts for review by qualified people; medical
+              decisions belong to a licensed occupational physician under local regulations.
+            </p>
+          </footer>
+        </div>
+      </div>
     </div>
   );
 }

@@ -16,7 +16,7 @@ export function SignOutButton() {
       onSubmit={() => setBusy(true)}
     >
       <input type="hidden" name="_csrf" value={session.data?.csrfToken ?? ''} />
-      <button type="submit" disabled={busy} className="rounded-sm border border-paper/40 px-3 py-1 text-sm hover:bg-paper hover:text-ink disabled:opacity-60">
+      <button type="submit" disabled={busy} className="btn btn-quiet px-3 py-1 text-sm">
         {busy ? 'Signing out …' : 'Sign out'}
       </button>
     </form>

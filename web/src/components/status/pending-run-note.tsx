@@ -10,7 +10,7 @@ export function PendingRunNote({ pending }: { pending: PendingRunAnswer['pending
   if (!pending) return null;
   const due = new Date(pending.dueAt).getTime() <= Date.now();
   return (
-    <p role="status" className="mt-3 border-l-4 border-amber bg-amber-soft px-4 py-2 text-sm">
+    <p role="status" className="mt-3 note note-watch px-4 py-2 text-sm">
       <span aria-hidden="true">◔ </span>
       {pending.immediate || due
         ? 'A run has been asked for; the worker takes it up within seconds.'

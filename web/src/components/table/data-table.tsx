@@ -35,11 +35,11 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
 
   return (
     <div className="mt-4 overflow-x-auto">
-      <table className="w-full border-collapse bg-panel text-sm">
+      <table className="w-full border-collapse bg-surface text-sm">
         <caption className="pb-2 text-left">
           <span className="flex flex-wrap items-baseline justify-between gap-2">
             <span className="text-base font-semibold">{caption}</span>
-            <button type="button" onClick={exportRows} className="no-print rounded-sm border border-rule px-2 py-0.5 text-xs font-medium hover:bg-moss-soft">
+            <button type="button" onClick={exportRows} className="btn btn-quiet no-print btn-small">
               Export CSV<span className="sr-only">: {caption}</span>
             </button>
           </span>
@@ -68,7 +68,7 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
         </thead>
         <tbody>
           {table.getRowModel().rows.map((r) => (
-            <tr key={r.id} className="border-b border-rule align-top">
+            <tr key={r.id} className="border-b border-line align-top">
               {r.getVisibleCells().map((c) =>
                 c.column.id === rowHeader ? (
                   <th key={c.id} scope="row" className="px-2 py-1.5 text-left font-medium">{flexRender(c.column.columnDef.cell, c.getContext())}</th>

@@ -12,7 +12,7 @@ export function ExportButton({ csv, label }: { csv: CsvExport; label: string }) 
     <button
       type="button"
       onClick={() => downloadCsv(`${csv.name}.csv`, toCsv(csv.header, csv.rows))}
-      className="no-print rounded-sm border border-rule px-2 py-0.5 text-xs font-medium hover:bg-moss-soft"
+      className="btn btn-quiet no-print btn-small"
     >
       Export CSV<span className="sr-only">: {label}</span>
     </button>

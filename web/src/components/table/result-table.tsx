@@ -14,14 +14,14 @@ export interface ResultRow {
 export function ResultTable({ caption, columns, rows, exportName }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string }) {
   return (
     <div className="mt-4 overflow-x-auto">
-      <table className="w-full border-collapse bg-panel text-sm">
+      <table className="w-full border-collapse bg-surface text-sm">
         <caption className="pb-2 text-left">
           <span className="flex flex-wrap items-baseline justify-between gap-2">
             <span className="text-base font-semibold">{caption}</span>
             {exportName && (
               <button
                 type="button"
-                className="no-print rounded-sm border border-rule px-2 py-0.5 text-xs font-medium hover:bg-moss-soft"
+                className="btn btn-quiet no-print btn-small"
                 onClick={() => downloadCsv(`${exportName}.csv`, toCsv(columns, rows.map((r) => r.csv)))}
               >
                 Export CSV<span className="sr-only">: {caption}</span>
@@ -40,7 +40,7 @@ export function ResultTable({ caption, columns, rows, exportName }: { caption: s
         </thead>
         <tbody>
           {rows.map((r) => (
-            <tr key={r.key} className="border-b border-rule align-top">
+            <tr key={r.key} className="border-b border-line align-top">
               {r.cells.map((c, i) =>
                 i === 0 ? (
                   <th key={i} scope="row" className="px-2 py-1.5 text-left font-medium">

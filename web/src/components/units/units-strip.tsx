@@ -18,7 +18,7 @@ export function UnitsStrip({ settings }: { settings: UnitsSettings }) {
     ['Intervals', settings.intervalMethod],
   ];
   return (
-    <dl aria-label="Units and settings" className="units-strip flex flex-wrap gap-x-6 gap-y-1 border-y border-rule bg-panel px-3 py-2 text-sm">
+    <dl aria-label="Units and settings" className="units-strip flex flex-wrap gap-x-6 gap-y-1 border-y border-line bg-surface px-3 py-2 text-sm">
       {items.map(([k, v]) => (
         <div key={k} className="flex gap-1.5">
           <dt className="text-ink-soft">{k}:</dt>

@@ -17,7 +17,7 @@ export function AuditPage() {
       <AdminTabs />
       <form
         aria-label="Filter the audit log"
-        className="no-print mt-4 flex flex-wrap items-end gap-4 border border-rule bg-panel p-3"
+        className="no-print mt-4 flex flex-wrap items-end gap-4 card p-3"
         onSubmit={(e) => {
           e.preventDefault();
           setFilters({ ...draft });
@@ -27,7 +27,7 @@ export function AuditPage() {
         <TextField label="Actor" placeholder="e-mail or client" value={draft.actor ?? ''} onChange={(e) => setDraft({ ...draft, actor: e.target.value || undefined })} />
         <TextField label="From" type="date" value={draft.from ?? ''} onChange={(e) => setDraft({ ...draft, from: e.target.value || undefined })} />
         <TextField label="To" type="date" value={draft.to ?? ''} onChange={(e) => setDraft({ ...draft, to: e.target.value || undefined })} />
-        <button type="submit" className="rounded-sm bg-ink px-4 py-2 font-medium text-paper hover:bg-moss">Show</button>
+        <button type="submit" className="btn btn-primary px-4 py-2">Show</button>
       </form>
       <QueryState query={audit} label="audit log">
         {(events) => (
@@ -43,7 +43,7 @@ export function AuditPage() {
               }))}
             />
             {events.length === 200 && (
-              <button type="button" className="mt-3 text-moss underline" onClick={() => setFilters({ ...filters, before: events[events.length - 1]!.id })}>
+              <button type="button" className="mt-3 text-accent underline" onClick={() => setFilters({ ...filters, before: events[events.length - 1]!.id })}>
                 Older events
               </button>
             )}

@@ -35,7 +35,7 @@ export function ClientsPage() {
             formatWhen(c.registeredAt),
             c.revokedAt ? <StateTag text={`revoked ${formatWhen(c.revokedAt)}`} tone="muted" /> : <StateTag text="active" tone="good" />,
             c.revokedAt ? '—' : (
-              <button type="button" disabled={revoke.isPending} className="text-brick underline" onClick={() => window.confirm(`Revoke ${c.clientId}? Its tokens stop working at once.`) && revoke.mutate(c.clientId)}>
+              <button type="button" disabled={revoke.isPending} className="text-alarm underline" onClick={() => window.confirm(`Revoke ${c.clientId}? Its tokens stop working at once.`) && revoke.mutate(c.clientId)}>
                 Revoke<span className="sr-only"> {c.clientId}</span>
               </button>
             ),
@@ -45,7 +45,7 @@ export function ClientsPage() {
       />
       <form
         aria-label="Register a client"
-        className="mt-8 grid max-w-3xl gap-4 border border-rule bg-panel p-4 sm:grid-cols-2"
+        className="mt-8 grid max-w-3xl gap-4 card p-4 sm:grid-cols-2"
         onSubmit={(e) => {
           e.preventDefault();
           const parsed = clientRegistrationSchema.safeParse({ clientId, name });
@@ -61,7 +61,7 @@ export function ClientsPage() {
         <TextField label="Client ID" value={clientId} onChange={(e) => setClientId(e.target.value)} error={errors.clientId} hint="as the identity provider knows it" />
         <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
         {register.isError && <div className="sm:col-span-2"><ProblemNotice title="Not registered" problem={problemOf(register.error).problem} /></div>}
-        <div><button type="submit" disabled={register.isPending} className="rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink">Register</button></div>
+        <div><button type="submit" disabled={register.isPending} className="btn btn-primary px-4 py-2">Register</button></div>
       </form>
     </section>
   );

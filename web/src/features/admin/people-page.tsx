@@ -18,7 +18,7 @@ function EditAccess({ user, onDone }: { user: AdminUser; onDone: () => void }) {
   const update = useUpdateUserAccess();
   return (
     <form
-      className="mt-2 border-l-4 border-amber bg-paper p-3"
+      className="mt-2 form-panel p-3"
       aria-label={`Access of ${user.email}`}
       onSubmit={(e) => {
         e.preventDefault();
@@ -28,8 +28,8 @@ function EditAccess({ user, onDone }: { user: AdminUser; onDone: () => void }) {
       <UserAccessFields value={access} onChange={setAccess} sites={sites} legend={`Role and sites of ${user.email}`} />
       {update.isError && <ProblemNotice title="Not saved" problem={problemOf(update.error).problem} />}
       <div className="mt-3 flex gap-3">
-        <button type="submit" disabled={update.isPending} className="rounded-sm bg-moss px-3 py-1.5 text-sm font-medium text-white hover:bg-ink">Save access</button>
-        <button type="button" onClick={onDone} className="rounded-sm border border-rule px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={update.isPending} className="btn btn-primary px-3 py-1.5 text-sm">Save access</button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
       </div>
     </form>
   );
@@ -45,7 +45,7 @@ function InviteForm() {
   return (
     <form
       aria-label="Add a person"
-      className="mt-8 border border-rule bg-panel p-4"
+      className="mt-8 card p-4"
       onSubmit={(e) => {
         e.preventDefault();
         const parsed = userInviteSchema.safeParse({ email, name, ...access });
@@ -65,7 +65,7 @@ function InviteForm() {
       </div>
       <div className="mt-3"><UserAccessFields value={access} onChange={setAccess} sites={sites} legend="Role and sites of the new person" /></div>
       {invite.isError && <div className="mt-3"><ProblemNotice title="The person was not added" problem={problemOf(invite.error).problem} /></div>}
-      <button type="submit" disabled={invite.isPending} className="mt-4 rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink">Add the person</button>
+      <button type="submit" disabled={invite.isPending} className="btn btn-primary mt-4 px-4 py-2">Add the person</button>
     </form>
   );
 }
@@ -93,7 +93,7 @@ export function PeoplePage() {
             editing === u.id ? (
               <EditAccess user={u} onDone={() => setEditing(null)} />
             ) : (
-              <button type="button" onClick={() => setEditing(u.id)} className="text-moss underline">
+              <button type="button" onClick={() => setEditing(u.id)} className="text-accent underline">
                 Change<span className="sr-only"> the access of {u.email}</span>
               </button>
             ),

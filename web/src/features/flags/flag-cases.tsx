@@ -19,7 +19,7 @@ export function FlagCases({ flagId }: { flagId: string }) {
   const cases = useFlagCases(flagId, true);
   const { data: sites } = useSites();
   return (
-    <section aria-labelledby="cases-heading" className="mt-8 border-l-4 border-brick bg-panel p-4">
+    <section aria-labelledby="cases-heading" className="mt-8 note note-alarm p-4">
       <h2 id="cases-heading" className="text-xl font-semibold">Cases behind this flag</h2>
       <p className="mt-1 text-sm text-ink-soft">Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.</p>
       <QueryState query={cases} label="cases">

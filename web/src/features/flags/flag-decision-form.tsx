@@ -20,16 +20,16 @@ export function FlagDecisionForm({ flag }: { flag: FlagDetail }) {
   if (flag.state === 'closed') return null;
   const missing = tried && (reason === null || comment.trim() === '');
   return (
-    <section aria-labelledby="decide-heading" className="no-print mt-8 border border-rule bg-panel p-4">
+    <section aria-labelledby="decide-heading" className="no-print mt-8 card p-4">
       <h2 id="decide-heading" className="text-xl font-semibold">Review and close</h2>
       {decide.isError && <div className="mt-3"><ProblemNotice title="The decision was not saved" problem={problemOf(decide.error).problem} /></div>}
       {flag.state === 'raised' && (
         <div className="mt-3 flex flex-wrap items-end gap-3">
           <div className="flex min-w-72 flex-1 flex-col gap-1">
             <label htmlFor={noteId} className="text-sm font-medium">Note for the review (optional)</label>
-            <input id={noteId} value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} className="rounded-sm border border-rule px-2 py-1.5" />
+            <input id={noteId} value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} className="rounded-sm border border-line px-2 py-1.5" />
           </div>
-          <button type="button" disabled={decide.isPending} onClick={() => decide.mutate({ kind: 'review', comment: note.trim() || undefined })} className="rounded-sm bg-ink px-4 py-2 font-medium text-paper hover:bg-moss disabled:opacity-60">
+          <button type="button" disabled={decide.isPending} onClick={() => decide.mutate({ kind: 'review', comment: note.trim() || undefined })} className="btn btn-primary px-4 py-2">
             Start the review
           </button>
         </div>
@@ -47,7 +47,7 @@ export function FlagDecisionForm({ flag }: { flag: FlagDetail }) {
           <legend className="font-medium">Reason for closing</legend>
           <div className="mt-2 grid gap-2 sm:grid-cols-3">
             {closeReasonSchema.options.map((r) => (
-              <label key={r} className={`flex cursor-pointer gap-2 border p-2 ${reason === r ? 'border-ink border-l-4' : 'border-rule'}`}>
+              <label key={r} className={`flex cursor-pointer gap-2 border p-2 ${reason === r ? 'border-ink border-l-4' : 'border-line'}`}>
                 <input type="radio" name="reason" value={r} checked={reason === r} onChange={() => setReason(r)} className="mt-1" />
                 <span>
                   <span className="font-semibold">{closeReasonLabels[r]}</span>
@@ -59,14 +59,14 @@ export function FlagDecisionForm({ flag }: { flag: FlagDetail }) {
         </fieldset>
         <div className="mt-3 flex flex-col gap-1">
           <label htmlFor={commentId} className="text-sm font-medium">Comment (what was found or done)</label>
-          <textarea id={commentId} value={comment} onChange={(e) => setComment(e.target.value)} rows={3} maxLength={4000} aria-invalid={missing && comment.trim() === '' ? true : undefined} className="rounded-sm border border-rule px-2 py-1.5" />
+          <textarea id={commentId} value={comment} onChange={(e) => setComment(e.target.value)} rows={3} maxLength={4000} aria-invalid={missing && comment.trim() === '' ? true : undefined} className="rounded-sm border border-line px-2 py-1.5" />
         </div>
         {missing && (
-          <p role="alert" className="mt-2 text-sm text-brick">
+          <p role="alert" className="mt-2 text-sm text-alarm">
             <span aria-hidden="true">⚠ </span>Choose a reason and write a comment before closing.
           </p>
         )}
-        <button type="submit" disabled={decide.isPending} className="mt-3 rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink disabled:opacity-60">
+        <button type="submit" disabled={decide.isPending} className="btn btn-primary mt-3 px-4 py-2">
           {decide.isPending ? 'Saving …' : 'Close the flag'}
         </button>
       </form>

@@ -43,18 +43,18 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
   ];
   return (
     <section>
-      <p className="text-sm"><Link className="text-moss underline" to={paths.flags}>← All flags</Link></p>
+      <p className="text-sm"><Link className="text-accent underline" to={paths.flags}>← All flags</Link></p>
       <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
         {flag.exposureGroupName}: {outcome?.name ?? `outcome ${flag.outcomeId}`}{flag.siteName ? ` at ${flag.siteName}` : ''}
         <StateTag {...flagStateLabels[flag.state]} />
       </h1>
       <p className="mt-2 text-ink-soft">
         Raised {formatWhen(flag.raisedAt)} by the watch rule{' '}
-        <Link className="font-medium text-moss underline" to={paths.rule(flag.ruleId)}>{flag.ruleName}</Link>
+        <Link className="font-medium text-accent underline" to={paths.rule(flag.ruleId)}>{flag.ruleName}</Link>
         {flag.crossing ? '; the latest run still finds it past the rule.' : '; the latest run no longer finds it past the rule.'}
       </p>
       {flag.state === 'closed' && (
-        <div className="mt-4 border-l-4 border-ink-soft bg-panel px-4 py-3">
+        <div className="mt-4 note note-plain px-4 py-3">
           <p className="font-semibold">Closed {formatWhen(flag.closedAt)}: {flag.closeReason ? closeReasonLabels[flag.closeReason] : 'no reason'}</p>
           {flag.closeComment && <p className="mt-1">{flag.closeComment}</p>}
         </div>

@@ -14,7 +14,7 @@ import { flagStateLabels, measureLabels } from './flag-labels';
 
 const col = createColumnHelper<Flag & { outcomeName: string }>();
 const columns = [
-  col.accessor('exposureGroupName', { header: 'Exposure group', cell: (c) => <Link className="font-medium text-moss underline" to={paths.flag(c.row.original.id)}>{c.getValue()}</Link> }),
+  col.accessor('exposureGroupName', { header: 'Exposure group', cell: (c) => <Link className="font-medium text-accent underline" to={paths.flag(c.row.original.id)}>{c.getValue()}</Link> }),
   col.accessor('outcomeName', { header: 'Outcome' }),
   col.accessor((f) => f.siteName ?? 'Whole company', { id: 'site', header: 'Site' }),
   col.accessor('ruleName', { header: 'Watch rule' }),
@@ -47,7 +47,7 @@ export function FlagsPage() {
       <p className="mt-2 max-w-3xl text-ink-soft">
         A run raises a flag when a watch rule's threshold is crossed, on the whole company's results or on one site's own. The safety manager reviews each one and closes it with a reason. You see the flags of your sites, and the company's when you have every site.
       </p>
-      <form aria-label="Filter the flags" className="no-print mt-5 flex flex-wrap items-end gap-4 border border-rule bg-panel p-3" onSubmit={(e) => e.preventDefault()}>
+      <form aria-label="Filter the flags" className="no-print mt-5 flex flex-wrap items-end gap-4 card p-3" onSubmit={(e) => e.preventDefault()}>
         <SelectField
           label="State"
           value={state ?? ''}
@@ -60,7 +60,7 @@ export function FlagsPage() {
           onChange={(e) => set('outcome', e.target.value)}
           options={[{ value: '', label: 'Every outcome' }, ...outcomes.map((o) => ({ value: String(o.id), label: o.name }))]}
         />
-        <Link to={paths.rules} className="ml-auto text-sm font-medium text-moss underline">Watch rules</Link>
+        <Link to={paths.rules} className="ml-auto text-sm font-medium text-accent underline">Watch rules</Link>
       </form>
       <DataTable caption={`Flags (${rows.length})`} columns={columns} data={rows} exportName="flags" rowHeader="exposureGroupName" />
       <Cautions />

@@ -17,7 +17,7 @@ export function GroupForm({ group, onDone }: { group: ExposureGroupDto | null; o
   return (
     <form
       aria-label={group ? `Change ${group.name}` : 'New exposure group'}
-      className="mt-3 grid gap-3 border-l-4 border-amber bg-paper p-3 sm:grid-cols-2"
+      className="mt-3 grid gap-3 form-panel p-3 sm:grid-cols-2"
       onSubmit={(e) => {
         e.preventDefault();
         const parsed = exposureGroupCreateSchema.safeParse({ code: group?.code ?? code, name, hazard, exposureLevel: level.trim() === '' ? null : Number(level), description: description.trim() || null });
@@ -37,8 +37,8 @@ export function GroupForm({ group, onDone }: { group: ExposureGroupDto | null; o
       <div className="sm:col-span-2"><TextField label="Description" value={description} onChange={(e) => setDescription(e.target.value)} error={errors.description} /></div>
       {save.isError && <div className="sm:col-span-2"><ProblemNotice title="Not saved" problem={problemOf(save.error).problem} /></div>}
       <div className="flex gap-3 sm:col-span-2">
-        <button type="submit" disabled={save.isPending} className="rounded-sm bg-moss px-3 py-1.5 text-sm font-medium text-white hover:bg-ink">{group ? 'Save the group' : 'Create the group'}</button>
-        <button type="button" onClick={onDone} className="rounded-sm border border-rule px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">{group ? 'Save the group' : 'Create the group'}</button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
       </div>
     </form>
   );

@@ -20,7 +20,7 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
   return (
     <form
       aria-label={outcome ? `Change ${outcome.name}` : 'New outcome'}
-      className="mt-3 grid gap-3 border-l-4 border-amber bg-paper p-3 sm:grid-cols-2"
+      className="mt-3 grid gap-3 form-panel p-3 sm:grid-cols-2"
       onSubmit={(e) => {
         e.preventDefault();
         const parsed = outcomeCreateSchema.safeParse({ code: outcome?.code ?? code, name, caseDefinition, countingRule, lagMonths: Number(lag), referenceGroupId: reference ? Number(reference) : null });
@@ -37,16 +37,16 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
       <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       <div className="flex flex-col gap-1 sm:col-span-2">
         <label htmlFor={defId} className="text-sm font-medium">Case definition</label>
-        <textarea id={defId} rows={3} value={caseDefinition} onChange={(e) => setCaseDefinition(e.target.value)} className="rounded-sm border border-rule bg-panel px-2 py-1.5" aria-invalid={errors.caseDefinition ? true : undefined} />
-        {errors.caseDefinition && <span className="text-sm text-brick">⚠ {errors.caseDefinition}</span>}
+        <textarea id={defId} rows={3} value={caseDefinition} onChange={(e) => setCaseDefinition(e.target.value)} className="rounded-sm card px-2 py-1.5" aria-invalid={errors.caseDefinition ? true : undefined} />
+        {errors.caseDefinition && <span className="text-sm text-alarm">⚠ {errors.caseDefinition}</span>}
       </div>
       <SelectField label="Counting" value={countingRule} onChange={(e) => setCountingRule(e.target.value as typeof countingRule)} options={countingRuleSchema.options.map((r) => ({ value: r, label: r === 'first_event' ? 'First event only (the worker leaves the at-risk time)' : 'Recurrent events' }))} />
       <TextField label="Exposure lag (months)" inputMode="numeric" value={lag} onChange={(e) => setLag(e.target.value)} error={errors.lagMonths} />
       <SelectField label="Reference group" value={reference} onChange={(e) => setReference(e.target.value)} options={[{ value: '', label: 'The global reference group' }, ...groups.map((g) => ({ value: String(g.id), label: g.name }))]} />
       {save.isError && <div className="sm:col-span-2"><ProblemNotice title="Not saved" problem={problemOf(save.error).problem} /></div>}
       <div className="flex gap-3 sm:col-span-2">
-        <button type="submit" disabled={save.isPending} className="rounded-sm bg-moss px-3 py-1.5 text-sm font-medium text-white hover:bg-ink">{outcome ? 'Save the outcome' : 'Create the outcome'}</button>
-        <button type="button" onClick={onDone} className="rounded-sm border border-rule px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">{outcome ? 'Save the outcome' : 'Create the outcome'}</button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
       </div>
     </form>
   );

@@ -34,14 +34,14 @@ export function OutcomesPage({ user }: { user: SessionUser }) {
               o.countingRule === 'first_event' ? 'first event only' : 'recurrent',
               `${o.lagMonths} months`,
               ref,
-              ...(canWrite ? [<button type="button" className="text-moss underline" onClick={() => setEditing(o.id)}>Edit<span className="sr-only"> {o.name}</span></button>] : []),
+              ...(canWrite ? [<button type="button" className="text-accent underline" onClick={() => setEditing(o.id)}>Edit<span className="sr-only"> {o.name}</span></button>] : []),
             ],
             csv: [o.name, o.caseDefinition, o.countingRule, o.lagMonths, ref, ...(canWrite ? [''] : [])],
           };
         })}
       />
       {canWrite && (editing === 'new' ? <OutcomeForm outcome={null} groups={groups} onDone={() => setEditing(null)} /> : (
-        <button type="button" className="mt-4 rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink" onClick={() => setEditing('new')}>New outcome</button>
+        <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>New outcome</button>
       ))}
     </section>
   );

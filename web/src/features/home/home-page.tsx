@@ -14,12 +14,12 @@ export function HomePage() {
     <section className="max-w-3xl">
       <h1 className="text-4xl font-bold tracking-tight">Ratewarden</h1>
       <p className="mt-2 text-lg text-ink-soft">Occupational-health surveillance for workplace exposure cohorts.</p>
-      <div className="mt-8 border-l-4 border-moss bg-panel px-5 py-4">
+      <div className="mt-8 note note-ok px-5 py-4">
         <p>
           Monthly rosters and case lists become person-time incidence rates for every exposure group, compared with the
           reference group, adjusted for age band and site, and watched night after night.
         </p>
-        <a href={paths.signIn} className="mt-4 inline-block rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink">
+        <a href={paths.signIn} className="btn btn-primary mt-4 inline-block px-4 py-2">
           Sign in to continue
         </a>
       </div>

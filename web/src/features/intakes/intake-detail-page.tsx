@@ -39,7 +39,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
   return (
     <section>
       <p className="text-sm">
-        <Link to={paths.intakes} className="text-moss underline">← All intakes</Link>
+        <Link to={paths.intakes} className="text-accent underline">← All intakes</Link>
       </p>
       <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
         {intake.fileName} <IntakeStateBadge state={intake.state} />
@@ -62,7 +62,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
         ))}
       </dl>
       {intake.runRequest && (
-        <p className="mt-4 border-l-4 border-moss bg-panel px-4 py-2 text-sm">
+        <p className="mt-4 note note-ok px-4 py-2 text-sm">
           A run was requested {when(intake.runRequest.requestedAt)} ({intake.runRequest.reason});{' '}
           {!intake.runRequest.run ? (
             'the worker has not taken it up yet.'
@@ -70,7 +70,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
             `run ${intake.runRequest.run.number} is computing now.`
           ) : (
             <>
-              <Link className="text-moss underline" to={paths.runs}>run {intake.runRequest.run.number}</Link>{' '}
+              <Link className="text-accent underline" to={paths.runs}>run {intake.runRequest.run.number}</Link>{' '}
               {intake.runRequest.run.state === 'succeeded' ? 'finished' : 'failed'} {when(intake.runRequest.run.finishedAt)}
               {intake.runRequest.run.state === 'succeeded' ? ', and its figures are the ones shown now.' : '; the previous figures stay current.'}
             </>
@@ -82,23 +82,23 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
         <div className="no-print mt-6 flex flex-wrap gap-3">
           {intake.state === 'checked' && intake.staged && (
             <>
-              <button type="button" disabled={decide.isPending} onClick={() => act('apply')} className="rounded-sm bg-moss px-5 py-2 font-medium text-white hover:bg-ink disabled:opacity-50">
+              <button type="button" disabled={decide.isPending} onClick={() => act('apply')} className="btn btn-primary px-5 py-2">
                 Apply this intake
               </button>
-              <button type="button" disabled={decide.isPending} onClick={() => act('discard')} className="rounded-sm border border-brick px-5 py-2 font-medium text-brick hover:bg-brick-soft disabled:opacity-50">
+              <button type="button" disabled={decide.isPending} onClick={() => act('discard')} className="btn btn-danger px-5 py-2">
                 Discard it
               </button>
             </>
           )}
           {intake.state === 'superseded' && (
-            <button type="button" disabled={decide.isPending} onClick={() => act('restore')} className="rounded-sm border border-ink px-5 py-2 font-medium hover:bg-panel disabled:opacity-50">
+            <button type="button" disabled={decide.isPending} onClick={() => act('restore')} className="btn btn-quiet px-5 py-2">
               Restore this version
             </button>
           )}
         </div>
       )}
       {decide.error && (
-        <p role="alert" className="mt-3 border-l-4 border-brick bg-brick-soft px-4 py-2">
+        <p role="alert" className="mt-3 note note-alarm px-4 py-2">
           {isApiError(decide.error) ? decide.error.problem.message : String(decide.error)}
         </p>
       )}

@@ -1,14 +1,15 @@
 import type { IntakeState } from '@ratewarden/shared/intake';
+import { StateTag, type Tone } from '../../components/status/state-tag';
 
-/** An intake's state as a word with a left rule; the colour only repeats what the word says. */
-const tone: Record<IntakeState, string> = {
-  received: 'border-rule',
-  checked: 'border-amber',
-  applied: 'border-moss',
-  rejected: 'border-brick',
-  superseded: 'border-ink-soft',
+/** An intake's state in the status family: shape and word, the colour repeating them. */
+const tone: Record<IntakeState, Tone> = {
+  received: 'neutral',
+  checked: 'attention',
+  applied: 'good',
+  rejected: 'alarm',
+  superseded: 'muted',
 };
 
 export function IntakeStateBadge({ state }: { state: IntakeState }) {
-  return <span className={`inline-block border-l-4 bg-paper px-2 py-0.5 text-xs font-semibold uppercase tracking-wide ${tone[state]}`}>{state}</span>;
+  return <StateTag text={state} tone={tone[state]} />;
 }

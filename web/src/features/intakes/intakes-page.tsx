@@ -14,7 +14,7 @@ const col = createColumnHelper<IntakeSummary>();
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
 
 const columns = [
-  col.accessor('fileName', { header: 'File', cell: (c) => <Link className="text-moss underline" to={paths.intake(c.row.original.id)}>{c.getValue()}</Link> }),
+  col.accessor('fileName', { header: 'File', cell: (c) => <Link className="text-accent underline" to={paths.intake(c.row.original.id)}>{c.getValue()}</Link> }),
   col.accessor('kind', { header: 'Kind' }),
   col.accessor('state', { header: 'State', cell: (c) => <IntakeStateBadge state={c.getValue()} /> }),
   col.accessor((r) => (r.monthFrom ? `${r.monthFrom}${r.monthTo && r.monthTo !== r.monthFrom ? ` to ${r.monthTo}` : ''}` : ''), { id: 'months', header: 'Months' }),

@@ -69,7 +69,7 @@ function Orphans({ diff, role, intakeId }: { diff: RosterDiff; role: Role | null
   if (!o || o.count === 0) return null;
   const n = showCount(o.count, role, undefined, o.withheld).text;
   return (
-    <div role="alert" className="mt-4 border-l-4 border-brick bg-brick-soft px-4 py-3">
+    <div role="alert" className="mt-4 note note-alarm px-4 py-3">
       <p className="font-semibold">
         Applying this roster leaves {n} stored {o.count === 1 ? 'case' : 'cases'} without a roster row
       </p>

@@ -45,7 +45,7 @@ export function UploadPanel() {
 
   const rejected = upload.error && isApiError(upload.error) ? rejectedDetails.safeParse(upload.error.problem.details) : null;
   return (
-    <section aria-labelledby={`${ids}-h`} className="border border-rule bg-panel p-4">
+    <section aria-labelledby={`${ids}-h`} className="card p-4">
       <h2 id={`${ids}-h`} className="text-lg font-semibold">New intake</h2>
       <div className="mt-3 flex flex-wrap gap-6">
         <fieldset>
@@ -71,7 +71,7 @@ export function UploadPanel() {
         {kind === 'cases' && (
           <div className="flex max-w-md flex-col gap-1">
             <label htmlFor={`${ids}-through`} className="text-sm font-medium">Reports cases through (month)</label>
-            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 rounded-sm border border-rule px-2 py-1" />
+            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 rounded-sm border border-line px-2 py-1" />
             <p id={`${ids}-through-hint`} className="text-xs text-ink-soft">
               Every case of your sites up to the end of this month is in the list. Left empty: the later of the list's last onset month and the latest month with hours in for your sites
               {latestRostered ? ` (now ${formatMonth(latestRostered)})` : ''}.
@@ -86,16 +86,16 @@ export function UploadPanel() {
         }}
         onDragLeave={() => setDragging(false)}
         onDrop={onDrop}
-        className={`mt-4 border-2 border-dashed px-4 py-6 text-center ${dragging ? 'border-moss bg-moss-soft' : 'border-rule'}`}
+        className={`mt-4 border-2 border-dashed px-4 py-6 text-center ${dragging ? 'border-ok bg-accent-soft' : 'border-line'}`}
       >
         <p>{file ? <>Selected: <strong>{file.name}</strong> ({formatCount(file.size)} bytes)</> : 'Drop a CSV file here, or'}</p>
-        <label className="mt-2 inline-block cursor-pointer text-moss underline">
+        <label className="mt-2 inline-block cursor-pointer text-accent underline">
           {file ? 'choose another file' : 'choose a file'}
           <input ref={input} type="file" accept=".csv,text/csv" className="sr-only" onChange={(e) => choose(e.target.files?.[0])} />
         </label>
       </div>
       <div className="mt-4 flex flex-wrap items-center gap-4">
-        <button type="button" disabled={!file || upload.isPending} onClick={send} className="rounded-sm bg-moss px-5 py-2 font-medium text-white hover:bg-ink disabled:opacity-50">
+        <button type="button" disabled={!file || upload.isPending} onClick={send} className="btn btn-primary px-5 py-2">
           {upload.isPending ? 'Uploading …' : 'Upload and check'}
         </button>
         {(upload.isPending || progress > 0) && (
@@ -107,20 +107,20 @@ export function UploadPanel() {
       </div>
       <div aria-live="polite">
         {upload.data && (
-          <p role="status" className="mt-4 border-l-4 border-moss bg-moss-soft px-4 py-3">
+          <p role="status" className="mt-4 note note-ok px-4 py-3">
             {upload.data.duplicate ? 'This file was taken in before; nothing changed. ' : ''}
             Intake <strong>{upload.data.intake.fileName}</strong> is <strong>{upload.data.intake.state}</strong> ({formatCount(upload.data.intake.rowCount)} rows).{' '}
-            <Link className="text-moss underline" to={paths.intake(upload.data.intake.id)}>
+            <Link className="text-accent underline" to={paths.intake(upload.data.intake.id)}>
               Open the intake
             </Link>
           </p>
         )}
         {upload.error && (
-          <div role="alert" className="mt-4 border-l-4 border-brick bg-brick-soft px-4 py-3">
+          <div role="alert" className="mt-4 note note-alarm px-4 py-3">
             <p>{isApiError(upload.error) ? upload.error.problem.message : String(upload.error)}</p>
             {rejected?.success && (
               <p className="mt-1">
-                <Link className="text-moss underline" to={paths.intake(rejected.data.intake.id)}>
+                <Link className="text-accent underline" to={paths.intake(rejected.data.intake.id)}>
                   See all {formatCount(rejected.data.intake.problemCount)} problems, by line and column
                 </Link>
               </p>

@@ -38,7 +38,7 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
   return (
     <form
       aria-labelledby={`${ids}-h`}
-      className="no-print mt-4 max-w-2xl border border-ink bg-panel p-4"
+      className="no-print mt-4 max-w-2xl border border-ink bg-surface p-4"
       onSubmit={(e) => {
         e.preventDefault();
         submit();
@@ -53,7 +53,7 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
       <p className="mt-1 text-sm">Now: {periodStateLabels[period.state]}.</p>
       {closing && !forced && <p className="mt-2 text-sm">Roster and case list are both in. A closed month still takes corrections, and the calendar marks them.</p>}
       {forced && (
-        <p className="mt-2 border-l-4 border-amber bg-amber-soft px-3 py-2 text-sm">
+        <p className="mt-2 note note-watch px-3 py-2 text-sm">
           <span aria-hidden="true">⚠ </span>
           {period.state === 'hours_in' ? 'No case list reports this month yet.' : period.state === 'cases_in' ? 'The roster of this month is not in.' : 'Nothing has been received for this month.'} Closing it
           says nothing more will come: the month then counts as complete in the results and the watch rules. Say why.
@@ -70,11 +70,11 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
           maxLength={500}
           aria-invalid={missing ? true : undefined}
           aria-describedby={missing ? `${ids}-missing` : undefined}
-          className="rounded-sm border border-rule px-2 py-1.5"
+          className="rounded-sm border border-line px-2 py-1.5"
         />
       </div>
       {missing && (
-        <p id={`${ids}-missing`} role="alert" className="mt-2 text-sm text-brick">
+        <p id={`${ids}-missing`} role="alert" className="mt-2 text-sm text-alarm">
           <span aria-hidden="true">⚠ </span>Write a reason of a few words first.
         </p>
       )}
@@ -84,10 +84,10 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
         </div>
       )}
       <div className="mt-3 flex flex-wrap gap-3">
-        <button type="submit" disabled={mutation.isPending} className="rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink disabled:opacity-60">
+        <button type="submit" disabled={mutation.isPending} className="btn btn-primary px-4 py-2">
           {mutation.isPending ? 'Saving …' : closing ? 'Close the month' : 'Reopen the month'}
         </button>
-        <button type="button" onClick={onCancel} className="rounded-sm border border-ink px-4 py-2 font-medium hover:bg-paper">
+        <button type="button" onClick={onCancel} className="btn btn-quiet px-4 py-2">
           Cancel
         </button>
       </div>

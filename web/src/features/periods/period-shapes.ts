@@ -1,24 +1,25 @@
 import type { PeriodState } from '@ratewarden/shared/periods';
+import type { Shape, Tone } from '../../components/status/status-shape';
 
 /**
- * The shape beside each state's words on the calendar, filled as more arrives: the state is
- * read from the shape and the words, never from colour alone.
+ * The shape beside each state's words on the calendar, from the status family: the circle fills
+ * as more arrives, a closed month is a square. The state is read from the shape and the words,
+ * never from colour alone.
  */
-export const periodStateShapes: Record<PeriodState, string> = {
-  awaiting: '○',
-  hours_in: '◐',
-  cases_in: '◑',
-  ready: '●',
-  closed: '■',
+export const periodStateShapes: Record<PeriodState, Shape> = {
+  awaiting: 'ring',
+  hours_in: 'half-left',
+  cases_in: 'half-right',
+  ready: 'disc',
+  closed: 'square',
 };
 
-/** The left rule of a cell: a repeat of the words for those who see colour. */
-export const periodStateRules: Record<PeriodState, string> = {
-  awaiting: 'border-rule',
-  hours_in: 'border-amber',
-  cases_in: 'border-amber',
-  ready: 'border-moss',
-  closed: 'border-ink',
+export const periodStateTones: Record<PeriodState, Tone> = {
+  awaiting: 'neutral',
+  hours_in: 'attention',
+  cases_in: 'attention',
+  ready: 'good',
+  closed: 'done',
 };
 
 export const CORRECTED_SHAPE = '✎';

@@ -9,7 +9,8 @@ import { formatMonth, formatWhen } from '../../lib/dates';
 import { usePendingRun } from '../../api/get-pending-run';
 import { usePeriodCalendar } from '../../api/get-period-calendar';
 import { PeriodChangeForm } from './period-change-form';
-import { CORRECTED_SHAPE, CORRECTED_TEXT, periodStateRules, periodStateShapes } from './period-shapes';
+import { StatusShape, toneTint } from '../../components/status/status-shape';
+import { CORRECTED_SHAPE, CORRECTED_TEXT, periodStateShapes, periodStateTones } from './period-shapes';
 
 const SHIFT = 12;
 
@@ -17,8 +18,8 @@ function Legend() {
   return (
     <ul aria-label="What the calendar shows" className="mt-4 flex flex-wrap gap-x-6 gap-y-1 text-sm">
       {periodStates.map((s) => (
-        <li key={s}>
-          <span aria-hidden="true" className="mr-1">{periodStateShapes[s]}</span>
+        <li key={s} className="flex items-center gap-1.5">
+          <StatusShape shape={periodStateShapes[s]} tone={periodStateTones[s]} />
           {periodStateLabels[s]}
         </li>
       ))}
@@ -33,14 +34,14 @@ function Legend() {
 function Cell({ period, siteName, mayClose, onChange }: { period: SitePeriod; siteName: string; mayClose: boolean; onChange: () => void }) {
   const label = periodStateLabels[period.state];
   return (
-    <td className={`border-l-4 px-2 py-1.5 align-top ${periodStateRules[period.state]}`}>
-      <span className="flex flex-wrap items-baseline gap-x-2">
-        <span>
-          <span aria-hidden="true" className="mr-1">{periodStateShapes[period.state]}</span>
+    <td className="px-2 py-1.5 align-top">
+      <span className="flex flex-wrap items-center gap-x-2">
+        <span className={`inline-flex items-center gap-1.5 rounded-full px-2.5 py-0.5 font-medium ${toneTint[periodStateTones[period.state]]}`}>
+          <StatusShape shape={periodStateShapes[period.state]} tone={periodStateTones[period.state]} />
           {label}
         </span>
         {mayClose && (
-          <button type="button" onClick={onChange} className="no-print text-xs font-medium text-moss underline">
+          <button type="button" onClick={onChange} className="no-print text-xs font-medium text-accent underline">
             {period.state === 'closed' ? 'Reopen…' : 'Close…'}
             <span className="sr-only"> {siteName}, {formatMonth(period.month)}</span>
           </button>
@@ -95,16 +96,16 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
       <PendingRunNote pending={pending.data?.pending} />
       <div aria-live="polite">
         {done && (
-          <p role="status" className="mt-3 border-l-4 border-moss bg-moss-soft px-4 py-2">
+          <p role="status" className="mt-3 note note-ok px-4 py-2">
             {done} A run is requested, so the results say which periods are complete.
           </p>
         )}
       </div>
       <div className="no-print mt-4 flex flex-wrap gap-3">
-        <button type="button" onClick={() => shift(-SHIFT)} className="rounded-sm border border-ink px-3 py-1.5 text-sm font-medium hover:bg-panel">
+        <button type="button" onClick={() => shift(-SHIFT)} className="btn btn-quiet px-3 py-1.5 text-sm">
           Earlier months
         </button>
-        <button type="button" onClick={() => shift(SHIFT)} className="rounded-sm border border-ink px-3 py-1.5 text-sm font-medium hover:bg-panel">
+        <button type="button" onClick={() => shift(SHIFT)} className="btn btn-quiet px-3 py-1.5 text-sm">
           Later months
         </button>
       </div>
@@ -130,7 +131,7 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
                 <p className="mt-4">No site is assigned to you; an administrator assigns sites.</p>
               ) : (
                 <div className="mt-4 overflow-x-auto">
-                  <table className="w-full border-collapse bg-panel text-sm">
+                  <table className="w-full border-collapse bg-surface text-sm">
                     <caption className="pb-2 text-left text-base font-semibold">
                       Sites × months, {formatMonth(data.from)} to {formatMonth(data.to)}, newest first
                     </caption>
@@ -144,7 +145,7 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
                     </thead>
                     <tbody>
                       {[...data.months].reverse().map((m) => (
-                        <tr key={m} className="border-b border-rule">
+                        <tr key={m} className="border-b border-line">
                           <th scope="row" className="whitespace-nowrap px-2 py-1.5 text-left font-medium">{formatMonth(m)}</th>
                           {data.sites.map((s) => (
                             <Cell

@@ -1,3 +1,4 @@
+import { StateTag } from '../../components/status/state-tag';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { METHODS } from '@ratewarden/shared/stats/methods';
 import { createColumnHelper } from '@tanstack/react-table';
@@ -23,7 +24,7 @@ const sortable = (x: number | null) => (x === null ? -Infinity : x);
 function columns(unit: string, ptUnit: string) {
   const col = createColumnHelper<Row>();
   return [
-    col.accessor('group', { header: 'Exposure group', cell: (c) => <>{c.getValue()}{c.row.original.reference && <span className="ml-2 text-xs font-semibold uppercase text-ink-soft">reference</span>}</> }),
+    col.accessor('group', { header: 'Exposure group', cell: (c) => <>{c.getValue()}{c.row.original.reference && <span className="ml-2"><StateTag text="reference" tone="good" /></span>}</> }),
     col.accessor((r) => r.s.cases.value ?? -1, { id: 'cases', header: 'Cases', cell: (c) => c.row.original.s.cases.text, meta: { numeric: true, csv: (r) => (r.s.cases.suppressed ? r.s.cases.text : r.s.cases.value) } }),
     col.accessor((r) => r.s.personTime, { id: 'pt', header: `Person-time (${ptUnit})`, cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
     col.accessor((r) => sortable(r.s.rate), { id: 'rate', header: `Rate ${unit} (interval)`, cell: (c) => withInterval(c.row.original.s.hidden, c.row.original.s.rate, c.row.original.s.rateLower, c.row.original.s.rateUpper), meta: { numeric: true, csv: (r) => withInterval(r.s.hidden, r.s.rate, r.s.rateLower, r.s.rateUpper) } }),

@@ -1,3 +1,4 @@
+import { StateTag } from '../../components/status/state-tag';
 import { roleMay } from '@ratewarden/shared/permissions';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useQuery } from '@tanstack/react-query';
@@ -25,7 +26,7 @@ interface Row {
 function columns(unit: string, ptUnit: string) {
   const col = createColumnHelper<Row>();
   return [
-    col.accessor('group', { header: 'Exposure group', cell: (c) => <>{c.getValue()}{c.row.original.reference && <span className="ml-2 text-xs font-semibold uppercase text-ink-soft">reference</span>}</> }),
+    col.accessor('group', { header: 'Exposure group', cell: (c) => <>{c.getValue()}{c.row.original.reference && <span className="ml-2"><StateTag text="reference" tone="good" /></span>}</> }),
     col.accessor((r) => r.shown.cases.value ?? -1, { id: 'cases', header: 'Cases', cell: (c) => c.row.original.shown.cases.text, meta: { numeric: true, csv: (r) => (r.shown.cases.suppressed ? r.shown.cases.text : r.shown.cases.value) } }),
     col.accessor((r) => r.shown.personTime, { id: 'pt', header: `Person-time (${ptUnit})`, cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
     col.accessor((r) => r.shown.rate ?? -1, { id: 'rate', header: `Rate ${unit}`, cell: (c) => (c.row.original.shown.hidden ? 'not shown' : formatEstimate(c.row.original.shown.rate)), meta: { numeric: true, csv: (r) => r.shown.rate } }),
@@ -48,24 +49,24 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
   return (
     <>
       <dl className="mt-6 grid gap-4 sm:grid-cols-3">
-        <div className="border-l-4 border-brick bg-panel px-4 py-3">
+        <div className="note note-alarm px-4 py-3">
           <dt className="text-sm text-ink-soft">Flags raised ({outcome.name})</dt>
           <dd className="text-3xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (raised ?? '…')}</dd>
         </div>
-        <div className="border-l-4 border-amber bg-panel px-4 py-3">
+        <div className="note note-watch px-4 py-3">
           <dt className="text-sm text-ink-soft">Flags in review</dt>
           <dd className="text-3xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (inReview ?? '…')}</dd>
           <dd className="mt-1 text-sm">
-            <Link className="text-moss underline" to={`${paths.flags}?outcome=${outcome.id}`}>Open the flags</Link>
+            <Link className="text-accent underline" to={`${paths.flags}?outcome=${outcome.id}`}>Open the flags</Link>
           </dd>
         </div>
-        <div className="border-l-4 border-moss bg-panel px-4 py-3">
+        <div className="note note-ok px-4 py-3">
           <dt className="text-sm text-ink-soft">Last run finished</dt>
           <dd className="text-lg font-semibold">{formatWhen(run.finishedAt)}</dd>
           <dd className="mt-1 text-sm">
             Run {run.number} over {formatCount(run.inputs.rosterIntakeIds.length)} roster and {formatCount(run.inputs.caseIntakeIds.length)} case-list intakes
             {roleMay(user.role, 'intake:read') && (
-              <> · <Link className="text-moss underline" to={paths.intakes}>intakes</Link></>
+              <> · <Link className="text-accent underline" to={paths.intakes}>intakes</Link></>
             )}
           </dd>
         </div>

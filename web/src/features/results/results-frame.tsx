@@ -93,11 +93,11 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
     return (
       <section>
         <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
-        <div role="status" className="mt-6 max-w-2xl border-l-4 border-amber bg-amber-soft px-5 py-4">
+        <div role="status" className="mt-6 max-w-2xl note note-watch px-5 py-4">
           <p className="font-semibold">{!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no figures to show.'}</p>
           <p className="mt-1">
             {roleMay(user.role, 'runs:trigger') ? (
-              <>Apply a roster and a case list, then start a run from the <Link className="text-moss underline" to={paths.runs}>run history</Link>.</>
+              <>Apply a roster and a case list, then start a run from the <Link className="text-accent underline" to={paths.runs}>run history</Link>.</>
             ) : (
               'Figures appear here after the hygienist has applied the first roster and case list and a run has finished.'
             )}
@@ -116,7 +116,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
     <section>
       <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">{intro}</p>
-      <form aria-label="Choose what to show" className="no-print mt-5 flex flex-wrap items-end gap-4 border border-rule bg-panel p-3" onSubmit={(e) => e.preventDefault()}>
+      <form aria-label="Choose what to show" className="no-print mt-5 flex flex-wrap items-end gap-4 card p-3" onSubmit={(e) => e.preventDefault()}>
         <SelectField
           label="Outcome"
           value={String(outcome.id)}

@@ -111,16 +111,16 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
 
   return (
     <section className="max-w-4xl">
-      <p className="text-sm"><Link className="text-moss underline" to={paths.rules}>← All watch rules</Link></p>
+      <p className="text-sm"><Link className="text-accent underline" to={paths.rules}>← All watch rules</Link></p>
       <h1 className="mt-2 text-3xl font-bold tracking-tight">{rule ? rule.name : 'New watch rule'}</h1>
       {parsed.success && (
-        <p className="mt-2 border-l-4 border-moss bg-panel px-3 py-2" aria-live="polite">
+        <p className="mt-2 note note-ok px-3 py-2" aria-live="polite">
           Raises a flag for {d.exposureGroupId ? groups.find((g) => String(g.id) === d.exposureGroupId)?.name : 'any group but the reference'}
           {d.scope === 'company' ? ' in the whole company' : ` at ${d.siteIds.length === 1 ? 'a site' : 'any chosen site'}, on that site's own results,`} when {describeRule(parsed.data)}.
         </p>
       )}
       {save.isError && <div className="mt-3"><ProblemNotice title="The rule was not saved" problem={problemOf(save.error).problem} /></div>}
-      <form onSubmit={submit} className="mt-5 grid gap-4 border border-rule bg-panel p-4 sm:grid-cols-2" aria-label="Watch rule">
+      <form onSubmit={submit} className="mt-5 grid gap-4 card p-4 sm:grid-cols-2" aria-label="Watch rule">
         <fieldset disabled={!canWrite} className="contents">
           <TextField label="Name" value={d.name} onChange={(e) => set('name', e.target.value)} error={errors.name} />
           <SelectField label="Outcome" value={d.outcomeId} onChange={(e) => set('outcomeId', e.target.value)} options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))} />
@@ -159,11 +159,11 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
             <input type="checkbox" checked={d.active} onChange={(e) => set('active', e.target.checked)} />
             <span className="text-sm font-medium">Active (checked after every run)</span>
           </label>
-          {errors.root && <p role="alert" className="text-sm text-brick sm:col-span-2">{errors.root}</p>}
-          {errors.window && <p role="alert" className="text-sm text-brick sm:col-span-2">{errors.window}</p>}
+          {errors.root && <p role="alert" className="text-sm text-alarm sm:col-span-2">{errors.root}</p>}
+          {errors.window && <p role="alert" className="text-sm text-alarm sm:col-span-2">{errors.window}</p>}
           {canWrite && (
             <div className="flex flex-wrap gap-3 sm:col-span-2">
-              <button type="submit" disabled={save.isPending} className="rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink disabled:opacity-60">
+              <button type="submit" disabled={save.isPending} className="btn btn-primary px-4 py-2">
                 {save.isPending ? 'Saving …' : rule ? 'Save the rule' : 'Create the rule'}
               </button>
               {rule && (
@@ -173,7 +173,7 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
                   onClick={() => {
                     if (window.confirm(`Delete the watch rule "${rule.name}"? Its flags keep their history.`)) remove.mutate(rule.id, { onSuccess: () => navigate(paths.rules) });
                   }}
-                  className="rounded-sm border border-brick px-4 py-2 font-medium text-brick hover:bg-brick-soft"
+                  className="btn btn-danger px-4 py-2"
                 >
                   Delete the rule
                 </button>

@@ -47,7 +47,7 @@ export function RuleScopeField({ value, onChange, sites, mySiteIds, error }: { v
           </div>
         </fieldset>
       )}
-      {error && <p id={errorId} role="alert" className="mt-1 text-sm text-brick">{error}</p>}
+      {error && <p id={errorId} role="alert" className="mt-1 text-sm text-alarm">{error}</p>}
     </fieldset>
   );
 }

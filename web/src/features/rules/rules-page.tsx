@@ -17,7 +17,7 @@ import { describeRule } from './describe-rule';
 type Row = WatchRule & { outcomeName: string; groupName: string; scopeName: string; sentence: string };
 const col = createColumnHelper<Row>();
 const columns = [
-  col.accessor('name', { header: 'Watch rule', cell: (c) => <Link className="font-medium text-moss underline" to={paths.rule(c.row.original.id)}>{c.getValue()}</Link> }),
+  col.accessor('name', { header: 'Watch rule', cell: (c) => <Link className="font-medium text-accent underline" to={paths.rule(c.row.original.id)}>{c.getValue()}</Link> }),
   col.accessor('outcomeName', { header: 'Outcome' }),
   col.accessor('groupName', { header: 'Groups' }),
   col.accessor('scopeName', { header: 'Watches' }),
@@ -47,7 +47,7 @@ export function RulesPage({ user }: { user: SessionUser }) {
       </p>
       {roleMay(user.role, 'rules:write') && (
         <p className="mt-4">
-          <Link to={paths.ruleNew} className="inline-block rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink">New watch rule</Link>
+          <Link to={paths.ruleNew} className="btn btn-primary inline-block px-4 py-2">New watch rule</Link>
         </p>
       )}
       <DataTable caption={`Watch rules (${rows.length})`} columns={columns} data={rows} exportName="watch-rules" rowHeader="name" />

@@ -27,7 +27,7 @@ const triggerLabels: Record<RunSummary['trigger'], string> = { schedule: 'nightl
 type Row = RunSummary & { detail: RunDetail | undefined };
 const col = createColumnHelper<Row>();
 const columns = [
-  col.accessor('number', { header: 'Run', cell: (c) => <>#{c.getValue()}{c.row.original.isCurrent && <span className="ml-2 text-xs font-semibold uppercase">live</span>}</>, meta: { numeric: true } }),
+  col.accessor('number', { header: 'Run', cell: (c) => <>#{c.getValue()}{c.row.original.isCurrent && <span className="ml-2"><StateTag text="live" tone="good" /></span>}</>, meta: { numeric: true } }),
   col.accessor('startedAt', { header: 'Started', cell: (c) => formatWhen(c.getValue()) }),
   col.accessor('trigger', { header: 'Trigger', cell: (c) => triggerLabels[c.getValue()], meta: { csv: (r) => r.trigger } }),
   col.accessor((r) => (r.detail ? r.detail.inputs.rosterIntakeIds.length + r.detail.inputs.caseIntakeIds.length : -1), {
@@ -39,7 +39,7 @@ const columns = [
   col.accessor((r) => (r.finishedAt ? new Date(r.finishedAt).getTime() - new Date(r.startedAt).getTime() : -1), { id: 'duration', header: 'Duration', cell: (c) => formatDuration(c.row.original.startedAt, c.row.original.finishedAt), meta: { numeric: true, csv: (r) => formatDuration(r.startedAt, r.finishedAt) } }),
   col.accessor('state', { header: 'Outcome', cell: (c) => <StateTag text={c.getValue()} tone={stateTone[c.getValue()]} />, meta: { csv: (r) => r.state } }),
   col.accessor('resultCount', { header: 'Results', cell: (c) => (c.getValue() === null ? '—' : formatCount(c.getValue()!)), meta: { numeric: true } }),
-  col.accessor((r) => r.error ?? r.reason ?? '', { id: 'note', header: 'Reason or error', cell: (c) => <span className={c.row.original.error ? 'text-brick' : ''}>{c.getValue() || '—'}</span> }),
+  col.accessor((r) => r.error ?? r.reason ?? '', { id: 'note', header: 'Reason or error', cell: (c) => <span className={c.row.original.error ? 'text-alarm' : ''}>{c.getValue() || '—'}</span> }),
 ];
 
 /** The run button: after a request, the list polls until the worker has picked it up and finished. */
@@ -47,7 +47,7 @@ function RunNow({ onRequested }: { onRequested: (at: string) => void }) {
   const request = useRequestRun();
   return (
     <div className="mt-4 flex flex-wrap items-center gap-3">
-      <button type="button" disabled={request.isPending} onClick={() => request.mutate(undefined, { onSuccess: (r) => onRequested(r.requestedAt) })} className="rounded-sm bg-moss px-4 py-2 font-medium text-white hover:bg-ink disabled:opacity-60">
+      <button type="button" disabled={request.isPending} onClick={() => request.mutate(undefined, { onSuccess: (r) => onRequested(r.requestedAt) })} className="btn btn-primary px-4 py-2">
         {request.isPending ? 'Asking …' : 'Run now'}
       </button>
       <span className="text-sm text-ink-soft">The worker picks the request up within seconds; the figures switch when the run has succeeded.</span>

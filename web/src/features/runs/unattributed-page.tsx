@@ -32,7 +32,7 @@ export function UnattributedPage() {
   return (
     <section>
       <p className="text-sm">
-        <Link to={paths.runs} className="text-moss underline">← Run history</Link>
+        <Link to={paths.runs} className="text-accent underline">← Run history</Link>
       </p>
       <h1 className="mt-2 text-3xl font-bold tracking-tight">Cases not attributed</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
