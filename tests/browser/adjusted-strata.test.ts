@@ -40,9 +40,9 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
     const female = await rowCells(table, 'female');
     // Men: EXP 6 cases, REF 3, on equal person-time (5 men each at 160 h): IRR 2. Women: EXP 6, REF 2: IRR 3.
     expect([male[1], male[4]]).toEqual(['6', '3']);
-    expect(male[7]).toMatch(/^2\.000 \(/);
+    expect(male[7]).toMatch(/^2 \(/);
     expect([female[1], female[4]]).toEqual(['6', '2']);
-    expect(female[7]).toMatch(/^3\.000 \(/);
+    expect(female[7]).toMatch(/^3 \(/);
     await page.getByRole('combobox', { name: 'Group', exact: true }).selectOption({ label: 'Group MID' });
     await page.getByRole('table', { name: /^Group MID against Group REF, by sex/ }).waitFor();
     await page.close();

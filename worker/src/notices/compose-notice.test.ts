@@ -32,7 +32,7 @@ describe('threshold notice text', () => {
     expect(text).toContain('Scope: the whole company');
     expect(text).toContain('Period: 12 months ending May 2031, complete');
     expect(text).toContain('Cases in the group: 4; expected at the reference rate: 1.1');
-    expect(text).toContain('Value: 21.50 (estimate 64.20, 95% interval 21.50 to 149.80)');
+    expect(text).toContain('Value: 21.5 (estimate 64.2, 95% interval 21.5 to 150)');
     expect(text).toContain('Sign in to review the flag: https://ratewarden.example/flags/00000000-0000-4000-8000-000000000001');
   });
 

@@ -1,3 +1,4 @@
+import { formatCount, formatFigure, NOT_DEFINED } from '@ratewarden/shared/number-format';
 import type { Completeness } from '@ratewarden/shared/periods';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
@@ -64,16 +65,17 @@ const kindWords: Record<NoticeKind, { subject: string; opening: string }> = {
   crossed_again: { subject: 'flag past the rule again', opening: 'An open flag that a run had found below its watch rule is past the rule again.' },
 };
 
-function num(x: number | null, digits = 2): string {
-  if (x === null) return 'not defined';
+/** Every figure in a notice reads as it does in the app: the one number rule. */
+function num(x: number | null): string {
+  if (x === null) return NOT_DEFINED;
   if (!Number.isFinite(x)) return x > 0 ? 'infinite' : '-infinite';
-  return x.toLocaleString('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: Math.min(digits, 2) });
+  return formatFigure(x);
 }
 
 function unit(settings: RunSettings): string {
   return settings.personTimeBasis === 'person_years'
-    ? `per ${num(settings.per, 0)} person-years (2,000 hours = 1 person-year)`
-    : `per ${num(settings.per * 200_000, 0)} hours worked`;
+    ? `per ${formatCount(settings.per)} person-years (2,000 hours = 1 person-year)`
+    : `per ${formatCount(settings.per * 200_000)} hours worked`;
 }
 
 /** "Dec 2031" for 2031-12-01. */
@@ -114,9 +116,9 @@ export function composeNotice(f: NoticeFacts): { subject: string; text: string }
           f.measure === 'uchart'
             ? `Value: ${num(f.value)} times the upper control limit`
             : `Value: ${num(f.value)} (estimate ${num(f.estimate)}, ${pct}% interval ${num(f.lower)} to ${num(f.upper)})`,
-          `Cases in the group: ${f.cases}; expected at the reference rate: ${num(f.expected, 1)}`,
+          `Cases in the group: ${f.cases}; expected at the reference rate: ${num(f.expected)}`,
         ]),
-    `Person-time: ${num(f.personTime, 1)} ${f.settings.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 hours'}; rates ${unit(f.settings)}`,
+    `Person-time: ${num(f.personTime)} ${f.settings.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 hours'}; rates ${unit(f.settings)}`,
     '',
     `Sign in to review the flag: ${f.appUrl.replace(/\/$/, '')}/flags/${f.flagId}`,
     '',
