@@ -1,13 +1,15 @@
 import type { DataSource } from 'typeorm';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
-import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
+import { clearCohortData, makeCohort, settings, type Cohort } from '../integration/runs-fixture';
 
 /**
  * A private cohort with one flag for the browser tests, made with SQL and one real run: groups
  * REF (reference), MID and EXP with 10 workers each over two months of 2032 (160 h a month);
  * EXP has 24 confirmed cases, REF and MID five each, so EXP's IRR is 4.8 with an exact lower 95%
  * bound well above 1 and the watch rule "IRR lower bound above 1" raises exactly one flag (rules
- * look at counts every reader may see only, so the reference count is not small).
+ * look at counts every reader may see only, so the reference count is not small). Other files'
+ * cohorts are emptied first: a site of theirs still expected in these months would leave the
+ * company's months partial, and rules look at complete periods only.
  */
 export interface FlagFixture {
   cohort: Cohort;
@@ -17,6 +19,7 @@ export interface FlagFixture {
 }
 
 export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
+  await clearCohortData(ds);
   const c = await makeCohort(ds, { groups: [['REF', 0], ['MID', 1], ['EXP', 2]], reference: 'REF', outcomes: [['DERM', 'recurrent']] });
   const ids: Record<string, number[]> = { REF: [], MID: [], EXP: [] };
   const rows: Array<[number, string, number, number, number]> = [];

@@ -20,7 +20,8 @@ const seconds = (d: Date, s: number) => new Date(d.getTime() + s * 1000);
  * clock the test moves), watch rules see complete periods only (no flag and no notice from the
  * roster-only month), and a run made between the two marks that month partial in its results.
  */
-describe('the month of issue 12: roster first, case list a minute later', () => {
+// Each test builds a year of history through the API: slow on a busy machine, so it gets three minutes.
+describe('the month of issue 12: roster first, case list a minute later', { timeout: 180_000 }, () => {
   let ds: DataSource;
   let app: ReturnType<typeof createApp>;
   let c: MonthCohort;
@@ -58,7 +59,7 @@ describe('the month of issue 12: roster first, case list a minute later', () => 
     // The history's run: twelve complete months, IRR 1.25, no flag.
     expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(await latestRequestAt(), QUIET + 1) })).toMatchObject({ status: 'succeeded' });
     expect(await flagsAndNotices()).toEqual({ flags: [], notices: 0 });
-  });
+  }, 180_000);
 
   it('runs once after both uploads: the quiet interval starts again with the case list', async () => {
     expect(await runCount()).toBe(1);
