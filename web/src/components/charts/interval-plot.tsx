@@ -30,8 +30,11 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
     const max = Math.max(1, ...values);
     // Axis ends at powers of 2 around the data and 1 (ticks at 0.25, 0.5, 1, 2, 4 ... read easily as
     // "half", "double"); infinite limits run to the edge.
-    const lo = 2 ** Math.floor(Math.log2(min) - 0.01);
-    const hi = 2 ** Math.ceil(Math.log2(max) + 0.01);
+    // Past 1/16 or 16 the powers of 2 would read 0.03125: powers of 10 take over (0.01, 0.1, 1, 10).
+    const wide = min < 1 / 16 || max > 16;
+    const base = wide ? 10 : 2;
+    const lo = base ** Math.floor(Math.log(min) / Math.log(base) - 0.01);
+    const hi = base ** Math.ceil(Math.log(max) / Math.log(base) + 0.01);
     const ink = tokenColour('ink', '#1f3a3d');
     const accent = tokenColour('accent', '#3a44a6');
     const labels = items.map((i) => i.label);
@@ -39,7 +42,7 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
       aria: { enabled: true, description: `${title}. ${items.map((i) => `${i.label}: ${formatEstimate(i.estimate)} (${formatEstimate(i.lower)} to ${formatEstimate(i.upper)})`).join('; ')}.` },
       animation: false,
       grid: { left: 8, right: 24, top: 16, bottom: 40, containLabel: true },
-      xAxis: { type: 'log', logBase: 2, min: lo, max: hi, name: valueLabel, nameLocation: 'middle', nameGap: 26, axisLabel: { formatter: (v: number) => formatEstimate(v) } },
+      xAxis: { type: 'log', logBase: base, min: lo, max: hi, name: valueLabel, nameLocation: 'middle', nameGap: 26, axisLabel: { formatter: (v: number) => formatEstimate(v) } },
       yAxis: { type: 'category', data: labels, inverse: true, axisTick: { show: false } },
       tooltip: {
         trigger: 'item',

@@ -18,7 +18,7 @@ function seriesOf(results: RunResult[], periods: string[], name: string, ctx: Re
       .filter((r) => inRange.has(r.period))
       .map((r) => {
         const s = shownResult(r, ctx.user.role);
-        return { period: month(r.period), rate: s.rate, lower: s.rateLower, upper: s.rateUpper, cases: s.cases.text, personTime: r.personTime, partial: r.completeness === 'partial' };
+        return { period: month(r.period), rate: s.rate, lower: s.rateLower, upper: s.rateUpper, cases: s.cases.text, personTime: r.personTime, partial: r.completeness === 'partial', withheld: s.hidden };
       }),
   };
 }
