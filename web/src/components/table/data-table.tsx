@@ -52,11 +52,15 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
                 return (
                   <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'} className="px-2 py-1.5 font-semibold">
                     {h.column.getCanSort() ? (
-                      <button type="button" onClick={h.column.getToggleSortingHandler()} className="flex items-center gap-1 text-left hover:underline">
-                        {flexRender(h.column.columnDef.header, h.getContext())}
-                        <span aria-hidden="true" className="text-xs">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
-                        <span className="sr-only">{sorted ? `, sorted ${sorted === 'asc' ? 'ascending' : 'descending'}` : ', sort'}</span>
-                      </button>
+                      <>
+                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="flex items-center gap-1 text-left hover:text-accent-strong">
+                          {flexRender(h.column.columnDef.header, h.getContext())}
+                          <span aria-hidden="true" className="text-xs text-ink-soft">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
+                          <span className="sr-only">{sorted ? `, sorted ${sorted === 'asc' ? 'ascending' : 'descending'}` : ', sort'}</span>
+                        </button>
+                        {/* Print hides every button: the header's words print from here instead. */}
+                        <span className="hidden print:inline">{flexRender(h.column.columnDef.header, h.getContext())}</span>
+                      </>
                     ) : (
                       flexRender(h.column.columnDef.header, h.getContext())
                     )}

@@ -4,7 +4,7 @@ import { paths } from '../../config/paths';
 export function NoRolePage({ name }: { name?: string }) {
   return (
     <section className="max-w-2xl">
-      <h1 className="text-3xl font-bold tracking-tight">No role yet</h1>
+      <h1 className="text-2xl font-bold tracking-tight">No role yet</h1>
       <div className="mt-6 note note-watch px-5 py-4">
         <p>
           {name ? `${name}, you are signed in` : 'You are signed in'}, but no role has been given to you yet, so there is

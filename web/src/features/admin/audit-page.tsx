@@ -13,7 +13,7 @@ export function AuditPage() {
   const audit = useAudit(filters);
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Administration</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Administration</h1>
       <AdminTabs />
       <form
         aria-label="Filter the audit log"

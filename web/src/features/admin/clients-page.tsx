@@ -19,7 +19,7 @@ export function ClientsPage() {
   const [errors, setErrors] = useState<Record<string, string>>({});
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Administration</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Administration</h1>
       <AdminTabs />
       <p className="mt-4 max-w-3xl text-ink-soft">An integration client may only push intakes. The identity provider issues its credentials; registering it here lets Ratewarden accept its tokens, revoking it stops them at once.</p>
       {revoke.isError && <ProblemNotice title="Not revoked" problem={problemOf(revoke.error).problem} />}

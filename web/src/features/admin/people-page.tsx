@@ -77,7 +77,7 @@ export function PeoplePage() {
   const siteNames = (ids: number[]) => (ids.length ? ids.map((id) => sites.find((s) => s.id === id)?.name ?? id).join(', ') : 'none');
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Administration</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Administration</h1>
       <AdminTabs />
       <ResultTable
         caption={`People (${users.length})`}

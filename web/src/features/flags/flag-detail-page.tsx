@@ -2,6 +2,7 @@ import { roleMay } from '@ratewarden/shared/permissions';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { Link } from 'react-router';
 import { Cautions } from '../../components/cautions/cautions';
+import { PrintButton } from '../../components/layout/print-button';
 import { StateTag } from '../../components/status/state-tag';
 import { ResultTable } from '../../components/table/result-table';
 import { UnitsStrip } from '../../components/units/units-strip';
@@ -44,10 +45,13 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
   return (
     <section>
       <p className="text-sm"><Link className="text-accent underline" to={paths.flags}>← All flags</Link></p>
-      <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
+      <h1 className="mt-2 flex flex-wrap items-center gap-3 text-2xl font-bold tracking-tight">
         {flag.exposureGroupName}: {outcome?.name ?? `outcome ${flag.outcomeId}`}{flag.siteName ? ` at ${flag.siteName}` : ''}
         <StateTag {...flagStateLabels[flag.state]} />
       </h1>
+      <div className="mt-2">
+        <PrintButton what="this flag" />
+      </div>
       <p className="mt-2 text-ink-soft">
         Raised {formatWhen(flag.raisedAt)} by the watch rule{' '}
         <Link className="font-medium text-accent underline" to={paths.rule(flag.ruleId)}>{flag.ruleName}</Link>

@@ -43,7 +43,7 @@ export function FlagsPage() {
   const rows = flags.map((f) => ({ ...f, outcomeName: outcomes.find((o) => o.id === f.outcomeId)?.name ?? `outcome ${f.outcomeId}` }));
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Flags</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Flags</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         A run raises a flag when a watch rule's threshold is crossed, on the whole company's results or on one site's own. The safety manager reviews each one and closes it with a reason. You see the flags of your sites, and the company's when you have every site.
       </p>

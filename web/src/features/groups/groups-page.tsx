@@ -19,7 +19,7 @@ export function GroupsPage({ user }: { user: SessionUser }) {
   const sorted = [...groups].sort((a, b) => (a.exposureLevel ?? 999) - (b.exposureLevel ?? 999) || a.name.localeCompare(b.name));
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Exposure groups</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Exposure groups</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         Each group is compared with the reference group; the ordinal exposure levels order the groups for the trend test. A change applies from the next run.
       </p>

@@ -15,7 +15,7 @@ export function OutcomesPage({ user }: { user: SessionUser }) {
   const globalRef = groups.find((g) => g.isReference)?.name ?? 'none set';
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Outcomes</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Outcomes</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">What counts as a case of each outcome, whether a worker can count more than once, and which group it is compared with.</p>
       <ResultTable
         caption={`Outcomes (${outcomes.length})`}

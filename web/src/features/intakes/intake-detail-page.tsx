@@ -41,7 +41,7 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
       <p className="text-sm">
         <Link to={paths.intakes} className="text-accent underline">← All intakes</Link>
       </p>
-      <h1 className="mt-2 flex flex-wrap items-center gap-3 text-3xl font-bold tracking-tight">
+      <h1 className="mt-2 flex flex-wrap items-center gap-3 text-2xl font-bold tracking-tight">
         {intake.fileName} <IntakeStateBadge state={intake.state} />
       </h1>
       <dl className="mt-4 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4">

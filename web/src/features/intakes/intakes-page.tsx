@@ -28,7 +28,7 @@ export function IntakesPage({ user }: { user: SessionUser }) {
   const { data } = useIntakes({ offset: 0 });
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Intakes</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Intakes</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         Rosters and case lists are checked row by row and applied whole, replacing an earlier version of the same site and
         month (kept as superseded), or rejected whole with every problem listed.

@@ -87,7 +87,7 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
   };
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Reporting periods</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Reporting periods</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         Each month of each site, from nothing received to roster and case list both in. A month counts as complete when both are in, or when the hygienist has closed it;
         results mark the periods that are not, and watch rules look at complete periods only.{mayClose ? ' Close a month once nothing more is expected for it; a closed month still takes corrections, and they are marked.' : ''}

@@ -51,11 +51,11 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
       <dl className="mt-6 grid gap-4 sm:grid-cols-3">
         <div className="note note-alarm px-4 py-3">
           <dt className="text-sm text-ink-soft">Flags raised ({outcome.name})</dt>
-          <dd className="text-3xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (raised ?? '…')}</dd>
+          <dd className="text-2xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (raised ?? '…')}</dd>
         </div>
         <div className="note note-watch px-4 py-3">
           <dt className="text-sm text-ink-soft">Flags in review</dt>
-          <dd className="text-3xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (inReview ?? '…')}</dd>
+          <dd className="text-2xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (inReview ?? '…')}</dd>
           <dd className="mt-1 text-sm">
             <Link className="text-accent underline" to={`${paths.flags}?outcome=${outcome.id}`}>Open the flags</Link>
           </dd>

@@ -10,6 +10,7 @@ import { Cautions } from '../../components/cautions/cautions';
 import { QueryState } from '../../components/feedback/query-state';
 import { SelectField } from '../../components/form/select-field';
 import { UnitsStrip } from '../../components/units/units-strip';
+import { PrintButton } from '../../components/layout/print-button';
 import { UnattributedNote } from '../../components/data-quality/unattributed-note';
 import { paths } from '../../config/paths';
 import { formatMonth, formatWhen } from '../../lib/dates';
@@ -92,7 +93,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   if (!run || !outcome) {
     return (
       <section>
-        <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
+        <h1 className="text-2xl font-bold tracking-tight">{title}</h1>
         <div role="status" className="mt-6 max-w-2xl note note-watch px-5 py-4">
           <p className="font-semibold">{!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no figures to show.'}</p>
           <p className="mt-1">
@@ -114,7 +115,10 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   ];
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">{title}</h1>
+      <div className="flex flex-wrap items-start justify-between gap-3">
+        <h1 className="text-2xl font-bold tracking-tight">{title}</h1>
+        <PrintButton />
+      </div>
       <p className="mt-2 max-w-3xl text-ink-soft">{intro}</p>
       <form aria-label="Choose what to show" className="no-print mt-5 flex flex-wrap items-end gap-4 card p-3" onSubmit={(e) => e.preventDefault()}>
         <SelectField

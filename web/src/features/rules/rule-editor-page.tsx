@@ -112,7 +112,7 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
   return (
     <section className="max-w-4xl">
       <p className="text-sm"><Link className="text-accent underline" to={paths.rules}>← All watch rules</Link></p>
-      <h1 className="mt-2 text-3xl font-bold tracking-tight">{rule ? rule.name : 'New watch rule'}</h1>
+      <h1 className="mt-2 text-2xl font-bold tracking-tight">{rule ? rule.name : 'New watch rule'}</h1>
       {parsed.success && (
         <p className="mt-2 note note-ok px-3 py-2" aria-live="polite">
           Raises a flag for {d.exposureGroupId ? groups.find((g) => String(g.id) === d.exposureGroupId)?.name : 'any group but the reference'}

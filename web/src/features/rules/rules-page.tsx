@@ -41,7 +41,7 @@ export function RulesPage({ user }: { user: SessionUser }) {
   }));
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Watch rules</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Watch rules</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         After every run each active rule is checked against the new results, the company's or each chosen site's own; where it holds, a flag is raised (or updated) and the recipients get a threshold notice. When a later run withdraws a worsening or finds a flag no longer past its rule, they get a follow-up.
       </p>

@@ -95,7 +95,7 @@ export function RunsPage({ user }: { user: SessionUser }) {
   const finishedRequest = requestedAt ? list.find((r) => r.finishedAt && r.startedAt >= requestedAt) : undefined;
   return (
     <section>
-      <h1 className="text-3xl font-bold tracking-tight">Run history</h1>
+      <h1 className="text-2xl font-bold tracking-tight">Run history</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         Every night, and whenever the hygienist asks, a run recomputes every rate from the applied intakes. A run either succeeds whole and becomes the live figures, or fails and leaves the previous ones live.
       </p>

@@ -34,7 +34,7 @@ export function UnattributedPage() {
       <p className="text-sm">
         <Link to={paths.runs} className="text-accent underline">← Run history</Link>
       </p>
-      <h1 className="mt-2 text-3xl font-bold tracking-tight">Cases not attributed</h1>
+      <h1 className="mt-2 text-2xl font-bold tracking-tight">Cases not attributed</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
         Cases the live run counts but cannot place in any exposure group: no roster row with hours holds the worker in the onset month (moved back by the outcome's exposure lag). They are in no group's figures until a roster gives them one, or the case is corrected.
       </p>
