@@ -1,13 +1,14 @@
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { Cautions } from '../../components/cautions/cautions';
 import { UnitsStrip, type UnitsSettings } from '../../components/units/units-strip';
 import type { RateInput, TableInput } from './ad-hoc-schemas';
-import { basisLabels, defaultSettings, perLabel, ratioMethodLabels, type AdHocSettings } from './ad-hoc-settings';
+import { basisLabels, differenceMethodLabels, perLabel, ratioMethodLabels, type AdHocSettings } from './ad-hoc-settings';
 import { computeRates, computeRisks } from './compute';
 import { RateForm } from './rate-form';
 import { RateResults } from './rate-results';
 import { RiskResults } from './risk-results';
 import { SettingsControls } from './settings-controls';
+import { loadSettings, saveSettings } from './stored-settings';
 import { TableForm } from './table-form';
 
 type Mode = 'rates' | 'table';
@@ -15,7 +16,8 @@ type Mode = 'rates' | 'table';
 /** Two groups compared in the browser by the shared statistics core; nothing is sent anywhere. */
 export function AdHocPage() {
   const [mode, setMode] = useState<Mode>('rates');
-  const [settings, setSettings] = useState<AdHocSettings>(defaultSettings);
+  const [settings, setSettings] = useState<AdHocSettings>(() => loadSettings(browserStorage()));
+  useEffect(() => saveSettings(browserStorage(), settings), [settings]);
   const [rateInput, setRateInput] = useState<RateInput | null>(null);
   const [tableInput, setTableInput] = useState<TableInput | null>(null);
 
@@ -24,8 +26,8 @@ export function AdHocPage() {
 
   const units: UnitsSettings =
     mode === 'rates'
-      ? { basis: basisLabels[settings.basis], multiplier: perLabel(settings), confidence: settings.confidence, intervalMethod: `${ratioMethodLabels[settings.ratioMethod]} in the reading; exact, mid-p and Wald all shown` }
-      : { basis: 'people followed for the same period (a fixed cohort)', multiplier: 'risks as proportions', confidence: settings.confidence, intervalMethod: 'Newcombe, Miettinen–Nurminen, Mee and Wald for the risk difference; Katz for the risk ratio; Woolf and exact for the odds ratio' };
+      ? { basis: basisLabels[settings.basis], multiplier: perLabel(settings), confidence: settings.confidence, intervalMethod: `${ratioMethodLabels[settings.ratioMethod]} leads; the other methods are compared in the fold below` }
+      : { basis: 'people followed for the same period (a fixed cohort)', multiplier: 'risks as proportions', confidence: settings.confidence, intervalMethod: `${differenceMethodLabels[settings.differenceMethod]} leads for the risk difference; Katz for the risk ratio; Woolf and exact for the odds ratio; the other methods are compared in the fold below` };
   const computed = mode === 'rates' ? rates : risks;
 
   return (
@@ -67,7 +69,7 @@ export function AdHocPage() {
               ) : mode === 'rates' && rates?.ok && rateInput ? (
                 <RateResults input={rateInput} result={rates.result} settings={settings} />
               ) : mode === 'table' && risks?.ok ? (
-                <RiskResults result={risks.result} />
+                <RiskResults result={risks.result} method={settings.differenceMethod} />
               ) : null}
             </div>
             <Cautions />
@@ -76,4 +78,13 @@ export function AdHocPage() {
       </div>
     </section>
   );
+}
+
+/** Local storage when the browser offers it (some refuse it outright in private windows). */
+function browserStorage(): Storage | undefined {
+  try {
+    return window.localStorage;
+  } catch {
+    return undefined;
+  }
 }

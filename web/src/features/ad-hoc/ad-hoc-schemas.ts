@@ -39,16 +39,17 @@ export const rateInputSchema = z.object({
 export type RateInputText = z.input<typeof rateInputSchema>;
 export type RateInput = z.output<typeof rateInputSchema>;
 
+/** The 2×2 table by meaning: exposure in rows, the outcome in columns, never letters. */
 export const tableInputSchema = z
   .object({
-    a: count('the exposed cases'),
-    b: count('the exposed non-cases'),
-    c: count('the reference cases'),
-    d: count('the reference non-cases'),
+    exposedWith: count('the number exposed, with the outcome'),
+    exposedWithout: count('the number exposed, without the outcome'),
+    unexposedWith: count('the number not exposed, with the outcome'),
+    unexposedWithout: count('the number not exposed, without the outcome'),
   })
   .superRefine((t, ctx) => {
-    if (t.a + t.b === 0) ctx.addIssue({ code: 'custom', path: ['b'], message: 'The exposed group is empty: enter at least one person.' });
-    if (t.c + t.d === 0) ctx.addIssue({ code: 'custom', path: ['d'], message: 'The reference group is empty: enter at least one person.' });
+    if (t.exposedWith + t.exposedWithout === 0) ctx.addIssue({ code: 'custom', path: ['exposedWithout'], message: 'The exposed group is empty: enter at least one person.' });
+    if (t.unexposedWith + t.unexposedWithout === 0) ctx.addIssue({ code: 'custom', path: ['unexposedWithout'], message: 'The group not exposed is empty: enter at least one person.' });
   });
 export type TableInputText = z.input<typeof tableInputSchema>;
 export type TableInput = z.output<typeof tableInputSchema>;

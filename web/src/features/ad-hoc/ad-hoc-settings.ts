@@ -1,15 +1,24 @@
-/** Units and interval choices of the ad hoc comparison; the reader picks them, the strip shows them. */
+/**
+ * Units and interval choices of the ad hoc comparison, decided here once: the default settings, the
+ * preferred interval method that leads the results (one for rate ratios, one for risk differences),
+ * and the interval each group's rate takes to match it. The page remembers the reader's choices on
+ * this device (stored-settings.ts).
+ */
 export type Basis = 'person-years' | 'hours';
 export type RatioMethod = 'exact' | 'midP' | 'wald';
+export type DifferenceMethod = 'newcombe' | 'miettinenNurminen' | 'mee' | 'wald';
 
 export interface AdHocSettings {
   basis: Basis;
   per: number;
   confidence: number;
+  /** The rate-ratio interval that leads the rates results. */
   ratioMethod: RatioMethod;
+  /** The risk-difference interval that leads the 2×2 results. */
+  differenceMethod: DifferenceMethod;
 }
 
-export const defaultSettings: AdHocSettings = { basis: 'person-years', per: 1000, confidence: 0.95, ratioMethod: 'exact' };
+export const defaultSettings: AdHocSettings = { basis: 'person-years', per: 1000, confidence: 0.95, ratioMethod: 'exact', differenceMethod: 'newcombe' };
 
 export const perChoices: Record<Basis, { value: number; label: string }[]> = {
   'person-years': [
@@ -34,6 +43,19 @@ export const ratioMethodLabels: Record<RatioMethod, string> = {
   midP: 'mid-p exact',
   wald: 'Wald on the log scale',
 };
+
+export const differenceMethodLabels: Record<DifferenceMethod, string> = {
+  newcombe: 'Newcombe hybrid score',
+  miettinenNurminen: 'Miettinen–Nurminen score',
+  mee: 'Mee score',
+  wald: 'Wald',
+};
+
+/** Each group's rate takes the interval of the same family as the preferred rate-ratio interval. */
+export const rateIntervalFor: Record<RatioMethod, 'exact' | 'midP' | 'byar'> = { exact: 'exact', midP: 'midP', wald: 'byar' };
+
+/** The rate-ratio p-value that belongs with each preferred interval. */
+export const ratioPFor: Record<RatioMethod, 'pExact' | 'pMidP' | 'pWald'> = { exact: 'pExact', midP: 'pMidP', wald: 'pWald' };
 
 export function perLabel(settings: Pick<AdHocSettings, 'basis' | 'per'>): string {
   return perChoices[settings.basis].find((c) => c.value === settings.per)?.label ?? `per ${settings.per}`;

@@ -18,5 +18,5 @@ export function computeRates(input: RateInput, confidence: number, per: number):
 }
 
 export function computeRisks(t: TableInput, confidence: number): Computed<RiskComparisonResult> {
-  return guarded(() => compareRisks({ cases: t.a, total: t.a + t.b }, { cases: t.c, total: t.c + t.d }, confidence));
+  return guarded(() => compareRisks({ cases: t.exposedWith, total: t.exposedWith + t.exposedWithout }, { cases: t.unexposedWith, total: t.unexposedWith + t.unexposedWithout }, confidence));
 }

@@ -4,6 +4,7 @@ import { zodResolver } from '../../lib/zod-resolver';
 import { rateInputSchema, type RateInput, type RateInputText } from './ad-hoc-schemas';
 import type { Basis } from './ad-hoc-settings';
 
+/** Cases and person-time of the two groups, each field labelled by whom and what it counts. */
 export function RateForm({ basis, onSubmit }: { basis: Basis; onSubmit: (v: RateInput) => void }) {
   const { register, handleSubmit, formState: { errors } } = useForm<RateInputText, unknown, RateInput>({
     resolver: zodResolver(rateInputSchema),
@@ -13,15 +14,15 @@ export function RateForm({ basis, onSubmit }: { basis: Basis; onSubmit: (v: Rate
   return (
     <form noValidate onSubmit={handleSubmit(onSubmit)} aria-label="Two groups as cases and person-time" className="grid gap-4">
       <div className="grid gap-4 sm:grid-cols-2">
-        <fieldset className="grid gap-3 border-l-4 border-amber bg-panel p-4">
-          <legend className="font-semibold">Exposed group</legend>
-          <TextField label="Exposed group: cases" inputMode="numeric" autoComplete="off" error={errors.exposed?.cases?.message} {...register('exposed.cases')} />
-          <TextField label={`Exposed group: ${ptLabel}`} inputMode="decimal" autoComplete="off" error={errors.exposed?.personTime?.message} {...register('exposed.personTime')} />
+        <fieldset className="grid gap-3 rounded-md border border-rule bg-panel p-4">
+          <legend className="px-1 font-semibold">Exposed group</legend>
+          <TextField label="Exposed: cases with the outcome" inputMode="numeric" autoComplete="off" error={errors.exposed?.cases?.message} {...register('exposed.cases')} />
+          <TextField label={`Exposed: ${ptLabel} followed`} inputMode="decimal" autoComplete="off" error={errors.exposed?.personTime?.message} {...register('exposed.personTime')} />
         </fieldset>
-        <fieldset className="grid gap-3 border-l-4 border-moss bg-panel p-4">
-          <legend className="font-semibold">Reference group</legend>
-          <TextField label="Reference group: cases" inputMode="numeric" autoComplete="off" error={errors.reference?.cases?.message} {...register('reference.cases')} />
-          <TextField label={`Reference group: ${ptLabel}`} inputMode="decimal" autoComplete="off" error={errors.reference?.personTime?.message} {...register('reference.personTime')} />
+        <fieldset className="grid gap-3 rounded-md border border-rule bg-panel p-4">
+          <legend className="px-1 font-semibold">Group not exposed (the reference)</legend>
+          <TextField label="Not exposed: cases with the outcome" inputMode="numeric" autoComplete="off" error={errors.reference?.cases?.message} {...register('reference.cases')} />
+          <TextField label={`Not exposed: ${ptLabel} followed`} inputMode="decimal" autoComplete="off" error={errors.reference?.personTime?.message} {...register('reference.personTime')} />
         </fieldset>
       </div>
       <div>

@@ -1,85 +1,103 @@
 import type { RateComparisonResult } from '@ratewarden/shared/stats';
 import { IntervalPlot } from '../../components/charts/interval-plot';
 import { ResultTable, type ResultRow } from '../../components/table/result-table';
-import { formatAmount, formatCount, formatEstimate, formatP, formatPercent } from '../../lib/format';
+import { formatConfidence } from '../../components/units/units-strip';
+import { formatAmount, formatCount, formatEstimate, formatInterval, formatP, formatPercent } from '../../lib/format';
 import type { RateInput } from './ad-hoc-schemas';
-import { perUnit, type AdHocSettings } from './ad-hoc-settings';
+import { perUnit, rateIntervalFor, ratioMethodLabels, ratioPFor, type AdHocSettings, type RatioMethod } from './ad-hoc-settings';
+import { LeadResult } from './lead-result';
+import { agreementSentence, ratioMethodsNote } from './method-agreement';
+import { MethodsFold } from './methods-fold';
 import { ReasonsList } from './reasons-list';
 import { rateReading } from './reading';
 
 type Limits = { lower: number | null; upper: number | null };
 
-function row(key: string, name: string, estimate: number | null, limits: Limits | null, method: string, asPercent = false): ResultRow {
+function measureRow(key: string, name: string, estimate: number | null, limits: Limits | null, p: number | null, method: string, asPercent = false): ResultRow {
   const f = asPercent ? formatPercent : formatEstimate;
   return {
     key,
-    cells: [name, f(estimate), limits ? f(limits.lower) : '—', limits ? f(limits.upper) : '—', method],
-    csv: [name, estimate, limits?.lower ?? null, limits?.upper ?? null, method],
+    cells: [name, f(estimate), limits ? f(limits.lower) : '—', limits ? f(limits.upper) : '—', p === null ? '—' : formatP(p), method],
+    csv: [name, estimate, limits?.lower ?? null, limits?.upper ?? null, p, method],
   };
 }
 
+const ratioMethods: RatioMethod[] = ['exact', 'midP', 'wald'];
+
+/** Rates of two groups: the rate ratio by the preferred method leads; every other method folds below. */
 export function RateResults({ input, result: r, settings }: { input: RateInput; result: RateComparisonResult; settings: AdHocSettings }) {
   const unit = perUnit(settings);
+  const conf = formatConfidence(r.confidence);
+  const method = settings.ratioMethod;
+  const interval = r.irr[method];
+  const p = r.irr[ratioPFor[method]];
+  const rateMethod = rateIntervalFor[method];
   const ptName = settings.basis === 'hours' ? 'Hours worked' : 'Person-years';
   const groups: [string, RateInput['exposed'], RateComparisonResult['rateExposed']][] = [
     ['Exposed', input.exposed, r.rateExposed],
-    ['Reference', input.reference, r.rateReference],
+    ['Not exposed (reference)', input.reference, r.rateReference],
   ];
-  const rateRows: ResultRow[] = groups.map(([name, g, rate]) => ({
+
+  const groupRows: ResultRow[] = groups.map(([name, g, rate]) => ({
     key: name,
-    cells: [name, formatCount(g.cases), formatAmount(g.personTime), formatEstimate(rate.estimate), `${formatEstimate(rate.exact.lower)} to ${formatEstimate(rate.exact.upper)}`, `${formatEstimate(rate.midP.lower)} to ${formatEstimate(rate.midP.upper)}`, `${formatEstimate(rate.byar.lower)} to ${formatEstimate(rate.byar.upper)}`],
-    csv: [name, g.cases, g.personTime, rate.estimate, rate.exact.lower, rate.exact.upper, rate.midP.lower, rate.midP.upper, rate.byar.lower, rate.byar.upper],
+    cells: [name, formatCount(g.cases), formatAmount(g.personTime), formatEstimate(rate.estimate), formatInterval(rate[rateMethod])],
+    csv: [name, g.cases, g.personTime, rate.estimate, rate[rateMethod].lower, rate[rateMethod].upper],
   }));
-  const measureRows: ResultRow[] = [
-    row('irr-exact', 'Incidence rate ratio', r.irr.estimate, r.irr.exact, r.irr.methods.exact),
-    row('irr-midp', 'Incidence rate ratio', r.irr.estimate, r.irr.midP, r.irr.methods.midP),
-    row('irr-wald', 'Incidence rate ratio', r.irr.estimate, r.irr.wald, r.irr.methods.wald),
-    row('ird', `Rate difference ${unit}`, r.ird.estimate, r.ird.wald, r.ird.methods.wald),
-    row('af-exposed', 'Attributable fraction among the exposed', r.afExposed.estimate, r.afExposed, r.methods.afExposed, true),
-    row('af-population', 'Attributable fraction in the population', r.afPopulation, null, r.methods.afPopulation, true),
-    row('excess', 'Excess cases in the exposed group', r.excessCases, null, 'observed − expected at the reference rate'),
+  const otherRows: ResultRow[] = [
+    measureRow('ird', `Rate difference ${unit}`, r.ird.estimate, r.ird.wald, r.ird.p, `${r.ird.methods.wald}; p by the Wald z test`),
+    measureRow('af-exposed', 'Attributable fraction among the exposed', r.afExposed.estimate, r.afExposed, null, r.methods.afExposed, true),
+    measureRow('af-population', 'Attributable fraction in the population', r.afPopulation, null, null, r.methods.afPopulation, true),
+    measureRow('excess', 'Excess cases in the exposed group', r.excessCases, null, null, 'observed − expected at the reference rate'),
   ];
-  const tests: [string, string, number | null, string][] = [
-    ['p-exact', 'Rate ratio = 1', r.irr.pExact, r.irr.methods.pExact],
-    ['p-exact-ml', 'Rate ratio = 1', r.irr.pExactMinLikelihood, r.irr.methods.pExactMinLikelihood],
-    ['p-midp', 'Rate ratio = 1', r.irr.pMidP, r.irr.methods.pMidP],
-    ['p-score', 'Rate ratio = 1', r.irr.pScore, r.irr.methods.pScore],
-    ['p-wald', 'Rate ratio = 1', r.irr.pWald, r.irr.methods.pWald],
-    ['p-ird', 'Rate difference = 0', r.ird.p, `${r.ird.methods.wald} z`],
+
+  const methodRows: ResultRow[] = [
+    ...ratioMethods.map((m) => {
+      const name = `${ratioMethodLabels[m]}${m === method ? ' (preferred)' : ''}`;
+      const pm = r.irr[ratioPFor[m]];
+      const how = `${r.irr.methods[m]}; p ${r.irr.methods[ratioPFor[m]]}`;
+      return { key: m, cells: [name, formatEstimate(r.irr.estimate), formatEstimate(r.irr[m].lower), formatEstimate(r.irr[m].upper), formatP(pm), how], csv: [name, r.irr.estimate, r.irr[m].lower, r.irr[m].upper, pm, how] };
+    }),
+    ...([
+      ['p-exact-ml', 'exact, minimum-likelihood rule (test only)', r.irr.pExactMinLikelihood, r.irr.methods.pExactMinLikelihood],
+      ['p-score', 'score (test only)', r.irr.pScore, r.irr.methods.pScore],
+    ] as const).map(([key, name, pm, how]) => ({ key, cells: [name, '—', '—', '—', formatP(pm), how], csv: [name, null, null, null, pm, how] })),
   ];
-  const conf = `${Number((r.confidence * 100).toFixed(2))}%`;
+  const rateMethodRows: ResultRow[] = groups.flatMap(([name, , rate]) =>
+    (['exact', 'midP', 'byar'] as const).map((m) => ({
+      key: `${name}-${m}`,
+      cells: [`${name}, ${rate.methods[m]}${m === rateMethod ? ' (preferred)' : ''}`, formatEstimate(rate.estimate), formatEstimate(rate[m].lower), formatEstimate(rate[m].upper)],
+      csv: [`${name}, ${rate.methods[m]}`, rate.estimate, rate[m].lower, rate[m].upper],
+    })),
+  );
+  const fewest = Math.min(input.exposed.cases, input.reference.cases);
+
   return (
     <div>
-      <section aria-labelledby="reading-heading" className="border-l-4 border-moss bg-moss-soft px-5 py-4">
-        <h2 id="reading-heading" className="font-semibold">What the numbers say</h2>
-        <ul className="mt-1 space-y-1">
-          {rateReading(r, settings.ratioMethod, unit).map((t) => (
-            <li key={t}>{t}</li>
-          ))}
-        </ul>
-      </section>
+      <LeadResult
+        measure="Rate ratio, exposed over not exposed"
+        method={ratioMethodLabels[method]}
+        estimate={formatEstimate(r.irr.estimate)}
+        interval={`${conf} CI ${formatInterval(interval)}`}
+        detail={p === null ? undefined : `p = ${formatP(p)} for no difference in rates (${r.irr.methods[ratioPFor[method]]})`}
+        plot={<IntervalPlot title={`Rate ratio with its ${conf} interval`} items={[{ label: ratioMethodLabels[method], estimate: r.irr.estimate, ...interval }]} />}
+        reading={rateReading(r, method, unit)}
+      />
       <ResultTable
-        caption={`Rates ${unit}`}
-        columns={['Group', 'Cases', ptName, `Rate ${unit}`, `${conf} CI, ${r.rateExposed.methods.exact}`, `${conf} CI, ${r.rateExposed.methods.midP}`, `${conf} CI, ${r.rateExposed.methods.byar}`]}
-        rows={rateRows}
+        caption={`The two groups, rates ${unit}`}
+        columns={['Group', 'Cases', ptName, `Rate ${unit}`, `${conf} CI, ${r.rateExposed.methods[rateMethod]}`]}
+        rows={groupRows}
         exportName="ad-hoc-rates"
       />
-      <IntervalPlot
-        title={`Incidence rate ratio with its ${conf} intervals`}
-        items={[
-          { label: 'exact conditional', estimate: r.irr.estimate, ...r.irr.exact },
-          { label: 'mid-p exact', estimate: r.irr.estimate, ...r.irr.midP },
-          { label: 'Wald (log scale)', estimate: r.irr.estimate, ...r.irr.wald },
-        ]}
-      />
-      <ResultTable caption="Comparison of the exposed with the reference group" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'Method']} rows={measureRows} exportName="ad-hoc-rate-comparison" />
-      <ResultTable
-        caption="Tests"
-        columns={['Hypothesis', 'p', 'Method']}
-        rows={tests.map(([key, h, p, m]) => ({ key, cells: [h, formatP(p), m], csv: [h, p, m] }))}
-        exportName="ad-hoc-rate-tests"
-      />
+      <ResultTable caption="Other measures of the comparison" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'p', 'Method']} rows={otherRows} exportName="ad-hoc-rate-measures" />
       <ReasonsList reasons={r.reasons} />
+      <MethodsFold summary="Other interval methods, compared" notes={[ratioMethodsNote, agreementSentence(ratioMethods.map((m) => r.irr[m]), 'ratio', fewest)]}>
+        <IntervalPlot
+          title={`Rate ratio by each method, ${conf} intervals`}
+          items={ratioMethods.map((m) => ({ label: ratioMethodLabels[m], estimate: r.irr.estimate, ...r.irr[m] }))}
+        />
+        <ResultTable caption="Rate ratio by each method" columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'p, no difference', 'How']} rows={methodRows} exportName="ad-hoc-rate-ratio-methods" />
+        <ResultTable caption={`Each group's rate by each method, ${unit}`} columns={['Group and method', 'Rate', `${conf} lower`, `${conf} upper`]} rows={rateMethodRows} exportName="ad-hoc-rate-methods" />
+      </MethodsFold>
     </div>
   );
 }

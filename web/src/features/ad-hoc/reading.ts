@@ -1,7 +1,7 @@
 import type { RateComparisonResult, RiskComparisonResult } from '@ratewarden/shared/stats';
 import { formatConfidence } from '../../components/units/units-strip';
 import { formatEstimate, formatInterval, formatPercent } from '../../lib/format';
-import { ratioMethodLabels, type RatioMethod } from './ad-hoc-settings';
+import { differenceMethodLabels, ratioMethodLabels, type DifferenceMethod, type RatioMethod } from './ad-hoc-settings';
 
 /**
  * Plain-language readings of a comparison, one sentence per idea, using the same numbers as the
@@ -45,7 +45,7 @@ export function rateReading(r: RateComparisonResult, method: RatioMethod, unit: 
   return out;
 }
 
-export function riskReading(r: RiskComparisonResult): string[] {
+export function riskReading(r: RiskComparisonResult, method: DifferenceMethod): string[] {
   const conf = formatConfidence(r.confidence);
   const out: string[] = [];
   const rr = r.rr.estimate;
@@ -59,7 +59,7 @@ export function riskReading(r: RiskComparisonResult): string[] {
   const rd = r.rd.estimate;
   if (rd !== null) {
     out.push(
-      `The risks differ by ${formatPercent(Math.abs(rd))} of the people in each group, ${rd >= 0 ? 'higher' : 'lower'} among the exposed (${conf} CI ${formatPercent(r.rd.newcombe.lower)} to ${formatPercent(r.rd.newcombe.upper)} for exposed minus reference, Newcombe hybrid score).`,
+      `The risks differ by ${formatPercent(Math.abs(rd))} of the people in each group, ${rd >= 0 ? 'higher' : 'lower'} among the exposed (${conf} CI ${formatPercent(r.rd[method].lower)} to ${formatPercent(r.rd[method].upper)} for exposed minus reference, ${differenceMethodLabels[method]}).`,
     );
   }
   const nnt = r.nnt;

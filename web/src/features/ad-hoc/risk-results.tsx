@@ -1,7 +1,13 @@
 import type { RiskComparisonResult } from '@ratewarden/shared/stats';
 import { IntervalPlot } from '../../components/charts/interval-plot';
 import { ResultTable, type ResultRow } from '../../components/table/result-table';
+import { formatConfidence } from '../../components/units/units-strip';
 import { formatCount, formatEstimate, formatP, formatPercent } from '../../lib/format';
+import { differenceMethodLabels, type DifferenceMethod } from './ad-hoc-settings';
+import { DifferencePlot } from './difference-plot';
+import { LeadResult } from './lead-result';
+import { agreementSentence, differenceMethodsNote, tableTestsNote } from './method-agreement';
+import { MethodsFold } from './methods-fold';
 import { ReasonsList } from './reasons-list';
 import { riskReading } from './reading';
 
@@ -15,15 +21,18 @@ function row(key: string, name: string, estimate: number | null, limits: Limits 
   };
 }
 
-export function RiskResults({ result: r }: { result: RiskComparisonResult }) {
+const differenceMethods: DifferenceMethod[] = ['newcombe', 'miettinenNurminen', 'mee', 'wald'];
+
+/** Percentage points from a proportion: 0.2 → "20.00". */
+const points = (x: number | null) => (x === null ? 'not defined' : formatEstimate(x * 100));
+
+/** A fixed cohort's 2×2 table: the risk difference by the preferred method leads; every other method folds below. */
+export function RiskResults({ result: r, method }: { result: RiskComparisonResult; method: DifferenceMethod }) {
   const { a, b, c, d } = r.table;
-  const conf = `${Number((r.confidence * 100).toFixed(2))}%`;
+  const conf = formatConfidence(r.confidence);
+  const interval = r.rd[method];
   const nntMethod = r.nnt.throughInfinity ? `${r.methods.nnt}; the interval runs through infinity (harm from the lower limit, benefit beyond the upper)` : r.methods.nnt;
-  const rows: ResultRow[] = [
-    row('rd-newcombe', 'Risk difference', r.rd.estimate, r.rd.newcombe, r.rd.methods.newcombe),
-    row('rd-mn', 'Risk difference', r.rd.estimate, r.rd.miettinenNurminen, r.rd.methods.miettinenNurminen),
-    row('rd-mee', 'Risk difference', r.rd.estimate, r.rd.mee, r.rd.methods.mee),
-    row('rd-wald', 'Risk difference', r.rd.estimate, r.rd.wald, r.rd.methods.wald),
+  const otherRows: ResultRow[] = [
     row('rr', 'Risk ratio', r.rr.estimate, r.rr.katz, r.rr.methods.katz),
     row('or-woolf', 'Odds ratio', r.or.estimate, r.or.woolf, r.or.methods.woolf),
     row('or-exact', 'Odds ratio (conditional maximum likelihood)', r.or.exact.estimate, r.or.exact, r.or.methods.exact),
@@ -31,29 +40,35 @@ export function RiskResults({ result: r }: { result: RiskComparisonResult }) {
     row('af-exposed', 'Attributable fraction among the exposed', r.attributable.afExposed.estimate, r.attributable.afExposed, r.attributable.methods.afExposed),
     row('af-population', 'Attributable fraction in the population', r.attributable.afPopulation.estimate, r.attributable.afPopulation, r.attributable.methods.afPopulation),
   ];
+  const methodRows: ResultRow[] = differenceMethods.map((m) =>
+    row(m, `${differenceMethodLabels[m]}${m === method ? ' (preferred)' : ''}`, r.rd.estimate, r.rd[m], r.rd.methods[m]),
+  );
   const tests: [string, string, number | null, string, number | null][] = [
-    ['chi', 'No association (risks equal)', r.pChiSquare, r.methods.chiSquare, r.chiSquare.chi2],
-    ['chi-yates', 'No association (risks equal)', r.pChiSquareYates, r.methods.chiSquareYates, r.chiSquareYates.chi2],
-    ['fisher', 'No association (risks equal)', r.pFisher, r.methods.fisher, null],
+    ['chi', 'Chi-square', r.pChiSquare, r.methods.chiSquare, r.chiSquare.chi2],
+    ['chi-yates', 'Chi-square, continuity-corrected', r.pChiSquareYates, r.methods.chiSquareYates, r.chiSquareYates.chi2],
+    ['fisher', 'Fisher exact', r.pFisher, r.methods.fisher, null],
   ];
   const groups: [string, number, number][] = [
-    ['Exposed', a, a + b],
-    ['Reference', c, c + d],
+    ['Exposed', a, b],
+    ['Not exposed (reference)', c, d],
   ];
   return (
     <div>
-      <section aria-labelledby="reading-heading" className="border-l-4 border-moss bg-moss-soft px-5 py-4">
-        <h2 id="reading-heading" className="font-semibold">What the numbers say</h2>
-        <ul className="mt-1 space-y-1">
-          {riskReading(r).map((t) => (
-            <li key={t}>{t}</li>
-          ))}
-        </ul>
-      </section>
+      <LeadResult
+        measure="Risk difference, exposed minus not exposed"
+        method={differenceMethodLabels[method]}
+        estimate={`${points(r.rd.estimate)} percentage points`}
+        interval={`${conf} CI ${points(interval.lower)} to ${points(interval.upper)} percentage points`}
+        plot={<DifferencePlot title={`Risk difference with its ${conf} interval`} label={differenceMethodLabels[method]} estimate={r.rd.estimate} {...interval} />}
+        reading={riskReading(r, method)}
+      />
       <ResultTable
-        caption="Risks"
-        columns={['Group', 'Cases', 'People', 'Risk']}
-        rows={groups.map(([name, cases, n]) => ({ key: name, cells: [name, formatCount(cases), formatCount(n), n === 0 ? 'not defined' : formatPercent(cases / n)], csv: [name, cases, n, n === 0 ? null : cases / n] }))}
+        caption="The two groups"
+        columns={['Group', 'With the outcome', 'Without', 'People', 'Risk']}
+        rows={groups.map(([name, cases, non]) => {
+          const n = cases + non;
+          return { key: name, cells: [name, formatCount(cases), formatCount(non), formatCount(n), n === 0 ? 'not defined' : formatPercent(cases / n)], csv: [name, cases, non, n, n === 0 ? null : cases / n] };
+        })}
         exportName="ad-hoc-risks"
       />
       <IntervalPlot
@@ -65,14 +80,17 @@ export function RiskResults({ result: r }: { result: RiskComparisonResult }) {
           { label: 'odds ratio (exact)', ...r.or.exact },
         ]}
       />
-      <ResultTable caption="Comparison of the exposed with the reference group" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'Method']} rows={rows} exportName="ad-hoc-risk-comparison" />
-      <ResultTable
-        caption="Tests"
-        columns={['Hypothesis', 'Statistic', 'p', 'Method']}
-        rows={tests.map(([key, h, p, m, stat]) => ({ key, cells: [h, stat === null ? '—' : `χ² = ${formatEstimate(stat)}`, formatP(p), m], csv: [h, stat, p, m] }))}
-        exportName="ad-hoc-risk-tests"
-      />
+      <ResultTable caption="Other measures of the comparison" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'Method']} rows={otherRows} exportName="ad-hoc-risk-measures" />
       <ReasonsList reasons={r.reasons} />
+      <MethodsFold summary="Other interval methods and tests, compared" notes={[differenceMethodsNote, agreementSentence(differenceMethods.map((m) => r.rd[m]), 'difference', Math.min(a, b, c, d)), tableTestsNote]}>
+        <ResultTable caption="Risk difference by each method" columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'How']} rows={methodRows} exportName="ad-hoc-risk-difference-methods" />
+        <ResultTable
+          caption="Tests of equal risks"
+          columns={['Test', 'Statistic', 'p', 'How']}
+          rows={tests.map(([key, name, p, m, stat]) => ({ key, cells: [name, stat === null ? '—' : `χ² = ${formatEstimate(stat)}`, formatP(p), m], csv: [name, stat, p, m] }))}
+          exportName="ad-hoc-risk-tests"
+        />
+      </MethodsFold>
     </div>
   );
 }

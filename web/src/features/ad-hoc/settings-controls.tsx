@@ -1,11 +1,11 @@
 import { SelectField } from '../../components/form/select-field';
 import { confidenceChoices } from './ad-hoc-schemas';
-import { perChoices, ratioMethodLabels, type AdHocSettings, type Basis, type RatioMethod } from './ad-hoc-settings';
+import { differenceMethodLabels, perChoices, ratioMethodLabels, type AdHocSettings, type Basis, type DifferenceMethod, type RatioMethod } from './ad-hoc-settings';
 
 export function SettingsControls({ mode, settings, onChange }: { mode: 'rates' | 'table'; settings: AdHocSettings; onChange: (s: AdHocSettings) => void }) {
   return (
     <fieldset className="grid gap-4 border border-rule bg-panel p-4 sm:grid-cols-2 lg:grid-cols-4">
-      <legend className="px-1 text-sm font-semibold">Settings</legend>
+      <legend className="px-1 text-sm font-semibold">Settings (remembered on this device)</legend>
       {mode === 'rates' && (
         <>
           <SelectField
@@ -34,12 +34,19 @@ export function SettingsControls({ mode, settings, onChange }: { mode: 'rates' |
         onChange={(e) => onChange({ ...settings, confidence: Number(e.target.value) })}
         options={confidenceChoices.map((c) => ({ value: c, label: `${Number(c) * 100}%` }))}
       />
-      {mode === 'rates' && (
+      {mode === 'rates' ? (
         <SelectField
-          label="Interval used in the reading"
+          label="Preferred rate-ratio interval"
           value={settings.ratioMethod}
           onChange={(e) => onChange({ ...settings, ratioMethod: e.target.value as RatioMethod })}
           options={Object.entries(ratioMethodLabels).map(([value, label]) => ({ value, label }))}
+        />
+      ) : (
+        <SelectField
+          label="Preferred risk-difference interval"
+          value={settings.differenceMethod}
+          onChange={(e) => onChange({ ...settings, differenceMethod: e.target.value as DifferenceMethod })}
+          options={Object.entries(differenceMethodLabels).map(([value, label]) => ({ value, label }))}
         />
       )}
     </fieldset>

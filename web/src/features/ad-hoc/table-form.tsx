@@ -3,25 +3,31 @@ import { TextField } from '../../components/form/text-field';
 import { zodResolver } from '../../lib/zod-resolver';
 import { tableInputSchema, type TableInput, type TableInputText } from './ad-hoc-schemas';
 
-/** The 2×2 table laid out as it is usually written: exposure in rows, outcome in columns. */
+const cells = [
+  { name: 'exposedWith', label: 'Exposed, with the outcome' },
+  { name: 'exposedWithout', label: 'Exposed, without the outcome' },
+  { name: 'unexposedWith', label: 'Not exposed, with the outcome' },
+  { name: 'unexposedWithout', label: 'Not exposed, without the outcome' },
+] as const;
+
+/**
+ * The 2×2 table entered by meaning: each field says whom it counts, in reading order (exposed then
+ * not exposed; with then without the outcome), so Tab walks the table row by row. On a wide screen
+ * the fields sit as the table; on a phone they stack, each still saying whom it counts.
+ */
 export function TableForm({ onSubmit }: { onSubmit: (v: TableInput) => void }) {
   const { register, handleSubmit, formState: { errors } } = useForm<TableInputText, unknown, TableInput>({
     resolver: zodResolver(tableInputSchema),
-    defaultValues: { a: '', b: '', c: '', d: '' },
+    defaultValues: { exposedWith: '', exposedWithout: '', unexposedWith: '', unexposedWithout: '' },
   });
   return (
-    <form noValidate onSubmit={handleSubmit(onSubmit)} aria-label="Two-by-two table of counts" className="grid gap-4">
-      <div className="grid max-w-2xl grid-cols-[auto_1fr_1fr] items-start gap-3 bg-panel p-4">
-        <span />
-        <span className="text-sm font-semibold">Cases (with the outcome)</span>
-        <span className="text-sm font-semibold">Non-cases</span>
-        <span className="pt-7 text-sm font-semibold">Exposed</span>
-        <TextField label="a: exposed cases" inputMode="numeric" autoComplete="off" error={errors.a?.message} {...register('a')} />
-        <TextField label="b: exposed non-cases" inputMode="numeric" autoComplete="off" error={errors.b?.message} {...register('b')} />
-        <span className="pt-7 text-sm font-semibold">Reference</span>
-        <TextField label="c: reference cases" inputMode="numeric" autoComplete="off" error={errors.c?.message} {...register('c')} />
-        <TextField label="d: reference non-cases" inputMode="numeric" autoComplete="off" error={errors.d?.message} {...register('d')} />
-      </div>
+    <form noValidate onSubmit={handleSubmit(onSubmit)} aria-label="Counts of people by exposure and outcome" className="grid gap-4">
+      <fieldset className="grid max-w-2xl gap-4 rounded-md border border-rule bg-panel p-4 sm:grid-cols-2">
+        <legend className="px-1 font-semibold">People followed for the same period, by exposure and outcome</legend>
+        {cells.map((c) => (
+          <TextField key={c.name} label={c.label} hint="number of people" inputMode="numeric" autoComplete="off" error={errors[c.name]?.message} {...register(c.name)} />
+        ))}
+      </fieldset>
       <div>
         <button type="submit" className="rounded-sm bg-moss px-5 py-2 font-medium text-white hover:bg-ink">
           Compare the risks

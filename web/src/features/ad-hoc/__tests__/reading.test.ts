@@ -8,9 +8,9 @@ describe('plain-language readings', () => {
     // published IRR 0.46 (0.38 to 0.55), rate difference -7.22 (-8.43 to -6.00) per 1000 PY (as printed in the epiR::epi.2by2 help page, example 5).
     const r = compareRates({ cases: 136, personTime: 22050 }, { cases: 1709, personTime: 127650 }, { per: 1000 });
     const [ratio, diff] = rateReading(r, 'exact', 'per 1,000 person-years');
-    expect(ratio).toContain('0.4607 times the rate in the reference group (lower, not higher; 95% CI 0.3840 to 0.5489, exact conditional)');
+    expect(ratio).toContain('0.461 times the rate in the reference group (lower, not higher; 95% CI 0.384 to 0.549, exact conditional)');
     expect(ratio).toContain('The interval excludes 1.');
-    expect(diff).toContain('7.220 fewer cases per 1,000 person-years');
+    expect(diff).toContain('7.22 fewer cases per 1,000 person-years');
   });
 
   it('says when the interval includes 1', () => {
@@ -26,8 +26,14 @@ describe('plain-language readings', () => {
 
   it('reads the number needed to harm from a 2×2 table', () => {
     // Newcombe, Stat Med 1998;17:873-890, Table II example (a): 56/70 vs 48/80, RD 0.2 (Newcombe 0.0524 to 0.3339), NNT 5.
-    const lines = riskReading(compareRisks({ cases: 56, total: 70 }, { cases: 48, total: 80 }));
-    expect(lines[1]).toContain('20.00% of the people in each group, higher among the exposed (95% CI 5.243% to 33.39%');
-    expect(lines[2]).toContain('one additional case for every 5.000 people exposed (number needed to harm).');
+    const lines = riskReading(compareRisks({ cases: 56, total: 70 }, { cases: 48, total: 80 }), 'newcombe');
+    expect(lines[1]).toContain('20% of the people in each group, higher among the exposed (95% CI 5.24% to 33.4% for exposed minus reference, Newcombe hybrid score)');
+    expect(lines[2]).toContain('one additional case for every 5 people exposed (number needed to harm).');
+  });
+
+  it('reads the risk difference by the preferred method', () => {
+    // Newcombe, Stat Med 1998;17:873-890, Table II example (a): method 6 (Miettinen–Nurminen) 0.0528 to 0.3382.
+    const lines = riskReading(compareRisks({ cases: 56, total: 70 }, { cases: 48, total: 80 }), 'miettinenNurminen');
+    expect(lines[1]).toContain('95% CI 5.28% to 33.8% for exposed minus reference, Miettinen–Nurminen score');
   });
 });
