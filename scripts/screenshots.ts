@@ -41,12 +41,26 @@ const shots: Shot[] = [
     path: '/ad-hoc',
     prepare: async (page) => {
       // Feychting et al., Epidemiology 1998 (136/22,050 vs 1,709/127,650 person-years).
-      await page.getByLabel('Exposed group: cases').fill('136');
-      await page.getByLabel('Exposed group: person-years').fill('22050');
-      await page.getByLabel('Reference group: cases').fill('1709');
-      await page.getByLabel('Reference group: person-years').fill('127650');
+      await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('136');
+      await page.getByLabel('Exposed: person-years followed', { exact: true }).fill('22050');
+      await page.getByLabel('Not exposed: cases with the outcome', { exact: true }).fill('1709');
+      await page.getByLabel('Not exposed: person-years followed', { exact: true }).fill('127650');
       await page.getByRole('button', { name: 'Compare the rates' }).click();
       await page.getByRole('region', { name: 'What the numbers say' }).waitFor();
+    },
+  },
+  {
+    name: 'ad-hoc-rates-methods',
+    path: '/ad-hoc',
+    prepare: async (page) => {
+      // 3 versus 2 cases in equal person-time, where the methods part; the fold of other methods opened.
+      await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('3');
+      await page.getByLabel('Exposed: person-years followed', { exact: true }).fill('100');
+      await page.getByLabel('Not exposed: cases with the outcome', { exact: true }).fill('2');
+      await page.getByLabel('Not exposed: person-years followed', { exact: true }).fill('100');
+      await page.getByRole('button', { name: 'Compare the rates' }).click();
+      await page.getByText('Other interval methods, compared').click();
+      await page.getByRole('region', { name: 'When the methods differ' }).scrollIntoViewIfNeeded();
     },
   },
   {
@@ -54,14 +68,14 @@ const shots: Shot[] = [
     path: '/ad-hoc',
     prepare: async (page) => {
       await page.getByLabel(/2×2 table/).check();
-      for (const [label, v] of [['a: exposed cases', '56'], ['b: exposed non-cases', '14'], ['c: reference cases', '48'], ['d: reference non-cases', '32']] as const) {
-        await page.getByLabel(label).fill(v);
+      for (const [label, v] of [['Exposed, with the outcome', '56'], ['Exposed, without the outcome', '14'], ['Not exposed, with the outcome', '48'], ['Not exposed, without the outcome', '32']] as const) {
+        await page.getByLabel(label, { exact: true }).fill(v);
       }
       await page.getByRole('button', { name: 'Compare the risks' }).click();
       await page.getByRole('region', { name: 'What the numbers say' }).waitFor();
     },
   },
-  { name: 'ad-hoc-bad-input', path: '/ad-hoc', prepare: async (page) => { await page.getByLabel('Exposed group: cases').fill('2.5'); await page.getByRole('button', { name: 'Compare the rates' }).click(); } },
+  { name: 'ad-hoc-bad-input', path: '/ad-hoc', prepare: async (page) => { await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('2.5'); await page.getByRole('button', { name: 'Compare the rates' }).click(); } },
   { name: 'no-role', path: '/no-role' },
   { name: 'not-found', path: '/no-such-page' },
 ];
