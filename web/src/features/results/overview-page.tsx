@@ -14,6 +14,7 @@ import { ResultsFrame } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult, type ShownResult } from './shown-result';
 import { PARTIAL_SHAPE, partialSuffix } from './partial-period';
+import { SummaryCard } from './summary-card';
 
 interface Row {
   group: string;
@@ -49,18 +50,19 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
   return (
     <>
       <dl className="mt-6 grid gap-4 sm:grid-cols-3">
-        <div className="note note-alarm px-4 py-3">
-          <dt className="text-sm text-ink-soft">Flags raised ({outcome.name})</dt>
-          <dd className="text-2xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (raised ?? '…')}</dd>
-        </div>
-        <div className="note note-watch px-4 py-3">
-          <dt className="text-sm text-ink-soft">Flags in review</dt>
-          <dd className="text-2xl font-bold tabular-nums">{flags.isError ? 'unavailable' : (inReview ?? '…')}</dd>
+        <SummaryCard
+          title={`Flags raised (${outcome.name})`}
+          summary={{ count: raised, failed: flags.isError, none: 'No flags waiting for review', some: (n) => `${n} ${n === 1 ? 'flag' : 'flags'} waiting for review`, tone: 'alarm' }}
+        />
+        <SummaryCard
+          title="Flags in review"
+          summary={{ count: inReview, failed: flags.isError, none: 'None in review', some: (n) => `${n} in review`, tone: 'attention' }}
+        >
           <dd className="mt-1 text-sm">
             <Link className="text-accent underline" to={`${paths.flags}?outcome=${outcome.id}`}>Open the flags</Link>
           </dd>
-        </div>
-        <div className="note note-ok px-4 py-3">
+        </SummaryCard>
+        <div className="card px-4 py-3">
           <dt className="text-sm text-ink-soft">Last run finished</dt>
           <dd className="text-lg font-semibold">{formatWhen(run.finishedAt)}</dd>
           <dd className="mt-1 text-sm">
