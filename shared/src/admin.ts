@@ -44,7 +44,7 @@ export type ClientRegistration = z.infer<typeof clientRegistrationSchema>;
 
 export const auditQuerySchema = z.object({
   action: z.string().max(100).optional(),
-  actor: z.string().max(200).optional(),
+  actor: z.string().max(200).optional().describe("part of the person's name, e-mail or client id"),
   from: z.iso.datetime({ offset: true }).or(z.iso.date()).optional(),
   to: z.iso.datetime({ offset: true }).or(z.iso.date()).optional(),
   limit: z.coerce.number().int().min(1).max(1000).default(200),
@@ -56,8 +56,12 @@ export const auditEventSchema = z.object({
   id: z.number(),
   at: z.string(),
   actor: z.string(),
+  /** The person's name when the actor is a person with an account; null for clients and the system. */
+  actorName: z.string().nullable().default(null),
   action: z.string(),
   target: z.string().nullable(),
+  /** What the target is called now (a person's or group's name, an intake's file), when it still exists. */
+  targetName: z.string().nullable().default(null),
   detail: z.record(z.string(), z.unknown()),
   ip: z.string().nullable(),
 });

@@ -72,4 +72,14 @@ describe('changing a person\'s access', () => {
     expect(mine.find((e) => e.action === 'flag.raise')!.detail).toEqual({ runId: 'r', period: '2031-05-01' });
     expect(mine.find((e) => e.action === 'cases.read')!.detail).toEqual({});
   });
+
+  it('names the person who acted and what they acted on, and finds entries by part of a name', async () => {
+    await ds.query(`UPDATE users SET name = 'Ines Okafor' WHERE id = $1`, [personId]);
+    await ds.query(`UPDATE users SET name = 'Ada Quillfeather' WHERE id = $1`, [adminId]);
+    await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds }).expect(200);
+    // "Quill" is in the administrator's name, not in the e-mail the entry was written with.
+    const res = await admin.agent.get('/api/admin/audit').query({ action: 'user.access_changed', actor: 'Quill' }).expect(200);
+    const entry = (res.body as Array<{ actor: string; actorName: string | null; target: string; targetName: string | null }>).find((e) => e.target === `user:${personId}`);
+    expect(entry).toMatchObject({ actor: 'admin@demo.ratewarden.test', actorName: 'Ada Quillfeather', targetName: 'Ines Okafor' });
+  });
 });

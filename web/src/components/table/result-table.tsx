@@ -3,7 +3,8 @@ import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
 
 /**
  * A small table of results: the first column names the row (a row header), the rest are figures.
- * `csv` gives the raw numbers behind the formatted cells for the export.
+ * `csv` gives the raw numbers behind the formatted cells for the export (under `csvColumns` when
+ * the export has other columns than the screen).
  */
 export interface ResultRow {
   key: string;
@@ -11,7 +12,7 @@ export interface ResultRow {
   csv: CsvCell[];
 }
 
-export function ResultTable({ caption, columns, rows, exportName }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string }) {
+export function ResultTable({ caption, columns, rows, exportName, csvColumns }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string; csvColumns?: string[] }) {
   return (
     <div className="mt-4 overflow-x-auto">
       <table className="w-full border-collapse bg-surface text-sm">
@@ -22,7 +23,7 @@ export function ResultTable({ caption, columns, rows, exportName }: { caption: s
               <button
                 type="button"
                 className="btn btn-quiet no-print btn-small"
-                onClick={() => downloadCsv(`${exportName}.csv`, toCsv(columns, rows.map((r) => r.csv)))}
+                onClick={() => downloadCsv(`${exportName}.csv`, toCsv(csvColumns ?? columns, rows.map((r) => r.csv)))}
               >
                 Export CSV<span className="sr-only">: {caption}</span>
               </button>
