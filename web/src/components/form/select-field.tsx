@@ -7,7 +7,7 @@ export function SelectField({ label, options, ...select }: { label: string; opti
       <label htmlFor={id} className="text-sm font-medium">
         {label}
       </label>
-      <select id={id} className="rounded-sm card px-2 py-1.5" {...select}>
+      <select id={id} className="field px-2 py-1.5" {...select}>
         {options.map((o) => (
           <option key={o.value} value={o.value}>
             {o.label}

@@ -20,7 +20,7 @@ export function TextField({ label, hint, error, ...input }: { label: string; hin
         id={id}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy}
-        className={`rounded-sm border bg-surface px-2 py-1.5 font-mono tabular-nums ${error ? 'border-alarm border-l-4' : 'border-line'}`}
+        className="field px-2 py-1.5 font-mono tabular-nums"
         {...input}
       />
       {error && (

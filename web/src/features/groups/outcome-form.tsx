@@ -37,7 +37,7 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
       <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       <div className="flex flex-col gap-1 sm:col-span-2">
         <label htmlFor={defId} className="text-sm font-medium">Case definition</label>
-        <textarea id={defId} rows={3} value={caseDefinition} onChange={(e) => setCaseDefinition(e.target.value)} className="rounded-sm card px-2 py-1.5" aria-invalid={errors.caseDefinition ? true : undefined} />
+        <textarea id={defId} rows={3} value={caseDefinition} onChange={(e) => setCaseDefinition(e.target.value)} className="field px-2 py-1.5" aria-invalid={errors.caseDefinition ? true : undefined} />
         {errors.caseDefinition && <span className="text-sm text-alarm">⚠ {errors.caseDefinition}</span>}
       </div>
       <SelectField label="Counting" value={countingRule} onChange={(e) => setCountingRule(e.target.value as typeof countingRule)} options={countingRuleSchema.options.map((r) => ({ value: r, label: r === 'first_event' ? 'First event only (the worker leaves the at-risk time)' : 'Recurrent events' }))} />

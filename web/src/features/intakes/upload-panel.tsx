@@ -71,7 +71,7 @@ export function UploadPanel() {
         {kind === 'cases' && (
           <div className="flex max-w-md flex-col gap-1">
             <label htmlFor={`${ids}-through`} className="text-sm font-medium">Reports cases through (month)</label>
-            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 rounded-sm border border-line px-2 py-1" />
+            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 field px-2 py-1" />
             <p id={`${ids}-through-hint`} className="text-xs text-ink-soft">
               Every case of your sites up to the end of this month is in the list. Left empty: the later of the list's last onset month and the latest month with hours in for your sites
               {latestRostered ? ` (now ${formatMonth(latestRostered)})` : ''}.

@@ -70,7 +70,7 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
           maxLength={500}
           aria-invalid={missing ? true : undefined}
           aria-describedby={missing ? `${ids}-missing` : undefined}
-          className="rounded-sm border border-line px-2 py-1.5"
+          className="field px-2 py-1.5"
         />
       </div>
       {missing && (
