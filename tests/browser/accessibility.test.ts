@@ -44,8 +44,9 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   /** Signs `email` in and checks each path; returns what axe found, page by page. */
-  const check = async (email: string, paths: string[]) => {
+  const check = async (email: string, paths: string[], viewport?: { width: number; height: number }) => {
     const page = await pageSignedInAs(h, email);
+    if (viewport) await page.setViewportSize(viewport);
     const found: string[] = [];
     for (const path of paths) {
       await page.goto(`${h.app.baseUrl}${path}`, { waitUntil: 'networkidle' });
@@ -72,6 +73,22 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {
     expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`])).toEqual([]);
     expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'])).toEqual([]);
+  });
+
+  it('at phone size (390×844), every page of the hygienist and the administrator, and the opened menu', async () => {
+    const phone = { width: 390, height: 844 };
+    expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!), phone)).toEqual([]);
+    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'], phone)).toEqual([]);
+    const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
+    await page.setViewportSize(phone);
+    await page.goto(`${h.app.baseUrl}/overview`, { waitUntil: 'networkidle' });
+    // The navigation collapses behind the Menu button on a phone and opens on request.
+    expect(await page.getByRole('navigation', { name: 'Main' }).isVisible()).toBe(false);
+    await page.getByRole('button', { name: 'Menu' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Trends' }).waitFor();
+    const found = (await axe(page)).map((v) => `${v.id} ${v.help}`);
+    expect(found).toEqual([]);
+    await page.close();
   });
 
   it('as the physician, on the flag with its cases', async () => {
