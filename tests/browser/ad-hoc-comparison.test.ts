@@ -1,4 +1,6 @@
+import { readFileSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
+import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { useBrowserApp } from '../support/browser-app';
@@ -22,6 +24,18 @@ async function openFoldByKeyboard(page: Page, summary: RegExp): Promise<void> {
   await fold.locator('summary').focus();
   await page.keyboard.press('Enter');
   await expect(fold.evaluate((d) => (d as HTMLDetailsElement).open)).resolves.toBe(true);
+}
+
+const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+
+/** axe-core's WCAG 2.1 A and AA rules on the page as it stands (Deque's axe-core): the violations' ids and places. */
+async function axeViolations(page: Page): Promise<string[]> {
+  await page.evaluate(axeSource);
+  return page.evaluate(async () => {
+    const w = window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<{ violations: { id: string; nodes: { target: string[] }[] }[] }> } };
+    const r = await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } });
+    return r.violations.map((v) => `${v.id} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+  });
 }
 
 describe('ad hoc comparison in Chromium', () => {
@@ -188,5 +202,30 @@ describe('ad hoc comparison in Chromium', () => {
     await expect(page.getByLabel('Exposed, without the outcome', { exact: true }).getAttribute('aria-invalid')).resolves.toBe('true');
     expect(await page.getByRole('region', { name: 'What the numbers say' }).count()).toBe(0);
     await page.close();
+  });
+
+  it('has no WCAG 2.1 A/AA violations with results and the fold open, wide and on a phone', async () => {
+    for (const size of [{ width: 1366, height: 768 }, { width: 390, height: 844 }]) {
+      const page = await h.browser.context.newPage();
+      await page.setViewportSize(size);
+      await page.goto(`${h.app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
+      await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('3');
+      await page.getByLabel('Exposed: person-years followed', { exact: true }).fill('100');
+      await page.getByLabel('Not exposed: cases with the outcome', { exact: true }).fill('2');
+      await page.getByLabel('Not exposed: person-years followed', { exact: true }).fill('100');
+      await page.getByRole('button', { name: 'Compare the rates' }).click();
+      await page.getByRole('region', { name: 'What the numbers say' }).waitFor({ timeout: 10_000 });
+      await openFoldByKeyboard(page, /Other interval methods, compared/);
+      expect(await axeViolations(page), `rates at ${size.width}px`).toEqual([]);
+      await page.getByLabel(/2×2 table/).check();
+      for (const [label, v] of [['Exposed, with the outcome', '56'], ['Exposed, without the outcome', '14'], ['Not exposed, with the outcome', '48'], ['Not exposed, without the outcome', '32']] as const) {
+        await page.getByLabel(label, { exact: true }).fill(v);
+      }
+      await page.getByRole('button', { name: 'Compare the risks' }).click();
+      await page.getByRole('region', { name: /^Risk difference, exposed minus not exposed/ }).waitFor({ timeout: 10_000 });
+      await openFoldByKeyboard(page, /Other interval methods and tests, compared/);
+      expect(await axeViolations(page), `2×2 table at ${size.width}px`).toEqual([]);
+      await page.close();
+    }
   });
 });

@@ -63,7 +63,7 @@ export function AdHocPage() {
             <UnitsStrip settings={units} />
             <div className="mt-4">
               {!computed.ok ? (
-                <p role="alert" className="border-l-4 border-brick bg-brick-soft px-4 py-3">
+                <p role="alert" className="note note-alarm px-4 py-3">
                   These counts cannot be compared: {computed.message}
                 </p>
               ) : mode === 'rates' && rates?.ok && rateInput ? (

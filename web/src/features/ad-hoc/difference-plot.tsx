@@ -18,6 +18,9 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
   const axis = linearAxis(values);
   const x = (v: number) => pad.left + ((v - axis.min) / (axis.max - axis.min)) * (width - pad.left - pad.right);
   const y = pad.top + 12;
+  // The "no difference" label stays inside the plot when 0 sits at one end of the axis.
+  const zeroAt = (0 - axis.min) / (axis.max - axis.min);
+  const zeroAnchor = zeroAt < 0.15 ? 'start' : zeroAt > 0.85 ? 'end' : 'middle';
   const has = (v: number | null): v is number => v !== null && Number.isFinite(v);
   const description = `${title}. ${label}: ${estimate === null ? 'not defined' : points(estimate)}, interval ${lower === null ? 'not defined' : points(lower)} to ${upper === null ? 'not defined' : points(upper)}.`;
   return (
@@ -26,7 +29,7 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
       chart={
         <svg viewBox={`0 0 ${width} ${height}`} role="img" aria-label={description} className="mt-2 w-full max-w-xl text-ink">
           <line x1={x(0)} x2={x(0)} y1={pad.top - 6} y2={height - pad.bottom} stroke="currentColor" strokeDasharray="4 3" />
-          <text x={x(0)} y={pad.top - 8} textAnchor="middle" fontSize="11" fill="currentColor">no difference</text>
+          <text x={x(0)} y={pad.top - 8} textAnchor={zeroAnchor} fontSize="11" fill="currentColor">no difference</text>
           {has(lower) && has(upper) && (
             <g stroke="currentColor" strokeWidth="2">
               <line x1={x(lower * 100)} x2={x(upper * 100)} y1={y} y2={y} />
@@ -34,7 +37,7 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
               <line x1={x(upper * 100)} x2={x(upper * 100)} y1={y - 6} y2={y + 6} />
             </g>
           )}
-          {has(estimate) && <rect x={x(estimate * 100) - 5.5} y={y - 5.5} width="11" height="11" className="fill-amber" stroke="currentColor" />}
+          {has(estimate) && <rect x={x(estimate * 100) - 5.5} y={y - 5.5} width="11" height="11" className="fill-accent" stroke="currentColor" />}
           <line x1={pad.left} x2={width - pad.right} y1={height - pad.bottom} y2={height - pad.bottom} stroke="currentColor" />
           {axis.ticks.map((t) => (
             <g key={t}>
@@ -56,7 +59,7 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
             </tr>
           </thead>
           <tbody>
-            <tr className="border-b border-rule">
+            <tr className="border-b border-line">
               <th scope="row" className="px-2 py-1 text-left font-medium">{label}</th>
               <td className="px-2 py-1 tabular-nums">{estimate === null ? 'not defined' : points(estimate)}</td>
               <td className="px-2 py-1 tabular-nums">{lower === null ? 'not defined' : points(lower)}</td>

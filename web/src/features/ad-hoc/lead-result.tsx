@@ -8,6 +8,7 @@ export function LeadResult({
   measure,
   method,
   estimate,
+  unit,
   interval,
   detail,
   plot,
@@ -16,6 +17,8 @@ export function LeadResult({
   measure: string;
   method: string;
   estimate: string;
+  /** Words after the estimate, in smaller type ("percentage points"). */
+  unit?: string;
   interval: string;
   detail?: string;
   plot: ReactNode;
@@ -23,13 +26,16 @@ export function LeadResult({
 }) {
   const id = useId();
   return (
-    <section aria-labelledby={`${id}-lead`} className="rounded-md border border-rule bg-panel p-5 shadow-sm">
+    <section aria-labelledby={`${id}-lead`} className="card p-5">
       <h2 id={`${id}-lead`} className="text-lg font-semibold">
         {measure}
         <span className="block text-sm font-normal text-ink-soft">by the preferred method: {method}</span>
       </h2>
       <p className="mt-3 flex flex-wrap items-baseline gap-x-4 gap-y-1">
-        <span className="text-4xl font-bold tabular-nums" data-testid="lead-estimate">{estimate}</span>
+        <span>
+          <span className="text-4xl font-bold tabular-nums" data-testid="lead-estimate">{estimate}</span>
+          {unit && <span className="ml-1.5 text-lg font-semibold">{unit}</span>}
+        </span>
         <span className="tabular-nums" data-testid="lead-interval">{interval}</span>
       </p>
       {detail && <p className="mt-1 text-sm text-ink-soft">{detail}</p>}

@@ -13,7 +13,7 @@ export function MethodsFold({ summary, notes, children }: { summary: string; not
     return () => window.removeEventListener('beforeprint', open);
   }, []);
   return (
-    <details ref={ref} className="mt-6 rounded-md border border-rule bg-panel px-4 py-3">
+    <details ref={ref} className="card mt-6 px-4 py-3">
       <summary className="cursor-pointer font-semibold">{summary}</summary>
       <section aria-label="When the methods differ" className="mt-3 space-y-2 text-sm">
         {notes.map((n) => (

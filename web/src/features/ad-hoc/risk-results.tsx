@@ -57,7 +57,8 @@ export function RiskResults({ result: r, method }: { result: RiskComparisonResul
       <LeadResult
         measure="Risk difference, exposed minus not exposed"
         method={differenceMethodLabels[method]}
-        estimate={`${points(r.rd.estimate)} percentage points`}
+        estimate={points(r.rd.estimate)}
+        unit="percentage points"
         interval={`${conf} CI ${points(interval.lower)} to ${points(interval.upper)} percentage points`}
         plot={<DifferencePlot title={`Risk difference with its ${conf} interval`} label={differenceMethodLabels[method]} estimate={r.rd.estimate} {...interval} />}
         reading={riskReading(r, method)}

@@ -4,7 +4,7 @@ import { differenceMethodLabels, perChoices, ratioMethodLabels, type AdHocSettin
 
 export function SettingsControls({ mode, settings, onChange }: { mode: 'rates' | 'table'; settings: AdHocSettings; onChange: (s: AdHocSettings) => void }) {
   return (
-    <fieldset className="grid gap-4 border border-rule bg-panel p-4 sm:grid-cols-2 lg:grid-cols-4">
+    <fieldset className="card grid gap-4 p-4 sm:grid-cols-2 lg:grid-cols-4">
       <legend className="px-1 text-sm font-semibold">Settings (remembered on this device)</legend>
       {mode === 'rates' && (
         <>

@@ -22,14 +22,14 @@ export function TableForm({ onSubmit }: { onSubmit: (v: TableInput) => void }) {
   });
   return (
     <form noValidate onSubmit={handleSubmit(onSubmit)} aria-label="Counts of people by exposure and outcome" className="grid gap-4">
-      <fieldset className="grid max-w-2xl gap-4 rounded-md border border-rule bg-panel p-4 sm:grid-cols-2">
+      <fieldset className="card grid max-w-2xl gap-4 p-4 sm:grid-cols-2">
         <legend className="px-1 font-semibold">People followed for the same period, by exposure and outcome</legend>
         {cells.map((c) => (
           <TextField key={c.name} label={c.label} hint="number of people" inputMode="numeric" autoComplete="off" error={errors[c.name]?.message} {...register(c.name)} />
         ))}
       </fieldset>
       <div>
-        <button type="submit" className="rounded-sm bg-moss px-5 py-2 font-medium text-white hover:bg-ink">
+        <button type="submit" className="btn btn-primary px-5 py-2">
           Compare the risks
         </button>
       </div>
