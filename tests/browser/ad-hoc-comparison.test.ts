@@ -114,7 +114,11 @@ describe('ad hoc comparison in Chromium', () => {
     const lead = page.getByRole('region', { name: /^Rate ratio, exposed over not exposed/ });
     await lead.waitFor({ timeout: 10_000 });
     expect(await lead.getByRole('heading', { level: 2 }).textContent()).toContain('by the preferred method: mid-p exact');
-    await openFoldByKeyboard(page, /Other interval methods, compared/);
+    // Printing opens the fold, so the printed page carries every method.
+    const fold = page.locator('details', { has: page.locator('summary', { hasText: 'Other interval methods, compared' }) });
+    await expect(fold.evaluate((d) => (d as HTMLDetailsElement).open)).resolves.toBe(false);
+    await page.evaluate(() => window.dispatchEvent(new Event('beforeprint')));
+    await expect(fold.evaluate((d) => (d as HTMLDetailsElement).open)).resolves.toBe(true);
     const note = await page.getByRole('region', { name: 'When the methods differ' }).textContent();
     expect(note).toContain('the methods part noticeably');
     expect(note).toContain('The smallest count here is 2');
