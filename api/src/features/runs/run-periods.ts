@@ -5,19 +5,25 @@ import type { PendingRunAnswer, RunDetail } from '@ratewarden/shared/runs';
 import { PeriodBook, type CompleteThrough, type Completeness, type PeriodState } from '@ratewarden/shared/periods';
 import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
+import { RunMemo } from '../../lib/run-memo';
 
 /**
  * The reporting periods as a run saw them (run_periods), not as they stand today: a result says
  * whether its period was complete when it was computed. A run stored before periods were
  * recorded has none, and all its periods read as partial (not known to be complete).
  */
-export async function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
-  const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null }> = await ds.query(
-    `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster FROM run_periods WHERE run_id = $1`,
-    [runId],
-  );
-  return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster })));
+export function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
+  return books.get(runId, async () => {
+    const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null }> = await ds.query(
+      `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster FROM run_periods WHERE run_id = $1`,
+      [runId],
+    );
+    return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster })));
+  });
 }
+
+/** A run's period states never change: kept for the runs read last. */
+const books = new RunMemo<PeriodBook>(16);
 
 /** Completeness of a result row (company-wide when `siteId` is null), remembered per window × period × scope. */
 export function completenessOf(book: PeriodBook): (window: 'month' | 'rolling12', period: string, siteId: number | null) => Completeness {
