@@ -19,7 +19,8 @@ const root = join(import.meta.dirname, '..');
 const outDir = join(root, '.screenshots');
 
 /**
- * `npm run screenshots`: every page of the web app at 1366×768 into .screenshots/ (git-ignored),
+ * `npm run screenshots`: every page of the web app at 1366×768 and at phone size (390×844, files
+ * ending `-phone`) into .screenshots/ (git-ignored),
  * against a throwaway database with the demo scenario, so anyone can look at every screen.
  * SCREENSHOTS_PGPORT picks the database port (default 54390). The public pages come first; then
  * the stand-in identity provider is started, one run computes the demo figures (with one watch
@@ -31,6 +32,18 @@ interface Shot {
   path: string;
   /** Bring the page into the state worth showing. */
   prepare?: (page: Page) => Promise<void>;
+}
+
+/** Every page at both sizes: a laptop screen and a phone (the navigation collapses behind "Menu"). */
+const sizes = [
+  { suffix: '', width: 1366, height: 768 },
+  { suffix: '-phone', width: 390, height: 844 },
+];
+
+/** Opens the collapsed navigation where there is one (phone size); a no-op on wide screens. */
+async function openMenu(page: Page): Promise<void> {
+  const menu = page.getByRole('button', { name: 'Menu' });
+  if (await menu.isVisible()) await menu.click();
 }
 
 const shots: Shot[] = [
@@ -87,7 +100,9 @@ const roleShots: Array<{ role: string; email: string; shots: Shot[] }> = [
     email: 'hygienist@demo.ratewarden.test',
     shots: [
       { name: 'overview', path: '/overview' },
+      { name: 'overview-menu', path: '/overview', prepare: openMenu },
       { name: 'trends', path: '/trends' },
+      { name: 'trends-log', path: '/trends', prepare: async (page) => { await page.getByLabel('Log scale').first().check(); } },
       { name: 'trends-table', path: '/trends', prepare: async (page) => { await page.getByRole('button', { name: 'Show as a table' }).first().click(); } },
       { name: 'comparison', path: '/comparison' },
       { name: 'adjusted', path: '/adjusted' },
@@ -99,6 +114,8 @@ const roleShots: Array<{ role: string; email: string; shots: Shot[] }> = [
       { name: 'rules', path: '/rules' },
       { name: 'rule-new', path: '/rules/new' },
       { name: 'flags', path: '/flags' },
+      { name: 'flag', path: '/flags/:flag' },
+      { name: 'periods', path: '/periods' },
     ],
   },
   {
@@ -117,6 +134,8 @@ const roleShots: Array<{ role: string; email: string; shots: Shot[] }> = [
     shots: [
       { name: 'flag-cases', path: '/flags/:flag' },
       { name: 'trends', path: '/trends?window=month' },
+      { name: 'unattributed', path: '/runs/unattributed' },
+      { name: 'intakes', path: '/intakes' },
     ],
   },
   {
@@ -151,13 +170,24 @@ async function startIdentityProvider(appPort: number): Promise<{ issuer: string;
   return { issuer: `http://127.0.0.1:${idpPort}`, child };
 }
 
-async function photograph(page: Page, base: string, name: string, shot: Shot): Promise<void> {
-  await page.goto(base + shot.path, { waitUntil: 'networkidle' });
-  await shot.prepare?.(page);
-  await page.evaluate(() => document.fonts.ready);
-  await page.screenshot({ path: join(outDir, `${name}.png`), fullPage: false });
-  await page.screenshot({ path: join(outDir, `${name}-full.png`), fullPage: true });
-  say(`screenshot ${name}.png`);
+/** One page at every size; a page that fails is reported and the others still come. */
+async function photograph(page: Page, base: string, name: string, shot: Shot): Promise<number> {
+  let failed = 0;
+  for (const size of sizes) {
+    try {
+      await page.setViewportSize({ width: size.width, height: size.height });
+      await page.goto(base + shot.path, { waitUntil: 'networkidle' });
+      await shot.prepare?.(page);
+      await page.evaluate(() => document.fonts.ready);
+      await page.screenshot({ path: join(outDir, `${name}${size.suffix}.png`), fullPage: false });
+      await page.screenshot({ path: join(outDir, `${name}${size.suffix}-full.png`), fullPage: true });
+      say(`screenshot ${name}${size.suffix}.png`);
+    } catch (e) {
+      failed++;
+      say(`screenshot ${name}${size.suffix}.png failed: ${(e as Error).message.split('\n')[0]}`);
+    }
+  }
+  return failed;
 }
 
 runMain(async () => {
@@ -188,16 +218,12 @@ runMain(async () => {
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     mkdirSync(outDir, { recursive: true });
     browser = await launchBrowser();
+    let failed = 0;
     for (const shot of shots) {
       const page = await browser.context.newPage();
-      await page.goto(base + shot.path, { waitUntil: 'networkidle' });
       page.on('pageerror', (e) => say(`page error on ${shot.name}: ${e.message}`));
-      await shot.prepare?.(page);
-      await page.evaluate(() => document.fonts.ready);
-      await page.screenshot({ path: join(outDir, `${shot.name}.png`), fullPage: false });
-      await page.screenshot({ path: join(outDir, `${shot.name}-full.png`), fullPage: true });
+      failed += await photograph(page, base, shot.name, shot);
       await page.close();
-      say(`screenshot ${shot.name}.png`);
     }
 
     // One run over the demo data (its seed brings a watch rule per outcome), so every page has figures and flags.
@@ -217,14 +243,15 @@ runMain(async () => {
       await page.waitForLoadState('networkidle');
       for (const shot of account.shots) {
         if (shot.path.includes(':flag') && !flag) continue;
-        await photograph(page, base, `${account.role}-${shot.name}`, { ...shot, path: shot.path.replace(':flag', flag?.id ?? '') });
+        failed += await photograph(page, base, `${account.role}-${shot.name}`, { ...shot, path: shot.path.replace(':flag', flag?.id ?? '') });
         count++;
       }
+      await page.setViewportSize({ width: sizes[0]!.width, height: sizes[0]!.height });
       await page.getByRole('button', { name: 'Sign out' }).click();
       await page.waitForURL(`${base}/`);
       await page.close();
     }
-    say(`${count} pages photographed into ${outDir}`);
+    say(`${count} pages photographed at ${sizes.length} sizes into ${outDir}${failed ? `; ${failed} screenshots failed (above)` : ''}`);
   } finally {
     await browser?.close();
     if (idp && idp.exitCode === null) idp.kill('SIGTERM');
