@@ -43,7 +43,7 @@ describe('a withheld point on the trends chart', () => {
     await figure.locator('svg').first().waitFor();
     const svgText = (await figure.locator('svg text').allTextContents()).join(' | ');
     expect(svgText).toContain(WITHHELD_LEGEND);
-    expect(await figure.textContent()).toMatch(/figures are withheld from you \(a count too small to show, or one that would reveal it\): [^.]*Group EXP 2032-11/);
+    expect(await figure.textContent()).toMatch(/figures are withheld from you \(a count too small to show, or one that would reveal it\): [^.]*2032-11 \([^)]*Group EXP/);
     await figure.getByRole('button', { name: 'Show as a table' }).click();
     const nov = figure.getByRole('row').filter({ hasText: '2032-11' }).filter({ hasText: 'Group EXP' });
     const cells = (await nov.getByRole('cell').allTextContents()).map((t) => t.trim());

@@ -7,6 +7,7 @@ import type { CsvExport } from '../table/export-button';
 import { ChartFigure } from './chart-figure';
 import { chartSeriesColours, echarts, tokenColour } from './echarts-setup';
 import { linearAxis, logAxis, type RateScale } from './rate-axis';
+import { withheldPeriods, withheldWords } from './withheld-points';
 
 /**
  * Rate per period for one or more exposure groups, each with its interval as a shaded band, and
@@ -53,7 +54,7 @@ const finite = (x: number | null | undefined): x is number => x !== null && x !=
 export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
   const [scale, setScale] = useState<RateScale>('linear');
   const scaleId = useId();
-  const withheldAt = series.flatMap((s) => s.points.filter((p) => p.withheld).map((p) => `${s.name} ${p.period}`));
+  const withheldAt = withheldPeriods(periods, series);
   const option = useMemo<EChartsOption>(() => {
     const palette = chartSeriesColours();
     const ink = tokenColour('ink', '#17202e');
@@ -74,14 +75,12 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
     };
     let clipped = false;
     const out: SeriesOption[] = [];
-    const withheldMarks: Array<{ value: [string, number]; symbol: string; itemStyle: { color: string; borderColor: string }; group: string }> = [];
+    // One hollow marker on the axis per period with anything withheld, naming the groups in its tooltip.
+    const withheldMarks = withheldPeriods(periods, series).map((w) => ({ value: [w.period, bottom] as [string, number], groups: w.groups }));
     series.forEach((s, i) => {
       const colour = palette[i % palette.length]!;
       const symbol = symbols[i % symbols.length]!;
       const pts = byPeriod(s).map((p) => (p && !p.withheld ? p : null));
-      byPeriod(s).forEach((p, j) => {
-        if (p?.withheld) withheldMarks.push({ value: [periods[j]!, bottom], symbol: hollow(symbol), itemStyle: { color: colour, borderColor: colour }, group: s.name });
-      });
       const stack = `band-${i}`;
       const lower = pts.map((p) => (p ? drawn(p.lower ?? bottom) : null));
       const upper = pts.map((p) => (p ? drawn(p.upper) : null));
@@ -122,10 +121,11 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
       out.push({
         type: 'scatter',
         name: WITHHELD_LEGEND,
-        data: withheldMarks.map(({ group: _group, ...m }) => m),
-        symbolSize: 10,
+        data: withheldMarks.map((m) => m.value),
+        symbol: 'emptyCircle',
+        symbolSize: 8,
         itemStyle: { color: muted, borderColor: muted, borderWidth: 1.5 },
-        tooltip: { formatter: (p: unknown) => { const m = withheldMarks[(p as { dataIndex: number }).dataIndex]; return m ? `${m.group}, ${m.value[0]}: withheld (a small count, or one it would reveal)` : ''; } },
+        tooltip: { formatter: (p: unknown) => { const m = withheldMarks[(p as { dataIndex: number }).dataIndex]; return m ? `${m.value[0]}: withheld for ${m.groups.join(', ')} (a small count, or one it would reveal)` : ''; } },
         z: 3,
       });
     }
@@ -144,7 +144,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
     return {
       aria: {
         enabled: true,
-        description: `${title}: ${series.map((s) => s.name).join(', ')} over ${periods.length} periods, ${unit}, ${scale === 'log' ? 'logarithmic' : 'linear'} scale.${withheldMarks.length ? ` Counts withheld at ${withheldMarks.map((m) => `${m.group} ${m.value[0]}`).join(', ')}.` : ''}`,
+        description: `${title}: ${series.map((s) => s.name).join(', ')} over ${periods.length} periods, ${unit}, ${scale === 'log' ? 'logarithmic' : 'linear'} scale.${withheldMarks.length ? ` Figures withheld: ${withheldWords(withheldMarks.map((m) => ({ period: m.value[0], groups: m.groups })), periods.length)}.` : ''}`,
       },
       animation: false,
       textStyle: { fontFamily: 'Noto Sans, system-ui, sans-serif', color: ink },
@@ -192,7 +192,7 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
           <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: 360, width: '100%' }} opts={{ renderer: 'svg' }} />
           {withheldAt.length > 0 && (
             <p className="mt-1 text-xs text-ink-soft">
-              Gaps with a hollow marker on the axis are periods whose figures are withheld from you (a count too small to show, or one that would reveal it): {withheldAt.join(', ')}.
+              Gaps with a hollow marker on the axis are periods whose figures are withheld from you (a count too small to show, or one that would reveal it): {withheldWords(withheldAt, periods.length)}.
             </p>
           )}
         </>
