@@ -21,8 +21,10 @@ export interface ReadFigures {
   p99Ms: number;
   /** Connection errors, and reads unanswered after REQUEST_TIMEOUT_SECONDS. */
   errors: number;
-  /** Answers other than 2xx (a 503 of an overloaded server included). */
+  /** Answers other than 2xx (a 503 of an overloaded server included), and other than the 304 a page loaded again expects. */
   non2xx: number;
+  /** For a page loaded again: the answers that were 304 (the cached answer still good). */
+  notModified?: number;
   /** The longest wait of a request still open at the end of the window (counted in the percentiles as a lower bound). */
   longestOpenMs: number;
   /** Bytes on the wire per answer, headers included (compressed when the server compressed). */
@@ -48,6 +50,12 @@ interface ReadRoute {
   label: string;
   reader: Reader;
   path: string;
+  /**
+   * A page loaded again: the browser sends the ETag of its cached answer (If-None-Match, set up
+   * before the load) and a 304 is the expected answer (the run routes are `no-cache`, so browsers
+   * revalidate every time).
+   */
+  ifNoneMatch?: string;
 }
 
 /** The benchmark's readers: the demo accounts the identity-provider stand-in knows, given roles and sites here. */
@@ -82,6 +90,7 @@ function readRoutes(ids: { runId: string; outcomeId: number; groupId: number; si
     { label: 'pending run', reader: 'hygienist', path: '/api/runs/pending' },
     { label: 'period index of an outcome, company (hygienist)', reader: 'hygienist', path: `${run}/periods?${o}&window=rolling12` },
     { label: 'results of one period, company (hygienist)', reader: 'hygienist', path: onePeriod(ids.period.company) },
+    { label: 'results of one period, company (hygienist), page loaded again', reader: 'hygienist', path: onePeriod(ids.period.company), ifNoneMatch: '' },
     { label: 'results of one period, company (physician)', reader: 'physician', path: onePeriod(ids.period.physician) },
     { label: 'period index of an outcome, one site (safety manager)', reader: 'safety', path: `${run}/periods?${o}&window=rolling12&${site}` },
     { label: 'results of one period, one site (safety manager)', reader: 'safety', path: `${onePeriod(ids.period.site)}&${site}` },
@@ -130,6 +139,8 @@ const readHeaders = (s: BenchSession) => ({ cookie: s.cookie, accept: 'applicati
  * answered) and records every response and every connection error or timeout with its time.
  */
 function load(apiUrl: string, route: ReadRoute, session: BenchSession, connections: number, seconds: number) {
+  const headers = route.ifNoneMatch ? { ...readHeaders(session), 'if-none-match': route.ifNoneMatch } : readHeaders(session);
+  const expected = (status: number) => (status >= 200 && status <= 299) || (route.ifNoneMatch !== undefined && status === 304);
   const startedAt = performance.now();
   const samples: Sample[] = [];
   const errorTimes: number[] = [];
@@ -137,7 +148,7 @@ function load(apiUrl: string, route: ReadRoute, session: BenchSession, connectio
   let instance!: autocannon.Instance;
   const done = new Promise<autocannon.Result>((resolve, reject) => {
     instance = autocannon(
-      { url: new URL(route.path, apiUrl).toString(), connections, duration: seconds, timeout: REQUEST_TIMEOUT_SECONDS, headers: readHeaders(session) },
+      { url: new URL(route.path, apiUrl).toString(), connections, duration: seconds, timeout: REQUEST_TIMEOUT_SECONDS, headers },
       (err, result) => (err ? reject(err) : resolve(result)),
     );
   });
@@ -166,7 +177,8 @@ function load(apiUrl: string, route: ReadRoute, session: BenchSession, connectio
       p95Ms: r1(percentile(sorted, 95)),
       p99Ms: r1(percentile(sorted, 99)),
       errors: errorTimes.filter((t) => t >= from && t <= to).length,
-      non2xx: answered.filter((x) => x.status < 200 || x.status > 299).length,
+      non2xx: answered.filter((x) => !expected(x.status)).length,
+      ...(route.ifNoneMatch !== undefined ? { notModified: answered.filter((x) => x.status === 304).length } : {}),
       longestOpenMs: r1(Math.max(0, ...open)),
       bytesPerResponse: answered.length ? Math.round(answered.reduce((n, x) => n + x.bytes, 0) / answered.length) : 0,
     };
@@ -252,6 +264,11 @@ export async function benchReads(opts: {
     for (const route of routes) {
       const res = await fetch(new URL(route.path, servers.apiUrl), { headers: readHeaders(signedIn[route.reader]) });
       if (res.status !== 200) throw new Error(`${route.label} (${route.path}) answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
+      if (route.ifNoneMatch !== undefined) {
+        const etag = res.headers.get('etag');
+        if (!etag) throw new Error(`${route.label} (${route.path}) answered without an ETag`);
+        route.ifNoneMatch = etag;
+      }
     }
 
     // A short warm-up of every route, then each route alone at full load.
@@ -264,7 +281,7 @@ export async function benchReads(opts: {
       await l.done;
       reads[route.label] = l.figures(t, performance.now());
       const f = reads[route.label]!;
-      say(`reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B`);
+      say(`reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`);
     }
 
     // The same check and apply alone, then with every route loaded at once (the connections shared out among them).
@@ -327,8 +344,9 @@ const r2 = (x: number) => Math.round(x * 100) / 100;
 
 /** Several loads' figures over one window, as one: counts added; the percentiles of the slowest route (a bound, not a mix). */
 function combined(all: ReadFigures[]): ReadFigures {
-  const sum = (k: keyof ReadFigures) => all.reduce((n, f) => n + f[k], 0);
-  const max = (k: keyof ReadFigures) => Math.max(...all.map((f) => f[k]));
+  type Figure = Exclude<keyof ReadFigures, 'notModified'>;
+  const sum = (k: Figure) => all.reduce((n, f) => n + f[k], 0);
+  const max = (k: Figure) => Math.max(...all.map((f) => f[k]));
   const requests = sum('requests');
   return {
     connections: sum('connections'),
