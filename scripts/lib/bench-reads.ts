@@ -23,6 +23,8 @@ export interface ReadFigures {
   errors: number;
   /** Answers other than 2xx (a 503 of an overloaded server included), and other than the 304 a page loaded again expects. */
   non2xx: number;
+  /** The unexpected answers by status code, when there were any (e.g. { "503": 7 }). */
+  non2xxStatuses?: Record<string, number>;
   /** For a page loaded again: the answers that were 304 (the cached answer still good). */
   notModified?: number;
   /** The longest wait of a request still open at the end of the window (counted in the percentiles as a lower bound). */
@@ -131,6 +133,13 @@ interface Sample {
  */
 const REQUEST_TIMEOUT_SECONDS = 60;
 
+function statusesOf(unexpected: Sample[]): { non2xxStatuses?: Record<string, number> } {
+  if (!unexpected.length) return {};
+  const counts: Record<string, number> = {};
+  for (const x of unexpected) counts[x.status] = (counts[x.status] ?? 0) + 1;
+  return { non2xxStatuses: counts };
+}
+
 /** A browser's request headers for a read: its session cookie, and compression accepted as browsers do. */
 const readHeaders = (s: BenchSession) => ({ cookie: s.cookie, accept: 'application/json', 'accept-encoding': 'gzip, deflate, br' });
 
@@ -178,6 +187,7 @@ function load(apiUrl: string, route: ReadRoute, session: BenchSession, connectio
       p99Ms: r1(percentile(sorted, 99)),
       errors: errorTimes.filter((t) => t >= from && t <= to).length,
       non2xx: answered.filter((x) => !expected(x.status)).length,
+      ...statusesOf(answered.filter((x) => !expected(x.status))),
       ...(route.ifNoneMatch !== undefined ? { notModified: answered.filter((x) => x.status === 304).length } : {}),
       longestOpenMs: r1(Math.max(0, ...open)),
       bytesPerResponse: answered.length ? Math.round(answered.reduce((n, x) => n + x.bytes, 0) / answered.length) : 0,
@@ -281,7 +291,7 @@ export async function benchReads(opts: {
       await l.done;
       reads[route.label] = l.figures(t, performance.now());
       const f = reads[route.label]!;
-      say(`reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`);
+      say(`reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`);
     }
 
     // The same check and apply alone, then with every route loaded at once (the connections shared out among them).
@@ -344,7 +354,7 @@ const r2 = (x: number) => Math.round(x * 100) / 100;
 
 /** Several loads' figures over one window, as one: counts added; the percentiles of the slowest route (a bound, not a mix). */
 function combined(all: ReadFigures[]): ReadFigures {
-  type Figure = Exclude<keyof ReadFigures, 'notModified'>;
+  type Figure = Exclude<keyof ReadFigures, 'notModified' | 'non2xxStatuses'>;
   const sum = (k: Figure) => all.reduce((n, f) => n + f[k], 0);
   const max = (k: Figure) => Math.max(...all.map((f) => f[k]));
   const requests = sum('requests');
