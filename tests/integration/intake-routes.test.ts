@@ -142,4 +142,14 @@ describe('intake routes through the API', () => {
     }
     await hyg.agent.get('/api/intakes/templates/other.csv').expect(404);
   });
+
+  // Last: its roster stays in the corner's first site.
+  it("refreshes the roster tables' missing planner statistics before checking a case list (after a large roster the check otherwise takes a bad plan)", async () => {
+    await upload(hyg, 'kind=roster&mode=apply', roster(['{W}90,{S1},{GA},2025-04,160,1980,F'])).expect(201);
+    await ds.query(`SELECT pg_stat_reset_single_table_counters('roster_entries'::regclass)`);
+    const lastAnalyze = async () => ((await ds.query(`SELECT last_analyze FROM pg_stat_user_tables WHERE relname = 'roster_entries'`)) as Array<{ last_analyze: Date | null }>)[0]!.last_analyze;
+    expect(await lastAnalyze()).toBeNull();
+    await upload(hyg, 'kind=cases&mode=check', 'case_ref,worker_key,outcome,onset_date,status\n{W}-STATS-1,{W}90,{OA},2025-04-10,confirmed\n', 'cases.csv').expect(201);
+    expect(await lastAnalyze()).not.toBeNull();
+  });
 });

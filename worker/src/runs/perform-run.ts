@@ -5,6 +5,7 @@ import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs
 import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
 import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
+import { refreshPlannerStatistics } from '@ratewarden/db/planner-statistics';
 import { disclosureFrame } from '../disclosure/disclosure-frame';
 import { storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
@@ -14,7 +15,6 @@ import { applyAggregationSettings, loadCaseTotals, loadCells, loadUnattributed }
 import { RUN_CODE_VERSION } from './code-version';
 import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
 import type { GroupInfo, OutcomeInfo } from './compute-results';
-import { refreshPlannerStatistics } from './planner-statistics';
 import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { openResultWriter, storeCells } from './store-results';
 import { storeUnattributed, unattributedSummary } from './store-unattributed';
@@ -103,7 +103,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
   try {
     warmComputePool();
     // Fresher statistics are a help, not a condition: a run goes on without them.
-    const analyzed = await refreshPlannerStatistics(qr).catch((err: unknown) => [`not analyzed: ${err instanceof Error ? err.message : String(err)}`]);
+    const analyzed = await refreshPlannerStatistics((sql, params) => qr.query(sql, params)).catch((err: unknown) => [`not analyzed: ${err instanceof Error ? err.message : String(err)}`]);
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, options.settings);
     const t1 = performance.now();
