@@ -1,3 +1,4 @@
+import { ScrollRegion } from './scroll-region';
 import {
   flexRender,
   getCoreRowModel,
@@ -34,7 +35,7 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
   }
 
   return (
-    <div className="mt-4 overflow-x-auto">
+    <ScrollRegion label={caption}>
       <table className="w-full border-collapse bg-surface text-sm">
         <caption className="pb-2 text-left">
           <span className="flex flex-wrap items-baseline justify-between gap-2">
@@ -89,6 +90,6 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
           )}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }

@@ -1,4 +1,5 @@
 import type { ReactNode } from 'react';
+import { ScrollRegion } from './scroll-region';
 import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
 
 /**
@@ -14,7 +15,7 @@ export interface ResultRow {
 
 export function ResultTable({ caption, columns, rows, exportName, csvColumns }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string; csvColumns?: string[] }) {
   return (
-    <div className="mt-4 overflow-x-auto">
+    <ScrollRegion label={caption}>
       <table className="w-full border-collapse bg-surface text-sm">
         <caption className="pb-2 text-left">
           <span className="flex flex-wrap items-baseline justify-between gap-2">
@@ -57,6 +58,6 @@ export function ResultTable({ caption, columns, rows, exportName, csvColumns }: 
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }

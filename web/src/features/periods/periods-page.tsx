@@ -1,3 +1,4 @@
+import { ScrollRegion } from '../../components/table/scroll-region';
 import { roleMay } from '@ratewarden/shared/permissions';
 import { addMonths, periodStateLabels, periodStates, type SitePeriod } from '@ratewarden/shared/periods';
 import type { SessionUser } from '@ratewarden/shared/session';
@@ -130,7 +131,7 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
               {data.sites.length === 0 ? (
                 <p className="mt-4">No site is assigned to you; an administrator assigns sites.</p>
               ) : (
-                <div className="mt-4 overflow-x-auto">
+                <ScrollRegion label="Reporting periods, sites by months">
                   <table className="w-full border-collapse bg-surface text-sm">
                     <caption className="pb-2 text-left text-base font-semibold">
                       Sites × months, {formatMonth(data.from)} to {formatMonth(data.to)}, newest first
@@ -163,7 +164,7 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
                       ))}
                     </tbody>
                   </table>
-                </div>
+                </ScrollRegion>
               )}
             </>
           );
