@@ -61,7 +61,7 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api/admin', adminRouter(dataSource));
   app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource, maxBytes: config.INTAKE_MAX_BYTES, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS, expiryHours: config.INTAKE_EXPIRY_HOURS, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api', groupsRouter({ dataSource }));
-  app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD, runQuietSeconds: config.RUN_QUIET_SECONDS }));
+  app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD, runQuietSeconds: config.RUN_QUIET_SECONDS, answerCacheBytes: config.RUN_ANSWER_CACHE_MB * 1024 ** 2 }));
   app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));

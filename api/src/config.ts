@@ -38,6 +38,7 @@ const schema = z.object({
   INTAKE_ALLOW_FUTURE_MONTHS: z.enum(['0', '1']).default('0').transform((v) => v === '1').describe('1 takes in months (and onset dates) after the current month'),
   INTAKE_EXPIRY_HOURS: z.coerce.number().positive().default(24).describe('hours a checked intake waits for apply before it expires and its staged rows are dropped'),
   RUN_QUIET_SECONDS: z.coerce.number().int().min(0).default(180).describe("the worker's quiet interval before an intake's run (the worker reads the same setting); the API says when a waiting run comes"),
+  RUN_ANSWER_CACHE_MB: z.coerce.number().min(0).default(64).describe("memory for run answers kept serialised and gzipped, ready to send again (0 keeps none)"),
   SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('case counts below this are suppressed in results for every role but the physician (at least 3: with 2, a withheld count could only be 1)'),
 });
 

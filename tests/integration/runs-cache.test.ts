@@ -87,4 +87,21 @@ describe('run reads: conditional requests per run and reader', () => {
     const current = await hygienist.agent.get('/api/runs/current').expect(200);
     await hygienist.agent.get('/api/runs/current').set('if-none-match', current.headers.etag as string).expect(304);
   });
+
+  it('keeps an answer ready to send, gzipped or not as asked, and never serves it once another run is current', async () => {
+    const url = '/api/runs/current';
+    const before = await hygienist.agent.get(url).set('accept-encoding', 'gzip').expect(200);
+    expect(before.headers['content-encoding']).toBe('gzip');
+    expect(before.headers['content-type']).toMatch(/^application\/json/);
+    const plain = await hygienist.agent.get(url).set('accept-encoding', 'identity').expect(200);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body).toEqual(before.body);
+    expect(plain.headers.etag).toBe(before.headers.etag);
+
+    const next = await run();
+    const after = await hygienist.agent.get(url).expect(200);
+    expect(before.body.id).not.toBe(next);
+    expect(after.body.id).toBe(next);
+    expect(after.headers.etag).not.toBe(before.headers.etag);
+  });
 });

@@ -3,7 +3,7 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { runDiffQuerySchema, runPeriodIndexQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
-import { answeredFromCache } from './run-cache';
+import { RunAnswers } from './run-cache';
 import { runPeriodIndex } from './run-period-index';
 import { runStrata } from './run-strata';
 import { listUnattributed } from './run-unattributed';
@@ -16,13 +16,16 @@ export interface RunsRouterDeps {
   smallCellThreshold: number;
   /** RUN_QUIET_SECONDS: how long the worker lets uploads settle before an intake's run (to say when it comes). */
   runQuietSeconds: number;
+  /** RUN_ANSWER_CACHE_MB: memory for run answers kept ready to send, in bytes. */
+  answerCacheBytes: number;
 }
 
 const runId = z.string().uuid();
 
 /** Runs: history, one run, its results, the difference between two, and the run button; mounted at /api/runs. */
-export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds }: RunsRouterDeps): Router {
+export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds, answerCacheBytes }: RunsRouterDeps): Router {
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
+  const answers = new RunAnswers(ds, smallCellThreshold, answerCacheBytes);
   const router = Router();
   router.get('/', authorize('runs:read'), async (_req, res) => {
     res.json(await listRuns(ds));
@@ -36,21 +39,20 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
   });
   // Same scope and suppression as the results below.
   router.get('/diff', authorize('runs:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    const q = runDiffQuerySchema.parse(req.query);
-    res.json(await diffRuns(ds, q.from, q.to, q.siteId, reader(req)));
+    await answers.send(req, res, async () => {
+      const q = runDiffQuerySchema.parse(req.query);
+      return await diffRuns(ds, q.from, q.to, q.siteId, reader(req));
+    });
   });
   router.get('/current', authorize('runs:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, 'current'), reader(req)), req.principal!));
+    await answers.send(req, res, async () => await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, 'current'), reader(req)), req.principal!));
   });
   // Case-level: the current run's unattributed cases one by one (the counts are in the run's detail).
   router.get('/current/unattributed', authorize('cases:read'), async (req, res) => {
     res.json(await listUnattributed(ds, req.principal!, req.ip));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    res.json(await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!));
+    await answers.send(req, res, async () => await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!));
   });
   /**
    * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows
@@ -62,13 +64,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
    * that would reveal them, for every role but the physician (see runResultSchema).
    */
   router.get('/:id/results', authorize('aggregates:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    res.json(await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
+    await answers.send(req, res, async () => await listResults(ds, runId.parse(req.params.id), runResultsQuerySchema.parse(req.query), reader(req)));
   });
   /** The periods of one outcome's window with completeness and what the reader sees of them (same scope and frame as the results). */
   router.get('/:id/periods', authorize('aggregates:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    res.json(await runPeriodIndex(ds, runId.parse(req.params.id), runPeriodIndexQuerySchema.parse(req.query), reader(req)));
+    await answers.send(req, res, async () => await runPeriodIndex(ds, runId.parse(req.params.id), runPeriodIndexQuerySchema.parse(req.query), reader(req)));
   });
   /**
    * The stratum table behind an adjusted figure: one group and its reference group per age band,
@@ -77,8 +77,7 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
    * give a small one back by subtraction from the group's count).
    */
   router.get('/:id/strata', authorize('aggregates:read'), async (req, res) => {
-    if (await answeredFromCache(ds, req, res, smallCellThreshold)) return;
-    res.json(await runStrata(ds, runId.parse(req.params.id), runStrataQuerySchema.parse(req.query), reader(req)));
+    await answers.send(req, res, async () => await runStrata(ds, runId.parse(req.params.id), runStrataQuerySchema.parse(req.query), reader(req)));
   });
   return router;
 }
