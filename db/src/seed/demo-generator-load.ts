@@ -23,9 +23,7 @@ function* chunked(lines: Iterable<string>): Generator<string> {
 }
 
 async function copyLines(client: PoolClient, sql: string, lines: Iterable<string>): Promise<void> {
-  const t = Date.now();
   await pipeline(Readable.from(chunked(lines)), client.query(copyFrom(sql)));
-  if (process.env.DEMO_TIMING) console.log(sql.slice(0, 40), Date.now() - t, 'ms');
 }
 
 /**

@@ -4,8 +4,6 @@ import type { CountingRule } from '@ratewarden/shared/domain';
  * The demo scenario: Kestrelmoor Components, an invented maker of cast and welded parts with
  * four sites. Every name here is made up for the demo; none is a real company or person.
  */
-export const demoCompany = 'Kestrelmoor Components';
-
 export const demoSites = [
   { code: 'NFD', name: 'North Foundry', region: 'North' },
   { code: 'RVW', name: 'Riverside Works', region: 'North' },

@@ -92,7 +92,6 @@ export const statsRequestSchema = z.discriminatedUnion('kind', [
 
 export type StatsRequest = z.output<typeof statsRequestSchema>;
 export type StatsRequestInput = z.input<typeof statsRequestSchema>;
-export const STATS_REQUEST_KINDS = ['rates', 'stratified-rates', 'trend', 'sir', 'poisson', 'risks', 'stratified-risks'] as const;
 
 /**
  * Validate a request; throws StatsValidationError listing every issue with its path.

@@ -4,5 +4,4 @@ export const configKeys = {
   sites: () => [...configKeys.all, 'sites'] as const,
   groups: () => [...configKeys.all, 'groups'] as const,
   outcomes: () => [...configKeys.all, 'outcomes'] as const,
-  history: (kind: 'group' | 'outcome', id: number) => [...configKeys.all, 'history', kind, id] as const,
 };

@@ -12,9 +12,6 @@ let csrfToken: string | null = null;
 export function setCsrfToken(token: string | null): void {
   csrfToken = token;
 }
-export function getCsrfToken(): string | null {
-  return csrfToken;
-}
 
 export function csrfHeaders(method: string): Record<string, string> {
   return method !== 'GET' && method !== 'HEAD' && csrfToken ? { 'x-csrf-token': csrfToken } : {};

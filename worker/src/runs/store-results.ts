@@ -3,9 +3,9 @@ import { pipeline } from 'node:stream/promises';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { EntityManager } from 'typeorm';
-import type { ResultRow, TrendRow } from './compute-results';
+import type { TrendRow } from './compute-results';
 import type { Cell } from './cells-query';
-import { CELLS_COLUMNS, cellsLines, RESULT_COLUMNS, resultLine, TREND_COLUMNS, trendLine } from './copy-lines';
+import { CELLS_COLUMNS, cellsLines, RESULT_COLUMNS, TREND_COLUMNS, trendLine } from './copy-lines';
 
 /** COPY into `table` on the transaction's own connection, fed line by line while the caller works. */
 async function openCopy(em: EntityManager, table: string, columns: string[]): Promise<{ write(text: string): void; finish(): Promise<void> }> {
@@ -47,11 +47,4 @@ export async function storeCells(em: EntityManager, runId: string, cells: Cell[]
   const copy = await openCopy(em, 'run_cells', ['run_id', ...CELLS_COLUMNS]);
   copy.write(cellsLines(runId, cells));
   await copy.finish();
-}
-
-/** Writes a whole computed result set at once (see openResultWriter). */
-export async function storeResults(em: EntityManager, runId: string, results: ResultRow[], trends: TrendRow[]): Promise<void> {
-  const w = await openResultWriter(em, runId);
-  w.lines(results.map((r) => resultLine(runId, r)).join(''));
-  await w.finish(trends);
 }

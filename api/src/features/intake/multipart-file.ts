@@ -10,8 +10,6 @@ export interface UploadedFile {
    * chunk as the file's start): readers check `errored` before waiting for events.
    */
   stream: Readable;
-  /** Resolves once the whole request body has been read (or thrown away). */
-  done: Promise<void>;
 }
 
 const broken = (why: string) => new AppError('bad_request', `the upload broke off: ${why}; send the file again as multipart/form-data with one file field`);
@@ -50,10 +48,6 @@ export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile>
         reject(err);
       }
     };
-    const done = new Promise<void>((res) => {
-      bb.on('close', res);
-      bb.on('error', () => res());
-    });
     bb.on('file', (_field, stream, info) => {
       stream.on('error', (err: Error) => fail(broken(err.message)));
       if (out) {
@@ -71,7 +65,7 @@ export function firstFile(req: Request, maxBytes: number): Promise<UploadedFile>
         if (bodyRead && !file.destroyed) file.end();
       });
       settled = true;
-      resolve({ fileName: (info.filename || 'upload.csv').slice(0, 255), stream: out, done });
+      resolve({ fileName: (info.filename || 'upload.csv').slice(0, 255), stream: out });
     });
     bb.on('error', (err) => fail(broken(err instanceof Error ? err.message : String(err))));
     bb.on('close', () => {

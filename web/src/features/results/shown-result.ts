@@ -55,8 +55,3 @@ export function shownResult(r: RunResult, role: Role | null | undefined): ShownR
     irdP: ch ? null : r.ird.p,
   };
 }
-
-/** "2.345 (1.234 to 4.567)", or the reason a figure is not shown. */
-export function suppressedText(threshold: string): string {
-  return `not shown (${threshold} cases)`;
-}
