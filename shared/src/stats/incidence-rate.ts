@@ -75,7 +75,7 @@ export function incidenceRate(group: RateGroup, options: RateOptions = {}): Inci
   }
   const factor = per / group.personTime;
   return {
-    estimate: group.cases * factor, // λ̂ = x/T × per (METHODS §1)
+    estimate: group.cases * factor, // λ̂ = x/T × per (METHODS.md §1)
     exact: scale(poissonExactLimits(group.cases, confidence), factor),
     midP: scale(poissonMidPLimits(group.cases, confidence), factor),
     byar: scale(poissonByarLimits(group.cases, confidence), factor),

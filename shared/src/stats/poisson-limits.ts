@@ -54,7 +54,7 @@ export const poissonMidPLimits = memoLimits(function poissonMidPLimits(count: nu
   assertConfidence(confidence);
   const halfAlpha = (1 - confidence) / 2;
   const exact = poissonExactLimits(count, confidence);
-  // Lancaster HO. J Am Stat Assoc 1961;56:223–34 (mid-p); the equations as in METHODS §1.
+  // Lancaster HO. J Am Stat Assoc 1961;56:223–34 (mid-p); the equations as in METHODS.md §1.
   const lowerEq = (mu: number) => poissonUpperTail(count + 1, mu) + poissonPmf(count, mu) / 2 - halfAlpha;
   const upperEq = (mu: number) => poissonLowerTail(count - 1, mu) + poissonPmf(count, mu) / 2 - halfAlpha;
   const lower = count === 0 ? 0 : brentRoot(lowerEq, exact.lower, count);

@@ -2,7 +2,7 @@
  * Comparison of an exposed group with a reference group on person-time data: both rates,
  * the rate ratio, the rate difference, the attributable fractions and the excess cases.
  *
- * - AF among the exposed = (IRR − 1)/IRR, limits from the exact IRR limits (METHODS §10).
+ * - AF among the exposed = (IRR − 1)/IRR, limits from the exact IRR limits (METHODS.md §10).
  * - Population AF (Miettinen) = p_c (IRR − 1)/IRR with p_c = a/M, which equals
  *   (a − b·T1/T0)/M, the excess cases as a share of all cases (Rothman & Greenland 1998, ch. 4).
  * - Excess cases = a − b·T1/T0, the exposed cases beyond those expected at the reference rate.

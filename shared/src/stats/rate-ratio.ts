@@ -89,7 +89,7 @@ export const clopperPearsonOddsLimits = memoLimits(function clopperPearsonOddsLi
 });
 
 /**
- * Rate ratio with all its intervals and tests. Zero counts follow METHODS §2: b = 0 < a gives
+ * Rate ratio with all its intervals and tests. Zero counts follow METHODS.md §2: b = 0 < a gives
  * IRR = ∞, a = 0 < b gives 0, a = b = 0 leaves it undefined; the Wald interval and Wald p need
  * a, b > 0; the exact and mid-p intervals always exist (lower 0 when a = 0, upper ∞ when b = 0).
  *
@@ -129,7 +129,7 @@ export function rateRatio(exposed: RateGroup, reference: RateGroup, confidence =
   const timeRatio = t0 / t1;
   let estimate: number | null;
   if (a === 0 && b === 0) estimate = undefinedBecause(reasons, 'estimate', 'no cases in either group');
-  else if (b === 0) estimate = Infinity; // (a/T1)/(0/T0) with a > 0 (METHODS §2)
+  else if (b === 0) estimate = Infinity; // (a/T1)/(0/T0) with a > 0 (METHODS.md §2)
   else estimate = (a / t1) / (b / t0); // IRR = (a/T1)/(b/T0)
 
   // Wald on the log scale: SE(ln IRR) = √(1/a + 1/b) (Rothman & Greenland 1998, ch. 14).
@@ -147,7 +147,7 @@ export function rateRatio(exposed: RateGroup, reference: RateGroup, confidence =
     pWald = twoSidedNormalP(lnIrr / se); // z = ln IRR / SE
   }
 
-  // Exact conditional: Clopper–Pearson for π, then IRR = π/(1−π)·T0/T1 (METHODS §2).
+  // Exact conditional: Clopper–Pearson for π, then IRR = π/(1−π)·T0/T1 (METHODS.md §2).
   const cp = clopperPearsonOddsLimits(a, m, confidence);
   const exact: Interval = m === 0 ? { lower: 0, upper: Infinity } : { lower: cp.lower * timeRatio, upper: cp.upper * timeRatio };
   const mid = m === 0 ? { lower: 0, upper: Infinity } : binomialMidPOddsLimits(a, m, confidence);

@@ -4,7 +4,7 @@
  * variance, the MH chi-square test of IRR = 1, the score test of homogeneity under the common
  * MH rate ratio, and the crude comparison beside them.
  *
- * Strata handling (METHODS §4): a stratum with no person-time in one arm is dropped from every
+ * Strata handling (METHODS.md §4): a stratum with no person-time in one arm is dropped from every
  * adjusted measure; a stratum with no cases in either arm contributes nothing to the MH rate
  * ratio, its variance, the MH test or the homogeneity test and is left out of them, but it is
  * kept for the MH rate difference, where its weight T1T0/T is real information (a difference of 0).
