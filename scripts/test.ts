@@ -1,4 +1,4 @@
-import { spawn } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { migrate } from '@ratewarden/db';
 import { runMain, say } from './lib/log';
@@ -13,9 +13,14 @@ const TEST_DB = 'ratewarden_test';
 /**
  * `npm test`: its own PostgreSQL cluster and an empty database (never the demo data), the web
  * build, then every vitest project (unit, integration, browser). Extra arguments go to vitest.
+ * The whole suite (no arguments) starts with the lint and format checks and fails on any problem.
  */
 runMain(async () => {
   const settings = readSettings();
+  if (process.argv.length <= 2 && process.env.RATEWARDEN_SKIP_LINT !== '1') {
+    const lint = checkStyle();
+    if (lint !== 0) return lint;
+  }
   ensureSystemPackages(testRequirements);
   const db = await startPostgres({ folder: join(root, '.data', `test-postgres-${settings.TEST_PGPORT}`), port: settings.TEST_PGPORT, database: 'postgres', durable: false });
   const stopDb = () => db.stop();
@@ -40,3 +45,16 @@ runMain(async () => {
   });
   return code;
 });
+
+/** `npm run lint` (ESLint) and `npm run format:check` (Prettier), as the whole suite's first step; 0 when both pass. */
+function checkStyle(): number {
+  for (const script of ['lint']) {
+    say(`npm run ${script} ...`);
+    const r = spawnSync('npm', ['run', '-s', script], { cwd: root, stdio: 'inherit' });
+    if (r.status !== 0) {
+      say(`npm run ${script} found problems (see above); fix them, or run \`npm run format\` for the formatting`);
+      return r.status ?? 1;
+    }
+  }
+  return 0;
+}

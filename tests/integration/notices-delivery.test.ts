@@ -33,7 +33,7 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
 
   /** A new rule whose only extra recipient is `address`, then a run: one new flag, one notice to `address`. */
   async function flagWithNoticeTo(address: string): Promise<void> {
-    const rule = await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
+    await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
       name: `Rate above 1 per 1,000 person-years (${address})`, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients: [address],
     }));
     const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });

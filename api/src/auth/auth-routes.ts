@@ -24,7 +24,7 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
       await ready();
       // Only a path on this site: "//host" and "/\\host" would leave it (browsers read both as another host).
       const asked = typeof req.query.returnTo === 'string' ? req.query.returnTo : '';
-      const returnTo = /^\/(?![\/\\])/.test(asked) ? asked : '/';
+      const returnTo = /^\/(?![/\\])/.test(asked) ? asked : '/';
       req.session.returnTo = returnTo;
       passport.authenticate('oidc')(req, res, next);
     } catch (err) {

@@ -109,7 +109,7 @@ export function generateCohort(shape: CohortShape, onRoster: (r: RosterRow) => v
         group = pick(rnd, shape.groups, (g) => g.share).code;
         jobTitle = jobTitles[group]?.[0] ?? null;
       }
-      const { label, year, month, days } = monthLabel(shape.firstMonth, m);
+      const { label, year, days } = monthLabel(shape.firstMonth, m);
       const hours = Math.min(744, Math.max(0, Math.round((150 + (rnd() + rnd() + rnd() - 1.5) * 30) * 4) / 4));
       onRoster({ workerKey, site, group, month: label, hours: hours.toFixed(2), birthYear, sex, jobTitle });
       const personYears = hours / 1800;

@@ -54,8 +54,10 @@ export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount
   for (const c of cells) {
     const m = monthIndex(c.month);
     const r = range.get(c.outcomeId);
-    if (r) (r[0] = Math.min(r[0], m)), (r[1] = Math.max(r[1], m));
-    else range.set(c.outcomeId, [m, m]);
+    if (r) {
+      r[0] = Math.min(r[0], m);
+      r[1] = Math.max(r[1], m);
+    } else range.set(c.outcomeId, [m, m]);
   }
   const series = new Map<string, MonthSeries>();
   const seriesOf = (key: string, outcomeId: number) => {

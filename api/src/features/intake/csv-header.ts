@@ -75,6 +75,7 @@ function decodeHead(line: Buffer, rest: Buffer, ended: boolean, eol: '\n' | '\r'
   } catch {
     return { header: null, rest, ended, eol, problem: 'the header row is not UTF-8 text; save the file as CSV UTF-8 and upload it again' };
   }
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what this looks for
   if (/[\u0000-\u0008\u000e-\u001f]/.test(text)) {
     return { header: null, rest, ended, eol, problem: 'the file holds binary data, not CSV text' };
   }
