@@ -31,10 +31,10 @@ describe('api feature boundaries', () => {
  */
 describe('production code and development dependencies', () => {
   const workspaces = [
-    { dir: fileURLToPath(new URL('../', import.meta.url)), standIns: ['stand-ins'] },
-    { dir: fileURLToPath(new URL('../../../worker/src/', import.meta.url)), standIns: ['smtp-fake'] },
+    { name: 'api', dir: fileURLToPath(new URL('../', import.meta.url)), standIns: ['stand-ins'] },
+    { name: 'worker', dir: fileURLToPath(new URL('../../../worker/src/', import.meta.url)), standIns: ['smtp-fake'] },
   ];
-  it.each(workspaces)('$dir imports no development dependency outside its stand-ins and tests', ({ dir, standIns }) => {
+  it.each(workspaces)('$name imports no development dependency outside its stand-ins and tests', ({ dir, standIns }) => {
     const pkg = JSON.parse(readFileSync(join(dir, '..', 'package.json'), 'utf8')) as { devDependencies?: Record<string, string> };
     const devOnly = new Set(Object.keys(pkg.devDependencies ?? {}).filter((n) => !n.startsWith('@types/')));
     expect(devOnly.size).toBeGreaterThan(0);
