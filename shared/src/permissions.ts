@@ -21,6 +21,8 @@ export const rolePermissions = {
   'periods:read': ['hygienist', 'safety_manager', 'physician'],
   'periods:close': ['hygienist'],
   'cases:read': ['physician'],
+  // Counts of 1 to SMALL_CELL_THRESHOLD − 1 cases, shown to these roles and withheld from every other (app and notices).
+  'counts:small': ['physician'],
   'cases:review': ['physician'],
   'users:manage': ['administrator'],
   'clients:manage': ['administrator'],
@@ -32,6 +34,11 @@ export type Permission = keyof typeof rolePermissions;
 
 /** Integration clients (machines with a client-credentials token) may only push intakes. */
 export const clientPermissions: readonly Permission[] = ['intake:write', 'intake:formats'];
+
+/** The roles given a permission. */
+export function rolesWith(permission: Permission): readonly Role[] {
+  return rolePermissions[permission];
+}
 
 export function roleMay(role: Role | null | undefined, permission: Permission): boolean {
   return role != null && (rolePermissions[permission] as readonly Role[]).includes(role);

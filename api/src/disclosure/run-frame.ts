@@ -6,7 +6,7 @@ import { AppError } from '../lib/app-error';
 import { RunMemo } from '../lib/run-memo';
 
 /** Who sees every count, small ones included: whoever may read case-level data (the physician). */
-export const seesEveryCount = (p: Principal) => p.kind === 'user' && roleMay(p.role, 'cases:read');
+export const seesEveryCount = (p: Principal) => p.kind === 'user' && roleMay(p.role, 'counts:small');
 
 /** Whether a person may read every site (and so the company's figures, which include every site's workers). */
 export async function readsEverySite(ds: DataSource | EntityManager, principal: Principal): Promise<boolean> {

@@ -1,4 +1,5 @@
 import type { Role } from '@ratewarden/shared/domain';
+import { roleMay } from '@ratewarden/shared/permissions';
 import { DEFAULT_SMALL_CELL_THRESHOLD, type SplitWithheld, type Withheld } from '@ratewarden/shared/small-cells';
 
 /**
@@ -16,7 +17,7 @@ export interface ShownCount {
 }
 
 export function maySeeSmallCells(role: Role | null | undefined): boolean {
-  return role === 'physician';
+  return roleMay(role, 'counts:small');
 }
 
 let threshold = DEFAULT_SMALL_CELL_THRESHOLD;

@@ -4,6 +4,7 @@ import type { FlagFigures } from '@ratewarden/shared/flags';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
+import { rolesWith } from '@ratewarden/shared/permissions';
 import { composeNotice, type NoticeKind } from '../notices/compose-notice';
 import type { ScopedVerdict } from '../rules/rule-verdicts';
 import { standingEscalations, withdrawnBy, type RunFlagEvent } from './escalations';
@@ -93,7 +94,8 @@ export async function applyVerdicts(
   const tally: FlagTally = { raised: 0, escalated: 0, eased: 0, updated: 0, cleared: 0, crossedAgain: 0, notRaisedAgain: 0, notices: 0 };
   const physicians: Array<{ email: string; site_ids: number[] }> = await em.query(
     `SELECT u.email, coalesce(array_agg(us.site_id) FILTER (WHERE us.site_id IS NOT NULL), '{}') AS site_ids
-     FROM users u LEFT JOIN user_sites us ON us.user_id = u.id WHERE u.role = 'physician' GROUP BY u.email ORDER BY u.email`,
+     FROM users u LEFT JOIN user_sites us ON us.user_id = u.id WHERE u.role = ANY($1) GROUP BY u.email ORDER BY u.email`,
+    [rolesWith('counts:small')],
   );
   const groups: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM exposure_groups`);
   const groupOf = new Map(groups.map((g) => [g.id, g]));
