@@ -1,4 +1,5 @@
 import type { IntakeKind } from './intake';
+import { toCsv } from './csv';
 
 /**
  * The roster and case CSV formats: ONE definition of each column's rule. The zod row schemas
@@ -123,24 +124,8 @@ export const reasons = {
   caseDuplicateEvent: 'the same worker, outcome and onset date is already another case (duplicate case event)',
 } as const;
 
-/** True when a cell looks like a spreadsheet formula; exporters must neutralize it (csvSafeCell). */
-export function looksLikeFormula(value: string): boolean {
-  return /^[=+\-@\t\r]/.test(value);
-}
-
-/**
- * Formats a value for a CSV file that someone may open in a spreadsheet: formula-looking cells
- * get a leading apostrophe (the usual CSV-injection guard), and quotes are doubled.
- */
-export function csvSafeCell(value: string | number | null | undefined): string {
-  if (value === null || value === undefined) return '';
-  let s = String(value);
-  if (typeof value === 'string' && looksLikeFormula(s)) s = `'${s}`;
-  return /[",;\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
 /** The downloadable template: the header row and one example row. */
 export function templateCsv(kind: IntakeKind): string {
   const cols = intakeColumns[kind];
-  return `${cols.map((c) => c.name).join(',')}\r\n${cols.map((c) => csvSafeCell(c.example)).join(',')}\r\n`;
+  return toCsv(cols.map((c) => c.name), [cols.map((c) => c.example)]);
 }

@@ -5,6 +5,7 @@ import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/ru
 import type { RunSettings } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
 import { rolesWith } from '@ratewarden/shared/permissions';
+import { recordAudit } from '@ratewarden/db/audit-log';
 import { composeNotice, type NoticeKind } from '../notices/compose-notice';
 import type { ScopedVerdict } from '../rules/rule-verdicts';
 import { standingEscalations, withdrawnBy, type RunFlagEvent } from './escalations';
@@ -37,14 +38,12 @@ interface OpenFlag {
   crossing: boolean;
 }
 
-const SYSTEM_ACTOR = 'system:run';
-
 /**
  * The audit log is read by the administrator, who may not read aggregates: its entries name the
  * flag, rule, group, site and period, never a count or a measure's value.
  */
 async function audit(em: EntityManager, action: string, flagId: string, detail: Record<string, unknown>): Promise<void> {
-  await em.query(`INSERT INTO audit_events (actor_label, action, target, detail) VALUES ($1, $2, $3, $4)`, [SYSTEM_ACTOR, action, `flag:${flagId}`, JSON.stringify(toJsonValue(detail))]);
+  await recordAudit(em, { actor: { kind: 'system', name: 'run' }, action, target: `flag:${flagId}`, detail: toJsonValue(detail) as Record<string, unknown> });
 }
 
 async function addEvent(em: EntityManager, flagId: string, kind: string, runId: string, detail: Record<string, unknown>): Promise<string> {

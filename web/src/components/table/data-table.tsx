@@ -8,7 +8,8 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import { useState } from 'react';
-import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
+import { toCsv, type CsvCell } from '@ratewarden/shared/csv';
+import { downloadCsv } from '../../lib/csv';
 
 /**
  * A sortable table (@tanstack/react-table) with a CSV export of exactly the rows and columns shown.

@@ -1,4 +1,5 @@
-import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
+import { toCsv, type CsvCell } from '@ratewarden/shared/csv';
+import { downloadCsv } from '../../lib/csv';
 
 /** The CSV of the table behind a chart, with the chart's title for assistive technology. */
 export interface CsvExport {

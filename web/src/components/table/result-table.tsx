@@ -1,6 +1,7 @@
 import type { ReactNode } from 'react';
 import { ScrollRegion } from './scroll-region';
-import { downloadCsv, toCsv, type CsvCell } from '../../lib/csv';
+import { toCsv, type CsvCell } from '@ratewarden/shared/csv';
+import { downloadCsv } from '../../lib/csv';
 
 /**
  * A small table of results: the first column names the row (a row header), the rest are figures.

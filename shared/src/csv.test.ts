@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { neutraliseCell, toCsv } from '../csv';
+import { neutraliseCell, toCsv } from './csv';
 
 // Formula-injection prefixes from the OWASP "CSV Injection" page; quoting rules from RFC 4180.
 describe('CSV export', () => {
