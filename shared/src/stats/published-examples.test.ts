@@ -1,7 +1,11 @@
 /**
- * Every worked example in shared/test-fixtures/published-examples.json is reproduced within its
- * stated tolerance, and, where the source prints numbers, at the printed precision. Each example
- * carries its own `source`; the test title shows it beside the expected values.
+ * Every worked example in shared/test-fixtures/published-examples.json, checked in two parts, each
+ * titled with where its numbers come from:
+ * - the full-precision values, computed for the fixture with general-purpose reference libraries
+ *   (R 4.2.2 and scipy 1.10.1, see the fixture's `about`), within the example's stated tolerance;
+ * - the values printed in the cited source (`published`), at the digits printed and no more. Where
+ *   the fixture marks an example `confirmed: false`, those values were not read in the source
+ *   itself: the title says so.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -30,6 +34,8 @@ interface Example {
   tolerance: { relative: number; absolute: number };
   source: string;
   published?: Record<string, number>;
+  /** True where the `published` numbers were read in the cited source itself. */
+  confirmed: boolean;
 }
 
 const fixture = JSON.parse(readFileSync(fileURLToPath(new URL('../../test-fixtures/published-examples.json', import.meta.url)), 'utf8')) as { cases: Example[] };
@@ -175,17 +181,26 @@ function printedUnit(value: number): number {
 }
 
 describe('published worked examples (shared/test-fixtures/published-examples.json)', () => {
-  it('the fixture is present and every example names its source', () => {
+  it('the fixture is present and every example names its source and says whether it is confirmed', () => {
     expect(fixture.cases.length).toBeGreaterThan(40);
-    for (const ex of fixture.cases) expect(ex.source.length, ex.id).toBeGreaterThan(10);
+    for (const ex of fixture.cases) {
+      expect(ex.source.length, ex.id).toBeGreaterThan(10);
+      expect(typeof ex.confirmed, ex.id).toBe('boolean');
+    }
   });
 
   for (const ex of fixture.cases) {
     if (SKIPPED_EXAMPLES[ex.id]) continue;
-    it(`${ex.id} — ${ex.measure} ${ex.method} — source: ${ex.source}`, () => {
+    const inputs = ex.source.startsWith('computed with') ? '' : `; inputs from ${ex.source}`;
+    it(`${ex.id} — ${ex.measure} ${ex.method} — within relative ${ex.tolerance.relative} of values computed with R 4.2.2 and scipy 1.10.1 (reference libraries)${inputs}`, () => {
       const actual = compute(ex);
       for (const [k, v] of Object.entries(ex.expected)) expectClose(actual[k], v, ex.tolerance, `${ex.id}.${k}`);
-      for (const [k, v] of Object.entries(ex.published ?? {})) {
+    });
+    if (!ex.published) continue;
+    const printed = ex.confirmed ? `printed in ${ex.source}` : `reported for ${ex.source} — NOT confirmed in the source itself`;
+    it(`${ex.id} — ${ex.measure} ${ex.method} — the values ${printed}, at the digits printed`, () => {
+      const actual = compute(ex);
+      for (const [k, v] of Object.entries(ex.published!)) {
         const a = actual[k];
         expect(typeof a, `${ex.id}.published.${k}`).toBe('number');
         expect(Math.abs((a as number) - v), `${ex.id}.published.${k}: got ${String(a)}, printed ${v}`).toBeLessThanOrEqual(printedUnit(v) * (1 + 1e-9));
