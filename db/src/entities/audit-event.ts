@@ -25,4 +25,12 @@ export const AuditEventEntity = new EntitySchema<AuditEvent>({
     detail: { type: 'jsonb', default: {} },
     ip: { type: 'text', nullable: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  indices: [
+    { name: 'audit_events_action', columns: ['action', 'at'] },
+    { name: 'audit_events_at', columns: ['at'] },
+  ],
+  foreignKeys: [
+    { name: 'audit_events_actor_id_fkey', target: 'User', columnNames: ['actor_id'], referencedColumnNames: ['id'] },
+  ],
 });

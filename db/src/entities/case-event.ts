@@ -29,4 +29,20 @@ export const CaseEventEntity = new EntitySchema<CaseEvent>({
     supersededBy: { name: 'superseded_by', type: 'uuid', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'case_events_status_check', expression: '(status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
+  ],
+  indices: [
+    { name: 'case_events_current', columns: ['caseRef'], unique: true, where: '(superseded_by IS NULL)' },
+    { name: 'case_events_intake', columns: ['intakeId'] },
+    { name: 'case_events_outcome', columns: ['outcomeId', 'onsetDate'], where: '(superseded_by IS NULL)' },
+    { name: 'case_events_worker', columns: ['workerId'], where: '(superseded_by IS NULL)' },
+  ],
+  foreignKeys: [
+    { name: 'case_events_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
+    { name: 'case_events_outcome_id_fkey', target: 'Outcome', columnNames: ['outcome_id'], referencedColumnNames: ['id'] },
+    { name: 'case_events_superseded_by_fkey', target: 'Intake', columnNames: ['superseded_by'], referencedColumnNames: ['id'] },
+    { name: 'case_events_worker_id_fkey', target: 'Worker', columnNames: ['worker_id'], referencedColumnNames: ['id'] },
+  ],
 });

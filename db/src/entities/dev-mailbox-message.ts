@@ -25,4 +25,8 @@ export const DevMailboxMessageEntity = new EntitySchema<DevMailboxMessage>({
     textBody: { name: 'text_body', type: 'text', nullable: true },
     raw: { type: 'text' },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  indices: [
+    { name: 'dev_mailbox_message_once', columns: ['messageId', 'rcptTo'], unique: true, where: '(message_id IS NOT NULL)' },
+  ],
 });

@@ -52,4 +52,24 @@ export const FlagEntity = new EntitySchema<FlagRow>({
     closedAt: { name: 'closed_at', type: 'timestamptz', nullable: true },
     closedBy: { name: 'closed_by', type: 'uuid', nullable: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'flags_check', expression: '((state = \'closed\'::text) = (close_reason IS NOT NULL))' },
+    { name: 'flags_close_reason_check', expression: '(close_reason = ANY (ARRAY[\'explained\'::text, \'action_taken\'::text, \'not_substantiated\'::text]))' },
+    { name: 'flags_state_check', expression: '(state = ANY (ARRAY[\'raised\'::text, \'in_review\'::text, \'closed\'::text]))' },
+  ],
+  indices: [
+    { name: 'flags_one_open', columns: ['ruleId', 'exposureGroupId', 'outcomeId'], unique: true, where: '(state <> \'closed\'::text)', synchronize: false },
+    { name: 'flags_site', columns: ['siteId'], where: '(site_id IS NOT NULL)' },
+    { name: 'flags_state', columns: ['state', 'raisedAt'] },
+  ],
+  foreignKeys: [
+    { name: 'flags_closed_by_fkey', target: 'User', columnNames: ['closed_by'], referencedColumnNames: ['id'] },
+    { name: 'flags_exposure_group_id_fkey', target: 'ExposureGroup', columnNames: ['exposure_group_id'], referencedColumnNames: ['id'] },
+    { name: 'flags_last_run_id_fkey', target: 'Run', columnNames: ['last_run_id'], referencedColumnNames: ['id'] },
+    { name: 'flags_outcome_id_fkey', target: 'Outcome', columnNames: ['outcome_id'], referencedColumnNames: ['id'] },
+    { name: 'flags_raised_run_id_fkey', target: 'Run', columnNames: ['raised_run_id'], referencedColumnNames: ['id'] },
+    { name: 'flags_rule_id_fkey', target: 'WatchRule', columnNames: ['rule_id'], referencedColumnNames: ['id'] },
+    { name: 'flags_site_id_fkey', target: 'Site', columnNames: ['site_id'], referencedColumnNames: ['id'] },
+  ],
 });

@@ -17,8 +17,6 @@ import { FlagEventEntity } from './flag-event';
 import { NoticeEntity } from './notice';
 import { RunEntity } from './run';
 import { RunCellsEntity } from './run-cells';
-import { RunResultEntity } from './run-result';
-import { RunTrendEntity } from './run-trend';
 import { WatchRuleEntity } from './watch-rule';
 import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
@@ -27,7 +25,7 @@ import { RunRequestEntity } from './run-request';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
+  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -45,8 +43,6 @@ export { AuditEventEntity, CaseEventEntity, IntakeEntity, IntegrationClientEntit
 export type { Run } from './run';
 export type { CurrentRun } from './current-run';
 export type { RunCells } from './run-cells';
-export type { RunResultRow } from './run-result';
-export type { RunTrend } from './run-trend';
 export type { WatchRuleRow } from './watch-rule';
 export type { FlagRow } from './flag';
 export type { FlagEventRow } from './flag-event';
@@ -56,6 +52,6 @@ export type { PeriodClosure } from './period-closure';
 export type { RunPeriod } from './run-period';
 export type { RunRequest } from './run-request';
 export { RunRequestEntity };
-export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
+export { RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
 export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };

@@ -44,4 +44,16 @@ export const NoticeEntity = new EntitySchema<NoticeRow>({
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
     sentAt: { name: 'sent_at', type: 'timestamptz', nullable: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  uniques: [{ name: 'notices_flag_event_id_recipient_key', columns: ['flagEventId', 'recipient'] }],
+  checks: [
+    { name: 'notices_state_check', expression: '(state = ANY (ARRAY[\'pending\'::text, \'sending\'::text, \'sent\'::text, \'failed\'::text]))' },
+  ],
+  indices: [
+    { name: 'notices_due', columns: ['nextAttemptAt'], where: '(state = ANY (ARRAY[\'pending\'::text, \'sending\'::text]))' },
+  ],
+  foreignKeys: [
+    { name: 'notices_flag_event_id_fkey', target: 'FlagEvent', columnNames: ['flag_event_id'], referencedColumnNames: ['id'] },
+    { name: 'notices_flag_id_fkey', target: 'Flag', columnNames: ['flag_id'], referencedColumnNames: ['id'] },
+  ],
 });

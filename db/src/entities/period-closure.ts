@@ -23,4 +23,17 @@ export const PeriodClosureEntity = new EntitySchema<PeriodClosure>({
     personId: { name: 'person_id', type: 'uuid', nullable: true },
     at: { type: 'timestamptz', createDate: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'period_closures_action_check', expression: '(action = ANY (ARRAY[\'close\'::text, \'reopen\'::text]))' },
+    { name: 'period_closures_month_check', expression: '(EXTRACT(day FROM month) = (1)::numeric)' },
+    { name: 'period_closures_reason_check', expression: '(char_length(reason) <= 500)' },
+  ],
+  indices: [
+    { name: 'period_closures_latest', columns: ['siteId', 'month', 'id'] },
+  ],
+  foreignKeys: [
+    { name: 'period_closures_person_id_fkey', target: 'User', columnNames: ['person_id'], referencedColumnNames: ['id'] },
+    { name: 'period_closures_site_id_fkey', target: 'Site', columnNames: ['site_id'], referencedColumnNames: ['id'] },
+  ],
 });

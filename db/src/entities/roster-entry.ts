@@ -25,4 +25,13 @@ export const RosterEntryEntity = new EntitySchema<RosterEntry>({
     hours: { type: 'numeric', precision: 7, scale: 2 },
     jobTitle: { name: 'job_title', type: 'text', nullable: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'roster_entries_hours_check', expression: '((hours >= (0)::numeric) AND (hours <= (744)::numeric))' },
+    { name: 'roster_entries_month_check', expression: '(EXTRACT(day FROM month) = (1)::numeric)' },
+  ],
+  indices: [
+    { name: 'roster_entries_slice', columns: ['intakeId', 'siteId', 'month'] },
+    { name: 'roster_entries_worker', columns: ['workerId', 'month'] },
+  ],
 });

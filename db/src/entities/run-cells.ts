@@ -33,4 +33,11 @@ export const RunCellsEntity = new EntitySchema<RunCells>({
     hours: { type: 'numeric', precision: 14, scale: 2, array: true },
     cases: { type: 'integer', array: true },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'run_cells_check', expression: '((cardinality(months) = cardinality(site_ids)) AND (cardinality(months) = cardinality(age_bands)) AND (cardinality(months) = cardinality(sexes)) AND (cardinality(months) = cardinality(hours)) AND (cardinality(months) = cardinality(cases)))' },
+  ],
+  foreignKeys: [
+    { name: 'run_cells_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
+  ],
 });

@@ -19,10 +19,17 @@ export const RunRequestEntity = new EntitySchema<RunRequest>({
   tableName: 'run_requests',
   columns: {
     id: { type: 'bigint', primary: true, generated: 'increment' },
-    requestedAt: { name: 'requested_at', type: 'timestamptz' },
+    requestedAt: { name: 'requested_at', type: 'timestamptz', default: () => 'now()' },
     reason: { type: 'text' },
     intakeId: { name: 'intake_id', type: 'uuid', nullable: true },
     pickedAt: { name: 'picked_at', type: 'timestamptz', nullable: true },
     immediate: { type: 'boolean', default: false },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  indices: [
+    { name: 'run_requests_pending', columns: ['requestedAt'], where: '(picked_at IS NULL)' },
+  ],
+  foreignKeys: [
+    { name: 'run_requests_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'] },
+  ],
 });

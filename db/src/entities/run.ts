@@ -17,6 +17,8 @@ export interface Run {
   /** host:pid of the process that ran it. */
   worker: string;
   summary: Record<string, unknown>;
+  /** Whether the run stored a disclosure frame (runs before the frame existed did not). */
+  disclosureFrame: boolean;
 }
 
 export const RunEntity = new EntitySchema<Run>({
@@ -36,5 +38,14 @@ export const RunEntity = new EntitySchema<Run>({
     codeVersion: { name: 'code_version', type: 'text' },
     worker: { type: 'text' },
     summary: { type: 'jsonb', default: () => "'{}'" },
+    disclosureFrame: { name: 'disclosure_frame', type: 'boolean', default: false },
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'runs_state_check', expression: '(state = ANY (ARRAY[\'running\'::text, \'succeeded\'::text, \'failed\'::text]))' },
+    { name: 'runs_trigger_check', expression: '(trigger = ANY (ARRAY[\'schedule\'::text, \'request\'::text, \'cli\'::text, \'bench\'::text]))' },
+  ],
+  indices: [
+    { name: 'runs_started', columns: ['startedAt'] },
+  ],
 });

@@ -25,4 +25,11 @@ export const UserEntity = new EntitySchema<User>({
     lastSignInAt: { name: 'last_sign_in_at', type: 'timestamptz', nullable: true },
     ...timestampColumns,
   },
+  // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
+  checks: [
+    { name: 'users_role_check', expression: '(role = ANY (ARRAY[\'hygienist\'::text, \'safety_manager\'::text, \'physician\'::text, \'administrator\'::text]))' },
+  ],
+  indices: [
+    { name: 'users_email_unbound', columns: [], unique: true, where: '(subject IS NULL)', synchronize: false },
+  ],
 });
