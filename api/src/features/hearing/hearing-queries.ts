@@ -7,10 +7,14 @@ import { siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { loadWorkerHearing } from './worker-hearing';
 
-/** Workers the reader may see: with a current roster row at one of their sites (every worker for 'all'). */
+/**
+ * Workers the reader may see (every worker for 'all'): with a current roster row at one of their
+ * sites, or audiograms uploaded for one of their sites (the upload's sites are its workers' roster sites).
+ */
 const visibleWorker = (param: string) => `(${param}::integer[] IS NULL OR EXISTS (
   SELECT 1 FROM roster_entries re JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
-  WHERE re.worker_id = w.id AND re.site_id = ANY(${param}::integer[])))`;
+  WHERE re.worker_id = w.id AND re.site_id = ANY(${param}::integer[]))
+  OR EXISTS (SELECT 1 FROM audiograms a JOIN intakes i ON i.id = a.intake_id WHERE a.worker_id = w.id AND i.site_ids && ${param}::integer[]))`;
 
 const scopeParam = (p: Principal) => {
   const s = siteScope(p);
