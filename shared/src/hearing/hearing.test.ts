@@ -184,6 +184,20 @@ describe('properties (fast-check)', () => {
       }),
     );
   });
+  it('a history finds shifts only where the computation says so, at most one per annual test, and never on the baseline', () => {
+    const tones234 = fc.tuple(db, db, db);
+    fc.assert(
+      fc.property(fc.array(tones234, { minLength: 2, maxLength: 7 }), (series) => {
+        const tests = series.map(([a, b, c], i) => test(`t${i}`, `${2015 + i}-04-01`, i === 0 ? 'baseline' : 'annual', [0, 0, a, b, c, 0]));
+        const h = earHistory('right', tests, { sex: null, birthYear: null });
+        expect(h.shifts.every((s) => s.computation.shift && s.audiogramId !== 't0')).toBe(true);
+        expect(new Set(h.shifts.map((s) => s.audiogramId)).size).toBe(h.shifts.length);
+        // Each annual test is compared once.
+        expect(h.steps.filter((s) => s.kind === 'compared')).toHaveLength(series.length - 1);
+      }),
+    );
+  });
+
   it('the order in which tests arrive does not change the history', () => {
     const tests = [
       test('b', '2019-05-01', 'baseline', [0, 0, 5, 5, 5, 5]),
