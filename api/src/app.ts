@@ -11,6 +11,7 @@ import { principalMiddleware } from './auth/principal';
 import { sessionMiddleware } from './auth/sessions';
 import { adminRouter } from './features/admin/admin-routes';
 import { groupsRouter } from './features/groups/groups-routes';
+import { hearingRouter } from './features/hearing/hearing-routes';
 import { intakeRouter } from './features/intake/intake-routes';
 import { flagsRouter } from './features/flags/flags-routes';
 import { mailboxRouter } from './features/mailbox/mailbox-routes';
@@ -60,6 +61,7 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api/session', sessionRouter(config.SMALL_CELL_THRESHOLD));
   app.use('/api/admin', adminRouter(dataSource));
   app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource, maxBytes: config.INTAKE_MAX_BYTES, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS, expiryHours: config.INTAKE_EXPIRY_HOURS, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
+  app.use('/api/audiograms', intakeRateLimit(config.INTAKE_RATE_LIMIT), hearingRouter({ dataSource, settings: { ageCorrection: config.HEARING_AGE_CORRECTION, outcomeCode: config.HEARING_OUTCOME_CODE } }));
   app.use('/api', groupsRouter({ dataSource }));
   app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD, runQuietSeconds: config.RUN_QUIET_SECONDS, answerCacheBytes: config.RUN_ANSWER_CACHE_MB * 1024 ** 2 }));
   app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));

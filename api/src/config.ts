@@ -39,6 +39,8 @@ const schema = z.object({
   INTAKE_EXPIRY_HOURS: z.coerce.number().positive().default(24).describe('hours a checked intake waits for apply before it expires and its staged rows are dropped'),
   RUN_QUIET_SECONDS: z.coerce.number().int().min(0).default(180).describe("the worker's quiet interval before an intake's run (the worker reads the same setting); the API says when a waiting run comes"),
   RUN_ANSWER_CACHE_MB: z.coerce.number().min(0).default(64).describe("memory for run answers kept serialised and gzipped, ready to send again (0 keeps none)"),
+  HEARING_AGE_CORRECTION: z.enum(['0', '1']).default('1').transform((v) => v === '1').describe('1 applies the age correction of 29 CFR 1910.95 Appendix F when deriving standard threshold shifts from audiograms (the regulation allows it; 0 compares thresholds as measured)'),
+  HEARING_OUTCOME_CODE: z.string().min(1).default('STS').describe('code of the outcome whose suspected cases the standard threshold shifts derived from audiograms become'),
   SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('case counts below this are suppressed in results for every role but the physician (at least 3: with 2, a withheld count could only be 1)'),
 });
 

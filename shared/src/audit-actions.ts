@@ -4,6 +4,7 @@
  * here reads as its code.
  */
 export const auditActionLabels: Record<string, string> = {
+  'audiograms.apply': 'Applied audiograms (threshold shifts derived)',
   'auth.sign_in': 'Signed in',
   'auth.sign_out': 'Signed out',
   'cases.read': 'Read case-level records',

@@ -6,6 +6,7 @@ import { provisionUser } from '../support/sign-in';
 import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
 import { makeFlagFixture, type FlagFixture } from './flag-fixture';
 import { allSiteIds } from '../support/test-db';
+import { plantAudiograms } from './audiogram-fixture';
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 
@@ -34,9 +35,11 @@ async function axe(page: Page): Promise<AxeViolation[]> {
  */
 describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   let fx: FlagFixture;
+  let hearingWorker = '';
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
     const allSites = await allSiteIds(ds);
+    hearingWorker = await plantAudiograms(ds, allSites);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', allSites);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
@@ -59,7 +62,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   const pages = (flagId: string, outcome: number) => [
     '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
-    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc',
+    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload',
   ];
 
   it('as the hygienist, on every page', async () => {
@@ -67,7 +70,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   it('as the physician, on the unattributed cases and the intakes they read', async () => {
-    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes'])).toEqual([]);
+    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/hearing', `/hearing/workers/${hearingWorker}`])).toEqual([]);
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {

@@ -22,10 +22,11 @@ import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
+import { AudiogramEntity } from './audiogram';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
+  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -55,3 +56,5 @@ export { RunRequestEntity };
 export { RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
 export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };
+export type { Audiogram } from './audiogram';
+export { AudiogramEntity };

@@ -45,7 +45,9 @@ export const NoticeEntity = new EntitySchema<NoticeRow>({
     sentAt: { name: 'sent_at', type: 'timestamptz', nullable: true },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  uniques: [{ name: 'notices_flag_event_id_recipient_key', columns: ['flagEventId', 'recipient'] }],
+  uniques: [
+    { name: 'notices_flag_event_id_recipient_key', columns: ['flagEventId', 'recipient'] },
+  ],
   checks: [
     { name: 'notices_state_check', expression: '(state = ANY (ARRAY[\'pending\'::text, \'sending\'::text, \'sent\'::text, \'failed\'::text]))' },
   ],

@@ -25,6 +25,9 @@ export const paths = {
   adminClients: '/admin/clients',
   adminAudit: '/admin/audit',
   mailbox: '/mailbox',
+  hearing: '/hearing',
+  hearingWorker: (workerKey: string) => `/hearing/workers/${encodeURIComponent(workerKey)}`,
+  audiogramUpload: '/hearing/upload',
 } as const;
 
 /** API endpoints, relative to the app's own origin. */

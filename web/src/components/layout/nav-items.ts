@@ -19,6 +19,8 @@ export const navItems: NavItem[] = [
   { to: paths.flags, label: 'Flags', permission: 'flags:read' },
   { to: paths.rules, label: 'Watch rules', permission: 'rules:write' },
   { to: paths.intakes, label: 'Intakes', permission: 'intake:read' },
+  { to: paths.audiogramUpload, label: 'Audiogram upload', permission: 'intake:write' },
+  { to: paths.hearing, label: 'Audiograms', permission: 'cases:read' },
   { to: paths.periods, label: 'Reporting periods', permission: 'periods:read' },
   { to: paths.runs, label: 'Runs', permission: 'runs:read' },
   { to: paths.groups, label: 'Exposure groups', permission: 'groups:write' },
