@@ -10,6 +10,7 @@ import { csrfProtection } from './auth/csrf';
 import { principalMiddleware } from './auth/principal';
 import { sessionMiddleware } from './auth/sessions';
 import { adminRouter } from './features/admin/admin-routes';
+import { casesRouter } from './features/cases/cases-routes';
 import { groupsRouter } from './features/groups/groups-routes';
 import { intakeRouter } from './features/intake/intake-routes';
 import { flagsRouter } from './features/flags/flags-routes';
@@ -65,6 +66,7 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
+  app.use('/api/cases', casesRouter({ dataSource }));
   app.use('/api/periods', periodsRouter({ dataSource, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS }));
   app.use('/api', notFound);
   app.use(webAppRouter(config.WEB_DIST ?? join(import.meta.dirname, '..', '..', 'web', 'dist')));

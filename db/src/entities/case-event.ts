@@ -11,7 +11,12 @@ export interface CaseEvent {
   outcomeId: number;
   onsetDate: string;
   status: CaseStatus;
+  /** The intake whose later version replaced this one; its own intake when a review replaced it. */
   supersededBy: string | null;
+  /** The physician's review that made this version, for a decision's version. */
+  reviewId: string | null;
+  /** The physician's review that replaced this version. */
+  supersededByReview: string | null;
   createdAt: Date;
 }
 
@@ -27,6 +32,8 @@ export const CaseEventEntity = new EntitySchema<CaseEvent>({
     onsetDate: { name: 'onset_date', type: 'date' },
     status: { type: 'text' },
     supersededBy: { name: 'superseded_by', type: 'uuid', nullable: true },
+    reviewId: { name: 'review_id', type: 'bigint', nullable: true },
+    supersededByReview: { name: 'superseded_by_review', type: 'bigint', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
   },
 });

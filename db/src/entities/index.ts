@@ -24,10 +24,13 @@ import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
+import { CaseReviewEntity } from './case-review';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, CaseReviewEntity];
+
+export type { CaseReview } from './case-review';
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';

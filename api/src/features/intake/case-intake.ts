@@ -148,6 +148,7 @@ export async function restoreCases(client: PoolClient, intakeId: string): Promis
     FROM case_events mine
     WHERE mine.intake_id = $1 AND cur.case_ref = mine.case_ref AND cur.superseded_by IS NULL AND cur.intake_id <> $1
     RETURNING cur.intake_id`, [intakeId]);
-  await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1`, [intakeId]);
+  // Versions a physician's review replaced stay replaced: the review's version is the intake's current one.
+  await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1 AND superseded_by_review IS NULL`, [intakeId]);
   return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };
 }
