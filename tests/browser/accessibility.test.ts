@@ -66,8 +66,8 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!))).toEqual([]);
   });
 
-  it('as the physician, on the unattributed cases and the intakes they read', async () => {
-    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes'])).toEqual([]);
+  it('as the physician, on the unattributed cases, the intakes they read, the case register and a case', async () => {
+    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/cases', `/cases/${fx.caseRefs[0]}`])).toEqual([]);
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {

@@ -15,6 +15,8 @@ export const paths = {
   runs: '/runs',
   unattributed: '/runs/unattributed',
   periods: '/periods',
+  cases: '/cases',
+  case: (ref: string) => `/cases/${encodeURIComponent(ref)}`,
   rules: '/rules',
   ruleNew: '/rules/new',
   rule: (id: string) => `/rules/${id}`,
