@@ -15,6 +15,7 @@ import { groupsRouter } from './features/groups/groups-routes';
 import { intakeRouter } from './features/intake/intake-routes';
 import { flagsRouter } from './features/flags/flags-routes';
 import { mailboxRouter } from './features/mailbox/mailbox-routes';
+import { noticesRouter } from './features/notices/notices-routes';
 import { periodsRouter } from './features/periods/periods-routes';
 import { rulesRouter } from './features/rules/rules-routes';
 import { runsRouter } from './features/runs/runs-routes';
@@ -65,6 +66,7 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD, runQuietSeconds: config.RUN_QUIET_SECONDS }));
   app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
+  app.use('/api/notices', noticesRouter({ dataSource }));
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
   app.use('/api/cases', casesRouter({ dataSource }));
   app.use('/api/periods', periodsRouter({ dataSource, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS }));
