@@ -67,7 +67,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   it('as the physician, on the unattributed cases, the intakes they read, the case register and a case', async () => {
-    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/cases', `/cases/${fx.caseRefs[0]}`])).toEqual([]);
+    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/cases', `/cases/${fx.caseRefs[0]}`, '/notices'])).toEqual([]);
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {

@@ -10,6 +10,8 @@ export const paths = {
   adjusted: '/adjusted',
   flags: '/flags',
   flag: (id: string | number) => `/flags/${id}`,
+  notices: '/notices',
+  notice: (id: string) => `/notices/${id}`,
   intakes: '/intakes',
   intake: (id: string | number) => `/intakes/${id}`,
   runs: '/runs',
