@@ -14,6 +14,7 @@ export const auditActionLabels: Record<string, string> = {
   'flag.raise': 'Flag raised by a run',
   'flag.review': 'Started reviewing a flag',
   'flag.close': 'Closed a flag',
+  'flag.clinical_note': 'Wrote a clinical note on a flag',
   'group.create': 'Created an exposure group',
   'group.update': 'Changed an exposure group',
   'group.set_reference': 'Made a group the reference',

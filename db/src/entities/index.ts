@@ -25,12 +25,14 @@ import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
 import { CaseReviewEntity } from './case-review';
+import { FlagNoteEntity } from './flag-note';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, CaseReviewEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, CaseReviewEntity, FlagNoteEntity];
 
 export type { CaseReview } from './case-review';
+export type { FlagNote } from './flag-note';
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
