@@ -9,6 +9,7 @@ export const auditActionLabels: Record<string, string> = {
   'cases.read': 'Read case-level records',
   'cases.export': 'Exported case-level records',
   'case.review': 'Reviewed a case',
+  'case.conflict_resolve': "Decided a case list's conflict with a physician's decision",
   'client.registered': 'Registered an integration client',
   'client.revoked': 'Revoked an integration client',
   'flag.raise': 'Flag raised by a run',

@@ -91,3 +91,20 @@ export type CaseDetail = z.infer<typeof caseDetailSchema>;
 
 export const caseReviewResultSchema = z.object({ case: caseDetailSchema, runRequestId: z.string() });
 export type CaseReviewResult = z.infer<typeof caseReviewResultSchema>;
+
+/** A case of a case list that contradicts a physician's decision, and its resolution. */
+export const caseConflictResolutionSchema = z.enum(['keep', 'accept']);
+export type CaseConflictResolution = z.infer<typeof caseConflictResolutionSchema>;
+export const caseConflictSchema = z.object({
+  caseRef: z.string(),
+  workerKey: z.string(),
+  onsetDate: z.string(),
+  decidedStatus: caseStatusSchema,
+  listStatus: caseStatusSchema,
+  decision: caseReviewSchema,
+  resolution: caseConflictResolutionSchema.nullable(),
+  resolvedBy: z.string().nullable(),
+  resolvedAt: z.string().nullable(),
+});
+export type CaseConflict = z.infer<typeof caseConflictSchema>;
+export const caseConflictInputSchema = z.strictObject({ resolution: caseConflictResolutionSchema });

@@ -26,13 +26,15 @@ import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
 import { CaseReviewEntity } from './case-review';
 import { FlagNoteEntity } from './flag-note';
+import { IntakeCaseConflictEntity } from './intake-case-conflict';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, CaseReviewEntity, FlagNoteEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity];
 
 export type { CaseReview } from './case-review';
 export type { FlagNote } from './flag-note';
+export type { IntakeCaseConflict } from './intake-case-conflict';
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';

@@ -1,11 +1,13 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { caseListQuerySchema, caseReviewInputSchema } from '@ratewarden/shared/cases';
+import { caseConflictInputSchema, caseListQuerySchema, caseReviewInputSchema } from '@ratewarden/shared/cases';
 import { authorize } from '../../auth/authorize';
+import { listConflicts, resolveConflict } from './case-conflicts-service';
 import { exportCases, getCase, listCases, reviewCase } from './cases-service';
 
 const caseRef = z.string().trim().min(1).max(200);
+const intakeId = z.string().uuid();
 
 /**
  * The physician's case register and case review, mounted at /api/cases: case-level data, so every
@@ -24,6 +26,14 @@ export function casesRouter({ dataSource: ds }: { dataSource: DataSource }): Rou
   });
   router.post('/:caseRef/review', authorize('cases:review'), async (req, res) => {
     res.json(await reviewCase(ds, req.principal!, caseRef.parse(req.params.caseRef), caseReviewInputSchema.parse(req.body ?? {}), req.ip));
+  });
+  // A case list's cases that contradict a physician's decision, and the physician's resolution of each.
+  router.get('/conflicts/:intakeId', authorize('cases:read'), async (req, res) => {
+    res.json(await listConflicts(ds, req.principal!, intakeId.parse(req.params.intakeId), req.ip));
+  });
+  router.post('/conflicts/:intakeId/:caseRef', authorize('cases:review'), async (req, res) => {
+    const body = caseConflictInputSchema.parse(req.body ?? {});
+    res.json(await resolveConflict(ds, req.principal!, intakeId.parse(req.params.intakeId), caseRef.parse(req.params.caseRef), body.resolution, req.ip));
   });
   return router;
 }
