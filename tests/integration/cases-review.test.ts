@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
+import { auditEventSchema } from '@ratewarden/shared/admin';
 import { caseDetailSchema, caseReviewResultSchema, caseSummarySchema } from '@ratewarden/shared/cases';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
@@ -140,5 +141,25 @@ describe('the case register and case review', () => {
     expect(res.body).toHaveLength(5);
     const [entry] = (await ds.query(`SELECT detail FROM audit_events WHERE action = 'cases.export' ORDER BY id DESC LIMIT 1`)) as Array<{ detail: { cases: number; filters: Record<string, unknown> } }>;
     expect(entry!.detail).toMatchObject({ cases: 5, filters: { outcomeId: c.outcomes.REV, status: 'confirmed' } });
+  });
+
+  it('the administrator reads those audit entries without the counts, the search text or the reasons', async () => {
+    // 3 is below the small-count threshold (5): an export of three cases.
+    const three = await as.physician.agent.get(`/api/cases/export?q=${c.tag}-C&status=confirmed&exposureGroupId=${c.groups.EXP}&from=2031-05&to=2031-05`).expect(200);
+    expect(three.body.length).toBeLessThan(5);
+    expect(three.body.length).toBeGreaterThan(0);
+    const [stored] = (await ds.query(`SELECT detail FROM audit_events WHERE action = 'cases.export' ORDER BY id DESC LIMIT 1`)) as Array<{ detail: Record<string, unknown> }>;
+    expect(stored!.detail.cases).toBe(three.body.length);
+    const audit = auditEventSchema.array().parse((await as.admin.agent.get('/api/admin/audit').query({ action: 'case', limit: 1000 }).expect(200)).body);
+    const exports = audit.filter((e) => e.action === 'cases.export');
+    expect(exports.length).toBe(2);
+    for (const e of exports) {
+      expect(e.detail).not.toHaveProperty('cases');
+      expect(e.detail).toMatchObject({ filters: expect.any(Object) });
+    }
+    const text = JSON.stringify(audit);
+    expect(text).not.toContain(c.tag);
+    expect(text).not.toContain('otitis');
+    expect(audit.filter((e) => e.action === 'case.review')).toHaveLength(4);
   });
 });

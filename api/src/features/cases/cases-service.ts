@@ -26,7 +26,9 @@ export async function exportCases(ds: DataSource, principal: Principal, q: CaseL
   return cases;
 }
 
-const filtersOf = (q: CaseListQuery) => Object.fromEntries(Object.entries(q).filter(([k, v]) => v !== undefined && k !== 'limit'));
+/** The filters for the audit entry; a search text may be a worker key or case reference, so the entry says only that there was one. */
+const filtersOf = (q: CaseListQuery) =>
+  Object.fromEntries(Object.entries(q).filter(([k, v]) => v !== undefined && v !== '' && k !== 'limit').map(([k, v]) => (k === 'q' ? ['search', true] : [k, v])));
 
 async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> {
   const rows: Row[] = await ds.query(
