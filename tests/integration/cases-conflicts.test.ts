@@ -103,4 +103,21 @@ describe('case lists that contradict a physician\'s decision', () => {
     expect(res.intake).toMatchObject({ state: 'applied', conflictsPending: false });
     expect(await caseOf(0)).toMatchObject({ status: 'confirmed', reviewed: true });
   });
+
+  it('restoring an earlier case list over a decision is refused, not done silently', async () => {
+    // A fourth list changes the later list's two cases (K1 confirmed, K2 suspected): the later list is superseded.
+    const fourth = casesCsv([`{W}K1,{W}B1,{OB},2024-03-02,confirmed`, `{W}K2,{W}B2,{OB},2024-03-03,suspected`]);
+    expect(intakeUploadResponseSchema.parse((await upload(fourth, 'apply').expect(201)).body).intake.state).toBe('applied');
+    const [laterState] = (await ds.query(`SELECT state FROM intakes WHERE id = $1`, [laterId])) as Array<{ state: string }>;
+    expect(laterState!.state).toBe('superseded');
+    // The physician rules K2 out; the later list had it confirmed: restoring that list would overrule the decision.
+    await review(2, 'rule_out', 'Not work-related');
+    const refused = await as.hygienist.agent.post(`/api/intakes/${laterId}/restore`).set('x-csrf-token', as.hygienist.csrf).expect(409);
+    expect(refused.body.message).toMatch(/physician's decision/);
+    expect((await caseOf(2)).status).toBe('ruled_out');
+    // Once the decision agrees with what the list says (confirmed), the restore goes through and the status stays.
+    await review(2, 'confirm', 'Confirmed after all');
+    await as.hygienist.agent.post(`/api/intakes/${laterId}/restore`).set('x-csrf-token', as.hygienist.csrf).expect(200);
+    expect((await caseOf(2)).status).toBe('confirmed');
+  });
 });

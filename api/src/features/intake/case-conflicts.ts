@@ -32,3 +32,16 @@ export async function leaveKeptCases(client: PoolClient, intakeId: string): Prom
     DELETE FROM intake_cases c USING intake_case_conflicts k
     WHERE k.intake_id = $1 AND k.case_ref = c.case_ref AND k.resolution = 'keep'`, [intakeId]);
 }
+
+/**
+ * Whether restoring a case intake would put back, over a physician's decision, a version whose
+ * status differs (restoreCases makes the intake's latest versions current again).
+ */
+export async function restoreWouldOverrule(client: PoolClient, intakeId: string): Promise<boolean> {
+  const { rows } = await client.query(`
+    SELECT 1 FROM case_events mine
+    JOIN case_events cur ON cur.case_ref = mine.case_ref AND cur.superseded_by IS NULL AND cur.intake_id <> $1 AND cur.review_id IS NOT NULL
+    WHERE mine.intake_id = $1 AND mine.superseded_by IS NOT NULL AND mine.superseded_by_review IS NULL AND mine.status <> cur.status
+    LIMIT 1`, [intakeId]);
+  return rows.length > 0;
+}

@@ -23,7 +23,7 @@ import { stageRoster, type RosterStaged } from './roster-stage';
 import { DEFAULT_TALLY_LIMITS } from './roster-stream';
 import { dropStaging } from './staging-drop';
 import { restoreCases } from './case-intake';
-import { hasOpenConflicts, leaveKeptCases, recordCaseConflicts } from './case-conflicts';
+import { hasOpenConflicts, leaveKeptCases, recordCaseConflicts, restoreWouldOverrule } from './case-conflicts';
 import { restoreRoster } from './roster-apply';
 
 /** 512 MiB: a roster of several million rows; larger exports are split by site or year. */
@@ -313,6 +313,9 @@ export async function restoreIntake(ds: DataSource, p: Principal, id: string, ip
       }
       superseded = r.superseded;
     } else {
+      if (await restoreWouldOverrule(client, id)) {
+        throw new AppError('conflict', "restoring this version would overrule a physician's decision on some cases; send the cases as a new case list instead, so the physician decides each conflict");
+      }
       superseded = (await restoreCases(client, id)).superseded;
     }
     await client.query(`UPDATE intakes SET state = 'applied', superseded_at = NULL, restored_at = now() WHERE id = $1`, [id]);
