@@ -132,3 +132,8 @@ export const mailboxMessageSchema = z.object({
   text: z.string().nullable(),
 });
 export type MailboxMessage = z.infer<typeof mailboxMessageSchema>;
+
+/** A physician's clinical note on a flag (physicians only; kept as written). */
+export const flagNoteSchema = z.object({ id: z.string(), text: z.string(), author: z.string(), createdAt: z.string() });
+export type FlagNote = z.infer<typeof flagNoteSchema>;
+export const flagNoteInputSchema = z.strictObject({ text: z.string().trim().min(1, 'write the note').max(4000) });

@@ -166,6 +166,11 @@ export const intakeDetailSchema = intakeSummarySchema.extend({
   problems: z.array(intakeProblemSchema),
   diff: intakeDiffSchema.nullable(),
   runRequest: runRequestSchema.nullable(),
+  /**
+   * A case list: whether some of its cases contradict a physician's decision and wait for a
+   * physician to decide them (no count: the physician sees the cases, /api/cases/conflicts/:id).
+   */
+  conflictsPending: z.boolean().optional(),
 });
 export type IntakeDetail = z.infer<typeof intakeDetailSchema>;
 

@@ -36,6 +36,7 @@ async function axe(page: Page): Promise<AxeViolation[]> {
 describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   let fx: FlagFixture;
   let hearingWorker = '';
+  let noticeId: string;
   const h = useBrowserApp(async (ds) => {
     fx = await makeFlagFixture(ds);
     const allSites = await allSiteIds(ds);
@@ -44,6 +45,14 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
     await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
+    // The physician may have been provisioned after the fixture's run: a notice of its flag addressed to them, for the inbox pages.
+    noticeId = ((await ds.query(
+      `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body, kind, period, completeness)
+       SELECT e.flag_id, e.id, 'physician@demo.ratewarden.test', 'Ratewarden: watch rule raised a flag', 'A watch rule in Ratewarden has been crossed.', 'raised', f.period, 'complete'
+       FROM flag_events e JOIN flags f ON f.id = e.flag_id WHERE e.flag_id = $1 AND e.kind = 'raised'
+       ON CONFLICT (flag_event_id, recipient) DO UPDATE SET read_at = NULL RETURNING id`,
+      [fx.flagId],
+    )) as Array<{ id: string }>)[0]!.id;
   });
 
   /** Signs `email` in and checks each path; returns what axe found, page by page. */
@@ -69,8 +78,8 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!))).toEqual([]);
   });
 
-  it('as the physician, on the unattributed cases and the intakes they read', async () => {
-    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/hearing', `/hearing/workers/${hearingWorker}`])).toEqual([]);
+  it('as the physician, on the unattributed cases, the intakes they read, the audiograms, the case register, a case and the notices inbox', async () => {
+    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/hearing', `/hearing/workers/${hearingWorker}`, '/cases', `/cases/${fx.caseRefs[0]}`, '/notices', `/notices/${noticeId}`])).toEqual([]);
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {

@@ -138,6 +138,29 @@ describe('runs, rules and flags through the API', () => {
     expect(closed.body.events.map((e: { kind: string }) => e.kind)).toEqual(['raised', 'review_started', 'closed']);
   });
 
+  it('clinical notes on a flag: written and read by the physician only, kept as written, the reads audited without the text', async () => {
+    for (const who of ['safety', 'hygienist', 'admin'] as const) {
+      await as[who].agent.get(`/api/flags/${flagId}/notes`).expect(403);
+      await as[who].agent.post(`/api/flags/${flagId}/notes`).set('x-csrf-token', as[who].csrf).send({ text: 'x' }).expect(403);
+    }
+    await as.physician.agent.post(`/api/flags/${flagId}/notes`).set('x-csrf-token', as.physician.csrf).send({ text: '  ' }).expect(422);
+    await as.physician.agent.post(`/api/flags/${flagId}/notes`).set('x-csrf-token', as.physician.csrf).send({ text: 'Two of the four had prior hearing loss at hire.' }).expect(201);
+    const notes = await as.physician.agent.post(`/api/flags/${flagId}/notes`).set('x-csrf-token', as.physician.csrf).send({ text: 'Asked for the hire audiograms.' }).expect(201);
+    expect(notes.body.map((n: { text: string; author: string }) => [n.text, n.author])).toEqual([
+      ['Two of the four had prior hearing loss at hire.', 'physician@demo.ratewarden.test'],
+      ['Asked for the hire audiograms.', 'physician@demo.ratewarden.test'],
+    ]);
+    expect((await as.physician.agent.get(`/api/flags/${flagId}/notes`).expect(200)).body).toHaveLength(2);
+    // Nobody else reads them through the flag either.
+    for (const who of ['safety', 'hygienist'] as const) expect(JSON.stringify((await as[who].agent.get(`/api/flags/${flagId}`).expect(200)).body)).not.toContain('hearing loss');
+    await expect(ds.query(`UPDATE flag_notes SET text = 'changed'`)).rejects.toThrow(/kept as written/);
+    await expect(ds.query(`DELETE FROM flag_notes`)).rejects.toThrow(/kept as written/);
+    const audit = (await ds.query(`SELECT action, detail FROM audit_events WHERE target = $1 AND action IN ('cases.read', 'flag.clinical_note') ORDER BY id`, [`flag:${flagId}`])) as Array<{ action: string; detail: unknown }>;
+    expect(audit.filter((a) => a.action === 'flag.clinical_note')).toHaveLength(2);
+    expect(audit.filter((a) => a.action === 'cases.read' && JSON.stringify(a.detail).includes('clinical notes'))).toHaveLength(3);
+    expect(JSON.stringify(audit)).not.toContain('hearing');
+  });
+
   it('the development mailbox is the administrator\'s', async () => {
     await as.safety.agent.get('/api/mailbox').expect(403);
     const res = await as.admin.agent.get('/api/mailbox').expect(200);

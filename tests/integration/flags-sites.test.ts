@@ -225,9 +225,14 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     } finally {
       transport.close();
     }
-    const mails = (await ds.query(`SELECT subject FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [recipient])) as Array<{ subject: string }>;
-    const subjects = mails.map((m) => m.subject.replace(/^Ratewarden: watch rule "Skin IRR, my sites" /, '').replace(/ for Group EXP at Run test site one$/, ''));
+    // Each e-mail links to its notice in the inbox, whose subject says what happened.
+    const mails = (await ds.query(`SELECT subject, message_id FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [recipient])) as Array<{ subject: string; message_id: string }>;
+    const notices = (await ds.query(`SELECT id, subject, mail_subject FROM notices WHERE recipient = $1`, [recipient])) as Array<{ id: string; subject: string; mail_subject: string }>;
+    const noticeOfMail = (m: { message_id: string }) => notices.find((n) => m.message_id === `<notice-${n.id}@ratewarden.local>`)!;
+    expect(mails.map((m) => m.subject)).toEqual(mails.map((m) => noticeOfMail(m).mail_subject));
+    const subjects = mails.map((m) => noticeOfMail(m).subject.replace(/^Ratewarden: watch rule "Skin IRR, my sites" /, '').replace(/ for Group EXP at Run test site one$/, ''));
     expect(subjects.sort()).toEqual(['raised a flag', 'flag worsened', 'follow-up, worsening withdrawn', 'follow-up, no longer past the rule', 'flag past the rule again'].sort());
+    expect(mails.map((m) => m.subject).sort()).toEqual([...Array(3).fill('Ratewarden: a new threshold notice for you'), ...Array(2).fill('Ratewarden: a follow-up notice for you')].sort());
     const states = (await ds.query(`SELECT DISTINCT state FROM notices WHERE flag_id = $1`, [siteFlagId])) as Array<{ state: string }>;
     expect(states).toEqual([{ state: 'sent' }]);
   });

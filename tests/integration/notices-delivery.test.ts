@@ -71,9 +71,15 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     }
     const mails = await received(address);
     expect(mails.length).toBe(1);
-    expect(mails[0]!.subject).toContain('raised a flag for Group EXP');
+    // The e-mail only links to the notice in the inbox; the notice is read there.
+    const [notice] = (await ds.query(`SELECT id, subject, body FROM notices WHERE recipient = $1`, [address])) as Array<{ id: string; subject: string; body: string }>;
+    expect(mails[0]!.subject).toBe('Ratewarden: a new threshold notice for you');
+    expect(mails[0]!.text_body).toContain(`/notices/${notice!.id}`);
+    expect(mails[0]!.text_body).not.toContain('Group EXP');
+    expect(mails[0]!.text_body).not.toContain('Cases in the group');
+    expect(notice!.subject).toContain('raised a flag for Group EXP');
     // A flag rests on a shown count (6), so every recipient reads it (compose-notice.test.ts covers a small one) ...
-    expect(mails[0]!.text_body).toContain('Cases in the group: 6');
+    expect(notice!.body).toContain('Cases in the group: 6');
     // ... and the physician's notice of the same flag.
     const [forPhysician] = (await ds.query(`SELECT body FROM notices WHERE recipient = $1 ORDER BY created_at DESC LIMIT 1`, ['physician@demo.ratewarden.test'])) as Array<{ body: string }>;
     expect(forPhysician!.body).toContain('Cases in the group: 6');

@@ -62,7 +62,7 @@ describe('threshold notices resent after an interruption reach the recipient onc
     const sent = await notice(id!);
     expect(sent).toMatchObject({ state: 'sent', attempts: 1, last_error: null, message_id: `<notice-${id}@ratewarden.local>` });
     expect(sent.server_response).toMatch(/^250/);
-    expect(await mailbox(to)).toEqual([{ message_id: `<notice-${id}@ratewarden.local>`, subject: expect.stringContaining('raised a flag') }]);
+    expect(await mailbox(to)).toEqual([{ message_id: `<notice-${id}@ratewarden.local>`, subject: 'Ratewarden: a new threshold notice for you' }]);
   });
 
   it('a send whose acknowledgement was lost (the sender throws after the server kept the mail) is retried once, and the mailbox keeps one copy', async () => {

@@ -77,6 +77,27 @@ describe('the route × role table, walked on the real app', () => {
     expect(routes.filter((r) => r.permission === null).map((r) => `${r.method} ${r.path}`)).toEqual([]);
   });
 
+  it('guards the physician\'s workspace and the notices inbox with the permissions they need', () => {
+    const guard = (method: string, path: string) => routes.find((r) => r.method === method && r.path === path)?.permission;
+    expect({
+      register: guard('GET', '/api/cases'),
+      export: guard('GET', '/api/cases/export'),
+      case: guard('GET', '/api/cases/:caseRef'),
+      review: guard('POST', '/api/cases/:caseRef/review'),
+      conflicts: guard('GET', '/api/cases/conflicts/:intakeId'),
+      resolve: guard('POST', '/api/cases/conflicts/:intakeId/:caseRef'),
+      notes: guard('GET', '/api/flags/:id/notes'),
+      addNote: guard('POST', '/api/flags/:id/notes'),
+      inbox: guard('GET', '/api/notices'),
+      unread: guard('GET', '/api/notices/unread'),
+      open: guard('POST', '/api/notices/:id/open'),
+      markUnread: guard('POST', '/api/notices/:id/unread'),
+    }).toEqual({
+      register: 'cases:read', export: 'cases:read', case: 'cases:read', review: 'cases:review', conflicts: 'cases:read', resolve: 'cases:review',
+      notes: 'cases:read', addNote: 'cases:review', inbox: 'flags:read', unread: 'flags:read', open: 'flags:read', markUnread: 'flags:read',
+    });
+  });
+
   it('answers 401 to everyone not signed in, on every route', async () => {
     for (const route of routes) {
       const res = await send(request(app), route);

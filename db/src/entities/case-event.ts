@@ -11,7 +11,12 @@ export interface CaseEvent {
   outcomeId: number;
   onsetDate: string;
   status: CaseStatus;
+  /** The intake whose later version replaced this one; its own intake when a review replaced it. */
   supersededBy: string | null;
+  /** The physician's review that made this version, for a decision's version. */
+  reviewId: string | null;
+  /** The physician's review that replaced this version. */
+  supersededByReview: string | null;
   createdAt: Date;
 }
 
@@ -27,22 +32,28 @@ export const CaseEventEntity = new EntitySchema<CaseEvent>({
     onsetDate: { name: 'onset_date', type: 'date' },
     status: { type: 'text' },
     supersededBy: { name: 'superseded_by', type: 'uuid', nullable: true },
+    reviewId: { name: 'review_id', type: 'bigint', nullable: true },
+    supersededByReview: { name: 'superseded_by_review', type: 'bigint', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
+    { name: 'case_events_review_superseded', expression: '((superseded_by_review IS NULL) OR (superseded_by IS NOT NULL))' },
     { name: 'case_events_status_check', expression: '(status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
   ],
   indices: [
     { name: 'case_events_current', columns: ['caseRef'], unique: true, where: '(superseded_by IS NULL)' },
     { name: 'case_events_intake', columns: ['intakeId'] },
     { name: 'case_events_outcome', columns: ['outcomeId', 'onsetDate'], where: '(superseded_by IS NULL)' },
+    { name: 'case_events_ref', columns: ['caseRef'] },
     { name: 'case_events_worker', columns: ['workerId'], where: '(superseded_by IS NULL)' },
   ],
   foreignKeys: [
     { name: 'case_events_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
     { name: 'case_events_outcome_id_fkey', target: 'Outcome', columnNames: ['outcome_id'], referencedColumnNames: ['id'] },
+    { name: 'case_events_review_id_fkey', target: 'CaseReview', columnNames: ['review_id'], referencedColumnNames: ['id'] },
     { name: 'case_events_superseded_by_fkey', target: 'Intake', columnNames: ['superseded_by'], referencedColumnNames: ['id'] },
+    { name: 'case_events_superseded_by_review_fkey', target: 'CaseReview', columnNames: ['superseded_by_review'], referencedColumnNames: ['id'] },
     { name: 'case_events_worker_id_fkey', target: 'Worker', columnNames: ['worker_id'], referencedColumnNames: ['id'] },
   ],
 });

@@ -23,10 +23,13 @@ import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
 import { AudiogramEntity } from './audiogram';
+import { CaseReviewEntity } from './case-review';
+import { FlagNoteEntity } from './flag-note';
+import { IntakeCaseConflictEntity } from './intake-case-conflict';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity];
+  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';

@@ -4,9 +4,10 @@ import type { FlagFigures } from '@ratewarden/shared/flags';
 import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
+import { randomUUID } from 'node:crypto';
 import { rolesWith } from '@ratewarden/shared/permissions';
 import { recordAudit } from '@ratewarden/db/audit-log';
-import { composeNotice, type NoticeKind } from '../notices/compose-notice';
+import { composeMail, composeNotice, type NoticeKind } from '../notices/compose-notice';
 import type { ScopedVerdict } from '../rules/rule-verdicts';
 import { standingEscalations, withdrawnBy, type RunFlagEvent } from './escalations';
 
@@ -135,9 +136,13 @@ export async function applyVerdicts(
     const recipients = [...new Set([...told.map((p) => p.email), ...rule.recipients].map((e) => e.trim().toLowerCase()).filter(Boolean))];
     for (const recipient of recipients) {
       const { subject, text } = physicianEmails.has(recipient) ? full : withheld;
+      // The inbox shows the notice; the e-mail only links to it.
+      const id = randomUUID();
+      const mail = composeMail(kind, id, appUrl);
       await em.query(
-        `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body) VALUES ($1, $2, $3, $4, $5) ON CONFLICT DO NOTHING`,
-        [flagId, eventId, recipient, subject, text],
+        `INSERT INTO notices (id, flag_id, flag_event_id, recipient, subject, body, mail_subject, mail_body, kind, period, completeness)
+         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11) ON CONFLICT DO NOTHING`,
+        [id, flagId, eventId, recipient, subject, text, mail.subject, mail.text, kind, v.period, v.completeness],
       );
       tally.notices++;
     }

@@ -21,7 +21,9 @@ export type Claim = { kind: 'none' } | { kind: 'exhausted'; id: string } | { kin
  * and `sending` ones whose lease has passed: their sender died between claiming and recording
  * the outcome, so the mail may or may not have gone out, and it is sent again under the same
  * Message-ID. Row locks (SKIP LOCKED) keep two senders from claiming one notice at once.
- * A notice whose sender died during its last allowed attempt is marked failed instead.
+ * A notice whose sender died during its last allowed attempt is marked failed instead. What goes
+ * out is the notice's e-mail (`mail_subject`, `mail_body`: a link to the inbox), or for a notice
+ * written before the inbox, its text.
  */
 export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: number; maxAttempts: number }): Promise<Claim> {
   return ds.transaction(async (em): Promise<Claim> => {
@@ -43,7 +45,7 @@ export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: numbe
       em,
       `UPDATE notices SET state = 'sending', attempts = attempts + 1, last_attempt_at = now(),
          next_attempt_at = now() + make_interval(secs => $3::double precision / 1000), message_id = coalesce(message_id, $2)
-       WHERE id = $1 RETURNING recipient, subject, body, attempts, message_id`,
+       WHERE id = $1 RETURNING recipient, coalesce(mail_subject, subject) AS subject, coalesce(mail_body, body) AS body, attempts, message_id`,
       [n.id, noticeMessageId(n.id), s.sendingLeaseMs],
     );
     return { kind: 'claimed', notice: { id: n.id, recipient: row!.recipient, subject: row!.subject, body: row!.body, attempts: row!.attempts, messageId: row!.message_id } };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { composeNotice, type NoticeFacts } from './compose-notice';
+import { composeMail, composeNotice, type NoticeFacts } from './compose-notice';
 
 const facts: NoticeFacts = {
   flagId: '00000000-0000-4000-8000-000000000001',
@@ -62,5 +62,17 @@ describe('threshold notice text', () => {
     const again = composeNotice({ ...facts, kind: 'crossed_again', value: null });
     expect(again.subject).toContain('flag past the rule again');
     expect(again.text).toContain('Value: not defined');
+  });
+
+  it('the e-mail says only that there is a notice, and links to it in the inbox', () => {
+    const id = '00000000-0000-4000-8000-00000000000a';
+    const mail = composeMail('raised', id, 'https://ratewarden.example/');
+    expect(mail.subject).toBe('Ratewarden: a new threshold notice for you');
+    expect(mail.text).toContain(`https://ratewarden.example/notices/${id}`);
+    // Nothing of the notice itself: no rule, group, period or figure.
+    const notice = composeNotice(facts);
+    for (const part of ['Dermatitis', 'Wet work', 'May 2031', 'Cases', '21.5', 'Value']) expect(`${mail.subject}\n${mail.text}`).not.toContain(part);
+    expect(notice.text).toContain('Dermatitis');
+    expect(composeMail('cleared', id, 'https://ratewarden.example').subject).toBe('Ratewarden: a follow-up notice for you');
   });
 });

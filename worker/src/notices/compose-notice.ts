@@ -90,7 +90,24 @@ export function periodText(window: WindowKind, period: string, completeness: Com
 }
 
 /**
- * The text of a threshold notice or a follow-up. By design it names the rule, the exposure group
+ * The e-mail of a notice: only that there is one, and the link to it in the recipient's inbox.
+ * No rule, group, site, period or figure: the notice itself is read after signing in.
+ */
+export function composeMail(kind: NoticeKind, noticeId: string, appUrl: string): { subject: string; text: string } {
+  const followUp = kind === 'eased' || kind === 'cleared';
+  const subject = followUp ? 'Ratewarden: a follow-up notice for you' : 'Ratewarden: a new threshold notice for you';
+  const text = [
+    followUp ? 'There is a follow-up on a flag you were told about.' : 'A watch rule in Ratewarden has been crossed, or an open flag has changed.',
+    '',
+    `Sign in to read the notice in your inbox: ${appUrl.replace(/\/$/, '')}/notices/${noticeId}`,
+    '',
+    'The notice is kept in Ratewarden, not in this e-mail.',
+  ].join('\n');
+  return { subject, text };
+}
+
+/**
+ * The text of a threshold notice or a follow-up, as the inbox shows it. By design it names the rule, the exposure group
  * and the scope and gives aggregate figures of this run and a sign-in link only: no outcome or
  * diagnosis, no worker identifier, no case-level detail, no figure of an earlier run (those stay
  * behind the sign-in).

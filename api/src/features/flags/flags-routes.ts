@@ -1,8 +1,9 @@
 import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { flagCloseInputSchema, flagListQuerySchema, flagReviewInputSchema } from '@ratewarden/shared/flags';
+import { flagCloseInputSchema, flagListQuerySchema, flagNoteInputSchema, flagReviewInputSchema } from '@ratewarden/shared/flags';
 import { authorize } from '../../auth/authorize';
+import { addFlagNote, flagNotes } from './flag-notes';
 import { flagsAsSeenBy } from './flag-suppression';
 import { closeFlag, flagCases, flagScopeOf, getFlag, listFlags, startReview } from './flags-service';
 
@@ -14,7 +15,7 @@ export interface FlagsRouterDeps {
 
 const flagId = z.string().uuid();
 
-/** Flags, their review and closing, and (physician only) the cases behind one; mounted at /api/flags. */
+/** Flags, their review and closing, and (physician only) the cases behind one and its clinical notes; mounted at /api/flags. */
 export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterDeps): Router {
   const router = Router();
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
@@ -33,6 +34,12 @@ export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterD
   });
   router.get('/:id/cases', authorize('cases:read'), async (req, res) => {
     res.json(await flagCases(ds, req.principal!, flagId.parse(req.params.id), req.ip));
+  });
+  router.get('/:id/notes', authorize('cases:read'), async (req, res) => {
+    res.json(await flagNotes(ds, req.principal!, flagId.parse(req.params.id), req.ip));
+  });
+  router.post('/:id/notes', authorize('cases:review'), async (req, res) => {
+    res.status(201).json(await addFlagNote(ds, req.principal!, flagId.parse(req.params.id), flagNoteInputSchema.parse(req.body ?? {}).text, req.ip));
   });
   return router;
 }

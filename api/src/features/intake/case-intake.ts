@@ -11,7 +11,8 @@ const current = `rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.
 
 /**
  * Every case-list check over the staging table. Leaves `intake_cases`: the well-formed rows typed
- * and resolved to worker and outcome ids, with the current stored version of the same case_ref.
+ * and resolved to worker and outcome ids, with the current stored version of the same case_ref
+ * (and the physician's review, when that version is a decision).
  */
 export async function checkCases(client: PoolClient, stg: string, bounds: CellBounds): Promise<void> {
   const outcomes = (await client.query<{ code: string }>(`SELECT upper(code) AS code FROM outcomes`)).rows.map((r) => r.code);
@@ -27,7 +28,7 @@ export async function checkCases(client: PoolClient, stg: string, bounds: CellBo
     CREATE TEMP TABLE intake_cases ON COMMIT DROP AS
     SELECT s.line_no, ${cell('s', 'case_ref')} AS case_ref, ${cell('s', 'worker_key')} AS worker_key, w.id AS worker_id, o.id AS outcome_id,
            upper(o.code) AS outcome_code, ${cell('s', 'onset_date')}::date AS onset_date, lower(${cell('s', 'status')}) AS status,
-           ce.id AS stored_id, ce.worker_id AS stored_worker, ce.outcome_id AS stored_outcome, ce.onset_date AS stored_onset, ce.status AS stored_status
+           ce.id AS stored_id, ce.worker_id AS stored_worker, ce.outcome_id AS stored_outcome, ce.onset_date AS stored_onset, ce.status AS stored_status, ce.review_id AS stored_review
     FROM ${stg} s
     JOIN outcomes o ON upper(o.code) = upper(${cell('s', 'outcome')})
     LEFT JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
@@ -148,6 +149,7 @@ export async function restoreCases(client: PoolClient, intakeId: string): Promis
     FROM case_events mine
     WHERE mine.intake_id = $1 AND cur.case_ref = mine.case_ref AND cur.superseded_by IS NULL AND cur.intake_id <> $1
     RETURNING cur.intake_id`, [intakeId]);
-  await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1`, [intakeId]);
+  // Versions a physician's review replaced stay replaced: the review's version is the intake's current one.
+  await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1 AND superseded_by_review IS NULL`, [intakeId]);
   return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };
 }

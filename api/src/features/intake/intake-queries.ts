@@ -48,8 +48,12 @@ export async function loadIntake(db: Db, id: string): Promise<IntakeDetail> {
         [String(run.id)],
       )) as Array<{ id: string; number: string; state: 'running' | 'succeeded' | 'failed'; finished_at: Date | null }>)[0]
     : undefined;
+  const conflicts = r.kind === 'cases'
+    ? ((await db.query(`SELECT EXISTS (SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND resolution IS NULL) AS pending`, [id])) as Array<{ pending: boolean }>)[0]!.pending
+    : undefined;
   return {
     ...summary(r),
+    ...(conflicts === undefined ? {} : { conflictsPending: conflicts }),
     problems: r.problems ?? [],
     diff: r.diff ?? null,
     runRequest: run

@@ -23,6 +23,7 @@ import { stageRoster, type RosterStaged } from './roster-stage';
 import { DEFAULT_TALLY_LIMITS } from './roster-stream';
 import { dropStaging } from './staging-drop';
 import { restoreCases } from './case-intake';
+import { hasOpenConflicts, leaveKeptCases, recordCaseConflicts, restoreWouldOverrule } from './case-conflicts';
 import { restoreRoster } from './roster-apply';
 
 /** 512 MiB: a roster of several million rows; larger exports are split by site or year. */
@@ -134,7 +135,7 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
       assertSites(input.principal, outcome.scope.siteIds);
       await recordAudit(em, { actor: input.principal, action: 'intake.receive', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount } });
       if (input.kind === 'cases') await recordCaseReporting(client, id, input.principal, input.reportsThrough ?? null);
-      await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply', input.principal, input.ip);
+      await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply' && 'if-clear', input.principal, input.ip);
       return { intake: await loadIntake(em, id), duplicate: false };
     });
   } catch (thrown) {
@@ -179,8 +180,8 @@ async function recordUnreadable(ds: DataSource, input: ReceiveInput, id: string,
   return { intake: await loadIntake(ds, id), duplicate: false };
 }
 
-/** Records the checks' verdict; applies when asked and the file is clean. */
-async function settleChecked(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, outcome: CheckOutcome, apply: boolean, principal: Principal, ip?: string | null): Promise<void> {
+/** Records the checks' verdict; applies when asked and the file is clean ('if-clear': and no case contradicts a physician's decision). */
+async function settleChecked(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, outcome: CheckOutcome, apply: boolean | 'if-clear', principal: Principal, ip?: string | null): Promise<void> {
   const rejected = outcome.problemCount > 0;
   await client.query(
     `UPDATE intakes SET state = $2, problem_count = $3, problems = $4, diff = $5, site_ids = $6, month_from = $7, month_to = $8, checked_at = now() WHERE id = $1`,
@@ -191,7 +192,15 @@ async function settleChecked(client: PoolClient, em: EntityManager, id: string, 
     await recordAudit(em, { actor: principal, action: 'intake.reject', target: `intake:${id}`, ip, detail: { problems: outcome.problemCount } });
     return;
   }
-  if (apply) await applyNow(client, em, id, kind, table, principal, ip);
+  if (kind === 'cases') await recordCaseConflicts(client, id);
+  if (!apply) return;
+  // A case list that contradicts a physician's decision waits for the physician (case-conflicts.ts):
+  // an upload asking to apply stays checked; an apply asked for later is refused.
+  if (kind === 'cases' && (await hasOpenConflicts(client, id))) {
+    if (apply === 'if-clear') return;
+    throw new AppError('conflict', "this case list contradicts a physician's decision on some cases; a physician decides each (keep the decision or accept the list) before it is applied");
+  }
+  await applyNow(client, em, id, kind, table, principal, ip);
 }
 
 async function requestRun(client: PoolClient, id: string, reason: string): Promise<void> {
@@ -199,6 +208,7 @@ async function requestRun(client: PoolClient, id: string, reason: string): Promi
 }
 
 async function applyNow(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, principal: Principal, ip?: string | null): Promise<void> {
+  if (kind === 'cases') await leaveKeptCases(client, id);
   const { superseded } = await applyChecked(client, kind, table, id);
   await client.query(`UPDATE intakes SET state = 'applied', applied_at = now() WHERE id = $1`, [id]);
   await dropStaging(client, id, table);
@@ -303,6 +313,9 @@ export async function restoreIntake(ds: DataSource, p: Principal, id: string, ip
       }
       superseded = r.superseded;
     } else {
+      if (await restoreWouldOverrule(client, id)) {
+        throw new AppError('conflict', "restoring this version would overrule a physician's decision on some cases; send the cases as a new case list instead, so the physician decides each conflict");
+      }
       superseded = (await restoreCases(client, id)).superseded;
     }
     await client.query(`UPDATE intakes SET state = 'applied', superseded_at = NULL, restored_at = now() WHERE id = $1`, [id]);

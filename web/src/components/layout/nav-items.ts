@@ -17,6 +17,8 @@ export const navItems: NavItem[] = [
   { to: paths.comparison, label: 'Group comparison', permission: 'aggregates:read' },
   { to: paths.adjusted, label: 'Adjusted view', permission: 'aggregates:read' },
   { to: paths.flags, label: 'Flags', permission: 'flags:read' },
+  { to: paths.notices, label: 'Notices', permission: 'flags:read' },
+  { to: paths.cases, label: 'Case register', permission: 'cases:read' },
   { to: paths.rules, label: 'Watch rules', permission: 'rules:write' },
   { to: paths.intakes, label: 'Intakes', permission: 'intake:read' },
   { to: paths.audiogramUpload, label: 'Audiogram upload', permission: 'intake:write' },

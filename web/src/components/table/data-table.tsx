@@ -24,7 +24,8 @@ declare module '@tanstack/react-table' {
   }
 }
 
-export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: { caption: string; columns: ColumnDef<T, any>[]; data: T[]; exportName: string; rowHeader?: string }) {
+/** `onExport` replaces the export of the rows shown, for data whose export the server must record (the case register). */
+export function DataTable<T>({ caption, columns, data, exportName, rowHeader, onExport }: { caption: string; columns: ColumnDef<T, any>[]; data: T[]; exportName: string; rowHeader?: string; onExport?: () => void }) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const table = useReactTable({ data, columns, state: { sorting }, onSortingChange: setSorting, getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel() });
 
@@ -41,7 +42,7 @@ export function DataTable<T>({ caption, columns, data, exportName, rowHeader }: 
         <caption className="pb-2 text-left">
           <span className="flex flex-wrap items-baseline justify-between gap-2">
             <span className="text-base font-semibold">{caption}</span>
-            <button type="button" onClick={exportRows} className="btn btn-quiet no-print btn-small">
+            <button type="button" onClick={onExport ?? exportRows} className="btn btn-quiet no-print btn-small">
               Export CSV<span className="sr-only">: {caption}</span>
             </button>
           </span>

@@ -1,5 +1,7 @@
 import type { FlagCase } from '@ratewarden/shared/flags';
 import { createColumnHelper } from '@tanstack/react-table';
+import { Link } from 'react-router';
+import { paths } from '../../config/paths';
 import { QueryState } from '../../components/feedback/query-state';
 import { DataTable } from '../../components/table/data-table';
 import { useSites } from '../../api/get-sites';
@@ -7,7 +9,7 @@ import { useFlagCases } from './api/get-flag-cases';
 
 const col = createColumnHelper<FlagCase & { site: string }>();
 const columns = [
-  col.accessor('caseRef', { header: 'Case' }),
+  col.accessor('caseRef', { header: 'Case', cell: (c) => <Link to={paths.case(c.getValue())} className="text-accent underline">{c.getValue()}</Link> }),
   col.accessor('workerKey', { header: 'Worker (pseudonym)' }),
   col.accessor('onsetDate', { header: 'Onset' }),
   col.accessor('status', { header: 'Status' }),

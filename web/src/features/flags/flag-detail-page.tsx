@@ -15,6 +15,7 @@ import { useOutcomes } from '../../api/get-outcomes';
 import { useRun } from '../../api/get-run';
 import { useFlag } from './api/get-flag';
 import { FlagCases } from './flag-cases';
+import { FlagNotes } from './flag-notes';
 import { FlagDecisionForm } from './flag-decision-form';
 import { closeReasonLabels, eventLabels, flagStateLabels, measureLabels, thresholdOnLabels } from './flag-labels';
 
@@ -90,6 +91,7 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
       )}
       {roleMay(user.role, 'flags:review') && <FlagDecisionForm flag={flag} />}
       {roleMay(user.role, 'cases:read') && <FlagCases flagId={flag.id} />}
+      {roleMay(user.role, 'cases:read') && <FlagNotes flagId={flag.id} />}
       <Cautions />
     </section>
   );

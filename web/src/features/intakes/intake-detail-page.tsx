@@ -10,6 +10,7 @@ import { isApiError } from '../../lib/api-error';
 import { formatCount } from '../../lib/format';
 import { useDecideIntake, type IntakeDecision } from './api/decide-intake';
 import { useIntake } from './api/get-intake';
+import { CaseConflicts } from './case-conflicts';
 import { CaseDiffView } from './case-diff';
 import { IntakeStateBadge } from './intake-state-badge';
 import { RosterDiffView } from './roster-diff';
@@ -78,6 +79,12 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
         </p>
       )}
       {intake.runRequest && !intake.runRequest.pickedAt && <IntakeRunWait />}
+      {intake.conflictsPending && (
+        <p role="status" className="mt-4 note note-alarm px-4 py-2">
+          Some cases of this list contradict a physician's decision. The list can be applied once a physician has decided each of them (keep the decision or accept the list).
+        </p>
+      )}
+      {intake.kind === 'cases' && intake.state !== 'rejected' && roleMay(user.role, 'cases:review') && <CaseConflicts intake={intake} />}
       {mayWrite && (
         <div className="no-print mt-6 flex flex-wrap gap-3">
           {intake.state === 'checked' && intake.staged && (

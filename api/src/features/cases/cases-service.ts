@@ -1,0 +1,112 @@
+import type { DataSource } from 'typeorm';
+import { decisionStatus, type CaseDetail, type CaseListQuery, type CaseReviewInput, type CaseReviewResult, type CaseSummary, type CaseVersion } from '@ratewarden/shared/cases';
+import type { Principal } from '@ratewarden/shared/permissions';
+import { recordAudit } from '../../audit/audit-log';
+import { userOf } from '../../auth/authorize';
+import { AppError } from '../../lib/app-error';
+import { queryCase, queryCases } from './case-queries';
+
+type Row = Record<string, any>;
+
+/**
+ * The physician's case register and case review. Every read is audited: the entry names what was
+ * read (filters, a case reference) and, for an export, how many cases, which the administrator's
+ * view of the log withholds when small.
+ */
+export async function listCases(ds: DataSource, principal: Principal, q: CaseListQuery, ip?: string): Promise<CaseSummary[]> {
+  const cases = await queryCases(ds, principal, q);
+  await recordAudit(ds, { actor: principal, action: 'cases.read', target: 'case_register', detail: { filters: filtersOf(q) }, ip });
+  return cases;
+}
+
+/** The register's rows for a download: the same read, audited as an export with its count. */
+export async function exportCases(ds: DataSource, principal: Principal, q: CaseListQuery, ip?: string): Promise<CaseSummary[]> {
+  const cases = await queryCases(ds, principal, q);
+  await recordAudit(ds, { actor: principal, action: 'cases.export', target: 'case_register', detail: { filters: filtersOf(q), cases: cases.length }, ip });
+  return cases;
+}
+
+/** The filters for the audit entry; a search text may be a worker key or case reference, so the entry says only that there was one. */
+const filtersOf = (q: CaseListQuery) =>
+  Object.fromEntries(Object.entries(q).filter(([k, v]) => v !== undefined && v !== '' && k !== 'limit').map(([k, v]) => (k === 'q' ? ['search', true] : [k, v])));
+
+async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> {
+  const rows: Row[] = await ds.query(
+    `SELECT c.id::text AS id, c.status, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, o.code AS outcome_code, w.worker_key,
+            c.intake_id, i.file_name, c.created_at, c.superseded_by IS NULL AS current,
+            r.id::text AS review_id, r.decision, r.from_status, r.to_status, r.reason, u.email AS decided_by, r.decided_at
+     FROM case_events c
+     JOIN outcomes o ON o.id = c.outcome_id
+     JOIN workers w ON w.id = c.worker_id
+     JOIN intakes i ON i.id = c.intake_id
+     LEFT JOIN case_reviews r ON r.id = c.review_id
+     LEFT JOIN users u ON u.id = r.decided_by
+     WHERE c.case_ref = $1 ORDER BY c.created_at, c.id`,
+    [caseRef],
+  );
+  return rows.map((r) => ({
+    id: r.id,
+    status: r.status,
+    onsetDate: r.onset,
+    outcomeCode: r.outcome_code,
+    workerKey: r.worker_key,
+    intakeId: r.intake_id,
+    intakeFileName: r.file_name,
+    createdAt: new Date(r.created_at).toISOString(),
+    current: r.current,
+    review: r.review_id
+      ? { id: r.review_id, decision: r.decision, fromStatus: r.from_status, toStatus: r.to_status, reason: r.reason, decidedBy: r.decided_by, decidedAt: new Date(r.decided_at).toISOString() }
+      : null,
+  }));
+}
+
+/**
+ * An audit entry names a case by its current version's row id: the administrator reads the log,
+ * and the source system's case reference and the physician's reasons are case-level.
+ */
+const caseTarget = (c: CaseDetail) => `case_event:${c.history.find((v) => v.current)?.id ?? 'unknown'}`;
+
+async function detail(ds: DataSource, principal: Principal, caseRef: string): Promise<CaseDetail> {
+  const summary = await queryCase(ds, principal, caseRef);
+  if (!summary) throw new AppError('not_found', 'no such case among your sites');
+  return { ...summary, history: await history(ds, caseRef) };
+}
+
+/** One case with every version (list versions and decisions), audited. */
+export async function getCase(ds: DataSource, principal: Principal, caseRef: string, ip?: string): Promise<CaseDetail> {
+  const found = await detail(ds, principal, caseRef);
+  await recordAudit(ds, { actor: principal, action: 'cases.read', target: caseTarget(found), ip });
+  return found;
+}
+
+/**
+ * Confirms, rules out or reopens a case, with a reason: the current version is replaced by a new
+ * one naming the review (see the CaseReviews migration), and a run is requested so the next run
+ * counts the case as decided. A decision that leaves the status as it is is refused.
+ */
+export async function reviewCase(ds: DataSource, principal: Principal, caseRef: string, input: CaseReviewInput, ip?: string): Promise<CaseReviewResult> {
+  const user = userOf({ principal });
+  // Within the reader's sites, as every read of the case.
+  if (!(await queryCase(ds, principal, caseRef))) throw new AppError('not_found', 'no such case among your sites');
+  const to = decisionStatus[input.decision];
+  const runRequestId = await ds.transaction(async (em) => {
+    const [cur]: Row[] = await em.query(`SELECT id, status, intake_id FROM case_events WHERE case_ref = $1 AND superseded_by IS NULL FOR UPDATE`, [caseRef]);
+    if (!cur) throw new AppError('not_found', 'no such case');
+    if (cur.status === to) throw new AppError('conflict', `the case is already ${to.replace('_', ' ')}`);
+    const [review]: Row[] = await em.query(
+      `INSERT INTO case_reviews (case_ref, decision, from_status, to_status, reason, decided_by) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id::text AS id`,
+      [caseRef, input.decision, cur.status, to, input.reason, user.id],
+    );
+    await em.query(`UPDATE case_events SET superseded_by = intake_id, superseded_by_review = $2 WHERE id = $1`, [cur.id, review!.id]);
+    await em.query(
+      `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status, review_id)
+       SELECT intake_id, case_ref, worker_id, outcome_id, onset_date, $2, $3 FROM case_events WHERE id = $1`,
+      [cur.id, to, review!.id],
+    );
+    // No case reference in the request: run requests are read by people without case-level access.
+    const [req]: Row[] = await em.query(`INSERT INTO run_requests (reason) VALUES ('a physician reviewed a case') RETURNING id::text AS id`);
+    await recordAudit(em, { actor: principal, action: 'case.review', target: `case_event:${cur.id}`, detail: { decision: input.decision, review: review!.id }, ip });
+    return req!.id as string;
+  });
+  return { case: await detail(ds, principal, caseRef), runRequestId };
+}
