@@ -24,10 +24,13 @@ import { RunUnattributedEntity } from './run-unattributed';
 import { PeriodClosureEntity } from './period-closure';
 import { RunPeriodEntity } from './run-period';
 import { RunRequestEntity } from './run-request';
+import { ReferenceRateTableEntity } from './reference-rate-table';
+import { ReferenceRateEntity } from './reference-rate';
+import { RunSirEntity } from './run-sir';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity];
+  RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, ReferenceRateTableEntity, ReferenceRateEntity, RunSirEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -59,3 +62,6 @@ export { RunRequestEntity };
 export { RunEntity, CurrentRunEntity, RunResultEntity, RunCellsEntity, RunTrendEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
 export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };
+export type { ReferenceRateTable } from './reference-rate-table';
+export type { ReferenceRate } from './reference-rate';
+export type { RunSir } from './run-sir';
