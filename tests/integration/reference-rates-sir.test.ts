@@ -160,7 +160,18 @@ describe('reference rates and the SIR of a run', () => {
   describe('after a run', () => {
     let physician: Map<number, SirRow>;
     let safety: Map<number, SirRow>;
+    const rules: Record<string, string> = {};
     beforeAll(async () => {
+      // Watch rules on the SIR, written through the API by the safety manager.
+      const rule = async (name: string, group: number, threshold: number) => {
+        const res = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
+          .send({ name, outcomeId: c.outcomes.SKIN, exposureGroupId: group, measure: 'sir', thresholdOn: 'lower_bound', threshold, fdrControl: false })
+          .expect(201);
+        rules[name] = res.body.id as string;
+      };
+      await rule('SIR lower limit above 0.5', c.groups.ALL!, 0.5);
+      await rule('SIR lower limit above 1', c.groups.ALL!, 1);
+      await rule('SIR of a small group', c.groups.FEW!, 0);
       const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
       expect(outcome.status).toBe('succeeded');
       physician = new Map((await sirOf(as.physician)).rows.map((r) => [r.exposureGroupId, r]));
@@ -218,6 +229,13 @@ describe('reference rates and the SIR of a run', () => {
       await limited.agent.get('/api/reference-rates/runs/current/sir').expect(403);
       await limited.agent.get('/api/reference-rates/runs/current/sir').query({ siteId: c.sites[1] }).expect(403);
       await limited.agent.get('/api/reference-rates/runs/current/sir').query({ siteId: c.sites[0] }).expect(200);
+    });
+
+    it('raises a flag from a rule on the SIR lower limit when it is above the threshold, and not otherwise, nor on a withheld count', async () => {
+      const flags = (await ds.query(`SELECT rule_id, exposure_group_id, site_id, value FROM flags WHERE rule_id = ANY($1::uuid[])`, [Object.values(rules)])) as Array<{ rule_id: string; exposure_group_id: number; site_id: number | null; value: number }>;
+      expect(flags).toHaveLength(1);
+      expect(flags[0]).toMatchObject({ rule_id: rules['SIR lower limit above 0.5'], exposure_group_id: c.groups.ALL, site_id: null });
+      relClose(flags[0]!.value, physician.get(c.groups.ALL!)!.exact.lower as number, 1e-12); // the exact lower limit checked above
     });
   });
 });

@@ -12,6 +12,7 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  *   observed and expected cases over the person-time a reference rate covers, the SIR with its
  *   exact and Byar limits, and the disclosure decision the worker took for readers other than the
  *   physician (`withheld`). Limits may be 'Infinity' (double precision keeps it).
+ * - watch rules get the measure `sir`.
  */
 export class ReferenceRates1764635200000 implements MigrationInterface {
   name = 'ReferenceRates1764635200000';
@@ -64,9 +65,15 @@ export class ReferenceRates1764635200000 implements MigrationInterface {
         withheld text CHECK (withheld IN ('small', 'complement'))
       )`);
     await q.query(`CREATE UNIQUE INDEX run_sir_key ON run_sir (run_id, outcome_id, exposure_group_id, coalesce(site_id, 0))`);
+    // Watch rules may read the SIR (its exact lower limit, or the estimate).
+    await q.query(`ALTER TABLE watch_rules DROP CONSTRAINT watch_rules_measure_check`);
+    await q.query(`ALTER TABLE watch_rules ADD CONSTRAINT watch_rules_measure_check CHECK (measure IN ('irr', 'ird', 'rate', 'uchart', 'sir'))`);
   }
 
   async down(q: QueryRunner): Promise<void> {
+    await q.query(`DELETE FROM watch_rules WHERE measure = 'sir'`);
+    await q.query(`ALTER TABLE watch_rules DROP CONSTRAINT watch_rules_measure_check`);
+    await q.query(`ALTER TABLE watch_rules ADD CONSTRAINT watch_rules_measure_check CHECK (measure IN ('irr', 'ird', 'rate', 'uchart'))`);
     await q.query(`DROP TABLE run_sir`);
     await q.query(`DROP TABLE reference_rates`);
     await q.query(`DROP TABLE reference_rate_tables`);

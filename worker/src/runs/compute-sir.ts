@@ -16,6 +16,8 @@ export interface SirResultRow {
   exactUpper: number | null;
   byarLower: number | null;
   byarUpper: number | null;
+  /** Exact two-sided p of SIR = 1 (for a watch rule's false-discovery control; not stored). */
+  p: number | null;
   withheld: 'small' | 'complement' | null;
 }
 
@@ -71,6 +73,7 @@ function row(
     exactUpper: r.exact.upper,
     byarLower: r.byar.lower,
     byarUpper: r.byar.upper,
+    p: r.pExact,
     withheld,
   };
 }
