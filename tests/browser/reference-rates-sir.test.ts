@@ -11,8 +11,8 @@ import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
  * The hygienist's SIR journey in Chromium: a refused reference-rate file with its problems by line
  * and column, a good one uploaded through the page, the run it asks for, and the SIR page read back:
  * 5 women born 1980 work 12 × 160 h in 2031 (4.8 person-years at 2,000 h); the reference rate for
- * women aged 45–54 in 2031 is 0.5 per person-year, so E = 2.4; with O = 6 the SIR is 2.5, its exact
- * 95% limits χ²(0.025; 12)/2/E and χ²(0.975; 14)/2/E (Garwood 1936; Ulm 1990).
+ * women aged 45–54 in 2031 is 0.5 per person-year, so E = 2.4; with O = 10 the SIR is 10/2.4, its
+ * exact 95% limits χ²(0.025; 20)/2/E and χ²(0.975; 22)/2/E (Garwood 1936; Ulm 1990).
  */
 describe('the hygienist uploads reference rates and reads the SIR page', () => {
   let c: Cohort;
@@ -23,7 +23,8 @@ describe('the hygienist uploads reference rates and reads the SIR page', () => {
     const rows: Array<[number, string, number, number, number]> = [];
     for (const w of workers) for (let m = 1; m <= 12; m++) rows.push([w, `2031-${String(m).padStart(2, '0')}-01`, c.sites[0]!, c.groups.EXP!, 160]);
     await c.roster(rows);
-    await c.cases(workers.flatMap((w, i) => (i === 0 ? [[w, c.outcomes.HEAR!, '2031-03-03'], [w, c.outcomes.HEAR!, '2031-08-03']] : [[w, c.outcomes.HEAR!, `2031-0${i + 1}-10`]])) as Array<[number, number, string]>);
+    // Five cases in March and five in September: no count of the group is small, so the hygienist sees its SIR.
+    await c.cases(workers.flatMap((w) => [[w, c.outcomes.HEAR!, '2031-03-10'], [w, c.outcomes.HEAR!, '2031-09-10']] as Array<[number, number, string]>));
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', await allSiteIds(ds));
   });
 
@@ -57,10 +58,10 @@ describe('the hygienist uploads reference rates and reads the SIR page', () => {
     await table.waitFor();
     const row = (await table.getByRole('row', { name: /Group EXP/ }).textContent())!;
     const e = 2.4;
-    expect(row).toContain('6'); // observed
+    expect(row).toContain('10'); // observed
     expect(row).toContain(formatFigure(e)); // expected
-    expect(row).toContain(formatFigure(2.5)); // SIR = 6 / 2.4
-    expect(row).toContain(`${formatFigure(chisquareQuantile(0.025, 12) / 2 / e)} to ${formatFigure(chisquareQuantile(0.975, 14) / 2 / e)}`);
+    expect(row).toContain(formatFigure(10 / e)); // SIR = O / E
+    expect(row).toContain(`${formatFigure(chisquareQuantile(0.025, 20) / 2 / e)} to ${formatFigure(chisquareQuantile(0.975, 22) / 2 / e)}`);
     expect(await page.locator('figure').getByText(/SIR against the reference rates with 95% exact intervals/).first().isVisible()).toBe(true);
     expect(await page.getByText(/reference rates version \d+ \(Invented registry table 2031\)/).count()).toBe(1);
     await page.close();

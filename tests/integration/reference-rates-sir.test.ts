@@ -218,6 +218,10 @@ describe('reference rates and the SIR of a run', () => {
       expect(few.expected).toBeGreaterThan(0);
       // The 15–24 band has 4 observed: withheld too.
       expect(safety.get(stratumGroups[2]!)).toMatchObject({ observed: null, withheld: 'small' });
+      // 25–34: 14 observed, but single months of 1 and 2 cases that the run's frame withholds; the
+      // SIR's all-months total beside the shown months would give them back, so it is withheld too.
+      expect(physician.get(stratumGroups[3]!)).toMatchObject({ observed: 14, withheld: null });
+      expect(safety.get(stratumGroups[3]!)).toMatchObject({ observed: null, sir: null, withheld: 'complement' });
     });
 
     it('serves a site its own rows, and 403 outside the reader’s sites', async () => {

@@ -19,7 +19,7 @@ import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { openResultWriter, storeCells } from './store-results';
 import { storeUnattributed, unattributedSummary } from './store-unattributed';
 import { storeRunPeriods } from './store-run-periods';
-import { computeSir } from './compute-sir';
+import { computeSir, sirDisclosure } from './compute-sir';
 import { loadReferenceTableId, loadSirCells, type SirCell } from './sir-query';
 import { storeSir } from './store-sir';
 
@@ -133,7 +133,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       await storeFrame(em, runId, frame);
       await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
-      const sir = snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold);
+      const sir = snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
       if (snapshot.referenceTableId !== null) await storeSir(em, runId, snapshot.referenceTableId, options.settings.confidence, sir);
       const t3 = performance.now();
       resultCount = computed.resultCount;
