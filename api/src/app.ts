@@ -20,6 +20,7 @@ import { noticesRouter } from './features/notices/notices-routes';
 import { periodsRouter } from './features/periods/periods-routes';
 import { rulesRouter } from './features/rules/rules-routes';
 import { runsRouter } from './features/runs/runs-routes';
+import { referenceRatesRouter } from './features/reference-rates/reference-rates-routes';
 import { databaseSaturation } from './middleware/database-saturation';
 import { errorHandler, notFound } from './middleware/error-handler';
 import { intakeRateLimit } from './middleware/rate-limits';
@@ -72,6 +73,7 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api/mailbox', mailboxRouter({ dataSource, config }));
   app.use('/api/cases', casesRouter({ dataSource }));
   app.use('/api/periods', periodsRouter({ dataSource, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS }));
+  app.use('/api/reference-rates', referenceRatesRouter({ dataSource }));
   app.use('/api', notFound);
   app.use(webAppRouter(config.WEB_DIST ?? join(import.meta.dirname, '..', '..', 'web', 'dist')));
   app.use(errorHandler);

@@ -31,6 +31,8 @@ export const auditActionLabels: Record<string, string> = {
   'outcome.update': 'Changed an outcome',
   'period.close': 'Closed a reporting month',
   'period.reopen': 'Reopened a reporting month',
+  'reference.apply': 'Uploaded reference rates',
+  'reference.reject': 'Reference rates rejected',
   'rule.create': 'Created a watch rule',
   'rule.update': 'Changed a watch rule',
   'rule.delete': 'Deleted a watch rule',

@@ -12,6 +12,8 @@ export const rolePermissions = {
   // The physician reads intakes too: a roster check names the stored cases it would orphan (to them only).
   'intake:read': ['hygienist', 'physician'],
   'intake:write': ['hygienist'],
+  // External reference rates (for the SIR): the hygienist's upload; read by every reader of aggregates.
+  'reference:write': ['hygienist'],
   'runs:read': ['hygienist', 'safety_manager', 'physician'],
   'runs:trigger': ['hygienist'],
   'rules:read': ['hygienist', 'safety_manager', 'physician'],

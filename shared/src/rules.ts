@@ -5,8 +5,10 @@ import { DEFAULT_SMALL_CELL_THRESHOLD } from './small-cells';
 /**
  * Watch rules: what a run's results are compared with to raise flags.
  *
- * - `measure`: the IRR or IRD against the reference group, the group's own rate, or a u-chart
- *   point above its upper control limit.
+ * - `measure`: the IRR or IRD against the reference group, the group's own rate, a u-chart
+ *   point above its upper control limit, or the SIR against the external reference rates (its
+ *   exact lower limit with `lower_bound`; over all the person-time the reference rates cover, read
+ *   when the rule's window has a complete period, one period at a time).
  * - `thresholdOn`: the point estimate, or the lower bound of its interval (exact conditional for
  *   the IRR, exact Poisson for the rate, Wald for the IRD), e.g. "IRR lower 95% bound above 1.0".
  *   Rates and IRDs are in the run's units (its person-time basis and multiplier).
@@ -25,7 +27,7 @@ import { DEFAULT_SMALL_CELL_THRESHOLD } from './small-cells';
  *   rule). It does not apply to u-chart rules, whose 3-sigma limits already fix the false-alarm
  *   rate per point.
  */
-export const ruleMeasureSchema = z.enum(['irr', 'ird', 'rate', 'uchart']);
+export const ruleMeasureSchema = z.enum(['irr', 'ird', 'rate', 'uchart', 'sir']);
 export type RuleMeasure = z.infer<typeof ruleMeasureSchema>;
 
 export const thresholdOnSchema = z.enum(['estimate', 'lower_bound']);
@@ -74,7 +76,7 @@ function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: 
   if (r.measure !== 'uchart' && r.threshold === null) {
     ctx.addIssue({ code: 'custom', path: ['threshold'], message: 'a threshold is required for this measure' });
   }
-  if (r.measure === 'irr' && r.threshold !== null && r.threshold < 0) {
+  if ((r.measure === 'irr' || r.measure === 'sir') && r.threshold !== null && r.threshold < 0) {
     ctx.addIssue({ code: 'custom', path: ['threshold'], message: 'a rate ratio threshold cannot be negative' });
   }
   if (r.measure === 'uchart' && r.window !== 'month') {

@@ -71,7 +71,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   const pages = (flagId: string, outcome: number) => [
     '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
-    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload',
+    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload', `/sir?outcomeId=${outcome}`,
   ];
 
   it('as the hygienist, on every page', async () => {
@@ -83,7 +83,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {
-    expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`])).toEqual([]);
+    expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`, '/sir'])).toEqual([]);
     expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'])).toEqual([]);
   });
 

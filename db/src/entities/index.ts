@@ -26,10 +26,12 @@ import { AudiogramEntity } from './audiogram';
 import { CaseReviewEntity } from './case-review';
 import { FlagNoteEntity } from './flag-note';
 import { IntakeCaseConflictEntity } from './intake-case-conflict';
+import { ReferenceRateTableEntity } from './reference-rate-table';
+import { ReferenceRateEntity } from './reference-rate';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity];
+  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity, ReferenceRateTableEntity, ReferenceRateEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -61,3 +63,6 @@ export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };
 export type { Audiogram } from './audiogram';
 export { AudiogramEntity };
+export type { ReferenceRateTable } from './reference-rate-table';
+export type { ReferenceRate } from './reference-rate';
+export { ReferenceRateTableEntity, ReferenceRateEntity };

@@ -55,7 +55,7 @@ export const WatchRuleEntity = new EntitySchema<WatchRuleRow>({
     { name: 'watch_rules_check', expression: '((measure = \'uchart\'::text) OR (threshold IS NOT NULL))' },
     { name: 'watch_rules_consecutive_periods_check', expression: '((consecutive_periods >= 1) AND (consecutive_periods <= 24))' },
     { name: 'watch_rules_fdr_level_check', expression: '((fdr_level > (0)::double precision) AND (fdr_level < (1)::double precision))' },
-    { name: 'watch_rules_measure_check', expression: '(measure = ANY (ARRAY[\'irr\'::text, \'ird\'::text, \'rate\'::text, \'uchart\'::text]))' },
+    { name: 'watch_rules_measure_check', expression: '(measure = ANY (ARRAY[\'irr\'::text, \'ird\'::text, \'rate\'::text, \'uchart\'::text, \'sir\'::text]))' },
     { name: 'watch_rules_min_cases_check', expression: '(min_cases >= 0)' },
     { name: 'watch_rules_min_expected_check', expression: '(min_expected >= (0)::double precision)' },
     { name: 'watch_rules_site_ids_check', expression: '((site_ids IS NULL) OR ((cardinality(site_ids) > 0) AND (array_position(site_ids, NULL::integer) IS NULL)))' },

@@ -25,6 +25,7 @@ export const router = createBrowserRouter([
           { path: 'trends', lazy: () => import('./routes/trends') },
           { path: 'comparison', lazy: () => import('./routes/comparison') },
           { path: 'adjusted', lazy: () => import('./routes/adjusted') },
+          { path: 'sir', lazy: () => import('./routes/sir') },
           { path: 'flags', lazy: () => import('./routes/flags') },
           { path: 'flags/:id', lazy: () => import('./routes/flag') },
           { path: 'notices', lazy: () => import('./routes/notices') },

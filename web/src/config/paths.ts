@@ -8,6 +8,7 @@ export const paths = {
   trends: '/trends',
   comparison: '/comparison',
   adjusted: '/adjusted',
+  sir: '/sir',
   flags: '/flags',
   flag: (id: string | number) => `/flags/${id}`,
   notices: '/notices',

@@ -47,6 +47,7 @@ const measureWords: Record<RuleMeasure, string> = {
   ird: 'incidence rate difference against the reference group',
   rate: 'incidence rate of the group',
   uchart: 'u-chart point against its upper control limit',
+  sir: 'standardized incidence ratio against the external reference rates (over all the person-time they cover; the healthy-worker effect biases it downwards)',
 };
 
 /** Subject words and the opening sentence of each kind. */

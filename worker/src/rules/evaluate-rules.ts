@@ -54,6 +54,11 @@ export function measure(rule: RuleToEvaluate, r: ResultRow): Measured {
     case 'rate':
       // The test of a group's rate is its comparison with the reference rate.
       return pick(r.rate, r.rate_lower, r.rate_upper, r.irr_p);
+    case 'sir': {
+      const s = r.sir;
+      const m = pick(s?.estimate ?? null, s?.lower ?? null, s?.upper ?? null, s?.p ?? null);
+      return { ...m, passesThreshold: s !== undefined && m.passesThreshold, expected: s?.expected ?? null };
+    }
     case 'uchart': {
       const u = r.person_time > 0 ? r.cases / r.person_time : null;
       const value = u !== null && r.u_ucl !== null && r.u_ucl > 0 ? u / r.u_ucl : null;

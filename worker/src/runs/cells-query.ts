@@ -87,10 +87,10 @@ const CTES = `
  * The roster is read once: its hours are summed per month × site × group × birth year × sex
  * (`base`), credited to every outcome at the outcome's lag, and for first-event outcomes the
  * hours after each worker's first case (`removed`, read through the worker index) are
- * subtracted. The age band is derived from the birth year after that aggregation.
+ * subtracted. The age band is derived from the birth year after that aggregation. `fine` keeps
+ * the birth year: the SIR's aggregation (sir-query.ts) reads it by the reference table's own bands.
  */
-export const CELLS_SQL = `
-  WITH ${CTES},
+export const FINE_CTES = `${CTES},
   both_sides AS (
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, hours, 0 AS n FROM pt
     UNION ALL
@@ -100,7 +100,10 @@ export const CELLS_SQL = `
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, sum(hours) AS hours, sum(n) AS cases
     FROM both_sides
     GROUP BY outcome_id, month, site_id, exposure_group_id, birth_year, sex
-  )
+  )`;
+
+export const CELLS_SQL = `
+  WITH ${FINE_CTES}
   SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id,
          CASE WHEN birth_year IS NULL THEN NULL
               ELSE (floor((extract(year FROM month) - birth_year) / 10) * 10)::int END AS age_band,

@@ -38,6 +38,8 @@ export interface ResultRow {
   period: string;
   /** Month index of the period, kept for rule evaluation (not stored). */
   periodIndex: number;
+  /** Only on the rows a SIR watch rule reads (rule-verdicts.ts): the group's SIR in this scope. */
+  sir?: { estimate: number | null; lower: number | null; upper: number | null; p: number | null; expected: number };
   months_covered: number;
   is_reference: boolean;
   reference_group_id: number | null;

@@ -19,6 +19,9 @@ import { releaseRunLock, tryRunLock, waitRunLock } from './run-lock';
 import { openResultWriter, storeCells } from './store-results';
 import { storeUnattributed, unattributedSummary } from './store-unattributed';
 import { storeRunPeriods } from './store-run-periods';
+import { computeSir, sirDisclosure } from './compute-sir';
+import { loadReferenceTableId, loadSirCells, type SirCell } from './sir-query';
+import { storeSir } from './store-sir';
 
 export interface PerformRunOptions {
   trigger: RunTrigger;
@@ -130,6 +133,8 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       await storeFrame(em, runId, frame);
       await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
+      const sir = snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
+      if (snapshot.referenceTableId !== null) await storeSir(em, runId, snapshot.referenceTableId, options.settings.confidence, sir);
       const t3 = performance.now();
       resultCount = computed.resultCount;
       // Watch rules: company-wide ones on the company's rows, site rules on their sites' own rows;
@@ -139,6 +144,8 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         periods: snapshot.periods,
         rulesOnPartialPeriods: options.rulesOnPartialPeriods === true,
         threshold,
+        sir,
+        hoursPerUnit: options.settings.personTimeBasis === 'person_years' ? 2000 : 200_000,
       });
       const summary = {
         cells: snapshot.cells.length,
@@ -150,6 +157,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         unattributed: unattributedSummary(snapshot.outcomes.map((o) => o.id), snapshot.unattributed),
         analyzed,
         outcomesWithoutReference: computed.outcomesWithoutReference,
+        referenceTableId: snapshot.referenceTableId,
         seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, storeAfterCompute: (t3 - t2) / 1000 },
       };
       await em.query(`UPDATE runs SET inputs = $2, summary = $3 WHERE id = $1`, [runId, JSON.stringify(inputs), JSON.stringify(toJsonValue(summary))]);
@@ -188,6 +196,9 @@ interface Snapshot {
   /** Every site × month's reporting state when the run read its data. */
   sitePeriods: SitePeriod[];
   periods: PeriodBook;
+  /** The applied reference-rate table (null: none) and the SIR aggregation by its strata. */
+  referenceTableId: number | null;
+  sirCells: SirCell[];
 }
 
 /** Everything a run reads, from one snapshot so that cells, inputs and rules agree. */
@@ -205,6 +216,8 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const unattributed = await loadUnattributed(qr, settings.countedStatuses);
     const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
     const sitePeriods = await readSitePeriods(qr.manager);
+    const referenceTableId = await loadReferenceTableId(qr);
+    const sirCells = referenceTableId === null ? [] : await loadSirCells(qr, settings.countedStatuses, referenceTableId);
     await qr.commitTransaction();
     const rules: RuleToEvaluate[] = ruleRows.map((r) => ({
       id: r.id as string,
@@ -246,6 +259,8 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
       ruleInfo,
       sitePeriods,
       periods: new PeriodBook(sitePeriods),
+      referenceTableId,
+      sirCells,
     };
   } catch (err) {
     if (qr.isTransactionActive) await qr.rollbackTransaction();

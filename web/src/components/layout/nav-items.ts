@@ -16,6 +16,7 @@ export const navItems: NavItem[] = [
   { to: paths.trends, label: 'Trends', permission: 'aggregates:read' },
   { to: paths.comparison, label: 'Group comparison', permission: 'aggregates:read' },
   { to: paths.adjusted, label: 'Adjusted view', permission: 'aggregates:read' },
+  { to: paths.sir, label: 'Against reference rates', permission: 'aggregates:read' },
   { to: paths.flags, label: 'Flags', permission: 'flags:read' },
   { to: paths.notices, label: 'Notices', permission: 'flags:read' },
   { to: paths.cases, label: 'Case register', permission: 'cases:read' },

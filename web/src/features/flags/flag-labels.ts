@@ -37,6 +37,7 @@ export const measureLabels: Record<RuleMeasure, string> = {
   ird: 'rate difference against the reference group',
   rate: "the group's own rate",
   uchart: 'a month above the u-chart upper limit',
+  sir: 'standardized incidence ratio (SIR) against the reference rates',
 };
 
 export const thresholdOnLabels: Record<ThresholdOn, string> = {

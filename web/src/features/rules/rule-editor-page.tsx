@@ -33,7 +33,7 @@ interface Draft extends RuleScope {
   active: boolean;
 }
 
-const measureOptions = { irr: 'Rate ratio (IRR) against the reference', ird: 'Rate difference (IRD) against the reference', rate: "The group's own rate", uchart: 'u-chart: a month above the upper limit' } as const;
+const measureOptions = { irr: 'Rate ratio (IRR) against the reference', ird: 'Rate difference (IRD) against the reference', rate: "The group's own rate", uchart: 'u-chart: a month above the upper limit', sir: 'SIR against the reference rates (exact lower limit or estimate)' } as const;
 
 /** A new rule watches the company for a reader of every site, else every site of the person's. */
 function draftOf(r: WatchRule | null, outcomeId: number | undefined, everySite: boolean, mySiteIds: number[]): Draft {
@@ -135,7 +135,7 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
           {d.measure !== 'uchart' && (
             <>
               <SelectField label="Compare" value={d.thresholdOn} onChange={(e) => set('thresholdOn', e.target.value as Draft['thresholdOn'])} options={thresholdOnSchema.options.map((t) => ({ value: t, label: t === 'lower_bound' ? 'The lower bound of the interval' : 'The estimate' }))} />
-              <TextField label="Threshold" hint={d.measure === 'irr' ? 'a ratio, e.g. 1 or 1.5' : "in the run's rate units"} inputMode="decimal" value={d.threshold} onChange={(e) => set('threshold', e.target.value)} error={errors.threshold} />
+              <TextField label="Threshold" hint={d.measure === 'irr' || d.measure === 'sir' ? 'a ratio, e.g. 1 or 1.5' : "in the run's rate units"} inputMode="decimal" value={d.threshold} onChange={(e) => set('threshold', e.target.value)} error={errors.threshold} />
               <SelectField label="Window" value={d.window} onChange={(e) => set('window', e.target.value as Draft['window'])} options={[{ value: 'rolling12', label: 'Rolling 12 months' }, { value: 'month', label: 'Single month' }]} />
             </>
           )}
