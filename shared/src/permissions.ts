@@ -22,6 +22,11 @@ export const rolePermissions = {
   'periods:close': ['hygienist'],
   'cases:read': ['physician'],
   'cases:review': ['physician'],
+  // Analysis settings (basis, multiplier, confidence, counted statuses, age bands): everyone reads
+  // the version their figures were computed with; the administrator and the hygienist change them.
+  'settings:read': ['hygienist', 'safety_manager', 'physician', 'administrator'],
+  'settings:write': ['hygienist', 'administrator'],
+  'sites:manage': ['administrator'],
   'users:manage': ['administrator'],
   'clients:manage': ['administrator'],
   'audit:read': ['administrator'],

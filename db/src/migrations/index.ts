@@ -15,5 +15,6 @@ import { SiteWatchRules1764634750000 } from './1764634750000-SiteWatchRules';
 import { RunRequestImmediate1764634700000 } from './1764634700000-RunRequestImmediate';
 
 import { RunPeriodRoster1764634900000 } from './1764634900000-RunPeriodRoster';
+import { AnalysisSettings1764635100000 } from './1764635100000-AnalysisSettings';
 /** Every migration, oldest first. Listed by hand because the TypeORM CLI cannot glob TypeScript under tsx. */
-export const migrations = [Foundation1764633600000, CohortData1764633700000, IntakeStaging1764633800000, Access1764634000000, Runs1764633900000, RunScopes1764634100000, RunCells1764634200000, WatchRuleMinCases1764634300000, NoticeDelivery1764634400000, DisclosureFrame1764634500000, ReportingPeriods1764634600000, RunRequestImmediate1764634700000, SiteWatchRules1764634750000, RunUnattributed1764634800000, RunPeriodRoster1764634900000];
+export const migrations = [Foundation1764633600000, CohortData1764633700000, IntakeStaging1764633800000, Access1764634000000, Runs1764633900000, RunScopes1764634100000, RunCells1764634200000, WatchRuleMinCases1764634300000, NoticeDelivery1764634400000, DisclosureFrame1764634500000, ReportingPeriods1764634600000, RunRequestImmediate1764634700000, SiteWatchRules1764634750000, RunUnattributed1764634800000, RunPeriodRoster1764634900000, AnalysisSettings1764635100000];
