@@ -1,0 +1,16 @@
+import type { DataSource } from 'typeorm';
+
+/**
+ * An empty start (`npm start -- --empty`): no demo data, only the first administrator, so that
+ * someone can sign in and set the rest up (the first-run page says what). Pre-provisioned by
+ * e-mail as the demo people are: the first sign-in with that address binds the account. Nothing
+ * is written when the database already has sites or people. Returns whether it wrote.
+ */
+export async function seedFirstAdministrator(ds: DataSource, email: string, name = 'Administrator'): Promise<boolean> {
+  return ds.transaction(async (em) => {
+    const [row] = (await em.query(`SELECT (SELECT count(*) FROM sites) + (SELECT count(*) FROM users) AS n`)) as Array<{ n: string }>;
+    if (Number(row!.n) > 0) return false;
+    await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, 'administrator')`, [email, name]);
+    return true;
+  });
+}
