@@ -43,7 +43,7 @@ export function FirstRunPage() {
     <section className="max-w-3xl">
       <h1 className="text-2xl font-bold tracking-tight">First steps</h1>
       <p className="mt-2 text-ink-soft">This Ratewarden started without demo data. Set it up in this order; each step links to its page.</p>
-      <ol className="mt-6 space-y-4">
+      <ol aria-label="Set-up steps" className="mt-6 space-y-4">
         {steps.map((s, i) => (
           <li key={s.title} className="note note-plain px-4 py-3">
             <div className="flex flex-wrap items-center gap-3">
