@@ -1,3 +1,4 @@
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { runSettingsSchema, type RunSettings } from '@ratewarden/shared/runs';
 
 export interface VersionedSettings {
@@ -15,7 +16,8 @@ export async function currentAnalysisSettings(q: { query(sql: string, params?: u
     `INSERT INTO analysis_settings (version, settings, created_by_label)
      SELECT 1, $1::jsonb, 'worker environment' WHERE NOT EXISTS (SELECT 1 FROM analysis_settings)
      ON CONFLICT (version) DO NOTHING`,
-    [JSON.stringify(runSettingsSchema.parse(defaults))],
+    // Written whole (the age band edges too), so the settings page shows what runs use.
+    [JSON.stringify(runSettingsSchema.parse({ ...defaults, ageBandEdges: [...ageBandEdgesOf(defaults)] }))],
   );
   const [row]: Array<{ version: number; settings: unknown }> = await q.query(`SELECT version, settings FROM analysis_settings ORDER BY version DESC LIMIT 1`);
   return { version: row!.version, settings: runSettingsSchema.parse(row!.settings) };

@@ -1,6 +1,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
-import { runSettingsSchema } from '@ratewarden/shared/runs';
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
+import { runSettingsSchema, type RunSettings } from '@ratewarden/shared/runs';
 import type { AnalysisSettings, SettingsUpdate, SettingsUpdateResult, SettingsVersion } from '@ratewarden/shared/settings';
 import { recordAudit } from '../../audit/audit-log';
 
@@ -25,8 +26,9 @@ export async function analysisSettings(db: DataSource | EntityManager): Promise<
   return { current: all[0] ?? null, history: all.slice(1) };
 }
 
-/** The settings compared as a run reads them (the order of statuses does not matter). */
-const canonical = (s: SettingsUpdate) => JSON.stringify({ ...s, countedStatuses: [...s.countedStatuses].sort() });
+/** The settings compared as a run reads them (the order of statuses does not matter; no edges are ten-year bands). */
+const canonical = (s: RunSettings) =>
+  JSON.stringify({ personTimeBasis: s.personTimeBasis, per: s.per, confidence: s.confidence, countedStatuses: [...s.countedStatuses].sort(), ageBandEdges: ageBandEdgesOf(s) });
 
 /**
  * A change of the analysis settings: the next version, who and when, an audit line with before
@@ -39,7 +41,7 @@ export async function changeAnalysisSettings(ds: DataSource, p: Extract<Principa
     await em.query(`LOCK TABLE analysis_settings IN EXCLUSIVE MODE`);
     const { current } = await analysisSettings(em);
     const next = { ...body, countedStatuses: [...body.countedStatuses].sort() };
-    if (current && canonical(runSettingsSchema.parse(current.settings) as SettingsUpdate) === canonical(next)) {
+    if (current && canonical(current.settings) === canonical(next)) {
       return { current, changed: false, runRequested: false };
     }
     const version = (current?.version ?? 0) + 1;

@@ -20,7 +20,7 @@ export function SettingsForm({ current }: { current: RunSettings }) {
   const [statuses, setStatuses] = useState<CaseStatus[]>(current.countedStatuses);
   const [edges, setEdges] = useState((current.ageBandEdges ?? DECADE_AGE_BAND_EDGES).join(', '));
   const [errors, setErrors] = useState<Record<string, string>>({});
-  const levels = CONFIDENCE_LEVELS.includes(current.confidence as (typeof CONFIDENCE_LEVELS)[number]) ? [...CONFIDENCE_LEVELS] : [...CONFIDENCE_LEVELS, current.confidence].sort();
+  const levels = CONFIDENCE_LEVELS.includes(current.confidence as (typeof CONFIDENCE_LEVELS)[number]) ? [...CONFIDENCE_LEVELS] : [...CONFIDENCE_LEVELS, current.confidence].sort((a, b) => a - b);
   return (
     <form
       aria-label="Change the analysis settings"
