@@ -39,7 +39,11 @@ runMain(async () => {
   const empty = emptyFlag || settings.RATEWARDEN_EMPTY;
   if (empty) {
     if (await seedFirstAdministrator(ds, settings.FIRST_ADMIN_EMAIL)) say(`empty start: no demo data; first administrator ${settings.FIRST_ADMIN_EMAIL}`);
-  } else if (await seedDemo(ds)) say('demo scenario loaded (first run)');
+  } else {
+    // A database started empty keeps its first administrator and gets no demo data on a later plain start.
+    const [{ people }] = (await ds.query(`SELECT count(*)::int AS people FROM users`)) as [{ people: number }];
+    if (people === 0 && (await seedDemo(ds))) say('demo scenario loaded (first run)');
+  }
   await ds.destroy();
 
   buildWebIfStale(root);
