@@ -1,5 +1,5 @@
 import { join } from 'node:path';
-import { createDataSource, migrate, seedDemo, seedFirstAdministrator } from '@ratewarden/db';
+import { createDataSource, migrate, seedNewDatabase } from '@ratewarden/db';
 import { demoIntegrationClient, demoPeople } from '@ratewarden/db/seed/demo-access';
 import { DEMO_PASSWORD } from '@ratewarden/api/stand-ins/identity-provider/demo-accounts';
 import { say, runMain, SetupError } from './lib/log';
@@ -37,13 +37,9 @@ runMain(async () => {
   const ds = createDataSource(db.url, 1);
   await ds.initialize();
   const empty = emptyFlag || settings.RATEWARDEN_EMPTY;
-  if (empty) {
-    if (await seedFirstAdministrator(ds, settings.FIRST_ADMIN_EMAIL)) say(`empty start: no demo data; first administrator ${settings.FIRST_ADMIN_EMAIL}`);
-  } else {
-    // A database started empty keeps its first administrator and gets no demo data on a later plain start.
-    const [{ people }] = (await ds.query(`SELECT count(*)::int AS people FROM users`)) as [{ people: number }];
-    if (people === 0 && (await seedDemo(ds))) say('demo scenario loaded (first run)');
-  }
+  const seeded = await seedNewDatabase(ds, { empty, firstAdminEmail: settings.FIRST_ADMIN_EMAIL });
+  if (seeded === 'demo') say('demo scenario loaded (first run)');
+  if (seeded === 'first administrator') say(`empty start: no demo data; first administrator ${settings.FIRST_ADMIN_EMAIL}`);
   await ds.destroy();
 
   buildWebIfStale(root);

@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import { seedDemo } from './seed-demo';
 
 /**
  * An empty start (`npm start -- --empty`): no demo data, only the first administrator, so that
@@ -13,4 +14,15 @@ export async function seedFirstAdministrator(ds: DataSource, email: string, name
     await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, 'administrator')`, [email, name]);
     return true;
   });
+}
+
+/**
+ * What `npm start` writes into a new database: the demo scenario, or with `empty` the first
+ * administrator only. A database that has people already (one started empty whose administrator
+ * has not made a site yet) gets nothing on a later plain start. Returns what was written.
+ */
+export async function seedNewDatabase(ds: DataSource, options: { empty: boolean; firstAdminEmail: string }): Promise<'demo' | 'first administrator' | null> {
+  if (options.empty) return (await seedFirstAdministrator(ds, options.firstAdminEmail)) ? 'first administrator' : null;
+  const [{ people }] = (await ds.query(`SELECT count(*)::int AS people FROM users`)) as [{ people: number }];
+  return people === 0 && (await seedDemo(ds)) ? 'demo' : null;
 }
