@@ -1,5 +1,5 @@
 import { join } from 'node:path';
-import { createDataSource, migrate, seedDemo } from '@ratewarden/db';
+import { createDataSource, migrate, seedNewDatabase } from '@ratewarden/db';
 import { demoIntegrationClient, demoPeople } from '@ratewarden/db/seed/demo-access';
 import { DEMO_PASSWORD } from '@ratewarden/api/stand-ins/identity-provider/demo-accounts';
 import { say, runMain, SetupError } from './lib/log';
@@ -14,8 +14,11 @@ const root = join(import.meta.dirname, '..');
 /**
  * `npm start`: database, migrations, demo data on first run, web build, identity provider, SMTP
  * fake, API and worker. `npm run dev` (scripts/dev.ts) passes `--dev` to add Vite's dev server.
+ * `npm start -- --empty` (or RATEWARDEN_EMPTY=true) starts a new database without the demo data:
+ * only the first administrator (FIRST_ADMIN_EMAIL), whom the first-run page guides.
  */
 const dev = process.argv.includes('--dev');
+const emptyFlag = process.argv.includes('--empty');
 
 runMain(async () => {
   const settings = readSettings();
@@ -33,7 +36,10 @@ runMain(async () => {
   if (ran.length) say(`migrations applied: ${ran.join(', ')}`);
   const ds = createDataSource(db.url, 1);
   await ds.initialize();
-  if (await seedDemo(ds)) say('demo scenario loaded (first run)');
+  const empty = emptyFlag || settings.RATEWARDEN_EMPTY;
+  const seeded = await seedNewDatabase(ds, { empty, firstAdminEmail: settings.FIRST_ADMIN_EMAIL });
+  if (seeded === 'demo') say('demo scenario loaded (first run)');
+  if (seeded === 'first administrator') say(`empty start: no demo data; first administrator ${settings.FIRST_ADMIN_EMAIL}`);
   await ds.destroy();
 
   buildWebIfStale(root);
@@ -67,6 +73,7 @@ runMain(async () => {
     say('hot reload at http://127.0.0.1:5173/ (Vite, in front of the API)');
   }
   say(`Ratewarden is running at http://127.0.0.1:${settings.PORT}/  (Ctrl-C stops everything)`);
+  if (empty) say(`first steps for the administrator: http://127.0.0.1:${settings.PORT}/first-run`);
   if (!process.env.OIDC_ISSUER) {
     say(`demo accounts (password ${DEMO_PASSWORD}): ${demoPeople.map((p) => `${p.email} (${p.role})`).join(', ')}`);
     say(`demo integration client: ${demoIntegrationClient.clientId} / demo-secret, tokens from http://127.0.0.1:${settings.IDP_PORT}/token`);

@@ -5,3 +5,4 @@ export { rows } from './sql';
 export { readSitePeriods } from './reporting-periods';
 export * from './entities';
 export { seedDemo } from './seed/seed-demo';
+export { seedFirstAdministrator, seedNewDatabase } from './seed/first-administrator';

@@ -11,6 +11,7 @@ interface PeriodRow {
   corrected: boolean;
   closed_at: Date | null;
   closed_by: string | null;
+  retired: boolean;
 }
 
 /**
@@ -18,6 +19,7 @@ interface PeriodRow {
  * with what has been received and whether the hygienist closed it; the state itself is decided by
  * `periodStateOf` (shared/src/periods.ts). A case list reports its sites through `reports_through`.
  * A closed month is corrected when a roster or case list touching it was applied after it closed.
+ * A month after the one a site was retired in is marked `retired` (the site is not expected then).
  */
 export async function readSitePeriods(db: DataSource | EntityManager, opts: { through?: string | null; siteIds?: number[] | null } = {}): Promise<SitePeriod[]> {
   const found = await rows<PeriodRow>(db, `
@@ -40,7 +42,8 @@ export async function readSitePeriods(db: DataSource | EntityManager, opts: { th
              OR EXISTS (SELECT 1 FROM intakes ci WHERE ci.kind = 'cases' AND ci.state IN ('applied', 'superseded') AND ci.applied_at > c.at
                           AND s.id = ANY(ci.site_ids) AND m.month BETWEEN ci.month_from AND ci.month_to)) AS corrected,
            CASE WHEN c.action = 'close' THEN c.at END AS closed_at,
-           CASE WHEN c.action = 'close' THEN u.name END AS closed_by
+           CASE WHEN c.action = 'close' THEN u.name END AS closed_by,
+           coalesce(m.month > date_trunc('month', s.retired_at)::date, false) AS retired
     FROM sites s CROSS JOIN months m
     LEFT JOIN roster_slices rs ON rs.site_id = s.id AND rs.month = m.month
     LEFT JOIN intakes ri ON ri.id = rs.intake_id
@@ -57,5 +60,6 @@ export async function readSitePeriods(db: DataSource | EntityManager, opts: { th
     correctedAfterClose: r.corrected === true,
     closedAt: r.closed_at ? r.closed_at.toISOString() : null,
     closedBy: r.closed_by,
+    retired: r.retired,
   }));
 }

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { createDataSource } from '@ratewarden/db';
 import { readWorkerConfig } from '@ratewarden/worker/config';
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { applyAggregationSettings, CELLS_SQL } from '@ratewarden/worker/runs/cells-query';
 import { stopComputePool } from '@ratewarden/worker/runs/compute-pool';
 import { performRun, type PerformRunOptions } from '@ratewarden/worker/runs/perform-run';
@@ -56,7 +57,7 @@ export async function benchRun(databaseUrl: string, log: (line: string) => void 
       ds.transaction(async (em) => {
         await applyAggregationSettings(em);
         const t = performance.now();
-        await em.query(CELLS_SQL, [settings.countedStatuses]);
+        await em.query(CELLS_SQL, [settings.countedStatuses, ageBandEdgesOf(settings)]);
         return (performance.now() - t) / 1000;
       });
     const timeRun = (reason: string) => timedBenchRun(ds, reason);

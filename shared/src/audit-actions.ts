@@ -37,6 +37,11 @@ export const auditActionLabels: Record<string, string> = {
   'rule.update': 'Changed a watch rule',
   'rule.delete': 'Deleted a watch rule',
   'run.request': 'Asked for a run',
+  'settings.change': 'Changed the analysis settings',
+  'site.create': 'Created a site',
+  'site.rename': 'Renamed a site',
+  'site.retire': 'Retired a site',
+  'site.reinstate': 'Reinstated a retired site',
   'user.provisioned': 'Added a person',
   'user.access_changed': "Changed a person's access",
 };
@@ -57,6 +62,8 @@ export const auditTargetKinds: Record<string, string> = {
   period: 'reporting month',
   run: 'run',
   run_request: 'run request',
+  settings: 'analysis settings version',
+  site: 'site',
   watch_rule: 'watch rule',
 };
 

@@ -62,8 +62,27 @@ export type OutcomeCreate = z.infer<typeof outcomeCreateSchema>;
 export const outcomeUpdateSchema = patchSchemaOf(outcomeCreateSchema.omit({ code: true }));
 export type OutcomeUpdate = z.infer<typeof outcomeUpdateSchema>;
 
-export const siteSchema = z.object({ id: z.number().int(), code: z.string(), name: z.string(), region: z.string().nullable() });
+export const siteSchema = z.object({
+  id: z.number().int(),
+  code: z.string(),
+  name: z.string(),
+  region: z.string().nullable(),
+  /** When the administrator retired it (ISO); null while active. A retired site keeps its history. */
+  retiredAt: z.string().nullable(),
+});
 export type SiteDto = z.infer<typeof siteSchema>;
+
+/** POST /api/sites (the administrator): the code appears in every roster and case file. */
+export const siteCreateSchema = z.strictObject({
+  code: configCodeSchema,
+  name: z.string().trim().min(1).max(200),
+  region: z.string().trim().max(200).nullable().default(null),
+});
+export type SiteCreate = z.infer<typeof siteCreateSchema>;
+
+/** PATCH /api/sites/:id: rename (the code stays: files already use it). */
+export const siteUpdateSchema = patchSchemaOf(siteCreateSchema.omit({ code: true }));
+export type SiteUpdate = z.infer<typeof siteUpdateSchema>;
 
 /** One change of a group or outcome, from the audit log: who, when, before and after. */
 export const configChangeSchema = z.object({

@@ -78,4 +78,18 @@ describe('latest complete month', () => {
     ]);
     expect(c.monthComplete('2025-03-01')).toBe(false);
   });
+
+  it('does not expect a retired site after its retirement, and keeps the months it was expected in', () => {
+    // Site 2 rostered in June and July, retired in July: August is complete with site 1 alone.
+    const b = new PeriodBook([
+      { siteId: 1, month: '2025-07-01', state: 'ready' }, { siteId: 2, month: '2025-07-01', state: 'hours_in' },
+      { siteId: 1, month: '2025-08-01', state: 'ready' }, { siteId: 2, month: '2025-08-01', state: 'awaiting', retired: true },
+    ]);
+    expect(b.expectedSites('2025-08-01')).toEqual([1]);
+    expect(b.monthComplete('2025-08-01')).toBe(true);
+    expect(b.monthComplete('2025-07-01')).toBe(false);
+    expect(b.windowComplete('rolling12', '2025-08-01')).toBe(false);
+    // Without the retirement, site 2 would still be expected in August.
+    expect(new PeriodBook([{ siteId: 1, month: '2025-08-01', state: 'ready' }, { siteId: 2, month: '2025-07-01', state: 'hours_in' }, { siteId: 2, month: '2025-08-01', state: 'awaiting' }]).monthComplete('2025-08-01')).toBe(false);
+  });
 });

@@ -16,7 +16,8 @@ import { z } from 'zod';
  * those sites counts as reported too, because a case list is cumulative.
  *
  * Complete: `ready` or `closed`. A site is expected in a month when it had a roster in the 12
- * months ending there. A company-wide month is complete when every expected site's month is; a window (rolling 12 months) is complete when each of its months is. This file is the
+ * months ending there and had not been retired before that month (a retired site keeps its
+ * history: the months it was expected in still count). A company-wide month is complete when every expected site's month is; a window (rolling 12 months) is complete when each of its months is. This file is the
  * one statement of these rules: the worker (watch rules), the API (results) and the web app
  * (calendar, labels) all use it.
  */
@@ -67,6 +68,8 @@ export const sitePeriodSchema = z.object({
   correctedAfterClose: z.boolean(),
   closedAt: z.string().nullable(),
   closedBy: z.string().nullable(),
+  /** The site was retired before this month (an administrator's decision): it is not expected to report it. */
+  retired: z.boolean().optional(),
 });
 export type SitePeriod = z.infer<typeof sitePeriodSchema>;
 
@@ -96,14 +99,19 @@ export function windowMonths(windowKind: 'month' | 'rolling12', period: string):
 export class PeriodBook {
   private readonly bySiteMonth = new Map<string, PeriodState>();
   private readonly rostered = new Set<string>();
+  private readonly retired = new Set<string>();
   private readonly sites: number[];
 
-  /** `roster` may be left out (runs stored before it was recorded): then the state alone decides. */
-  constructor(states: Array<Pick<SitePeriod, 'siteId' | 'month' | 'state'> & { roster?: boolean | null }>) {
+  /**
+   * `roster` may be left out (runs stored before it was recorded): then the state alone decides.
+   * `retired` marks the months after a site's retirement (left out: not retired).
+   */
+  constructor(states: Array<Pick<SitePeriod, 'siteId' | 'month' | 'state'> & { roster?: boolean | null; retired?: boolean | null }>) {
     for (const s of states) {
       const key = `${s.siteId}|${s.month}`;
       this.bySiteMonth.set(key, s.state);
       if (hasRoster(s.state, s.roster)) this.rostered.add(key);
+      if (s.retired) this.retired.add(key);
     }
     this.sites = [...new Set(states.map((s) => s.siteId))].sort((a, b) => a - b);
   }
@@ -114,10 +122,16 @@ export class PeriodBook {
 
   /**
    * Sites expected to report `month`: those with a roster in the 12 months ending there (a case
-   * list alone does not make a site active: a company-wide list names every site).
+   * list alone does not make a site active: a company-wide list names every site), unless retired
+   * before that month.
    */
   expectedSites(month: string, among: readonly number[] = this.sites): number[] {
-    return among.filter((s) => windowMonths('rolling12', month).some((m) => this.rostered.has(`${s}|${m}`)));
+    return among.filter((s) => !this.retired.has(`${s}|${month}`) && windowMonths('rolling12', month).some((m) => this.rostered.has(`${s}|${m}`)));
+  }
+
+  /** Whether a site was retired before `month`. */
+  isRetired(siteId: number, month: string): boolean {
+    return this.retired.has(`${siteId}|${month}`);
   }
 
   /** A month of a scope (null: the company; else these sites) is complete when each expected site's month is. */

@@ -26,6 +26,11 @@ export const rolePermissions = {
   // Counts of 1 to SMALL_CELL_THRESHOLD − 1 cases, shown to these roles and withheld from every other (app and notices).
   'counts:small': ['physician'],
   'cases:review': ['physician'],
+  // Analysis settings (basis, multiplier, confidence, counted statuses, age bands): everyone reads
+  // the version their figures were computed with; the administrator and the hygienist change them.
+  'settings:read': ['hygienist', 'safety_manager', 'physician', 'administrator'],
+  'settings:write': ['hygienist', 'administrator'],
+  'sites:manage': ['administrator'],
   'users:manage': ['administrator'],
   'clients:manage': ['administrator'],
   'audit:read': ['administrator'],

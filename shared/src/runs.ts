@@ -19,11 +19,26 @@ export const jsonNumberSchema = z.union([z.number(), z.literal('Infinity'), z.li
 export const personTimeBasisSchema = z.enum(['person_years', 'hours_200k']);
 export type PersonTimeBasis = z.infer<typeof personTimeBasisSchema>;
 
+/** Ten-year bands (0–9, 10–19, … 90 and over): the bands of runs before the edges were a setting. */
+export const DECADE_AGE_BAND_EDGES: readonly number[] = [10, 20, 30, 40, 50, 60, 70, 80, 90];
+
+/**
+ * Lower edges of the age bands after the first: with edges 18, 25, 65 the bands are under 18,
+ * 18–24, 25–64 and 65 and over. Any increasing list of whole years (shared/src/age-bands.ts).
+ */
+export const ageBandEdgesSchema = z
+  .array(z.number().int().min(1).max(120))
+  .min(1)
+  .max(30)
+  .refine((e) => e.every((x, i) => i === 0 || x > e[i - 1]!), 'age band edges must increase');
+
 export const runSettingsSchema = z.object({
   personTimeBasis: personTimeBasisSchema.default('person_years'),
   per: z.number().positive().default(1000),
   confidence: z.number().gt(0).lt(1).default(0.95),
   countedStatuses: z.array(caseStatusSchema).min(1).default(['confirmed']),
+  /** Absent (runs before the edges were a setting, callers that do not choose): ten-year bands. */
+  ageBandEdges: ageBandEdgesSchema.optional(),
 });
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 
@@ -51,6 +66,8 @@ export const runSummarySchema = z.object({
   finishedAt: z.string().nullable(),
   error: z.string().nullable(),
   codeVersion: z.string(),
+  /** The version of the analysis settings the run used (null for runs before settings had versions). */
+  settingsVersion: z.number().int().nullable(),
   resultCount: z.number().int().nullable(),
 });
 export type RunSummary = z.infer<typeof runSummarySchema>;

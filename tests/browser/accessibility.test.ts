@@ -71,7 +71,7 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   const pages = (flagId: string, outcome: number) => [
     '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
-    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload', `/sir?outcomeId=${outcome}`,
+    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload', `/sir?outcomeId=${outcome}`, '/settings',
   ];
 
   it('as the hygienist, on every page', async () => {
@@ -84,13 +84,13 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {
     expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`, '/sir'])).toEqual([]);
-    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'])).toEqual([]);
+    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'])).toEqual([]);
   });
 
   it('at phone size (390×844), every page of the hygienist and the administrator, and the opened menu', async () => {
     const phone = { width: 390, height: 844 };
     expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!), phone)).toEqual([]);
-    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox'], phone)).toEqual([]);
+    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'], phone)).toEqual([]);
     const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
     await page.setViewportSize(phone);
     await page.goto(`${h.app.baseUrl}/overview`, { waitUntil: 'networkidle' });

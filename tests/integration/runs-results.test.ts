@@ -75,11 +75,14 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
 
   it('switches the current pointer to the new run and records its inputs, settings and code version', async () => {
     expect(await currentRunId(ds)).toBe(runId);
-    const [run] = (await ds.query(`SELECT state, inputs, settings, code_version FROM runs WHERE id = $1`, [runId])) as Array<Record<string, any>>;
+    const [run] = (await ds.query(`SELECT state, inputs, settings, settings_version, code_version FROM runs WHERE id = $1`, [runId])) as Array<Record<string, any>>;
     expect(run!.state).toBe('succeeded');
     expect(run!.inputs.rosterIntakeIds).toContain(c.rosterIntake);
     expect(run!.inputs.caseIntakeIds).toContain(c.casesIntake);
-    expect(run!.settings).toEqual(settings);
+    // The current version of the analysis settings, written whole (these settings, ten-year age bands), and its number.
+    expect(run!.settings).toEqual({ ...settings, ageBandEdges: [10, 20, 30, 40, 50, 60, 70, 80, 90] });
+    const [current] = (await ds.query(`SELECT max(version) AS v FROM analysis_settings`)) as Array<{ v: number }>;
+    expect(run!.settings_version).toBe(current!.v);
     expect(run!.code_version).toMatch(/^\d+\.\d+\.\d+\+computation\.\d+$/);
   });
 

@@ -1,9 +1,13 @@
 import cron from 'node-cron';
 import { z } from 'zod';
 import { caseStatusSchema, type CaseStatus } from '@ratewarden/shared/intake';
-import { personTimeBasisSchema } from '@ratewarden/shared/runs';
+import { ageBandEdgesSchema, DECADE_AGE_BAND_EDGES, personTimeBasisSchema } from '@ratewarden/shared/runs';
 
-/** Worker settings, parsed once at start. */
+/**
+ * Worker settings, parsed once at start. The RUN_* analysis settings (basis, multiplier,
+ * confidence, counted statuses, age band edges) only seed a new database: once a version of the
+ * analysis settings exists (the settings page), runs use it (runs/analysis-settings.ts).
+ */
 const schema = z.object({
   RUN_SCHEDULE: z
     .string()
@@ -29,6 +33,18 @@ const schema = z.object({
       return parsed.data;
     })
     .describe('case statuses a run counts, comma-separated'),
+  RUN_AGE_BAND_EDGES: z
+    .string()
+    .default(DECADE_AGE_BAND_EDGES.join(','))
+    .transform((s, ctx): number[] => {
+      const parsed = ageBandEdgesSchema.safeParse(s.split(',').map((x) => x.trim()).filter(Boolean).map(Number));
+      if (!parsed.success) {
+        ctx.addIssue({ code: 'custom', message: 'RUN_AGE_BAND_EDGES must be an increasing list of whole years, e.g. 18,25,35,45,55,65' });
+        return z.NEVER;
+      }
+      return parsed.data;
+    })
+    .describe('lower edges of the age bands after the first, comma-separated (default 10,20,…,90: ten-year bands)'),
   SMALL_CELL_THRESHOLD: z.coerce.number().int().min(3).default(5).describe('in notices to anyone but a physician, case counts below this are withheld with the figures computed from them (as in the app)'),
   SMTP_HOST: z.string().default('127.0.0.1').describe('SMTP server the notices go to (the local fake in development)'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525).describe('port of the SMTP server'),

@@ -6,6 +6,7 @@ import { createTransport, sendDueNotices, type SenderSettings } from './notices/
 import { describeOutcome } from './runs/describe-outcome';
 import { nightlyRun } from './runs/nightly-run';
 import { runIfRequested } from './runs/request-poller';
+import { currentAnalysisSettings } from './runs/analysis-settings';
 import { runSettingsOf } from './runs/run-settings';
 import { startSchedule } from './schedule';
 
@@ -15,6 +16,9 @@ const dataSource = createDataSource(undefined, 3);
 await dataSource.initialize();
 console.log('connected to the database');
 const settings = runSettingsOf(config);
+// A new database takes the environment's analysis settings as version 1; later runs use the current version.
+const seeded = await currentAnalysisSettings(dataSource, settings);
+console.log(`analysis settings: version ${seeded.version}`);
 
 const task = startSchedule(config, async () => {
   console.log(describeOutcome(await nightlyRun(dataSource, config, settings)));

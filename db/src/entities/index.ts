@@ -28,10 +28,11 @@ import { FlagNoteEntity } from './flag-note';
 import { IntakeCaseConflictEntity } from './intake-case-conflict';
 import { ReferenceRateTableEntity } from './reference-rate-table';
 import { ReferenceRateEntity } from './reference-rate';
+import { AnalysisSettingsEntity } from './analysis-settings';
 
 export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
   IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity, ReferenceRateTableEntity, ReferenceRateEntity];
+  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity, ReferenceRateTableEntity, ReferenceRateEntity, AnalysisSettingsEntity];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -66,3 +67,4 @@ export { AudiogramEntity };
 export type { ReferenceRateTable } from './reference-rate-table';
 export type { ReferenceRate } from './reference-rate';
 export { ReferenceRateTableEntity, ReferenceRateEntity };
+export type { AnalysisSettingsRow } from './analysis-settings';

@@ -9,6 +9,8 @@ export interface RunPeriod {
   state: PeriodState;
   /** The month's roster was in (null for runs stored before it was recorded). */
   roster: boolean | null;
+  /** The site had been retired before this month (not expected to report it). */
+  retired: boolean;
 }
 
 export const RunPeriodEntity = new EntitySchema<RunPeriod>({
@@ -20,6 +22,7 @@ export const RunPeriodEntity = new EntitySchema<RunPeriod>({
     month: { type: 'date', primary: true },
     state: { type: 'text' },
     roster: { type: 'boolean', nullable: true },
+    retired: { type: 'boolean', default: false },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [

@@ -13,6 +13,8 @@ export interface Run {
   error: string | null;
   inputs: RunInputs;
   settings: RunSettings;
+  /** The version of the analysis settings the run used (null for runs before versions). */
+  settingsVersion: number | null;
   codeVersion: string;
   /** host:pid of the process that ran it. */
   worker: string;
@@ -35,6 +37,7 @@ export const RunEntity = new EntitySchema<Run>({
     error: { type: 'text', nullable: true },
     inputs: { type: 'jsonb', default: () => "'{}'" },
     settings: { type: 'jsonb' },
+    settingsVersion: { name: 'settings_version', type: 'integer', nullable: true },
     codeVersion: { name: 'code_version', type: 'text' },
     worker: { type: 'text' },
     summary: { type: 'jsonb', default: () => "'{}'" },
@@ -47,5 +50,8 @@ export const RunEntity = new EntitySchema<Run>({
   ],
   indices: [
     { name: 'runs_started', columns: ['startedAt'] },
+  ],
+  foreignKeys: [
+    { name: 'runs_settings_version_fkey', target: 'AnalysisSettings', columnNames: ['settings_version'], referencedColumnNames: ['version'] },
   ],
 });

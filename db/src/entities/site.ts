@@ -7,6 +7,8 @@ export interface Site extends Timestamps {
   code: string;
   name: string;
   region: string | null;
+  /** When the administrator retired it: it keeps its history, and reports no month after this one. */
+  retiredAt: Date | null;
 }
 
 export const SiteEntity = new EntitySchema<Site>({
@@ -17,6 +19,7 @@ export const SiteEntity = new EntitySchema<Site>({
     code: { type: 'text', unique: true },
     name: { type: 'text' },
     region: { type: 'text', nullable: true },
+    retiredAt: { name: 'retired_at', type: 'timestamptz', nullable: true },
     ...timestampColumns,
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).

@@ -16,7 +16,9 @@ import type { UnattributedReason } from '@ratewarden/shared/unattributed';
  * - A case is attributed to one roster row with hours (the one with most hours when a worker is
  *   on two sites' rosters in a month); a case with no such row matches no cell and is counted
  *   apart as unattributed, with its reason (UNATTRIBUTED_SQL).
- * - Age band: 10-year bands of (calendar year of the month − birth year); null when unknown.
+ * - Age band of (calendar year of the month − birth year), by the run's age band edges ($2, an
+ *   increasing list): stored by its lower bound, 0 under the first edge (shared/src/age-bands.ts);
+ *   null when the birth year is unknown.
  */
 const SHIFT = (col: string) => `(${col} + make_interval(months => o.lag_months))::date`;
 
@@ -106,7 +108,7 @@ export const CELLS_SQL = `
   WITH ${FINE_CTES}
   SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id,
          CASE WHEN birth_year IS NULL THEN NULL
-              ELSE (floor((extract(year FROM month) - birth_year) / 10) * 10)::int END AS age_band,
+              ELSE coalesce(($2::int[])[nullif(width_bucket((extract(year FROM month) - birth_year)::int, $2::int[]), 0)], 0) END AS age_band,
          sex, sum(hours)::text AS hours, sum(cases)::int AS cases
   FROM fine
   GROUP BY 1, 2, 3, 4, 5, 6
@@ -199,8 +201,8 @@ interface CellRow {
 }
 
 /** Runs the aggregation and returns its cells. */
-export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[]): Promise<Cell[]> {
-  const rows: CellRow[] = await q.query(CELLS_SQL, [countedStatuses]);
+export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[], ageBandEdges: readonly number[]): Promise<Cell[]> {
+  const rows: CellRow[] = await q.query(CELLS_SQL, [countedStatuses, ageBandEdges]);
   return rows.map((r) => ({
     outcomeId: r.outcome_id,
     month: r.month,

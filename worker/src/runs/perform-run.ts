@@ -3,6 +3,7 @@ import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
 import { toJsonValue } from '@ratewarden/shared/stats';
 import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import { refreshPlannerStatistics } from '@ratewarden/db/planner-statistics';
@@ -11,6 +12,7 @@ import { storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
 import type { RuleToEvaluate } from '../rules/evaluate-rules';
 import { ruleSites, ruleVerdicts } from '../rules/rule-verdicts';
+import { currentAnalysisSettings } from './analysis-settings';
 import { applyAggregationSettings, loadCaseTotals, loadCells, loadUnattributed } from './cells-query';
 import { RUN_CODE_VERSION } from './code-version';
 import { computeAll, stopComputePool, warmComputePool } from './compute-pool';
@@ -26,6 +28,10 @@ import { storeSir } from './store-sir';
 export interface PerformRunOptions {
   trigger: RunTrigger;
   reason?: string;
+  /**
+   * The analysis settings of a new database (the worker's environment): a run uses the current
+   * version of the settings (analysis-settings.ts), and these become version 1 when there is none.
+   */
   settings: RunSettings;
   /** Address of the web app, for the sign-in link in notices. */
   appUrl: string;
@@ -95,9 +101,10 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
   const reason = options.reason ?? (requests.length ? requests.map((r) => r.reason).join('; ').slice(0, 500) : null);
   const started = performance.now();
   const threshold = options.smallCellThreshold ?? DEFAULT_SMALL_CELL_THRESHOLD;
+  const { version: settingsVersion, settings } = await currentAnalysisSettings(qr, options.settings);
   const [run]: Array<{ id: string }> = await qr.query(
-    `INSERT INTO runs (trigger, reason, settings, code_version, worker, inputs) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`,
-    [options.trigger, reason, JSON.stringify(options.settings), RUN_CODE_VERSION, `${hostname()}:${process.pid}`, JSON.stringify({ requestIds })],
+    `INSERT INTO runs (trigger, reason, settings, settings_version, code_version, worker, inputs) VALUES ($1, $2, $3, $4, $5, $6, $7) RETURNING id`,
+    [options.trigger, reason, JSON.stringify(settings), settingsVersion, RUN_CODE_VERSION, `${hostname()}:${process.pid}`, JSON.stringify({ requestIds })],
   );
   const runId = run!.id;
   const markPicked = (em: EntityManager | QueryRunner) =>
@@ -108,7 +115,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
     // Fresher statistics are a help, not a condition: a run goes on without them.
     const analyzed = await refreshPlannerStatistics((sql, params) => qr.query(sql, params)).catch((err: unknown) => [`not analyzed: ${err instanceof Error ? err.message : String(err)}`]);
     const t0 = performance.now();
-    const snapshot = await readSnapshot(qr, options.settings);
+    const snapshot = await readSnapshot(qr, settings);
     const t1 = performance.now();
     const inputs: RunInputs = { ...snapshot.inputs, requestIds };
 
@@ -120,7 +127,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       // (one COPY each, on the transaction's connection), so storing overlaps computing.
       let writer: Awaited<ReturnType<typeof openResultWriter>> | null = null;
       const early: string[] = [];
-      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, options.settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)), ruleSites(snapshot.rules));
+      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)), ruleSites(snapshot.rules));
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
       // The disclosure frame needs the cells only: decided here while the threads compute.
       const frame = disclosureFrame(snapshot.cells, threshold);
@@ -166,7 +173,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
          ON CONFLICT (singleton) DO UPDATE SET run_id = EXCLUDED.run_id, switched_at = EXCLUDED.switched_at`,
         [runId],
       );
-      flags = await applyVerdicts(em, runId, options.settings, options.appUrl, snapshot.ruleInfo, verdicts, threshold);
+      flags = await applyVerdicts(em, runId, settings, options.appUrl, snapshot.ruleInfo, verdicts, threshold);
       await markPicked(em);
       const seconds = (performance.now() - started) / 1000;
       await em.query(
@@ -211,7 +218,7 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(`SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`);
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
-    const cells = await loadCells(qr, settings.countedStatuses);
+    const cells = await loadCells(qr, settings.countedStatuses, ageBandEdgesOf(settings));
     const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
     const unattributed = await loadUnattributed(qr, settings.countedStatuses);
     const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { exposureGroupCreateSchema, exposureGroupUpdateSchema, exposureLevelsSchema, outcomeCreateSchema, outcomeUpdateSchema } from '@ratewarden/shared/groups';
 import { authorize } from '../../auth/authorize';
 import {
-  configHistory, createGroup, createOutcome, listGroups, listOutcomes, listSites, setExposureLevels, setReferenceGroup, updateGroup, updateOutcome,
+  configHistory, createGroup, createOutcome, listGroups, listOutcomes, setExposureLevels, setReferenceGroup, updateGroup, updateOutcome,
 } from './groups-service';
 
 export interface GroupsRouterDeps {
@@ -13,13 +13,9 @@ export interface GroupsRouterDeps {
 
 const idParam = z.coerce.number().int().positive();
 
-/** Sites (read), exposure groups and outcomes (the hygienist edits them); mounted at /api. */
+/** Exposure groups and outcomes (the hygienist edits them); mounted at /api. */
 export function groupsRouter({ dataSource: ds }: GroupsRouterDeps): Router {
   const router = Router();
-  router.get('/sites', authorize('config:read'), async (_req, res) => {
-    res.json(await listSites(ds));
-  });
-
   router.get('/groups', authorize('config:read'), async (_req, res) => {
     res.json(await listGroups(ds));
   });

@@ -1,6 +1,6 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type {
-  ConfigChange, ExposureGroupCreate, ExposureGroupDto, ExposureGroupUpdate, OutcomeCreate, OutcomeDto, OutcomeUpdate, SiteDto,
+  ConfigChange, ExposureGroupCreate, ExposureGroupDto, ExposureGroupUpdate, OutcomeCreate, OutcomeDto, OutcomeUpdate,
 } from '@ratewarden/shared/groups';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
@@ -13,10 +13,6 @@ const outcomeCols = `id, code, name, case_definition AS "caseDefinition", counti
 
 type Row<T> = Omit<T, 'updatedAt'> & { updatedAt: Date | string };
 const dto = <T extends { updatedAt: string }>(r: Row<T>): T => ({ ...r, updatedAt: new Date(r.updatedAt).toISOString() }) as T;
-
-export async function listSites(ds: DataSource): Promise<SiteDto[]> {
-  return ds.query(`SELECT id, code, name, region FROM sites ORDER BY code`);
-}
 
 export async function listGroups(db: DataSource | EntityManager): Promise<ExposureGroupDto[]> {
   const rows: Row<ExposureGroupDto>[] = await db.query(`SELECT ${groupCols} FROM exposure_groups ORDER BY exposure_level NULLS LAST, code`);

@@ -14,11 +14,11 @@ import { RunMemo } from '../../lib/run-memo';
  */
 export function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
   return books.get(runId, async () => {
-    const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null }> = await ds.query(
-      `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster FROM run_periods WHERE run_id = $1`,
+    const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null; retired: boolean }> = await ds.query(
+      `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster, retired FROM run_periods WHERE run_id = $1`,
       [runId],
     );
-    return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster })));
+    return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster, retired: r.retired })));
   });
 }
 

@@ -1,5 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { Withheld } from '@ratewarden/shared/small-cells';
+import { ageBandEdgesOf, ageBandLabel } from '@ratewarden/shared/age-bands';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
 import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
@@ -58,7 +59,7 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     arms.set(k, m);
   }
   const siteNames = q.by === 'site' ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name])) : null;
-  const label = (k: string) => (k === '' ? 'not recorded' : q.by === 'age' ? `${k}–${Number(k) + 9}` : q.by === 'site' ? (siteNames!.get(k) ?? `site ${k}`) : (sexLabels[k] ?? k));
+  const label = (k: string) => (k === '' ? 'not recorded' : q.by === 'age' ? ageBandLabel(Number(k), ageBandEdgesOf(run.settings as RunSettings)) : q.by === 'site' ? (siteNames!.get(k) ?? `site ${k}`) : (sexLabels[k] ?? k));
   const keys = [...arms.keys()].sort((a, b) => {
     if (a === '' || b === '') return a === '' ? 1 : -1; // unknown last
     return q.by === 'age' ? Number(a) - Number(b) : label(a).localeCompare(label(b));

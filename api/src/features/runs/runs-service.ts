@@ -13,7 +13,7 @@ import { completenessOf, runPeriodBook } from './run-periods';
 type Row = Record<string, any>;
 
 const runCols = `r.id, r.number, r.trigger, r.reason, r.state, r.started_at, r.finished_at, r.error, r.code_version,
-  r.inputs, r.settings, r.worker, r.summary, (cr.run_id IS NOT NULL) AS is_current`;
+  r.inputs, r.settings, r.settings_version, r.worker, r.summary, (cr.run_id IS NOT NULL) AS is_current`;
 const runFrom = `runs r LEFT JOIN current_run cr ON cr.run_id = r.id`;
 
 const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
@@ -30,6 +30,7 @@ function summaryOf(r: Row): RunSummary {
     finishedAt: iso(r.finished_at),
     error: r.error,
     codeVersion: r.code_version,
+    settingsVersion: r.settings_version ?? null,
     resultCount: typeof r.summary?.results === 'number' ? r.summary.results : null,
   };
 }
@@ -61,8 +62,8 @@ export async function runAsSeenBy(ds: DataSource, run: RunDetail, reader: Result
 
 /** The summary fields of a run's detail only (its `summary` holds figures a reader may not see). */
 function summaryPart(d: RunDetail): RunSummary {
-  const { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, resultCount } = d;
-  return { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, resultCount };
+  const { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, settingsVersion, resultCount } = d;
+  return { id, number, trigger, reason, state, isCurrent, startedAt, finishedAt, error, codeVersion, settingsVersion, resultCount };
 }
 
 export async function listRuns(ds: DataSource, limit = 100): Promise<RunSummary[]> {

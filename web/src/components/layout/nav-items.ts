@@ -29,6 +29,8 @@ export const navItems: NavItem[] = [
   { to: paths.groups, label: 'Exposure groups', permission: 'groups:write' },
   { to: paths.outcomes, label: 'Outcomes', permission: 'groups:write' },
   { to: paths.adHoc, label: 'Ad hoc comparison', permission: null },
+  { to: paths.settings, label: 'Analysis settings', permission: 'settings:read' },
+  { to: paths.sites, label: 'Sites', permission: 'sites:manage' },
   { to: paths.admin, label: 'Administration', permission: 'users:manage' },
   { to: paths.mailbox, label: 'Mailbox', permission: 'mailbox:read' },
 ];

@@ -8,6 +8,8 @@ export interface UnitsSettings {
   confidence: number;
   /** Names of the interval methods in use. */
   intervalMethod: string;
+  /** The version of the analysis settings the run used (null: a run before versions; absent: not a run's figures). */
+  settingsVersion?: number | null;
 }
 
 export function UnitsStrip({ settings }: { settings: UnitsSettings }) {
@@ -16,6 +18,7 @@ export function UnitsStrip({ settings }: { settings: UnitsSettings }) {
     ['Rates', settings.multiplier],
     ['Confidence level', `${formatConfidence(settings.confidence)}`],
     ['Intervals', settings.intervalMethod],
+    ...(settings.settingsVersion === undefined ? [] : [['Analysis settings', settings.settingsVersion === null ? 'before versions' : `version ${settings.settingsVersion}`] as [string, string]]),
   ];
   return (
     <dl aria-label="Units and settings" className="units-strip flex flex-wrap gap-x-6 gap-y-1 border-y border-line bg-surface px-3 py-2 text-sm">

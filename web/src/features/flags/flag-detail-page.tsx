@@ -65,7 +65,7 @@ export function FlagDetailPage({ id, user }: { id: string; user: SessionUser }) 
         </div>
       )}
       <div className="mt-4">
-        {run.data && <UnitsStrip settings={{ basis: f.personTimeBasis === 'person_years' ? 'person-years (2,000 h = 1 person-year)' : 'units of 200,000 hours worked', multiplier: perText, confidence: run.data.settings.confidence, intervalMethod: f.measure === 'ird' ? 'Wald' : f.measure === 'rate' ? 'exact Poisson' : 'exact conditional' }} />}
+        {run.data && <UnitsStrip settings={{ basis: f.personTimeBasis === 'person_years' ? 'person-years (2,000 h = 1 person-year)' : 'units of 200,000 hours worked', multiplier: perText, confidence: run.data.settings.confidence, settingsVersion: run.data.settingsVersion, intervalMethod: f.measure === 'ird' ? 'Wald' : f.measure === 'rate' ? 'exact Poisson' : 'exact conditional' }} />}
       </div>
       <ResultTable
         caption="The numbers that triggered the flag (latest run)"

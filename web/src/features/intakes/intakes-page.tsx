@@ -7,6 +7,7 @@ import { DataTable } from '../../components/table/data-table';
 import { paths } from '../../config/paths';
 import { formatCount } from '../../lib/format';
 import { useIntakes } from './api/get-intakes';
+import { IntakeFormats } from './intake-formats';
 import { IntakeStateBadge } from './intake-state-badge';
 import { UploadPanel } from './upload-panel';
 
@@ -40,6 +41,7 @@ export function IntakesPage({ user }: { user: SessionUser }) {
         </div>
       )}
       <DataTable caption={`Intake history (${formatCount(data.total)})`} columns={columns} data={data.items} exportName="intakes" rowHeader="fileName" />
+      <IntakeFormats />
     </section>
   );
 }

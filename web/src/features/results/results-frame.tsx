@@ -144,7 +144,7 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
         {extraControls?.({ filters, setFilters, groups })}
       </form>
       <div className="mt-3">
-        <UnitsStrip settings={unitsOf(run.settings)} />
+        <UnitsStrip settings={unitsOf(run.settings, run.settingsVersion)} />
         <p className="mt-1 text-xs text-ink-soft">
           Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
           {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : sitesTogether(sites.map((s) => s.name))}

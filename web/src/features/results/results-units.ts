@@ -14,8 +14,9 @@ export function personTimeUnit(s: Pick<RunSettings, 'personTimeBasis'>): string 
   return s.personTimeBasis === 'person_years' ? 'person-years' : 'units of 200,000 h';
 }
 
-export function unitsOf(s: RunSettings): UnitsSettings {
+export function unitsOf(s: RunSettings, settingsVersion: number | null): UnitsSettings {
   return {
+    settingsVersion,
     basis: s.personTimeBasis === 'person_years' ? 'person-years (2,000 h worked = 1 person-year)' : 'hours worked, in units of 200,000 h (100 full-time workers for a year)',
     multiplier: rateUnit(s),
     confidence: s.confidence,

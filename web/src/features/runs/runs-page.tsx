@@ -38,6 +38,7 @@ const columns = [
   }),
   col.accessor((r) => (r.finishedAt ? new Date(r.finishedAt).getTime() - new Date(r.startedAt).getTime() : -1), { id: 'duration', header: 'Duration', cell: (c) => formatDuration(c.row.original.startedAt, c.row.original.finishedAt), meta: { numeric: true, csv: (r) => formatDuration(r.startedAt, r.finishedAt) } }),
   col.accessor('state', { header: 'Outcome', cell: (c) => <StateTag text={c.getValue()} tone={stateTone[c.getValue()]} />, meta: { csv: (r) => r.state } }),
+  col.accessor((r) => r.settingsVersion ?? -1, { id: 'settings', header: 'Analysis settings', cell: (c) => (c.row.original.settingsVersion === null ? '—' : `version ${c.row.original.settingsVersion}`), meta: { numeric: true, csv: (r) => r.settingsVersion } }),
   col.accessor('resultCount', { header: 'Results', cell: (c) => (c.getValue() === null ? '—' : formatCount(c.getValue()!)), meta: { numeric: true } }),
   col.accessor((r) => r.error ?? r.reason ?? '', { id: 'note', header: 'Reason or error', cell: (c) => <span className={c.row.original.error ? 'text-alarm' : ''}>{c.getValue() || '—'}</span> }),
 ];

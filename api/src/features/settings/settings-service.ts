@@ -1,0 +1,57 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import type { Principal } from '@ratewarden/shared/permissions';
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
+import { runSettingsSchema, type RunSettings } from '@ratewarden/shared/runs';
+import type { AnalysisSettings, SettingsUpdate, SettingsUpdateResult, SettingsVersion } from '@ratewarden/shared/settings';
+import { recordAudit } from '../../audit/audit-log';
+
+interface VersionRow {
+  version: number;
+  settings: unknown;
+  created_at: Date;
+  created_by_label: string;
+}
+
+const versionOf = (r: VersionRow): SettingsVersion => ({
+  version: r.version,
+  settings: runSettingsSchema.parse(r.settings),
+  createdAt: new Date(r.created_at).toISOString(),
+  createdBy: r.created_by_label,
+});
+
+/** Every version of the analysis settings, newest first; the first is the one runs use. */
+export async function analysisSettings(db: DataSource | EntityManager): Promise<AnalysisSettings> {
+  const rows: VersionRow[] = await db.query(`SELECT version, settings, created_at, created_by_label FROM analysis_settings ORDER BY version DESC`);
+  const all = rows.map(versionOf);
+  return { current: all[0] ?? null, history: all.slice(1) };
+}
+
+/** The settings compared as a run reads them (the order of statuses does not matter; no edges are ten-year bands). */
+const canonical = (s: RunSettings) =>
+  JSON.stringify({ personTimeBasis: s.personTimeBasis, per: s.per, confidence: s.confidence, countedStatuses: [...s.countedStatuses].sort(), ageBandEdges: ageBandEdgesOf(s) });
+
+/**
+ * A change of the analysis settings: the next version, who and when, an audit line with before
+ * and after, and a run request (the current results were computed with the old version). A body
+ * equal to the current version writes nothing.
+ */
+export async function changeAnalysisSettings(ds: DataSource, p: Extract<Principal, { kind: 'user' }>, body: SettingsUpdate, ip?: string | null): Promise<SettingsUpdateResult> {
+  return ds.transaction(async (em) => {
+    // One writer at a time: versions are numbered without gaps, and readers are not blocked.
+    await em.query(`LOCK TABLE analysis_settings IN EXCLUSIVE MODE`);
+    const { current } = await analysisSettings(em);
+    const next = { ...body, countedStatuses: [...body.countedStatuses].sort() };
+    if (current && canonical(current.settings) === canonical(next)) {
+      return { current, changed: false, runRequested: false };
+    }
+    const version = (current?.version ?? 0) + 1;
+    const [row]: VersionRow[] = await em.query(
+      `INSERT INTO analysis_settings (version, settings, created_by, created_by_label) VALUES ($1, $2, $3, $4)
+       RETURNING version, settings, created_at, created_by_label`,
+      [version, JSON.stringify(next), p.id, p.name],
+    );
+    await recordAudit(em, { actor: p, action: 'settings.change', target: `settings:${version}`, ip, detail: { before: current?.settings ?? null, after: next } });
+    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`analysis settings changed to version ${version} by ${p.name}`]);
+    return { current: versionOf(row!), changed: true, runRequested: true };
+  });
+}
