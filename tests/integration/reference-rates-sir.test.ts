@@ -21,9 +21,21 @@ import { clearCohortData, makeCohort, settings, type Cohort } from './runs-fixtu
  * exact limits from chi-square quantiles (Garwood 1936; Ulm 1990), Byar's approximation
  * (Rothman & Boice 1979).
  */
-interface Stratum { band: string; ageFrom: number; ageTo: number; studyPersonYears: number; observed: number; referenceEvents: number; referencePersonYears: number }
+interface Stratum {
+  band: string;
+  ageFrom: number;
+  ageTo: number;
+  studyPersonYears: number;
+  observed: number;
+  referenceEvents: number;
+  referencePersonYears: number;
+}
 const example = JSON.parse(readFileSync(join(import.meta.dirname, '..', 'fixtures', 'reference-rates', 'indirect-standardization-example.json'), 'utf8')) as {
-  scale: number; strata: Stratum[]; expectedByStratum: number[]; expectedTotal: number; published: { observed: number; smr: number };
+  scale: number;
+  strata: Stratum[];
+  expectedByStratum: number[];
+  expectedTotal: number;
+  published: { observed: number; smr: number };
 };
 const YEAR = 2000;
 /** Every band's workers are this old in 2000 (a mid-band age; the table's top band is 85–120). */
@@ -54,7 +66,10 @@ describe('reference rates and the SIR of a run', () => {
   const upload = (who: SignedInAgent, csv: string, name = 'reference-rates.csv') =>
     who.agent.post('/api/reference-rates').set('x-csrf-token', who.csrf).attach('file', Buffer.from(csv), { filename: name, contentType: 'text/csv' });
   const sirOf = async (who: SignedInAgent, siteId?: number) => {
-    const res = await who.agent.get('/api/reference-rates/runs/current/sir').query({ outcomeId: c.outcomes.SKIN, ...(siteId ? { siteId } : {}) }).expect(200);
+    const res = await who.agent
+      .get('/api/reference-rates/runs/current/sir')
+      .query({ outcomeId: c.outcomes.SKIN, ...(siteId ? { siteId } : {}) })
+      .expect(200);
     return sirAnswerSchema.parse(res.body);
   };
 
@@ -131,7 +146,12 @@ describe('reference rates and the SIR of a run', () => {
     const table = referenceTableSchema.parse(res.body.details.table);
     expect(table).toMatchObject({ state: 'rejected', rowCount: 0, problemCount: 4 });
     const first = example.strata.length * 2 + 2; // header is line 1
-    expect(table.problems.map((p) => [p.line, p.column])).toEqual([[first, 'outcome'], [first + 1, 'age_to'], [first + 2, 'age_from'], [first + 3, 'rate_per_person_year']]);
+    expect(table.problems.map((p) => [p.line, p.column])).toEqual([
+      [first, 'outcome'],
+      [first + 1, 'age_to'],
+      [first + 2, 'age_from'],
+      [first + 3, 'rate_per_person_year'],
+    ]);
     expect(Number((await ds.query(`SELECT count(*) AS n FROM reference_rates WHERE table_id = $1`, [table.id]))[0].n)).toBe(0);
     await upload(as.hygienist, 'outcome,sex\nX,F\n', 'short.csv').expect(422);
     // Uploads are the hygienist's.
@@ -154,7 +174,9 @@ describe('reference rates and the SIR of a run', () => {
     expect(old.body.rates[0].year).toBe(1999);
     const audit = await ds.query(`SELECT action FROM audit_events WHERE target = $1`, [`reference_rates:${v2.id}`]);
     expect(audit.map((a: { action: string }) => a.action)).toEqual(['reference.apply']);
-    expect(Number((await ds.query(`SELECT count(*) AS n FROM run_requests WHERE picked_at IS NULL AND reason LIKE 'reference rates%'`))[0].n)).toBeGreaterThan(0);
+    expect(Number((await ds.query(`SELECT count(*) AS n FROM run_requests WHERE picked_at IS NULL AND reason LIKE 'reference rates%'`))[0].n)).toBeGreaterThan(
+      0,
+    );
   });
 
   describe('after a run', () => {
@@ -164,7 +186,9 @@ describe('reference rates and the SIR of a run', () => {
     beforeAll(async () => {
       // Watch rules on the SIR, written through the API by the safety manager.
       const rule = async (name: string, group: number, threshold: number) => {
-        const res = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
+        const res = await as.safety.agent
+          .post('/api/rules')
+          .set('x-csrf-token', as.safety.csrf)
           .send({ name, outcomeId: c.outcomes.SKIN, exposureGroupId: group, measure: 'sir', thresholdOn: 'lower_bound', threshold, fdrControl: false })
           .expect(201);
         rules[name] = res.body.id as string;
@@ -214,7 +238,14 @@ describe('reference rates and the SIR of a run', () => {
       expect(safety.get(c.groups.ALL!)).toMatchObject({ observed: 538, withheld: null });
       expect(physician.get(c.groups.FEW!)).toMatchObject({ observed: 3, withheld: null });
       const few = safety.get(c.groups.FEW!)!;
-      expect(few).toMatchObject({ observed: null, sir: null, excess: null, withheld: 'small', exact: { lower: null, upper: null }, byar: { lower: null, upper: null } });
+      expect(few).toMatchObject({
+        observed: null,
+        sir: null,
+        excess: null,
+        withheld: 'small',
+        exact: { lower: null, upper: null },
+        byar: { lower: null, upper: null },
+      });
       expect(few.expected).toBeGreaterThan(0);
       // The 15–24 band has 4 observed: withheld too.
       expect(safety.get(stratumGroups[2]!)).toMatchObject({ observed: null, withheld: 'small' });
@@ -236,10 +267,20 @@ describe('reference rates and the SIR of a run', () => {
     });
 
     it('raises a flag from a rule on the SIR lower limit when it is above the threshold, and not otherwise, nor on a withheld count', async () => {
-      const flags = (await ds.query(`SELECT rule_id, exposure_group_id, site_id, value FROM flags WHERE rule_id = ANY($1::uuid[])`, [Object.values(rules)])) as Array<{ rule_id: string; exposure_group_id: number; site_id: number | null; value: number }>;
+      const flags = (await ds.query(`SELECT rule_id, exposure_group_id, site_id, value FROM flags WHERE rule_id = ANY($1::uuid[])`, [
+        Object.values(rules),
+      ])) as Array<{ rule_id: string; exposure_group_id: number; site_id: number | null; value: number }>;
       expect(flags).toHaveLength(1);
       expect(flags[0]).toMatchObject({ rule_id: rules['SIR lower limit above 0.5'], exposure_group_id: c.groups.ALL, site_id: null });
       relClose(flags[0]!.value, physician.get(c.groups.ALL!)!.exact.lower as number, 1e-12); // the exact lower limit checked above
+    });
+
+    it("gives an earlier run's SIR to the physician only, as every run figure (two runs side by side would give back withheld counts)", async () => {
+      const [{ run_id: earlier }] = (await ds.query(`SELECT run_id::text FROM current_run`)) as Array<{ run_id: string }>;
+      expect((await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' })).status).toBe('succeeded');
+      await as.hygienist.agent.get(`/api/reference-rates/runs/${earlier}/sir`).expect(403);
+      await as.physician.agent.get(`/api/reference-rates/runs/${earlier}/sir`).expect(200);
+      await as.hygienist.agent.get('/api/reference-rates/runs/current/sir').expect(200);
     });
   });
 });

@@ -4,7 +4,7 @@ import { AUDIOGRAM_TEMPLATE_CSV } from '@ratewarden/shared/hearing/audiogram-row
 import type { HearingSettings } from '@ratewarden/shared/hearing/audiometric-history';
 import { authorize } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import { firstFile } from '../intake/multipart-file';
+import { firstFile } from '../../lib/multipart-file';
 import { AUDIOGRAM_MAX_BYTES, readAll } from './audiogram-file';
 import { receiveAudiograms } from './audiogram-intake';
 import { getHearingWorker, listHearingWorkers } from './hearing-queries';

@@ -7,12 +7,12 @@ import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
 import { recordAudit } from '../../audit/audit-log';
 import { authorize } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import { tooLarge } from './byte-meter';
+import { tooLarge } from '../../lib/byte-meter';
 import { intakeAsSeenBy, namesCases } from './intake-disclosure';
 import { getIntake, listIntakes } from './intake-queries';
 import { applyIntake, DEFAULT_MAX_BYTES, discardIntake, receiveIntake, restoreIntake } from './intake-service';
 import { DEFAULT_EXPIRY_HOURS, sweepStaging } from './intake-expiry';
-import { firstFile } from './multipart-file';
+import { firstFile } from '../../lib/multipart-file';
 
 export interface IntakeRouterDeps {
   dataSource: DataSource;
@@ -30,7 +30,13 @@ export interface IntakeRouterDeps {
  * Roster and case-list intakes: upload (check or check-and-apply), history, apply, discard, restore.
  * Uploads, the history and apply first sweep expired checked intakes away (intake-expiry.ts).
  */
-export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, allowFutureMonths = false, expiryHours = DEFAULT_EXPIRY_HOURS, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: IntakeRouterDeps): Router {
+export function intakeRouter({
+  dataSource: ds,
+  maxBytes = DEFAULT_MAX_BYTES,
+  allowFutureMonths = false,
+  expiryHours = DEFAULT_EXPIRY_HOURS,
+  smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD,
+}: IntakeRouterDeps): Router {
   const router = Router();
   const sweep = () => sweepStaging(ds, expiryHours);
   // Every intake answered goes through this: diffs hold case counts and, for rosters, case references.
@@ -64,7 +70,17 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, all
       if (q.reportsThrough && !allowFutureMonths && q.reportsThrough > new Date().toISOString().slice(0, 8) + '01') {
         throw new AppError('validation_failed', 'reportsThrough cannot be a month still to come');
       }
-      const result = await receiveIntake(ds, { kind: q.kind, mode: q.mode, fileName: file.fileName, stream: file.stream, principal: req.principal!, maxBytes, ip: req.ip, allowFutureMonths, reportsThrough: q.reportsThrough ?? null });
+      const result = await receiveIntake(ds, {
+        kind: q.kind,
+        mode: q.mode,
+        fileName: file.fileName,
+        stream: file.stream,
+        principal: req.principal!,
+        maxBytes,
+        ip: req.ip,
+        allowFutureMonths,
+        reportsThrough: q.reportsThrough ?? null,
+      });
       if (result.intake.state === 'rejected') {
         const first = result.intake.problems[0]?.reason ?? 'the file has problems';
         const more = result.intake.problemCount > 1 ? ` (and ${result.intake.problemCount - 1} more problems)` : '';
@@ -92,7 +108,8 @@ export function intakeRouter({ dataSource: ds, maxBytes = DEFAULT_MAX_BYTES, all
   router.post('/:id/apply', authorize('intake:write'), async (req, res) => {
     await sweep();
     const intake = await applyIntake(ds, req.principal!, String(req.params.id), req.ip, { expiryHours, allowFutureMonths });
-    if (intake.state === 'rejected') throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake: seen(req, intake) });
+    if (intake.state === 'rejected')
+      throw new AppError('validation_failed', `the intake no longer passes its checks: ${intake.problems[0]?.reason ?? ''}`, { intake: seen(req, intake) });
     res.json(seen(req, intake));
   });
   router.post('/:id/discard', authorize('intake:write'), async (req, res) => {

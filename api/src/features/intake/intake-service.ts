@@ -11,7 +11,7 @@ import { recordCaseReporting } from './case-reporting';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import { ByteMeter } from './byte-meter';
+import { ByteMeter } from '../../lib/byte-meter';
 import { dataErrorProblem, isPgDataError } from './copy-errors';
 import { copyRows, createStagingTable, stagingRef, stagingTableName } from './copy-stage';
 import { detectDelimiter, matchHeader, readHead } from './csv-header';
@@ -133,7 +133,13 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
       );
       const outcome = await runChecks(client, input.kind, table, bounds, staged);
       assertSites(input.principal, outcome.scope.siteIds);
-      await recordAudit(em, { actor: input.principal, action: 'intake.receive', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount } });
+      await recordAudit(em, {
+        actor: input.principal,
+        action: 'intake.receive',
+        target: `intake:${id}`,
+        ip: input.ip,
+        detail: { kind: input.kind, fileName: input.fileName, rows: rowCount, checksum, problems: outcome.problemCount },
+      });
       if (input.kind === 'cases') await recordCaseReporting(client, id, input.principal, input.reportsThrough ?? null);
       await settleChecked(client, em, id, input.kind, table, outcome, input.mode === 'apply' && 'if-clear', input.principal, input.ip);
       return { intake: await loadIntake(em, id), duplicate: false };
@@ -142,7 +148,13 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
     // A value PostgreSQL cannot take, met by the checks: a problem of the file, not of the server.
     const err = isPgDataError(thrown) ? dataErrorProblem(thrown) : thrown;
     if (err instanceof Duplicate) {
-      await recordAudit(ds, { actor: input.principal, action: 'intake.duplicate', target: `intake:${err.existingId}`, ip: input.ip, detail: { fileName: input.fileName, checksum: err.checksum } });
+      await recordAudit(ds, {
+        actor: input.principal,
+        action: 'intake.duplicate',
+        target: `intake:${err.existingId}`,
+        ip: input.ip,
+        detail: { fileName: input.fileName, checksum: err.checksum },
+      });
       return { intake: await loadIntake(ds, err.existingId), duplicate: true };
     }
     if (err instanceof AppError && err.code === 'validation_failed' && isProblemList(err.details)) {
@@ -154,7 +166,10 @@ export async function receiveIntake(ds: DataSource, input: ReceiveInput): Promis
 }
 
 class Duplicate extends Error {
-  constructor(readonly existingId: string, readonly checksum: string) {
+  constructor(
+    readonly existingId: string,
+    readonly checksum: string,
+  ) {
     super('duplicate');
   }
 }
@@ -164,7 +179,15 @@ function isProblemList(d: unknown): d is { problems: IntakeProblem[] } {
 }
 
 /** A file that could not be staged is still recorded, rejected, with its problem, for the history. */
-async function recordUnreadable(ds: DataSource, input: ReceiveInput, id: string, meter: ByteMeter, problems: IntakeProblem[], columns: string[], delimiter: string): Promise<IntakeUploadResponse> {
+async function recordUnreadable(
+  ds: DataSource,
+  input: ReceiveInput,
+  id: string,
+  meter: ByteMeter,
+  problems: IntakeProblem[],
+  columns: string[],
+  delimiter: string,
+): Promise<IntakeUploadResponse> {
   // The rest of the upload is read (and thrown away) so the checksum and size describe the whole file.
   if (!meter.readableEnded && !meter.destroyed) await drain(meter).catch(() => undefined);
   const checksum = meter.destroyed ? '0'.repeat(64) : meter.digest();
@@ -175,17 +198,42 @@ async function recordUnreadable(ds: DataSource, input: ReceiveInput, id: string,
        VALUES ($1, $2, 'rejected', $3, $4, $5, 0, $6, $7, $8, $9, now(), $10, $11)`,
       [id, input.kind, input.fileName, checksum, meter.bytes, problems.length, JSON.stringify(problems), submittedBy, submittedByClient, columns, delimiter],
     );
-    await recordAudit(em, { actor: input.principal, action: 'intake.reject', target: `intake:${id}`, ip: input.ip, detail: { kind: input.kind, fileName: input.fileName, reason: problems[0]?.reason } });
+    await recordAudit(em, {
+      actor: input.principal,
+      action: 'intake.reject',
+      target: `intake:${id}`,
+      ip: input.ip,
+      detail: { kind: input.kind, fileName: input.fileName, reason: problems[0]?.reason },
+    });
   });
   return { intake: await loadIntake(ds, id), duplicate: false };
 }
 
 /** Records the checks' verdict; applies when asked and the file is clean ('if-clear': and no case contradicts a physician's decision). */
-async function settleChecked(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, outcome: CheckOutcome, apply: boolean | 'if-clear', principal: Principal, ip?: string | null): Promise<void> {
+async function settleChecked(
+  client: PoolClient,
+  em: EntityManager,
+  id: string,
+  kind: IntakeKind,
+  table: string,
+  outcome: CheckOutcome,
+  apply: boolean | 'if-clear',
+  principal: Principal,
+  ip?: string | null,
+): Promise<void> {
   const rejected = outcome.problemCount > 0;
   await client.query(
     `UPDATE intakes SET state = $2, problem_count = $3, problems = $4, diff = $5, site_ids = $6, month_from = $7, month_to = $8, checked_at = now() WHERE id = $1`,
-    [id, rejected ? 'rejected' : 'checked', outcome.problemCount, JSON.stringify(outcome.problems), outcome.diff ? JSON.stringify(outcome.diff) : null, outcome.scope.siteIds, outcome.scope.monthFrom, outcome.scope.monthTo],
+    [
+      id,
+      rejected ? 'rejected' : 'checked',
+      outcome.problemCount,
+      JSON.stringify(outcome.problems),
+      outcome.diff ? JSON.stringify(outcome.diff) : null,
+      outcome.scope.siteIds,
+      outcome.scope.monthFrom,
+      outcome.scope.monthTo,
+    ],
   );
   if (rejected) {
     await dropStaging(client, id, table);
@@ -198,7 +246,10 @@ async function settleChecked(client: PoolClient, em: EntityManager, id: string, 
   // an upload asking to apply stays checked; an apply asked for later is refused.
   if (kind === 'cases' && (await hasOpenConflicts(client, id))) {
     if (apply === 'if-clear') return;
-    throw new AppError('conflict', "this case list contradicts a physician's decision on some cases; a physician decides each (keep the decision or accept the list) before it is applied");
+    throw new AppError(
+      'conflict',
+      "this case list contradicts a physician's decision on some cases; a physician decides each (keep the decision or accept the list) before it is applied",
+    );
   }
   await applyNow(client, em, id, kind, table, principal, ip);
 }
@@ -207,7 +258,15 @@ async function requestRun(client: PoolClient, id: string, reason: string): Promi
   await client.query(`INSERT INTO run_requests (reason, intake_id) VALUES ($1, $2)`, [reason, id]);
 }
 
-async function applyNow(client: PoolClient, em: EntityManager, id: string, kind: IntakeKind, table: string, principal: Principal, ip?: string | null): Promise<void> {
+async function applyNow(
+  client: PoolClient,
+  em: EntityManager,
+  id: string,
+  kind: IntakeKind,
+  table: string,
+  principal: Principal,
+  ip?: string | null,
+): Promise<void> {
   if (kind === 'cases') await leaveKeptCases(client, id);
   const { superseded } = await applyChecked(client, kind, table, id);
   await client.query(`UPDATE intakes SET state = 'applied', applied_at = now() WHERE id = $1`, [id]);
@@ -217,7 +276,12 @@ async function applyNow(client: PoolClient, em: EntityManager, id: string, kind:
 }
 
 interface LockedIntake {
-  id: string; kind: IntakeKind; state: string; staging_table: string | null; row_count: number; site_ids: number[];
+  id: string;
+  kind: IntakeKind;
+  state: string;
+  staging_table: string | null;
+  row_count: number;
+  site_ids: number[];
   /** Checked longer ago than the expiry allows. */
   expired: boolean;
   /** The first problem's reason (why a rejected intake was rejected). */
@@ -266,9 +330,7 @@ export async function applyIntake(ds: DataSource, p: Principal, id: string, ip?:
       return null;
     }
     if (it.state !== 'checked') throw notApplicable(it.state, it.reason);
-    const staged = it.staging_table
-      ? await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${stagingRef(it.staging_table)}`).catch(() => null)
-      : null;
+    const staged = it.staging_table ? await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${stagingRef(it.staging_table)}`).catch(() => null) : null;
     if (!staged || Number(staged.rows[0]!.n) !== it.row_count) {
       throw new AppError('conflict', 'the staged rows of this intake are gone (the database restarted since the check); upload the file again');
     }
@@ -309,12 +371,18 @@ export async function restoreIntake(ds: DataSource, p: Principal, id: string, ip
     if (it.kind === 'roster') {
       const r = await restoreRoster(client, id);
       if (r.clashes > 0) {
-        throw new AppError('conflict', `restoring this version would put ${r.clashes} worker-months on two sites at once; restore or correct the other site's roster first`);
+        throw new AppError(
+          'conflict',
+          `restoring this version would put ${r.clashes} worker-months on two sites at once; restore or correct the other site's roster first`,
+        );
       }
       superseded = r.superseded;
     } else {
       if (await restoreWouldOverrule(client, id)) {
-        throw new AppError('conflict', "restoring this version would overrule a physician's decision on some cases; send the cases as a new case list instead, so the physician decides each conflict");
+        throw new AppError(
+          'conflict',
+          "restoring this version would overrule a physician's decision on some cases; send the cases as a new case list instead, so the physician decides each conflict",
+        );
       }
       superseded = (await restoreCases(client, id)).superseded;
     }

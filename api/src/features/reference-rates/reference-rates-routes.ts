@@ -1,11 +1,17 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { REFERENCE_RATES_MAX_BYTES, referenceRateColumns, referenceRatesQuerySchema, referenceTemplateCsv, sirQuerySchema } from '@ratewarden/shared/reference-rates';
+import {
+  REFERENCE_RATES_MAX_BYTES,
+  referenceRateColumns,
+  referenceRatesQuerySchema,
+  referenceTemplateCsv,
+  sirQuerySchema,
+} from '@ratewarden/shared/reference-rates';
 import { authorize } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import { firstFile } from '../intake/multipart-file';
-import { tooLarge } from '../intake/byte-meter';
+import { firstFile } from '../../lib/multipart-file';
+import { tooLarge } from '../../lib/byte-meter';
 import { listReferenceTables, receiveReferenceTable, referenceRatesOf } from './reference-rates-service';
 import { runSir } from './run-sir';
 

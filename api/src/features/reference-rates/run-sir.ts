@@ -2,8 +2,9 @@ import type { DataSource } from 'typeorm';
 import type { SirAnswer, SirRow } from '@ratewarden/shared/reference-rates';
 import { HOURS_PER_PERSON_YEAR } from '@ratewarden/shared/reference-rates';
 import { METHODS } from '@ratewarden/shared/stats';
-import { seesEveryCount } from '../../disclosure/run-frame';
-import { getRun, resultScope } from '../runs/runs-service';
+import { resultScope } from '../../disclosure/result-scope';
+import { runFrame, seesEveryCount } from '../../disclosure/run-frame';
+import { AppError } from '../../lib/app-error';
 
 type Row = Record<string, any>;
 
@@ -15,9 +16,21 @@ const limit = (v: number | null): number | 'Infinity' | null => (v === null ? nu
  * count (the worker's decision in run_sir.withheld) takes the SIR, O − E and the limits with it:
  * each gives the count back (O = SIR × E).
  */
-export async function runSir(ds: DataSource, runId: string | 'current', q: { outcomeId?: number; siteId?: number }, principal: Parameters<typeof seesEveryCount>[0]): Promise<SirAnswer> {
-  const run = await getRun(ds, runId);
+export async function runSir(
+  ds: DataSource,
+  runId: string | 'current',
+  q: { outcomeId?: number; siteId?: number },
+  principal: Parameters<typeof seesEveryCount>[0],
+): Promise<SirAnswer> {
+  const [run]: Array<{ id: string; number: string }> =
+    runId === 'current'
+      ? await ds.query(`SELECT r.id, r.number FROM current_run c JOIN runs r ON r.id = c.run_id`)
+      : await ds.query(`SELECT id, number FROM runs WHERE id = $1`, [runId]);
+  if (!run) throw new AppError('not_found', runId === 'current' ? 'no run has succeeded yet' : 'no such run');
   const siteId = await resultScope(ds, principal, q.siteId);
+  // As for every run figure: readers other than the physician read the current run only (two runs
+  // side by side would give back counts each withholds); the frame's checks say so (disclosure/run-frame.ts).
+  await runFrame(ds, run.id, principal, q.outcomeId);
   const rows: Row[] = await ds.query(
     `SELECT s.*, s.hours::float8 AS hours_n, s.hours_uncovered::float8 AS hours_uncovered_n FROM run_sir s
      WHERE s.run_id = $1 AND s.site_id IS NOT DISTINCT FROM $2::int AND ($3::int IS NULL OR s.outcome_id = $3)
@@ -25,11 +38,14 @@ export async function runSir(ds: DataSource, runId: string | 'current', q: { out
     [run.id, siteId, q.outcomeId ?? null],
   );
   const all = seesEveryCount(principal);
-  const tableId: number | null = rows[0]?.reference_table_id ?? (await ds.query(`SELECT reference_table_id FROM run_sir WHERE run_id = $1 LIMIT 1`, [run.id]))[0]?.reference_table_id ?? null;
-  const sources: string[] = tableId === null ? [] : (await ds.query(`SELECT sources FROM reference_rate_tables WHERE id = $1`, [tableId]))[0]?.sources ?? [];
+  const tableId: number | null =
+    rows[0]?.reference_table_id ??
+    (await ds.query(`SELECT reference_table_id FROM run_sir WHERE run_id = $1 LIMIT 1`, [run.id]))[0]?.reference_table_id ??
+    null;
+  const sources: string[] = tableId === null ? [] : ((await ds.query(`SELECT sources FROM reference_rate_tables WHERE id = $1`, [tableId]))[0]?.sources ?? []);
   return {
     runId: run.id,
-    runNumber: run.number,
+    runNumber: Number(run.number),
     referenceVersion: tableId,
     sources,
     rows: rows.map((r): SirRow => {

@@ -3,12 +3,14 @@ import { toJsonValue } from '@ratewarden/shared/stats';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { RunDetail, RunDiff, RunRequested, RunResult, RunResultsQuery, RunSummary } from '@ratewarden/shared/runs';
 import { recordAudit } from '../../audit/audit-log';
-import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import type { Withheld } from '@ratewarden/shared/small-cells';
-import { readsEverySite, runFrame, seesEveryCount, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
+import { runFrame, seesEveryCount, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 import { unattributedFor } from './run-unattributed';
 import { completenessOf, runPeriodBook } from './run-periods';
+import { resultScope } from '../../disclosure/result-scope';
+
+export { resultScope };
 
 type Row = Record<string, any>;
 
@@ -92,7 +94,16 @@ export interface ResultReader {
 const nullLimits = () => ({ estimate: null, lower: null, upper: null });
 
 /** withheldCount for a row's count, which may be missing (no row: nothing to withhold). */
-function withheldOf(frame: RunFrame | null, cases: number | null, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string, threshold: number): Withheld | null {
+function withheldOf(
+  frame: RunFrame | null,
+  cases: number | null,
+  siteId: number | null,
+  outcomeId: number,
+  groupId: number,
+  window: string,
+  period: string,
+  threshold: number,
+): Withheld | null {
   return cases === null ? null : withheldCount(frame, cases, threshold, siteId, outcomeId, groupId, window, period);
 }
 
@@ -106,7 +117,11 @@ function siteCountsWithheld(frame: RunFrame | null): Set<string> {
   return out;
 }
 
-const MH_DETAIL = { age: ['mhAgeHomogeneity', 'mhAgeStrataUsed'], site: ['mhSiteHomogeneity', 'mhSiteStrataUsed'], sex: ['mhSexHomogeneity', 'mhSexStrataUsed'] } as const;
+const MH_DETAIL = {
+  age: ['mhAgeHomogeneity', 'mhAgeStrataUsed'],
+  site: ['mhSiteHomogeneity', 'mhSiteStrataUsed'],
+  sex: ['mhSexHomogeneity', 'mhSexStrataUsed'],
+} as const;
 
 /**
  * A result row as its reader may see it. A withheld count goes with every figure that would give
@@ -125,7 +140,10 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
   const hide = suppressed || comparisonSuppressed;
   const groups = refId === null ? [r.exposure_group_id] : [r.exposure_group_id, refId];
   const strataShown = (by: 'age' | 'sex') =>
-    frame === null || (r.site_id === null && r.window_kind === 'rolling12' && groups.every((g) => withheldIn(frame, null, r.outcome_id, g, `strata_${by}`, r.period_iso) === null));
+    frame === null ||
+    (r.site_id === null &&
+      r.window_kind === 'rolling12' &&
+      groups.every((g) => withheldIn(frame, null, r.outcome_id, g, `strata_${by}`, r.period_iso) === null));
   const open = {
     age: !hide && strataShown('age'),
     sex: !hide && strataShown('sex'),
@@ -133,7 +151,9 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
   };
   const mh = (by: 'age' | 'site' | 'sex') => {
     const p = `mh_${by}`;
-    return open[by] ? { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) } : { irr: { ...nullLimits(), p: null }, ird: nullLimits() };
+    return open[by]
+      ? { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) }
+      : { irr: { ...nullLimits(), p: null }, ird: nullLimits() };
   };
   const detail = hide ? {} : (toJsonValue(r.detail) as Record<string, unknown>);
   for (const by of ['age', 'site', 'sex'] as const) if (!open[by]) for (const k of MH_DETAIL[by]) delete detail[k];
@@ -156,7 +176,9 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
     rate: suppressed ? nullLimits() : limits(r, 'rate'),
     // Expected cases come from the reference group's count: withheld with it, whether or not this row's count is.
     expected: refWithheld !== null ? null : r.expected,
-    irr: hide ? { ...nullLimits(), p: null, waldLower: null, waldUpper: null } : { ...limits(r, 'irr'), p: r.irr_p, waldLower: n(r.irr_wald_lower), waldUpper: n(r.irr_wald_upper) },
+    irr: hide
+      ? { ...nullLimits(), p: null, waldLower: null, waldUpper: null }
+      : { ...limits(r, 'irr'), p: r.irr_p, waldLower: n(r.irr_wald_lower), waldUpper: n(r.irr_wald_upper) },
     ird: hide ? { ...nullLimits(), p: null } : { ...limits(r, 'ird'), p: r.ird_p },
     mhAge: mh('age'),
     mhSite: mh('site'),
@@ -164,22 +186,6 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
     uChart: suppressed ? { centre: null, lcl: null, ucl: null, signal: null } : { centre: r.u_centre, lcl: r.u_lcl, ucl: r.u_ucl, signal: r.u_signal },
     detail,
   };
-}
-
-/**
- * The scope a reader gets: one site when asked for (and allowed), else the whole company, which
- * only a reader of every site may see, since company figures include every site's workers.
- * Returns the site id, or null for the company-wide rows.
- */
-export async function resultScope(ds: DataSource, principal: Principal, siteId: number | undefined): Promise<number | null> {
-  if (siteId !== undefined) {
-    assertSites(principal, [siteId]);
-    return siteId;
-  }
-  if (!(await readsEverySite(ds, principal))) {
-    throw new AppError('forbidden', 'company-wide results include sites you have no access to: ask for one of your sites with ?siteId=', { siteIds: siteScope(principal) });
-  }
-  return null;
 }
 
 /**
@@ -246,7 +252,8 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
     const withheld = withheldOf(frame, cases, siteId, r.outcome_id, r.exposure_group_id, r.window_kind, r.period, t);
     const refGroup = r[`${p}_ref_group`] as number | null;
     const refCases = r[`${p}_ref_cases`] as number | null;
-    const refWithheld = refGroup !== null && refCases !== null && withheldOf(frame, refCases, siteId, r.outcome_id, refGroup, r.window_kind, r.period, t) !== null;
+    const refWithheld =
+      refGroup !== null && refCases !== null && withheldOf(frame, refCases, siteId, r.outcome_id, refGroup, r.window_kind, r.period, t) !== null;
     // The IRR is withheld with the count: with the reference row it would give the count back; and
     // with the reference count: with the group's rate it would give that back.
     return withheld
@@ -275,7 +282,9 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
 export async function requestRun(ds: DataSource, principal: Principal, ip?: string): Promise<RunRequested> {
   return ds.transaction(async (em) => {
     const who = principal.kind === 'user' ? principal.email : `client:${principal.clientId}`;
-    const [row]: Row[] = await em.query(`INSERT INTO run_requests (reason, immediate) VALUES ($1, true) RETURNING id::text AS id, requested_at`, [`run requested by ${who}`]);
+    const [row]: Row[] = await em.query(`INSERT INTO run_requests (reason, immediate) VALUES ($1, true) RETURNING id::text AS id, requested_at`, [
+      `run requested by ${who}`,
+    ]);
     await recordAudit(em, { actor: principal, action: 'run.request', target: `run_request:${row!.id}`, ip });
     return { requestId: row!.id, requestedAt: iso(row!.requested_at)! };
   });

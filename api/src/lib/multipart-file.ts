@@ -1,7 +1,7 @@
 import { PassThrough, type Readable } from 'node:stream';
 import busboy from 'busboy';
 import type { Request } from 'express';
-import { AppError } from '../../lib/app-error';
+import { AppError } from './app-error';
 
 export interface UploadedFile {
   fileName: string;

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { Transform, type TransformCallback } from 'node:stream';
-import { AppError } from '../../lib/app-error';
+import { AppError } from './app-error';
 
 /**
  * Passes the upload's bytes through unchanged while computing its SHA-256 and size, and stops the
