@@ -67,8 +67,12 @@ runMain(async () => {
     }
     const copySeconds = Math.min(...copyRounds);
     const intakeSeconds = Math.min(...checkRounds);
-    say(`bare COPY:       ${copyRounds.map((x) => x.toFixed(2)).join(' / ')} s, best ${copySeconds.toFixed(2)} s  (${Math.round(rows / copySeconds).toLocaleString('en')} rows/s)`);
-    say(`intake (check):  ${checkRounds.map((x) => x.toFixed(2)).join(' / ')} s, best ${intakeSeconds.toFixed(2)} s  (${Math.round(rows / intakeSeconds).toLocaleString('en')} rows/s), ratio ${(intakeSeconds / copySeconds).toFixed(2)}×`);
+    say(
+      `bare COPY:       ${copyRounds.map((x) => x.toFixed(2)).join(' / ')} s, best ${copySeconds.toFixed(2)} s  (${Math.round(rows / copySeconds).toLocaleString('en')} rows/s)`,
+    );
+    say(
+      `intake (check):  ${checkRounds.map((x) => x.toFixed(2)).join(' / ')} s, best ${intakeSeconds.toFixed(2)} s  (${Math.round(rows / intakeSeconds).toLocaleString('en')} rows/s), ratio ${(intakeSeconds / copySeconds).toFixed(2)}×`,
+    );
     if (!check) throw new Error('no intake round ran');
     const apply = await applySeconds(child.port, check.body.intake.id);
     if (apply.status !== 200) throw new Error(`apply answered ${apply.status}`);
@@ -77,8 +81,13 @@ runMain(async () => {
     say(`peak RSS of the intake process: ${peakRssMb} MB`);
 
     const intake = {
-      rows, copySeconds: round(copySeconds), intakeSeconds: round(intakeSeconds), ratio: round(intakeSeconds / copySeconds), peakRssMb,
-      applySeconds: round(apply.seconds), fileMb: Math.round(bytes / 1024 ** 2),
+      rows,
+      copySeconds: round(copySeconds),
+      intakeSeconds: round(intakeSeconds),
+      ratio: round(intakeSeconds / copySeconds),
+      peakRssMb,
+      applySeconds: round(apply.seconds),
+      fileMb: Math.round(bytes / 1024 ** 2),
     };
     say(`figures written to ${mergeLatest(root, { intake })}`);
   } finally {
@@ -92,13 +101,28 @@ runMain(async () => {
   const { cases } = await writeBenchCasesCsv(db.url, casesFile);
 
   if (settings.sections.has('reads')) {
-    const { reads, readsDuringApply } = await benchReads({ root, databaseUrl: db.url, connections: settings.BENCH_READS_CONNECTIONS, seconds: settings.BENCH_READS_SECONDS, say });
+    const { reads, readsDuringApply } = await benchReads({
+      root,
+      databaseUrl: db.url,
+      connections: settings.BENCH_READS_CONNECTIONS,
+      seconds: settings.BENCH_READS_SECONDS,
+      say,
+    });
     // `reads` is keyed by route label only; its measurement time is readsDuringApply's.
     mergeLatest(root, { reads }, false);
     say(`read figures written to ${mergeLatest(root, { readsDuringApply })}`);
   }
   if (settings.sections.has('endToEnd')) {
-    const endToEnd = await benchEndToEnd({ root, port: PGPORT, rosterFile: file, rosterRows: rows, casesFile, cases, rounds: settings.BENCH_END_TO_END_ROUNDS, say });
+    const endToEnd = await benchEndToEnd({
+      root,
+      port: PGPORT,
+      rosterFile: file,
+      rosterRows: rows,
+      casesFile,
+      cases,
+      rounds: settings.BENCH_END_TO_END_ROUNDS,
+      say,
+    });
     say(
       `end to end, best round: ${endToEnd.seconds} s (check ${endToEnd.checkSeconds} s, apply ${endToEnd.applySeconds} s, run ${endToEnd.runSeconds} s); ` +
         `keyed COPY ${endToEnd.bareCopyKeyedSeconds} s, roster apply ${endToEnd.applyToKeyedCopy}× it; pandas ${endToEnd.pandasSeconds} s, the path ${endToEnd.ratioToPandas}× it`,

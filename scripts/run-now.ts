@@ -16,11 +16,21 @@ runMain(async () => {
   try {
     await ds.initialize();
   } catch (err) {
-    throw new SetupError(`cannot reach the database at ${DATABASE_URL.replace(/\/\/[^@]*@/, '//')} (is \`npm start\` running?): ${err instanceof Error ? err.message : String(err)}`);
+    throw new SetupError(
+      `cannot reach the database at ${DATABASE_URL.replace(/\/\/[^@]*@/, '//')} (is \`npm start\` running?): ${err instanceof Error ? err.message : String(err)}`,
+    );
   }
   try {
     say('running ...');
-    const outcome = await performRun(ds, { trigger: 'cli', reason: 'npm run run-now', settings: runSettingsOf(config), appUrl: config.APP_BASE_URL, waitForLockMs: 30 * 60_000, smallCellThreshold: config.SMALL_CELL_THRESHOLD, rulesOnPartialPeriods: config.RULES_ON_PARTIAL_PERIODS });
+    const outcome = await performRun(ds, {
+      trigger: 'cli',
+      reason: 'npm run run-now',
+      settings: runSettingsOf(config),
+      appUrl: config.APP_BASE_URL,
+      waitForLockMs: 30 * 60_000,
+      smallCellThreshold: config.SMALL_CELL_THRESHOLD,
+      rulesOnPartialPeriods: config.RULES_ON_PARTIAL_PERIODS,
+    });
     say(describeOutcome(outcome));
     return outcome.status === 'succeeded' ? 0 : 1;
   } finally {

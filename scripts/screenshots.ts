@@ -81,14 +81,26 @@ const shots: Shot[] = [
     path: '/ad-hoc',
     prepare: async (page) => {
       await page.getByLabel(/2×2 table/).check();
-      for (const [label, v] of [['Exposed, with the outcome', '56'], ['Exposed, without the outcome', '14'], ['Not exposed, with the outcome', '48'], ['Not exposed, without the outcome', '32']] as const) {
+      for (const [label, v] of [
+        ['Exposed, with the outcome', '56'],
+        ['Exposed, without the outcome', '14'],
+        ['Not exposed, with the outcome', '48'],
+        ['Not exposed, without the outcome', '32'],
+      ] as const) {
         await page.getByLabel(label, { exact: true }).fill(v);
       }
       await page.getByRole('button', { name: 'Compare the risks' }).click();
       await page.getByRole('region', { name: 'What the numbers say' }).waitFor();
     },
   },
-  { name: 'ad-hoc-bad-input', path: '/ad-hoc', prepare: async (page) => { await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('2.5'); await page.getByRole('button', { name: 'Compare the rates' }).click(); } },
+  {
+    name: 'ad-hoc-bad-input',
+    path: '/ad-hoc',
+    prepare: async (page) => {
+      await page.getByLabel('Exposed: cases with the outcome', { exact: true }).fill('2.5');
+      await page.getByRole('button', { name: 'Compare the rates' }).click();
+    },
+  },
   { name: 'no-role', path: '/no-role' },
   { name: 'not-found', path: '/no-such-page' },
 ];
@@ -102,8 +114,20 @@ const roleShots: Array<{ role: string; email: string; shots: Shot[] }> = [
       { name: 'overview', path: '/overview' },
       { name: 'overview-menu', path: '/overview', prepare: openMenu },
       { name: 'trends', path: '/trends' },
-      { name: 'trends-log', path: '/trends', prepare: async (page) => { await page.getByLabel('Log scale').first().check(); } },
-      { name: 'trends-table', path: '/trends', prepare: async (page) => { await page.getByRole('button', { name: 'Show as a table' }).first().click(); } },
+      {
+        name: 'trends-log',
+        path: '/trends',
+        prepare: async (page) => {
+          await page.getByLabel('Log scale').first().check();
+        },
+      },
+      {
+        name: 'trends-table',
+        path: '/trends',
+        prepare: async (page) => {
+          await page.getByRole('button', { name: 'Show as a table' }).first().click();
+        },
+      },
       { name: 'comparison', path: '/comparison' },
       { name: 'adjusted', path: '/adjusted' },
       { name: 'adjusted-site', path: '/adjusted?stratify=site' },
@@ -154,7 +178,12 @@ const roleShots: Array<{ role: string; email: string; shots: Shot[] }> = [
 async function startIdentityProvider(appPort: number): Promise<{ issuer: string; child: ChildProcess }> {
   const idpPort = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'api', 'src', 'stand-ins', 'identity-provider', 'main.ts')], {
-    env: { ...process.env, IDP_PORT: String(idpPort), OIDC_REDIRECT_URI: `http://127.0.0.1:${appPort}/auth/callback`, APP_BASE_URL: `http://127.0.0.1:${appPort}/` },
+    env: {
+      ...process.env,
+      IDP_PORT: String(idpPort),
+      OIDC_REDIRECT_URI: `http://127.0.0.1:${appPort}/auth/callback`,
+      APP_BASE_URL: `http://127.0.0.1:${appPort}/`,
+    },
     stdio: ['ignore', 'pipe', 'inherit'],
   });
   await new Promise<void>((resolve, reject) => {
@@ -210,7 +239,13 @@ runMain(async () => {
     const appBase = `http://127.0.0.1:${appPort}/`;
     const app = createApp({
       dataSource: ds,
-      config: readApiConfig({ NODE_ENV: 'test', OIDC_ISSUER: provider.issuer, OIDC_REDIRECT_URI: `${appBase}auth/callback`, APP_BASE_URL: appBase, AUTH_RATE_LIMIT: '10000' }),
+      config: readApiConfig({
+        NODE_ENV: 'test',
+        OIDC_ISSUER: provider.issuer,
+        OIDC_REDIRECT_URI: `${appBase}auth/callback`,
+        APP_BASE_URL: appBase,
+        AUTH_RATE_LIMIT: '10000',
+      }),
     });
     server = await new Promise<Server>((resolve) => {
       const s = app.listen(appPort, '127.0.0.1', () => resolve(s));
@@ -227,8 +262,14 @@ runMain(async () => {
     }
 
     // One run over the demo data (its seed brings a watch rule per outcome), so every page has figures and flags.
-    const run = await performRun(ds, { trigger: 'cli', reason: 'npm run screenshots', settings: { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] }, appUrl: appBase, waitForLockMs: 60_000 });
-    say(`run: ${run.status}${run.status === "failed" ? ` (${run.error})` : ""}`);
+    const run = await performRun(ds, {
+      trigger: 'cli',
+      reason: 'npm run screenshots',
+      settings: { personTimeBasis: 'person_years', per: 1000, confidence: 0.95, countedStatuses: ['confirmed'] },
+      appUrl: appBase,
+      waitForLockMs: 60_000,
+    });
+    say(`run: ${run.status}${run.status === 'failed' ? ` (${run.error})` : ''}`);
     const [flag] = (await ds.query(`SELECT id FROM flags ORDER BY raised_at, id LIMIT 1`)) as Array<{ id: string }>;
     let count = shots.length;
     for (const account of roleShots) {

@@ -23,7 +23,9 @@ const emptyFlag = process.argv.includes('--empty');
 runMain(async () => {
   const settings = readSettings();
   if (settings.NODE_ENV === 'production' && !process.env.OIDC_ISSUER) {
-    throw new SetupError('NODE_ENV=production needs a real identity provider: set OIDC_ISSUER, OIDC_CLIENT_ID, OIDC_CLIENT_SECRET and SESSION_SECRET (the demo ones are refused)');
+    throw new SetupError(
+      'NODE_ENV=production needs a real identity provider: set OIDC_ISSUER, OIDC_CLIENT_ID, OIDC_CLIENT_SECRET and SESSION_SECRET (the demo ones are refused)',
+    );
   }
   await assertPortFree(settings.PORT, 'web app and API', 'PORT');
   const supervisor = new Supervisor(root);
@@ -69,7 +71,11 @@ runMain(async () => {
   supervisor.start('worker', 'worker/src/main.ts', env);
   await waitForHttp(`http://127.0.0.1:${settings.PORT}/api/health`);
   if (dev) {
-    supervisor.startNode('vite', [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), '--config', join(root, 'web', 'vite.config.ts'), join(root, 'web')], env);
+    supervisor.startNode(
+      'vite',
+      [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), '--config', join(root, 'web', 'vite.config.ts'), join(root, 'web')],
+      env,
+    );
     say('hot reload at http://127.0.0.1:5173/ (Vite, in front of the API)');
   }
   say(`Ratewarden is running at http://127.0.0.1:${settings.PORT}/  (Ctrl-C stops everything)`);

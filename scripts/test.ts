@@ -22,7 +22,12 @@ runMain(async () => {
     if (lint !== 0) return lint;
   }
   ensureSystemPackages(testRequirements);
-  const db = await startPostgres({ folder: join(root, '.data', `test-postgres-${settings.TEST_PGPORT}`), port: settings.TEST_PGPORT, database: 'postgres', durable: false });
+  const db = await startPostgres({
+    folder: join(root, '.data', `test-postgres-${settings.TEST_PGPORT}`),
+    port: settings.TEST_PGPORT,
+    database: 'postgres',
+    durable: false,
+  });
   const stopDb = () => db.stop();
   process.on('exit', stopDb);
   for (const signal of ['SIGINT', 'SIGTERM'] as const) process.on(signal, () => process.exit(130));
@@ -48,7 +53,7 @@ runMain(async () => {
 
 /** `npm run lint` (ESLint) and `npm run format:check` (Prettier), as the whole suite's first step; 0 when both pass. */
 function checkStyle(): number {
-  for (const script of ['lint']) {
+  for (const script of ['lint', 'format:check']) {
     say(`npm run ${script} ...`);
     const r = spawnSync('npm', ['run', '-s', script], { cwd: root, stdio: 'inherit' });
     if (r.status !== 0) {

@@ -65,12 +65,34 @@ export function createApp({ dataSource, config, dbQueueMax = readDbConfig().DB_Q
   app.use('/api', csrfProtection);
   app.use('/api/session', sessionRouter(config.SMALL_CELL_THRESHOLD));
   app.use('/api/admin', adminRouter(dataSource));
-  app.use('/api/intakes', intakeRateLimit(config.INTAKE_RATE_LIMIT), intakeRouter({ dataSource, maxBytes: config.INTAKE_MAX_BYTES, allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS, expiryHours: config.INTAKE_EXPIRY_HOURS, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
-  app.use('/api/audiograms', intakeRateLimit(config.INTAKE_RATE_LIMIT), hearingRouter({ dataSource, settings: { ageCorrection: config.HEARING_AGE_CORRECTION, outcomeCode: config.HEARING_OUTCOME_CODE } }));
+  app.use(
+    '/api/intakes',
+    intakeRateLimit(config.INTAKE_RATE_LIMIT),
+    intakeRouter({
+      dataSource,
+      maxBytes: config.INTAKE_MAX_BYTES,
+      allowFutureMonths: config.INTAKE_ALLOW_FUTURE_MONTHS,
+      expiryHours: config.INTAKE_EXPIRY_HOURS,
+      smallCellThreshold: config.SMALL_CELL_THRESHOLD,
+    }),
+  );
+  app.use(
+    '/api/audiograms',
+    intakeRateLimit(config.INTAKE_RATE_LIMIT),
+    hearingRouter({ dataSource, settings: { ageCorrection: config.HEARING_AGE_CORRECTION, outcomeCode: config.HEARING_OUTCOME_CODE } }),
+  );
   app.use('/api/sites', sitesRouter({ dataSource }));
   app.use('/api/settings', settingsRouter({ dataSource }));
   app.use('/api', groupsRouter({ dataSource }));
-  app.use('/api/runs', runsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD, runQuietSeconds: config.RUN_QUIET_SECONDS, answerCacheBytes: config.RUN_ANSWER_CACHE_MB * 1024 ** 2 }));
+  app.use(
+    '/api/runs',
+    runsRouter({
+      dataSource,
+      smallCellThreshold: config.SMALL_CELL_THRESHOLD,
+      runQuietSeconds: config.RUN_QUIET_SECONDS,
+      answerCacheBytes: config.RUN_ANSWER_CACHE_MB * 1024 ** 2,
+    }),
+  );
   app.use('/api/rules', rulesRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/flags', flagsRouter({ dataSource, smallCellThreshold: config.SMALL_CELL_THRESHOLD }));
   app.use('/api/notices', noticesRouter({ dataSource }));

@@ -4,7 +4,11 @@ import { entities } from './entities';
 import { migrations } from './migrations';
 
 /** Builds a DataSource for the given connection string (tests pass their own). */
-export function createDataSource(url = readDbConfig().DATABASE_URL, poolMax = readDbConfig().DB_POOL_MAX, poolWaitMs = readDbConfig().DB_POOL_WAIT_MS): DataSource {
+export function createDataSource(
+  url = readDbConfig().DATABASE_URL,
+  poolMax = readDbConfig().DB_POOL_MAX,
+  poolWaitMs = readDbConfig().DB_POOL_WAIT_MS,
+): DataSource {
   return new DataSource({
     type: 'postgres',
     url,

@@ -11,16 +11,20 @@ describe('tablesToAnalyze', () => {
     expect(tablesToAnalyze([{ table: 'roster_entries', liveRows: 0, modifiedSinceAnalyze: 0, everAnalyzed: false }], DEFAULT_RULE)).toEqual(['roster_entries']);
   });
   it('analyzes past 50 + 10% of the live rows changed, not before', () => {
-    const at = (modified: number) => tablesToAnalyze([{ table: 'case_events', liveRows: 10_000, modifiedSinceAnalyze: modified, everAnalyzed: true }], DEFAULT_RULE);
+    const at = (modified: number) =>
+      tablesToAnalyze([{ table: 'case_events', liveRows: 10_000, modifiedSinceAnalyze: modified, everAnalyzed: true }], DEFAULT_RULE);
     expect(at(1050)).toEqual([]);
     expect(at(1051)).toEqual(['case_events']);
   });
   it('keeps only the stale ones', () => {
     expect(
-      tablesToAnalyze([
-        { table: 'workers', liveRows: 20_000, modifiedSinceAnalyze: 10, everAnalyzed: true },
-        { table: 'roster_entries', liveRows: 1_200_000, modifiedSinceAnalyze: 1_200_000, everAnalyzed: true },
-      ], DEFAULT_RULE),
+      tablesToAnalyze(
+        [
+          { table: 'workers', liveRows: 20_000, modifiedSinceAnalyze: 10, everAnalyzed: true },
+          { table: 'roster_entries', liveRows: 1_200_000, modifiedSinceAnalyze: 1_200_000, everAnalyzed: true },
+        ],
+        DEFAULT_RULE,
+      ),
     ).toEqual(['roster_entries']);
   });
 });

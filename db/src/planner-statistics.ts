@@ -39,7 +39,10 @@ export async function refreshPlannerStatistics(query: QueryRows): Promise<string
   )) as Array<{ table: string; live: string; modified: string; analyzed: boolean; threshold: string; scale: string }>;
   if (rows.length === 0) return [];
   const rule = { threshold: Number(rows[0]!.threshold), scaleFactor: Number(rows[0]!.scale) };
-  const stale = tablesToAnalyze(rows.map((r) => ({ table: r.table, liveRows: Number(r.live), modifiedSinceAnalyze: Number(r.modified), everAnalyzed: r.analyzed })), rule);
+  const stale = tablesToAnalyze(
+    rows.map((r) => ({ table: r.table, liveRows: Number(r.live), modifiedSinceAnalyze: Number(r.modified), everAnalyzed: r.analyzed })),
+    rule,
+  );
   if (stale.length) await query(`ANALYZE ${stale.map((t) => `"${t}"`).join(', ')}`);
   return stale;
 }

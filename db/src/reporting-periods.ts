@@ -21,8 +21,13 @@ interface PeriodRow {
  * A closed month is corrected when a roster or case list touching it was applied after it closed.
  * A month after the one a site was retired in is marked `retired` (the site is not expected then).
  */
-export async function readSitePeriods(db: DataSource | EntityManager, opts: { through?: string | null; siteIds?: number[] | null } = {}): Promise<SitePeriod[]> {
-  const found = await rows<PeriodRow>(db, `
+export async function readSitePeriods(
+  db: DataSource | EntityManager,
+  opts: { through?: string | null; siteIds?: number[] | null } = {},
+): Promise<SitePeriod[]> {
+  const found = await rows<PeriodRow>(
+    db,
+    `
     WITH reported AS (
       SELECT s AS site_id, max(i.reports_through) AS through
       FROM intakes i CROSS JOIN LATERAL unnest(i.reports_site_ids) AS s
@@ -51,7 +56,9 @@ export async function readSitePeriods(db: DataSource | EntityManager, opts: { th
     LEFT JOIN closures c ON c.site_id = s.id AND c.month = m.month
     LEFT JOIN users u ON u.id = c.person_id
     WHERE $2::integer[] IS NULL OR s.id = ANY($2::integer[])
-    ORDER BY s.id, m.month`, [opts.through ?? null, opts.siteIds ?? null]);
+    ORDER BY s.id, m.month`,
+    [opts.through ?? null, opts.siteIds ?? null],
+  );
   return found.map((r) => ({
     siteId: r.site_id,
     month: r.month,

@@ -22,11 +22,15 @@ export interface PendingRun {
  * once. Null when nothing is pending.
  */
 export async function pendingRun(db: DataSource | EntityManager, quietSeconds: number, now?: Date): Promise<PendingRun | null> {
-  const [row] = await rows<{ count: string; immediate: boolean; latest_at: Date; due_at: Date; due: boolean }>(db, `
+  const [row] = await rows<{ count: string; immediate: boolean; latest_at: Date; due_at: Date; due: boolean }>(
+    db,
+    `
     WITH p AS (
       SELECT count(*) AS count, bool_or(immediate) AS immediate, max(requested_at) AS latest_at,
              CASE WHEN bool_or(immediate) THEN min(requested_at) ELSE max(requested_at) + make_interval(secs => $1) END AS due_at
       FROM run_requests WHERE picked_at IS NULL HAVING count(*) > 0)
-    SELECT count, immediate, latest_at, due_at, due_at <= coalesce($2::timestamptz, now()) AS due FROM p`, [quietSeconds, now ?? null]);
+    SELECT count, immediate, latest_at, due_at, due_at <= coalesce($2::timestamptz, now()) AS due FROM p`,
+    [quietSeconds, now ?? null],
+  );
   return row ? { count: Number(row.count), immediate: row.immediate, latestAt: row.latest_at, dueAt: row.due_at, due: row.due } : null;
 }

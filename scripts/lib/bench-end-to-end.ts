@@ -36,7 +36,15 @@ export interface EndToEndBench {
   applyToKeyedCopy: number;
   /** pandas' cells against the run's stored cells, compared in every round (the round with most differences): all equal when `differing` is 0. */
   cellsCompared: { runCells: number; pandasCells: number; differing: number };
-  rounds: Array<{ seconds: number; checkSeconds: number; applySeconds: number; runSeconds: number; rosterApplySeconds: number; bareCopyKeyedSeconds: number; pandasSeconds: number }>;
+  rounds: Array<{
+    seconds: number;
+    checkSeconds: number;
+    applySeconds: number;
+    runSeconds: number;
+    rosterApplySeconds: number;
+    bareCopyKeyedSeconds: number;
+    pandasSeconds: number;
+  }>;
 }
 
 const PANDAS_SCRIPT = join(import.meta.dirname, 'bench-pandas-cells.py');
@@ -80,7 +88,9 @@ export async function bareKeyedCopySeconds(url: string, file: string): Promise<n
     const t = process.hrtime.bigint();
     await pipeline(
       createReadStream(file, { highWaterMark: 256 * 1024 }),
-      client.query(copyFrom(`COPY bench_keyed (worker_key, site, exposure_group, month, hours, birth_year, sex, job_title) FROM STDIN WITH (FORMAT csv, HEADER true)`)),
+      client.query(
+        copyFrom(`COPY bench_keyed (worker_key, site, exposure_group, month, hours, birth_year, sex, job_title) FROM STDIN WITH (FORMAT csv, HEADER true)`),
+      ),
     );
     const seconds = since(t);
     await client.query(`DROP TABLE bench_keyed`);
@@ -94,7 +104,9 @@ export async function bareKeyedCopySeconds(url: string, file: string): Promise<n
 export function pandasSeconds(rosterFile: string, casesFile: string, outFile: string): { seconds: number; parts: Record<string, number> } {
   const outcomes = BENCH_OUTCOMES.map((o) => ({ code: o.code, lag: o.lag, firstOnly: o.rule === 'first_event' }));
   const t = process.hrtime.bigint();
-  const r = spawnSync(DEBIAN_PYTHON, [PANDAS_SCRIPT, rosterFile, casesFile, outFile, JSON.stringify(outcomes), benchRunSettings().countedStatuses.join(',')], { encoding: 'utf8' });
+  const r = spawnSync(DEBIAN_PYTHON, [PANDAS_SCRIPT, rosterFile, casesFile, outFile, JSON.stringify(outcomes), benchRunSettings().countedStatuses.join(',')], {
+    encoding: 'utf8',
+  });
   const seconds = since(t);
   if (r.status !== 0) throw new Error(`the pandas baseline failed: ${r.stderr || r.error}`);
   return { seconds, parts: JSON.parse(r.stdout.trim().split('\n').at(-1)!) as Record<string, number> };

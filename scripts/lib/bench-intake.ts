@@ -12,7 +12,9 @@ export async function bareCopySeconds(url: string, file: string): Promise<number
   await client.connect();
   try {
     await client.query(`DROP TABLE IF EXISTS bench_bare`);
-    await client.query(`CREATE TABLE bench_bare (worker_key text, site text, exposure_group text, month text, hours text, birth_year text, sex text, job_title text)`);
+    await client.query(
+      `CREATE TABLE bench_bare (worker_key text, site text, exposure_group text, month text, hours text, birth_year text, sex text, job_title text)`,
+    );
     const t = process.hrtime.bigint();
     await pipeline(createReadStream(file, { highWaterMark: 256 * 1024 }), client.query(copyFrom(`COPY bench_bare FROM STDIN WITH (FORMAT csv, HEADER true)`)));
     const s = Number(process.hrtime.bigint() - t) / 1e9;
@@ -29,7 +31,10 @@ export interface IntakeChild {
 }
 
 export async function startIntakeChild(root: string, url: string): Promise<IntakeChild> {
-  const child = spawn(process.execPath, ['--import', 'tsx', `${root}/scripts/lib/bench-intake-child.ts`, url], { cwd: root, stdio: ['ignore', 'pipe', 'inherit'] });
+  const child = spawn(process.execPath, ['--import', 'tsx', `${root}/scripts/lib/bench-intake-child.ts`, url], {
+    cwd: root,
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
   const port = await new Promise<number>((resolve, reject) => {
     child.stdout.on('data', (d: Buffer) => {
       const m = /port (\d+)/.exec(d.toString());
@@ -43,15 +48,24 @@ export async function startIntakeChild(root: string, url: string): Promise<Intak
 /** Headers a request rides on: a signed-in person's session cookie and CSRF token (none for the intake process). */
 export type CallHeaders = Record<string, string>;
 
-function call(port: number, method: string, path: string, headers: CallHeaders = {}, body?: (req: import('node:http').ClientRequest) => Promise<void>): Promise<{ status: number; json: any }> {
+function call(
+  port: number,
+  method: string,
+  path: string,
+  headers: CallHeaders = {},
+  body?: (req: import('node:http').ClientRequest) => Promise<void>,
+): Promise<{ status: number; json: any }> {
   return new Promise((resolve, reject) => {
     const boundary = 'ratewardenbench';
-    const req = request({ host: '127.0.0.1', port, method, path, headers: { ...headers, ...(body ? { 'content-type': `multipart/form-data; boundary=${boundary}` } : {}) } }, (res) => {
-      let text = '';
-      res.setEncoding('utf8');
-      res.on('data', (d) => (text += d));
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, json: text ? JSON.parse(text) : null }));
-    });
+    const req = request(
+      { host: '127.0.0.1', port, method, path, headers: { ...headers, ...(body ? { 'content-type': `multipart/form-data; boundary=${boundary}` } : {}) } },
+      (res) => {
+        let text = '';
+        res.setEncoding('utf8');
+        res.on('data', (d) => (text += d));
+        res.on('end', () => resolve({ status: res.statusCode ?? 0, json: text ? JSON.parse(text) : null }));
+      },
+    );
     req.on('error', reject);
     if (body) body(req).catch(reject);
     else req.end();

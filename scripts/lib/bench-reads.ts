@@ -80,7 +80,13 @@ const APPLY_MONTHS = 15;
  * result of the outcome; a stratum table; the flag list, the periods calendar and the
  * configuration lists. Readers of every site read the company, the safety manager one of their sites.
  */
-function readRoutes(ids: { runId: string; outcomeId: number; groupId: number; siteId: number; period: Record<'company' | 'site' | 'physician', string> }): ReadRoute[] {
+function readRoutes(ids: {
+  runId: string;
+  outcomeId: number;
+  groupId: number;
+  siteId: number;
+  period: Record<'company' | 'site' | 'physician', string>;
+}): ReadRoute[] {
   const run = `/api/runs/${ids.runId}`;
   const o = `outcomeId=${ids.outcomeId}`;
   const site = `siteId=${ids.siteId}`;
@@ -236,7 +242,13 @@ export async function benchReads(opts: {
   let sessions: Record<Reader, BenchSession> | undefined;
   try {
     const siteIds = new Map(((await ds.query(`SELECT id, code FROM sites`)) as Array<{ id: number; code: string }>).map((s) => [s.code, s.id]));
-    for (const r of Object.values(READERS)) await provisionUser(ds, r.email, r.role, r.sites.map((s) => siteIds.get(s)!));
+    for (const r of Object.values(READERS))
+      await provisionUser(
+        ds,
+        r.email,
+        r.role,
+        r.sites.map((s) => siteIds.get(s)!),
+      );
     const signedIn = {} as Record<Reader, BenchSession>;
     for (const [who, r] of Object.entries(READERS) as Array<[Reader, (typeof READERS)[Reader]]>) signedIn[who] = await signInToServer(servers.apiUrl, r.email);
     sessions = signedIn;
@@ -248,7 +260,14 @@ export async function benchReads(opts: {
         const res = await fetch(new URL('/api/rules', servers.apiUrl), {
           method: 'POST',
           headers: { ...signedIn.hygienist.writeHeaders, 'content-type': 'application/json' },
-          body: JSON.stringify({ name: `bench: rate ratio above 1 (${scope ? 'each site' : 'company'})`, outcomeId: o.id, siteIds: scope, measure: 'irr', thresholdOn: 'lower_bound', threshold: 1 }),
+          body: JSON.stringify({
+            name: `bench: rate ratio above 1 (${scope ? 'each site' : 'company'})`,
+            outcomeId: o.id,
+            siteIds: scope,
+            measure: 'irr',
+            thresholdOn: 'lower_bound',
+            threshold: 1,
+          }),
         });
         if (res.status !== 201) throw new Error(`creating a watch rule answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
       }
@@ -262,13 +281,19 @@ export async function benchReads(opts: {
     const siteId = siteIds.get(READERS.safety.sites[0]!)!;
     // The period each results page opens on, chosen from the reader's period index as the page chooses it.
     const openingPeriod = async (who: Reader, scope: string) => {
-      const res = await fetch(new URL(`/api/runs/${run.runId}/periods?outcomeId=${ids!.outcome_id}&window=rolling12${scope}`, servers.apiUrl), { headers: readHeaders(signedIn[who]) });
+      const res = await fetch(new URL(`/api/runs/${run.runId}/periods?outcomeId=${ids!.outcome_id}&window=rolling12${scope}`, servers.apiUrl), {
+        headers: readHeaders(signedIn[who]),
+      });
       if (res.status !== 200) throw new Error(`the period index answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
       const period = defaultPeriod(((await res.json()) as RunPeriodIndex).periods);
       if (!period) throw new Error(`the period index of ${who} holds no period`);
       return period;
     };
-    const period = { company: await openingPeriod('hygienist', ''), physician: await openingPeriod('physician', ''), site: await openingPeriod('safety', `&siteId=${siteId}`) };
+    const period = {
+      company: await openingPeriod('hygienist', ''),
+      physician: await openingPeriod('physician', ''),
+      site: await openingPeriod('safety', `&siteId=${siteId}`),
+    };
     say(`reads: run ${run.runId} with ${flags!.n} flags; pages open on ${JSON.stringify(period)}; ${connections} connections for ${seconds} s per route`);
     const routes = readRoutes({ runId: run.runId, outcomeId: ids!.outcome_id, groupId: ids!.group_id, siteId, period });
     for (const route of routes) {
@@ -291,7 +316,9 @@ export async function benchReads(opts: {
       await l.done;
       reads[route.label] = l.figures(t, performance.now());
       const f = reads[route.label]!;
-      say(`reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`);
+      say(
+        `reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`,
+      );
     }
 
     // The same check and apply alone, then with every route loaded at once (the connections shared out among them).
@@ -327,10 +354,14 @@ export async function benchReads(opts: {
     for (const { route, l } of loads) {
       const f = l.figures(marks.applyStart, marks.end);
       duringRoutes[route.label] = f;
-      say(`reads during apply: ${route.label}: ${f.requests} answers, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}, longest open ${f.longestOpenMs} ms`);
+      say(
+        `reads during apply: ${route.label}: ${f.requests} answers, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}, longest open ${f.longestOpenMs} ms`,
+      );
     }
     const duringCheck = combined(loads.map(({ l }) => l.figures(marks.checkStart, marks.applyStart)));
-    say(`reads: 300,000-row roster during reads: check ${during.check.toFixed(2)} s, apply ${during.apply.toFixed(2)} s; reads during the check: p95 ${duringCheck.p95Ms} ms, non-2xx ${duringCheck.non2xx}`);
+    say(
+      `reads: 300,000-row roster during reads: check ${during.check.toFixed(2)} s, apply ${during.apply.toFixed(2)} s; reads during the check: p95 ${duringCheck.p95Ms} ms, non-2xx ${duringCheck.non2xx}`,
+    );
     return {
       reads,
       readsDuringApply: {

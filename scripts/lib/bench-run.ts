@@ -31,9 +31,21 @@ export const benchRunSettings = () => runSettingsOf(readWorkerConfig({}));
  * statistics threads are kept for the next run, as a long-lived worker keeps them (the caller
  * stops them with stopComputePool()). Throws unless the run succeeds.
  */
-export async function timedBenchRun(ds: DataSource, reason: string, options: Partial<PerformRunOptions> = {}): Promise<{ seconds: number; results: number; runId: string }> {
+export async function timedBenchRun(
+  ds: DataSource,
+  reason: string,
+  options: Partial<PerformRunOptions> = {},
+): Promise<{ seconds: number; results: number; runId: string }> {
   const t = performance.now();
-  const outcome = await performRun(ds, { trigger: 'bench', reason, settings: benchRunSettings(), appUrl: 'http://127.0.0.1:3000/', waitForLockMs: 10 * 60_000, keepComputeThreads: true, ...options });
+  const outcome = await performRun(ds, {
+    trigger: 'bench',
+    reason,
+    settings: benchRunSettings(),
+    appUrl: 'http://127.0.0.1:3000/',
+    waitForLockMs: 10 * 60_000,
+    keepComputeThreads: true,
+    ...options,
+  });
   if (outcome.status !== 'succeeded') throw new Error(`the benchmark run did not succeed: ${outcome.status === 'failed' ? outcome.error : outcome.reason}`);
   return { seconds: (performance.now() - t) / 1000, results: outcome.resultCount, runId: outcome.runId };
 }

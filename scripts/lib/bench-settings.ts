@@ -9,7 +9,12 @@ const schema = z.object({
   BENCH_SECTIONS: z
     .string()
     .default(SECTIONS.join(','))
-    .transform((s) => s.split(',').map((x) => x.trim()).filter(Boolean))
+    .transform((s) =>
+      s
+        .split(',')
+        .map((x) => x.trim())
+        .filter(Boolean),
+    )
     .pipe(z.array(z.enum(SECTIONS)).min(1))
     .describe('comma list of the sections to run: intake, run, reads, endToEnd (reads and endToEnd need run, run needs intake)'),
   BENCH_READS_SECONDS: z.coerce.number().int().min(1).default(30).describe('seconds of load per read route'),
@@ -24,7 +29,11 @@ export function readBenchSettings(env: NodeJS.ProcessEnv = process.env): BenchSe
   const sections = new Set(BENCH_SECTIONS);
   // The run section aggregates the roster the intake section applied; reads and the end-to-end
   // path need the run's results and its generated case list.
-  const needs: Array<[BenchSection, BenchSection]> = [['run', 'intake'], ['reads', 'run'], ['endToEnd', 'run']];
+  const needs: Array<[BenchSection, BenchSection]> = [
+    ['run', 'intake'],
+    ['reads', 'run'],
+    ['endToEnd', 'run'],
+  ];
   for (const [section, needed] of needs) {
     if (sections.has(section) && !sections.has(needed)) throw new SetupError(`BENCH_SECTIONS: ${section} needs ${needed} (give both)`);
   }

@@ -115,9 +115,7 @@ export async function startPostgres(opts: PostgresOptions): Promise<RunningPostg
     if (serverRunning(bin, dataDir)) {
       const pid = readFileSync(pidFile, 'utf8').split('\n')[0];
       if (opts.durable) {
-        throw new SetupError(
-          `a database server is still running on ${dataDir} (pid ${pid}), probably from another npm start; stop that one first`,
-        );
+        throw new SetupError(`a database server is still running on ${dataDir} (pid ${pid}), probably from another npm start; stop that one first`);
       }
       say(`stopping a test database server left running (pid ${pid})`);
       run(join(bin, 'pg_ctl'), ['-D', dataDir, '-m', 'immediate', '-w', 'stop'], 'pg_ctl stop');

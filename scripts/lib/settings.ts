@@ -11,7 +11,10 @@ const schema = z.object({
   SMTP_PORT: port(2525),
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   /** Same as `npm start -- --empty`: a new database starts without the demo data. */
-  RATEWARDEN_EMPTY: z.enum(['true', 'false', '1', '0']).default('false').transform((s) => s === 'true' || s === '1'),
+  RATEWARDEN_EMPTY: z
+    .enum(['true', 'false', '1', '0'])
+    .default('false')
+    .transform((s) => s === 'true' || s === '1'),
   /** The first administrator of an empty start (signs in with this e-mail); by default the stand-in's demo administrator. */
   FIRST_ADMIN_EMAIL: z.string().email().default('admin@demo.ratewarden.test'),
 });

@@ -37,7 +37,10 @@ export type IntegrationClientView = z.infer<typeof integrationClientSchema>;
 
 /** POST /api/admin/clients */
 export const clientRegistrationSchema = z.strictObject({
-  clientId: z.string().trim().regex(/^[A-Za-z0-9._:-]{3,128}$/, 'letters, digits and . _ : - only (3–128)'),
+  clientId: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9._:-]{3,128}$/, 'letters, digits and . _ : - only (3–128)'),
   name: z.string().trim().min(1).max(200),
 });
 export type ClientRegistration = z.infer<typeof clientRegistrationSchema>;

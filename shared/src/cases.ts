@@ -17,7 +17,10 @@ export const caseReviewInputSchema = z.strictObject({
 });
 export type CaseReviewInput = z.infer<typeof caseReviewInputSchema>;
 
-const monthSchema = z.string().regex(/^\d{4}-\d{2}(-01)?$/, 'a month, YYYY-MM').transform((m) => `${m.slice(0, 7)}-01`);
+const monthSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}(-01)?$/, 'a month, YYYY-MM')
+  .transform((m) => `${m.slice(0, 7)}-01`);
 const idParam = z.coerce.number().int().positive();
 
 /** Filters of the register: all optional; `q` finds a case reference or a worker key (part of either). */

@@ -25,9 +25,15 @@ describe('CSV export', () => {
   });
 
   it('quotes commas, quotes and line breaks and ends every line with CRLF', () => {
-    expect(toCsv(['group', 'note'], [['Paint, line 2', 'said "ok"'], ['Stores', 'two\nlines']])).toBe(
-      'group,note\r\n"Paint, line 2","said ""ok"""\r\nStores,"two\nlines"\r\n',
-    );
+    expect(
+      toCsv(
+        ['group', 'note'],
+        [
+          ['Paint, line 2', 'said "ok"'],
+          ['Stores', 'two\nlines'],
+        ],
+      ),
+    ).toBe('group,note\r\n"Paint, line 2","said ""ok"""\r\nStores,"two\nlines"\r\n');
   });
 
   it('neutralises before quoting, so a quoted formula still cannot run', () => {

@@ -3,7 +3,11 @@ import { countingRuleSchema } from './domain';
 import { patchSchemaOf } from './patch-schema';
 
 /** Codes appear in every roster and case file; the same rule the database CHECK holds. */
-export const configCodeSchema = z.string().trim().toUpperCase().regex(/^[A-Z0-9_-]{1,32}$/, 'letters, digits, _ or -, at most 32');
+export const configCodeSchema = z
+  .string()
+  .trim()
+  .toUpperCase()
+  .regex(/^[A-Z0-9_-]{1,32}$/, 'letters, digits, _ or -, at most 32');
 
 export const exposureGroupSchema = z.object({
   id: z.number().int(),
@@ -34,7 +38,10 @@ export type ExposureGroupUpdate = z.infer<typeof exposureGroupUpdateSchema>;
 
 /** PUT /api/groups/levels: set every group's ordinal level at once (a reordering is one change). */
 export const exposureLevelsSchema = z.strictObject({
-  levels: z.array(z.strictObject({ id: z.number().int(), exposureLevel: z.number().int().min(0).max(100).nullable() })).min(1).max(500),
+  levels: z
+    .array(z.strictObject({ id: z.number().int(), exposureLevel: z.number().int().min(0).max(100).nullable() }))
+    .min(1)
+    .max(500),
 });
 
 export const outcomeSchema = z.object({

@@ -29,22 +29,70 @@ export interface ColumnDef {
 }
 
 export const rosterColumns = [
-  { name: 'worker_key', required: true, rule: { type: 'key', maxLength: 64 }, description: 'Pseudonymous worker key from HR, the same every month (letters, digits and . _ : / -; no names).', example: 'W000123' },
+  {
+    name: 'worker_key',
+    required: true,
+    rule: { type: 'key', maxLength: 64 },
+    description: 'Pseudonymous worker key from HR, the same every month (letters, digits and . _ : / -; no names).',
+    example: 'W000123',
+  },
   { name: 'site', required: true, rule: { type: 'code', ref: 'site' }, description: 'Site code as set up in Ratewarden.', example: 'NFD' },
-  { name: 'exposure_group', required: true, rule: { type: 'code', ref: 'exposure_group' }, description: 'Exposure group code as set up on the groups page.', example: 'FETTLING' },
-  { name: 'month', required: true, rule: { type: 'month', min: '1950-01', max: '2099-12' }, description: 'Calendar month worked, ISO 8601 year and month, from 1950-01 to the current month.', example: '2024-03' },
-  { name: 'hours', required: true, rule: { type: 'decimal', min: 0, max: 744, decimals: 2 }, description: 'Hours worked in that month in that group, decimal point or comma, at most 2 decimals, 0 to 744.', example: '151.5' },
+  {
+    name: 'exposure_group',
+    required: true,
+    rule: { type: 'code', ref: 'exposure_group' },
+    description: 'Exposure group code as set up on the groups page.',
+    example: 'FETTLING',
+  },
+  {
+    name: 'month',
+    required: true,
+    rule: { type: 'month', min: '1950-01', max: '2099-12' },
+    description: 'Calendar month worked, ISO 8601 year and month, from 1950-01 to the current month.',
+    example: '2024-03',
+  },
+  {
+    name: 'hours',
+    required: true,
+    rule: { type: 'decimal', min: 0, max: 744, decimals: 2 },
+    description: 'Hours worked in that month in that group, decimal point or comma, at most 2 decimals, 0 to 744.',
+    example: '151.5',
+  },
   { name: 'birth_year', required: true, rule: { type: 'integer', min: 1900, max: 2100 }, description: 'Year of birth (for age bands).', example: '1979' },
   { name: 'sex', required: true, rule: { type: 'choice', values: ['F', 'M', 'X'] }, description: 'F, M or X (for strata).', example: 'F' },
-  { name: 'job_title', required: false, rule: { type: 'text', maxLength: 200 }, description: 'Optional job title, stored as plain text.', example: 'Grinder operator' },
+  {
+    name: 'job_title',
+    required: false,
+    rule: { type: 'text', maxLength: 200 },
+    description: 'Optional job title, stored as plain text.',
+    example: 'Grinder operator',
+  },
 ] as const satisfies readonly ColumnDef[];
 
 export const caseColumns = [
-  { name: 'case_ref', required: true, rule: { type: 'key', maxLength: 64 }, description: 'The case identifier in the occupational health record, stable across corrections.', example: 'C-2024-0042' },
+  {
+    name: 'case_ref',
+    required: true,
+    rule: { type: 'key', maxLength: 64 },
+    description: 'The case identifier in the occupational health record, stable across corrections.',
+    example: 'C-2024-0042',
+  },
   { name: 'worker_key', required: true, rule: { type: 'key', maxLength: 64 }, description: 'Worker key as used in the rosters.', example: 'W000123' },
   { name: 'outcome', required: true, rule: { type: 'code', ref: 'outcome' }, description: 'Outcome code as set up on the outcomes page.', example: 'STS' },
-  { name: 'onset_date', required: true, rule: { type: 'date', min: '1900-01-01', max: '2099-12-31' }, description: 'Date of onset (or diagnosis), ISO 8601, from 1900-01-01 to the end of the current month.', example: '2024-03-18' },
-  { name: 'status', required: true, rule: { type: 'choice', values: ['suspected', 'confirmed', 'ruled_out'] }, description: 'suspected, confirmed or ruled_out.', example: 'confirmed' },
+  {
+    name: 'onset_date',
+    required: true,
+    rule: { type: 'date', min: '1900-01-01', max: '2099-12-31' },
+    description: 'Date of onset (or diagnosis), ISO 8601, from 1900-01-01 to the end of the current month.',
+    example: '2024-03-18',
+  },
+  {
+    name: 'status',
+    required: true,
+    rule: { type: 'choice', values: ['suspected', 'confirmed', 'ruled_out'] },
+    description: 'suspected, confirmed or ruled_out.',
+    example: 'confirmed',
+  },
 ] as const satisfies readonly ColumnDef[];
 
 export const intakeColumns: Record<IntakeKind, readonly ColumnDef[]> = { roster: rosterColumns, cases: caseColumns };
@@ -107,7 +155,8 @@ export const reasons = {
   },
   range: (col: string, min: number | string, max: number | string) => `${col} must be between ${min} and ${max}`,
   future: (col: string, latest: string) => `${col} is after the current month (${latest}); months still to come are not taken in`,
-  intakeExpired: (hours: number) => `the intake expired: it was not applied within ${hours} hours of its check and its staged rows were dropped; upload the file again`,
+  intakeExpired: (hours: number) =>
+    `the intake expired: it was not applied within ${hours} hours of its check and its staged rows were dropped; upload the file again`,
   noSuchDay: (col: string) => `${col} is not a day of the calendar`,
   unknownCode: (col: string, ref: 'site' | 'exposure_group' | 'outcome') =>
     ref === 'site'
@@ -127,5 +176,8 @@ export const reasons = {
 /** The downloadable template: the header row and one example row. */
 export function templateCsv(kind: IntakeKind): string {
   const cols = intakeColumns[kind];
-  return toCsv(cols.map((c) => c.name), [cols.map((c) => c.example)]);
+  return toCsv(
+    cols.map((c) => c.name),
+    [cols.map((c) => c.example)],
+  );
 }

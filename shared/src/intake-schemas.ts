@@ -25,7 +25,12 @@ export function cellSchema(col: ColumnDef, bounds: CellBounds = NO_BOUNDS): z.Zo
  */
 export function rowSchema(kind: IntakeKind, bounds: CellBounds = NO_BOUNDS) {
   const shape: Record<string, z.ZodType<string | number | null>> = {};
-  for (const col of intakeColumns[kind]) shape[col.name] = col.required ? cellSchema(col, bounds) : cellSchema(col, bounds).optional().transform((v) => v ?? null);
+  for (const col of intakeColumns[kind])
+    shape[col.name] = col.required
+      ? cellSchema(col, bounds)
+      : cellSchema(col, bounds)
+          .optional()
+          .transform((v) => v ?? null);
   return z.object(shape).strict();
 }
 
@@ -94,7 +99,15 @@ export const rosterDiffSchema = z.object({
   kind: z.literal('roster'),
   newWorkers: z.number().int(),
   slices: z.array(rosterSliceDiffSchema),
-  totals: z.object({ added: z.number().int(), removed: z.number().int(), moved: z.number().int(), hoursChanged: z.number().int(), unchanged: z.number().int(), newSlices: z.number().int(), replacedSlices: z.number().int() }),
+  totals: z.object({
+    added: z.number().int(),
+    removed: z.number().int(),
+    moved: z.number().int(),
+    hoursChanged: z.number().int(),
+    unchanged: z.number().int(),
+    newSlices: z.number().int(),
+    replacedSlices: z.number().int(),
+  }),
   /** Absent from diffs stored before orphaned cases were looked for. */
   orphanedCases: orphanedCasesSchema.optional(),
 });
@@ -123,7 +136,15 @@ export const caseDiffSchema = z.object({
   new: z.number().int(),
   changed: z.number().int(),
   unchanged: z.number().int(),
-  byOutcome: z.array(z.object({ outcomeCode: z.string(), new: z.number().int().nullable(), changed: z.number().int().nullable(), newWithheld: splitWithheldSchema.nullable().optional(), changedWithheld: splitWithheldSchema.nullable().optional() })),
+  byOutcome: z.array(
+    z.object({
+      outcomeCode: z.string(),
+      new: z.number().int().nullable(),
+      changed: z.number().int().nullable(),
+      newWithheld: splitWithheldSchema.nullable().optional(),
+      changedWithheld: splitWithheldSchema.nullable().optional(),
+    }),
+  ),
   split: z.array(caseDiffCellSchema).optional(),
 });
 

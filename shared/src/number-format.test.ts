@@ -28,7 +28,9 @@ describe('the number rule', () => {
 
   it('never prints more than three significant digits below 1,000', () => {
     for (const x of [0.03125, 0.0625, 0.125, 1 / 3, 2 / 3, 12.3456, 987.654, 0.00098765]) {
-      const digits = formatFigure(x).replace(/[^0-9]/g, '').replace(/^0+/, '');
+      const digits = formatFigure(x)
+        .replace(/[^0-9]/g, '')
+        .replace(/^0+/, '');
       expect(digits.length, `${x} → ${formatFigure(x)}`).toBeLessThanOrEqual(3);
     }
   });

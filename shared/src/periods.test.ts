@@ -17,15 +17,27 @@ describe('reporting periods', () => {
     expect(addMonths('2025-01-01', -1)).toBe('2024-12-01');
     expect(addMonths('2024-12-01', 13)).toBe('2026-01-01');
     expect(windowMonths('rolling12', '2025-03-01')).toEqual([
-      '2024-04-01', '2024-05-01', '2024-06-01', '2024-07-01', '2024-08-01', '2024-09-01',
-      '2024-10-01', '2024-11-01', '2024-12-01', '2025-01-01', '2025-02-01', '2025-03-01',
+      '2024-04-01',
+      '2024-05-01',
+      '2024-06-01',
+      '2024-07-01',
+      '2024-08-01',
+      '2024-09-01',
+      '2024-10-01',
+      '2024-11-01',
+      '2024-12-01',
+      '2025-01-01',
+      '2025-02-01',
+      '2025-03-01',
     ]);
   });
 
   it('calls a company month complete only when every expected site is', () => {
     const b = book([
-      [1, '2025-06-01', 'ready'], [2, '2025-06-01', 'ready'],
-      [1, '2025-07-01', 'ready'], [2, '2025-07-01', 'hours_in'],
+      [1, '2025-06-01', 'ready'],
+      [2, '2025-06-01', 'ready'],
+      [1, '2025-07-01', 'ready'],
+      [2, '2025-07-01', 'hours_in'],
     ]);
     expect(b.monthComplete('2025-06-01')).toBe(true);
     expect(b.monthComplete('2025-07-01')).toBe(false);
@@ -34,7 +46,11 @@ describe('reporting periods', () => {
   });
 
   it('expects a site that reported in the last 12 months, not one silent for longer', () => {
-    const b = book([[1, '2023-01-01', 'closed'], [2, '2024-06-01', 'ready'], [3, '2024-06-01', 'cases_in']]);
+    const b = book([
+      [1, '2023-01-01', 'closed'],
+      [2, '2024-06-01', 'ready'],
+      [3, '2024-06-01', 'cases_in'],
+    ]);
     expect(b.expectedSites('2024-06-01')).toEqual([2]);
     expect(b.expectedSites('2023-12-01')).toEqual([1]);
     expect(b.monthComplete('2024-06-01')).toBe(true);
@@ -52,9 +68,12 @@ describe('reporting periods', () => {
 describe('latest complete month', () => {
   it('is the newest month each expected site of the scope has complete', () => {
     const b = book([
-      [1, '2025-06-01', 'closed'], [2, '2025-06-01', 'ready'],
-      [1, '2025-07-01', 'ready'], [2, '2025-07-01', 'hours_in'],
-      [1, '2025-08-01', 'hours_in'], [2, '2025-08-01', 'awaiting'],
+      [1, '2025-06-01', 'closed'],
+      [2, '2025-06-01', 'ready'],
+      [1, '2025-07-01', 'ready'],
+      [2, '2025-07-01', 'hours_in'],
+      [1, '2025-08-01', 'hours_in'],
+      [2, '2025-08-01', 'awaiting'],
     ]);
     expect(b.latestComplete()).toBe('2025-06-01');
     expect(b.latestComplete([1])).toBe('2025-07-01');
@@ -82,14 +101,22 @@ describe('latest complete month', () => {
   it('does not expect a retired site after its retirement, and keeps the months it was expected in', () => {
     // Site 2 rostered in June and July, retired in July: August is complete with site 1 alone.
     const b = new PeriodBook([
-      { siteId: 1, month: '2025-07-01', state: 'ready' }, { siteId: 2, month: '2025-07-01', state: 'hours_in' },
-      { siteId: 1, month: '2025-08-01', state: 'ready' }, { siteId: 2, month: '2025-08-01', state: 'awaiting', retired: true },
+      { siteId: 1, month: '2025-07-01', state: 'ready' },
+      { siteId: 2, month: '2025-07-01', state: 'hours_in' },
+      { siteId: 1, month: '2025-08-01', state: 'ready' },
+      { siteId: 2, month: '2025-08-01', state: 'awaiting', retired: true },
     ]);
     expect(b.expectedSites('2025-08-01')).toEqual([1]);
     expect(b.monthComplete('2025-08-01')).toBe(true);
     expect(b.monthComplete('2025-07-01')).toBe(false);
     expect(b.windowComplete('rolling12', '2025-08-01')).toBe(false);
     // Without the retirement, site 2 would still be expected in August.
-    expect(new PeriodBook([{ siteId: 1, month: '2025-08-01', state: 'ready' }, { siteId: 2, month: '2025-07-01', state: 'hours_in' }, { siteId: 2, month: '2025-08-01', state: 'awaiting' }]).monthComplete('2025-08-01')).toBe(false);
+    expect(
+      new PeriodBook([
+        { siteId: 1, month: '2025-08-01', state: 'ready' },
+        { siteId: 2, month: '2025-07-01', state: 'hours_in' },
+        { siteId: 2, month: '2025-08-01', state: 'awaiting' },
+      ]).monthComplete('2025-08-01'),
+    ).toBe(false);
   });
 });

@@ -52,6 +52,4 @@ export function roleMay(role: Role | null | undefined, permission: Permission): 
 }
 
 /** Who is making a request: a signed-in person or an integration client. */
-export type Principal =
-  | { kind: 'user'; id: string; email: string; name: string; role: Role | null; siteIds: number[] }
-  | { kind: 'client'; clientId: string };
+export type Principal = { kind: 'user'; id: string; email: string; name: string; role: Role | null; siteIds: number[] } | { kind: 'client'; clientId: string };

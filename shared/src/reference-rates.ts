@@ -11,11 +11,35 @@ import { intakeProblemSchema } from './intake-schemas';
 export const referenceRateColumns = [
   { name: 'outcome', required: true, rule: { type: 'code', ref: 'outcome' }, description: 'Outcome code as set up on the outcomes page.', example: 'STS' },
   { name: 'sex', required: true, rule: { type: 'choice', values: ['F', 'M'] }, description: 'F or M: reference rates are given per sex.', example: 'F' },
-  { name: 'age_from', required: true, rule: { type: 'integer', min: 0, max: 120 }, description: 'Lowest age of the band in whole years (age = calendar year − birth year), included.', example: '25' },
-  { name: 'age_to', required: true, rule: { type: 'integer', min: 0, max: 120 }, description: 'Highest age of the band, included (write 120 for an open top band such as 85+).', example: '34' },
+  {
+    name: 'age_from',
+    required: true,
+    rule: { type: 'integer', min: 0, max: 120 },
+    description: 'Lowest age of the band in whole years (age = calendar year − birth year), included.',
+    example: '25',
+  },
+  {
+    name: 'age_to',
+    required: true,
+    rule: { type: 'integer', min: 0, max: 120 },
+    description: 'Highest age of the band, included (write 120 for an open top band such as 85+).',
+    example: '34',
+  },
   { name: 'year', required: true, rule: { type: 'integer', min: 1950, max: 2099 }, description: 'Calendar year the rate applies to.', example: '2024' },
-  { name: 'rate_per_person_year', required: true, rule: { type: 'decimal', min: 0, max: 1000, decimals: 12 }, description: 'Cases per person-year (not per 1,000 or 100,000: divide first), decimal point or comma, at most 12 decimals.', example: '0.0042' },
-  { name: 'source', required: true, rule: { type: 'text', maxLength: 500 }, description: 'Where the rate comes from, free text (publisher, table, edition).', example: 'National registry, table 4, 2024 edition' },
+  {
+    name: 'rate_per_person_year',
+    required: true,
+    rule: { type: 'decimal', min: 0, max: 1000, decimals: 12 },
+    description: 'Cases per person-year (not per 1,000 or 100,000: divide first), decimal point or comma, at most 12 decimals.',
+    example: '0.0042',
+  },
+  {
+    name: 'source',
+    required: true,
+    rule: { type: 'text', maxLength: 500 },
+    description: 'Where the rate comes from, free text (publisher, table, edition).',
+    example: 'National registry, table 4, 2024 edition',
+  },
 ] as const satisfies readonly ColumnDef[];
 
 export type ReferenceRateColumn = (typeof referenceRateColumns)[number]['name'];
@@ -35,7 +59,10 @@ export const referenceReasons = {
 
 export function referenceTemplateCsv(): string {
   const cols = referenceRateColumns;
-  return toCsv(cols.map((c) => c.name), [cols.map((c) => c.example)]);
+  return toCsv(
+    cols.map((c) => c.name),
+    [cols.map((c) => c.example)],
+  );
 }
 
 // ---- API shapes -------------------------------------------------------------------------------

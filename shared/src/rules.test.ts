@@ -17,7 +17,9 @@ describe('watch rule validation', () => {
   it('needs a threshold except for u-chart rules, which work on single months', () => {
     expect(watchRuleInputSchema.safeParse({ name: 'r', outcomeId: 1, measure: 'rate' }).error?.issues[0]).toMatchObject({ path: ['threshold'] });
     expect(watchRuleInputSchema.safeParse({ name: 'u', outcomeId: 1, measure: 'uchart', window: 'month' }).success).toBe(true);
-    expect(watchRuleInputSchema.safeParse({ name: 'u', outcomeId: 1, measure: 'uchart', window: 'rolling12' }).error?.issues[0]).toMatchObject({ path: ['window'] });
+    expect(watchRuleInputSchema.safeParse({ name: 'u', outcomeId: 1, measure: 'uchart', window: 'rolling12' }).error?.issues[0]).toMatchObject({
+      path: ['window'],
+    });
   });
 
   const rule = { name: 'r', outcomeId: 1, measure: 'irr', threshold: 1 };
@@ -50,7 +52,10 @@ describe('watch rule validation', () => {
   it('watches the company by default, or chosen sites, each once and in order; no empty choice', () => {
     expect(watchRuleInputSchema.parse(rule).siteIds).toBeNull();
     expect(watchRuleInputSchema.parse({ ...rule, siteIds: [4, 2, 4] }).siteIds).toEqual([2, 4]);
-    expect(watchRuleInputSchema.safeParse({ ...rule, siteIds: [] }).error?.issues[0]).toMatchObject({ path: ['siteIds'], message: 'choose at least one site, or watch the whole company' });
+    expect(watchRuleInputSchema.safeParse({ ...rule, siteIds: [] }).error?.issues[0]).toMatchObject({
+      path: ['siteIds'],
+      message: 'choose at least one site, or watch the whole company',
+    });
     expect(watchRulePatchSchema.parse({ siteIds: null })).toEqual({ siteIds: null });
     expect(watchRulePatchSchema.parse({ name: 'x' })).not.toHaveProperty('siteIds');
   });

@@ -40,37 +40,41 @@ export type WindowKind = z.infer<typeof windowKindSchema>;
 const aNumber = { error: 'enter a number, e.g. 1.5' };
 const aWholeNumber = (min: number, max: number) => ({ error: `enter a whole number from ${min} to ${max.toLocaleString('en-GB')}` });
 
-const ruleFields = (smallCellThreshold: number) => z.strictObject({
-  name: z.string().trim().min(1, 'give the rule a name').max(120, 'at most 120 characters'),
-  outcomeId: z.number({ error: 'choose an outcome' }).int().positive(),
-  /** null: every exposure group except the reference group. */
-  exposureGroupId: z.number().int().positive().nullable().default(null),
-  /** null: the whole company; else the sites watched (kept sorted, each once). */
-  siteIds: z
-    .array(z.number({ error: 'choose a site' }).int().positive())
-    .min(1, 'choose at least one site, or watch the whole company')
-    .max(500, 'at most 500 sites')
-    .transform((ids) => [...new Set(ids)].sort((a, b) => a - b))
-    .nullable()
-    .default(null),
-  measure: ruleMeasureSchema,
-  thresholdOn: thresholdOnSchema.default('lower_bound'),
-  /** Required except for `uchart`, whose threshold is the upper control limit itself. */
-  threshold: z.number(aNumber).finite(aNumber).nullable().default(null),
-  minCases: z
-    .number(aWholeNumber(smallCellThreshold, 100_000))
-    .int(aWholeNumber(smallCellThreshold, 100_000))
-    .min(smallCellThreshold, `at least ${smallCellThreshold}: smaller counts are withheld from everyone but the physician`)
-    .max(100_000, aWholeNumber(smallCellThreshold, 100_000))
-    .default(smallCellThreshold),
-  minExpected: z.number(aNumber).min(0, 'enter 0 or more').max(100_000, 'at most 100,000').default(0),
-  window: windowKindSchema.default('rolling12'),
-  consecutivePeriods: z.number(aWholeNumber(1, 24)).int(aWholeNumber(1, 24)).min(1, aWholeNumber(1, 24)).max(24, aWholeNumber(1, 24)).default(1),
-  fdrControl: z.boolean().default(true),
-  fdrLevel: z.number(aNumber).gt(0, 'between 0 and 1, e.g. 0.05').lt(1, 'between 0 and 1, e.g. 0.05').default(0.05),
-  recipients: z.array(z.string().trim().toLowerCase().pipe(z.email('not an e-mail address'))).max(50, 'at most 50 recipients').default([]),
-  active: z.boolean().default(true),
-});
+const ruleFields = (smallCellThreshold: number) =>
+  z.strictObject({
+    name: z.string().trim().min(1, 'give the rule a name').max(120, 'at most 120 characters'),
+    outcomeId: z.number({ error: 'choose an outcome' }).int().positive(),
+    /** null: every exposure group except the reference group. */
+    exposureGroupId: z.number().int().positive().nullable().default(null),
+    /** null: the whole company; else the sites watched (kept sorted, each once). */
+    siteIds: z
+      .array(z.number({ error: 'choose a site' }).int().positive())
+      .min(1, 'choose at least one site, or watch the whole company')
+      .max(500, 'at most 500 sites')
+      .transform((ids) => [...new Set(ids)].sort((a, b) => a - b))
+      .nullable()
+      .default(null),
+    measure: ruleMeasureSchema,
+    thresholdOn: thresholdOnSchema.default('lower_bound'),
+    /** Required except for `uchart`, whose threshold is the upper control limit itself. */
+    threshold: z.number(aNumber).finite(aNumber).nullable().default(null),
+    minCases: z
+      .number(aWholeNumber(smallCellThreshold, 100_000))
+      .int(aWholeNumber(smallCellThreshold, 100_000))
+      .min(smallCellThreshold, `at least ${smallCellThreshold}: smaller counts are withheld from everyone but the physician`)
+      .max(100_000, aWholeNumber(smallCellThreshold, 100_000))
+      .default(smallCellThreshold),
+    minExpected: z.number(aNumber).min(0, 'enter 0 or more').max(100_000, 'at most 100,000').default(0),
+    window: windowKindSchema.default('rolling12'),
+    consecutivePeriods: z.number(aWholeNumber(1, 24)).int(aWholeNumber(1, 24)).min(1, aWholeNumber(1, 24)).max(24, aWholeNumber(1, 24)).default(1),
+    fdrControl: z.boolean().default(true),
+    fdrLevel: z.number(aNumber).gt(0, 'between 0 and 1, e.g. 0.05').lt(1, 'between 0 and 1, e.g. 0.05').default(0.05),
+    recipients: z
+      .array(z.string().trim().toLowerCase().pipe(z.email('not an e-mail address')))
+      .max(50, 'at most 50 recipients')
+      .default([]),
+    active: z.boolean().default(true),
+  });
 
 function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: WindowKind }, ctx: z.RefinementCtx): void {
   if (r.measure !== 'uchart' && r.threshold === null) {
@@ -129,6 +133,9 @@ export type WatchRule = z.infer<typeof watchRuleSchema>;
 
 /** The family Benjamini–Hochberg controls for a rule, as one sentence (the rule form shows it; the README says the same). */
 export function fdrFamilySentence(siteIds: readonly number[] | null): string {
-  const family = siteIds === null ? 'every exposure group the rule covers, on the company’s results' : 'every exposure group the rule covers × every chosen site, each on its own results';
+  const family =
+    siteIds === null
+      ? 'every exposure group the rule covers, on the company’s results'
+      : 'every exposure group the rule covers × every chosen site, each on its own results';
   return `False discovery control (Benjamini–Hochberg) holds the rate over one family per period: ${family}.`;
 }

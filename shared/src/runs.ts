@@ -125,7 +125,12 @@ export const runResultSchema = z.object({
   mhAge: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
   mhSite: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
   mhSex: z.object({ irr: z.object({ ...limits, p: z.number().nullable() }), ird: z.object(limits) }),
-  uChart: z.object({ centre: z.number().nullable(), lcl: z.number().nullable(), ucl: z.number().nullable(), signal: z.enum(['above', 'below', 'within']).nullable() }),
+  uChart: z.object({
+    centre: z.number().nullable(),
+    lcl: z.number().nullable(),
+    ucl: z.number().nullable(),
+    signal: z.enum(['above', 'below', 'within']).nullable(),
+  }),
   detail: z.record(z.string(), z.unknown()),
   /** Whether every month of the window was complete in the row's scope when the run read its data (shared/src/periods.ts). */
   completeness: completenessSchema,
@@ -248,4 +253,3 @@ export const runStrataSchema = z.object({
   methods: z.object({ irr: z.string(), ird: z.string() }),
 });
 export type RunStrata = z.infer<typeof runStrataSchema>;
-

@@ -30,7 +30,10 @@ export const settingsUpdateSchema = z.strictObject({
   personTimeBasis: personTimeBasisSchema,
   per: z.number().positive().max(1e9),
   confidence: z.number().gt(0.5).lt(1),
-  countedStatuses: z.array(caseStatusSchema).min(1).refine((s) => new Set(s).size === s.length, 'each status once'),
+  countedStatuses: z
+    .array(caseStatusSchema)
+    .min(1)
+    .refine((s) => new Set(s).size === s.length, 'each status once'),
   ageBandEdges: ageBandEdgesSchema,
 });
 export type SettingsUpdate = z.infer<typeof settingsUpdateSchema>;

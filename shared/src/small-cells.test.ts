@@ -94,11 +94,39 @@ describe('a count split into parts, both published', () => {
 
 describe('a two-level table under a published grand total', () => {
   it('a group whose parts would give a small one back goes whole; the others stay', () => {
-    expect(nestedSuppression([[6, 2], [9, 0]], 5)).toEqual({ totals: ['complement', null], parts: [['total', 'total'], [null, null]] });
+    expect(
+      nestedSuppression(
+        [
+          [6, 2],
+          [9, 0],
+        ],
+        5,
+      ),
+    ).toEqual({
+      totals: ['complement', null],
+      parts: [
+        ['total', 'total'],
+        [null, null],
+      ],
+    });
   });
 
   it('a small group total takes a complement among the group totals, and both groups go whole', () => {
-    expect(nestedSuppression([[6, 0], [3, 1]], 5)).toEqual({ totals: ['complement', 'small'], parts: [['total', 'total'], ['total', 'total']] });
+    expect(
+      nestedSuppression(
+        [
+          [6, 0],
+          [3, 1],
+        ],
+        5,
+      ),
+    ).toEqual({
+      totals: ['complement', 'small'],
+      parts: [
+        ['total', 'total'],
+        ['total', 'total'],
+      ],
+    });
   });
 
   it('no withheld count can be got back: brute force over small tables', () => {

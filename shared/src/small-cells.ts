@@ -125,7 +125,10 @@ export interface NestedSuppression {
  * nestedSuppression([[6, 2], [9, 0]], 5) // { totals: ['complement', null], parts: [['total', 'total'], [null, null]] }
  */
 export function nestedSuppression(groups: number[][], threshold: number): NestedSuppression {
-  const top = marginSuppression(groups.map((g) => g.reduce((a, b) => a + b, 0)), threshold);
+  const top = marginSuppression(
+    groups.map((g) => g.reduce((a, b) => a + b, 0)),
+    threshold,
+  );
   const totals: NestedSuppression['totals'] = [];
   const parts = groups.map((g, i) => {
     if (top.parts[i] !== null) {

@@ -46,13 +46,15 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', allSites);
     await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
     // The physician may have been provisioned after the fixture's run: a notice of its flag addressed to them, for the inbox pages.
-    noticeId = ((await ds.query(
-      `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body, kind, period, completeness)
+    noticeId = (
+      (await ds.query(
+        `INSERT INTO notices (flag_id, flag_event_id, recipient, subject, body, kind, period, completeness)
        SELECT e.flag_id, e.id, 'physician@demo.ratewarden.test', 'Ratewarden: watch rule raised a flag', 'A watch rule in Ratewarden has been crossed.', 'raised', f.period, 'complete'
        FROM flag_events e JOIN flags f ON f.id = e.flag_id WHERE e.flag_id = $1 AND e.kind = 'raised'
        ON CONFLICT (flag_event_id, recipient) DO UPDATE SET read_at = NULL RETURNING id`,
-      [fx.flagId],
-    )) as Array<{ id: string }>)[0]!.id;
+        [fx.flagId],
+      )) as Array<{ id: string }>
+    )[0]!.id;
   });
 
   /** Signs `email` in and checks each path; returns what axe found, page by page. */
@@ -63,15 +65,36 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     for (const path of paths) {
       await page.goto(`${h.app.baseUrl}${path}`, { waitUntil: 'networkidle' });
       await page.getByRole('heading', { level: 1 }).first().waitFor();
-      for (const v of await axe(page)) found.push(`${path}: ${v.id} (${v.impact}) ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+      for (const v of await axe(page))
+        found.push(
+          `${path}: ${v.id} (${v.impact}) ${v.help} at ${v.nodes
+            .slice(0, 3)
+            .map((n) => n.target.join(' '))
+            .join('; ')}`,
+        );
     }
     await page.close();
     return found;
   };
 
   const pages = (flagId: string, outcome: number) => [
-    '/overview', `/trends?outcome=${outcome}`, `/comparison?outcome=${outcome}&window=month&period=2032-12-01`, `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
-    '/flags', `/flags/${flagId}`, '/rules', '/rules/new', '/intakes', '/runs', '/periods', '/groups', '/outcomes', '/ad-hoc', '/hearing/upload', `/sir?outcomeId=${outcome}`, '/settings',
+    '/overview',
+    `/trends?outcome=${outcome}`,
+    `/comparison?outcome=${outcome}&window=month&period=2032-12-01`,
+    `/adjusted?outcome=${outcome}&window=month&period=2032-12-01&stratify=sex`,
+    '/flags',
+    `/flags/${flagId}`,
+    '/rules',
+    '/rules/new',
+    '/intakes',
+    '/runs',
+    '/periods',
+    '/groups',
+    '/outcomes',
+    '/ad-hoc',
+    '/hearing/upload',
+    `/sir?outcomeId=${outcome}`,
+    '/settings',
   ];
 
   it('as the hygienist, on every page', async () => {
@@ -79,18 +102,34 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
   });
 
   it('as the physician, on the unattributed cases, the intakes they read, the audiograms, the case register, a case and the notices inbox', async () => {
-    expect(await check('physician@demo.ratewarden.test', ['/runs/unattributed', '/runs', '/intakes', '/hearing', `/hearing/workers/${hearingWorker}`, '/cases', `/cases/${fx.caseRefs[0]}`, '/notices', `/notices/${noticeId}`])).toEqual([]);
+    expect(
+      await check('physician@demo.ratewarden.test', [
+        '/runs/unattributed',
+        '/runs',
+        '/intakes',
+        '/hearing',
+        `/hearing/workers/${hearingWorker}`,
+        '/cases',
+        `/cases/${fx.caseRefs[0]}`,
+        '/notices',
+        `/notices/${noticeId}`,
+      ]),
+    ).toEqual([]);
   });
 
   it('as the safety manager on a flag with its review form, and as the administrator', async () => {
     expect(await check('safety@demo.ratewarden.test', [`/flags/${fx.flagId}`, '/sir'])).toEqual([]);
-    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'])).toEqual([]);
+    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'])).toEqual(
+      [],
+    );
   });
 
   it('at phone size (390×844), every page of the hygienist and the administrator, and the opened menu', async () => {
     const phone = { width: 390, height: 844 };
     expect(await check('hygienist@demo.ratewarden.test', pages(fx.flagId, fx.cohort.outcomes.DERM!), phone)).toEqual([]);
-    expect(await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'], phone)).toEqual([]);
+    expect(
+      await check('admin@demo.ratewarden.test', ['/admin', '/admin/clients', '/admin/audit', '/mailbox', '/settings', '/sites', '/first-run'], phone),
+    ).toEqual([]);
     const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
     await page.setViewportSize(phone);
     await page.goto(`${h.app.baseUrl}/overview`, { waitUntil: 'networkidle' });
@@ -107,7 +146,13 @@ describe('pages pass the automated WCAG 2.1 A and AA checks', () => {
     const page = await pageSignedInAs(h, 'physician@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/flags/${fx.flagId}`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { name: 'Cases behind this flag' }).waitFor();
-    const found = (await axe(page)).map((v) => `${v.id} (${v.impact}) ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+    const found = (await axe(page)).map(
+      (v) =>
+        `${v.id} (${v.impact}) ${v.help} at ${v.nodes
+          .slice(0, 3)
+          .map((n) => n.target.join(' '))
+          .join('; ')}`,
+    );
     expect(found).toEqual([]);
     // The check itself works: an image without a text alternative and an unlabelled field are found.
     await page.evaluate(() => document.querySelector('main')!.insertAdjacentHTML('beforeend', '<img src="/planted.png"><input type="text">'));

@@ -34,7 +34,13 @@ async function axeViolations(page: Page): Promise<string[]> {
   return page.evaluate(async () => {
     const w = window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<{ violations: { id: string; nodes: { target: string[] }[] }[] }> } };
     const r = await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } });
-    return r.violations.map((v) => `${v.id} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+    return r.violations.map(
+      (v) =>
+        `${v.id} at ${v.nodes
+          .slice(0, 3)
+          .map((n) => n.target.join(' '))
+          .join('; ')}`,
+    );
   });
 }
 
@@ -93,7 +99,12 @@ describe('ad hoc comparison in Chromium', () => {
     expect([printed(wald[0]!, 2), printed(wald[1]!, 2), printed(wald[2]!, 2)]).toEqual(['0.46', '0.39', '0.55']);
     const exact = await cells(page, /^Rate ratio by each method/, /^exact conditional \(preferred\)/);
     expect([printed(exact[1]!, 2), printed(exact[2]!, 2)]).toEqual(['0.38', '0.55']);
-    expect(await page.getByRole('table', { name: /^Rate ratio by each method/ }).getByRole('row', { name: /score \(test only\)/ }).count()).toBe(1);
+    expect(
+      await page
+        .getByRole('table', { name: /^Rate ratio by each method/ })
+        .getByRole('row', { name: /score \(test only\)/ })
+        .count(),
+    ).toBe(1);
     const note = await page.getByRole('region', { name: 'When the methods differ' }).textContent();
     expect(note).toContain('With these counts the methods agree closely');
     await page.close();
@@ -160,15 +171,26 @@ describe('ad hoc comparison in Chromium', () => {
     expect([mn[1], mn[2]]).toEqual(['0.0528', '0.338']);
     // The export keeps full precision: the published four decimals of both methods.
     const download = page.waitForEvent('download');
-    await page.getByRole('table', { name: /^Risk difference by each method/ }).getByRole('button', { name: /^Export CSV/ }).click();
+    await page
+      .getByRole('table', { name: /^Risk difference by each method/ })
+      .getByRole('button', { name: /^Export CSV/ })
+      .click();
     const csv = await readFile((await (await download).path())!, 'utf8');
     const limits = (method: RegExp) => {
-      const fields = csv.split('\r\n').find((l) => method.test(l))!.split(',');
+      const fields = csv
+        .split('\r\n')
+        .find((l) => method.test(l))!
+        .split(',');
       return [Number(fields[2]).toFixed(4), Number(fields[3]).toFixed(4)];
     };
     expect(limits(/^Newcombe hybrid score \(preferred\)/)).toEqual(['0.0524', '0.3339']);
     expect(limits(/^Miettinen–Nurminen score/)).toEqual(['0.0528', '0.3382']);
-    expect(await page.getByRole('table', { name: /^Tests of equal risks/ }).getByRole('row').count()).toBe(4);
+    expect(
+      await page
+        .getByRole('table', { name: /^Tests of equal risks/ })
+        .getByRole('row')
+        .count(),
+    ).toBe(4);
     await page.close();
   });
 
@@ -209,7 +231,10 @@ describe('ad hoc comparison in Chromium', () => {
   });
 
   it('has no WCAG 2.1 A/AA violations with results and the fold open, wide and on a phone', async () => {
-    for (const size of [{ width: 1366, height: 768 }, { width: 390, height: 844 }]) {
+    for (const size of [
+      { width: 1366, height: 768 },
+      { width: 390, height: 844 },
+    ]) {
       const page = await h.browser.context.newPage();
       await page.setViewportSize(size);
       await page.goto(`${h.app.baseUrl}/ad-hoc`, { waitUntil: 'networkidle' });
@@ -222,7 +247,12 @@ describe('ad hoc comparison in Chromium', () => {
       await openFoldByKeyboard(page, /Other interval methods, compared/);
       expect(await axeViolations(page), `rates at ${size.width}px`).toEqual([]);
       await page.getByLabel(/2×2 table/).check();
-      for (const [label, v] of [['Exposed, with the outcome', '56'], ['Exposed, without the outcome', '14'], ['Not exposed, with the outcome', '48'], ['Not exposed, without the outcome', '32']] as const) {
+      for (const [label, v] of [
+        ['Exposed, with the outcome', '56'],
+        ['Exposed, without the outcome', '14'],
+        ['Not exposed, with the outcome', '48'],
+        ['Not exposed, without the outcome', '32'],
+      ] as const) {
         await page.getByLabel(label, { exact: true }).fill(v);
       }
       await page.getByRole('button', { name: 'Compare the risks' }).click();

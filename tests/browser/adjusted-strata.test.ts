@@ -22,7 +22,9 @@ describe('the adjusted view shows the strata behind an adjusted figure', () => {
   const open = async (email: string, window = 'month') => {
     const page = await pageSignedInAs(h, email);
     const c = fx.cohort;
-    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=${window}&period=2032-12-01&stratify=sex&group=${c.groups.EXP}`, { waitUntil: 'networkidle' });
+    await page.goto(`${h.app.baseUrl}/adjusted?outcome=${c.outcomes.DERM}&window=${window}&period=2032-12-01&stratify=sex&group=${c.groups.EXP}`, {
+      waitUntil: 'networkidle',
+    });
     const table = page.getByRole('table', { name: /^Group EXP against Group REF, by sex/ });
     await table.waitFor();
     return { page, table };

@@ -15,7 +15,9 @@ describe('the administrator gives a person access in Chromium', () => {
   let personId = '';
 
   const h = useBrowserApp(async (ds) => {
-    const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, $2), ($3, $4) RETURNING id`, [`PA${tag}`, siteA, `PB${tag}`, siteB])) as Array<{ id: number }>;
+    const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, $2), ($3, $4) RETURNING id`, [`PA${tag}`, siteA, `PB${tag}`, siteB])) as Array<{
+      id: number;
+    }>;
     await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', [sites[0]!.id]);
     await provisionUser(ds, 'newcomer@demo.ratewarden.test', null);
@@ -27,7 +29,10 @@ describe('the administrator gives a person access in Chromium', () => {
     await page.waitForURL(`${h.app.baseUrl}/admin`);
     await page.getByRole('heading', { level: 1, name: 'Administration' }).waitFor();
 
-    const row = page.getByRole('table', { name: /^People/ }).getByRole('row').filter({ hasText: person });
+    const row = page
+      .getByRole('table', { name: /^People/ })
+      .getByRole('row')
+      .filter({ hasText: person });
     expect(await row.getByRole('cell').allTextContents()).toEqual(expect.arrayContaining(['no role', 'none', 'not signed in yet']));
     await row.getByRole('button', { name: `Change the access of ${person}` }).click();
     const form = page.getByRole('form', { name: `Access of ${person}` });

@@ -8,16 +8,45 @@ import { signInThroughPage, useBrowserApp } from '../support/browser-app';
  * The roles come from provisionUser, not from the demo seed.
  */
 const accounts = [
-  { email: 'hygienist@demo.ratewarden.test', role: 'hygienist', landing: '/overview', heading: 'Overview', shows: ['Overview', 'Intakes', 'Runs', 'Exposure groups', 'Watch rules'], hides: ['Administration', 'Mailbox'] },
-  { email: 'safety@demo.ratewarden.test', role: 'safety_manager', landing: '/flags', heading: 'Flags', shows: ['Flags', 'Watch rules', 'Trends', 'Runs'], hides: ['Intakes', 'Administration', 'Exposure groups'] },
-  { email: 'physician@demo.ratewarden.test', role: 'physician', landing: '/flags', heading: 'Flags', shows: ['Flags', 'Overview', 'Group comparison', 'Intakes'], hides: ['Watch rules', 'Administration'] },
-  { email: 'admin@demo.ratewarden.test', role: 'administrator', landing: '/admin', heading: 'Administration', shows: ['Administration', 'Mailbox'], hides: ['Overview', 'Flags', 'Intakes', 'Runs'] },
+  {
+    email: 'hygienist@demo.ratewarden.test',
+    role: 'hygienist',
+    landing: '/overview',
+    heading: 'Overview',
+    shows: ['Overview', 'Intakes', 'Runs', 'Exposure groups', 'Watch rules'],
+    hides: ['Administration', 'Mailbox'],
+  },
+  {
+    email: 'safety@demo.ratewarden.test',
+    role: 'safety_manager',
+    landing: '/flags',
+    heading: 'Flags',
+    shows: ['Flags', 'Watch rules', 'Trends', 'Runs'],
+    hides: ['Intakes', 'Administration', 'Exposure groups'],
+  },
+  {
+    email: 'physician@demo.ratewarden.test',
+    role: 'physician',
+    landing: '/flags',
+    heading: 'Flags',
+    shows: ['Flags', 'Overview', 'Group comparison', 'Intakes'],
+    hides: ['Watch rules', 'Administration'],
+  },
+  {
+    email: 'admin@demo.ratewarden.test',
+    role: 'administrator',
+    landing: '/admin',
+    heading: 'Administration',
+    shows: ['Administration', 'Mailbox'],
+    hides: ['Overview', 'Flags', 'Intakes', 'Runs'],
+  },
 ] as const;
 
 describe('the four demo accounts in Chromium', () => {
-
   const h = useBrowserApp(async (ds) => {
-    const [site] = (await ds.query(`INSERT INTO sites (code, name) VALUES ('DA' || substr(md5(random()::text), 1, 6), 'Demo-account test site') RETURNING id`)) as Array<{ id: number }>;
+    const [site] = (await ds.query(
+      `INSERT INTO sites (code, name) VALUES ('DA' || substr(md5(random()::text), 1, 6), 'Demo-account test site') RETURNING id`,
+    )) as Array<{ id: number }>;
     for (const a of accounts) await provisionUser(ds, a.email, a.role, a.role === 'administrator' ? [] : [site!.id]);
   });
 

@@ -2,7 +2,6 @@ import { describe, expect, it } from 'vitest';
 import { useBrowserApp } from '../support/browser-app';
 
 describe('first page in Chromium', () => {
-
   const h = useBrowserApp();
 
   it('renders the product name, a sign-in link and Noto Sans served by the app itself', async () => {

@@ -20,7 +20,15 @@ export interface FlagFixture {
 
 export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
   await clearCohortData(ds);
-  const c = await makeCohort(ds, { groups: [['REF', 0], ['MID', 1], ['EXP', 2]], reference: 'REF', outcomes: [['DERM', 'recurrent']] });
+  const c = await makeCohort(ds, {
+    groups: [
+      ['REF', 0],
+      ['MID', 1],
+      ['EXP', 2],
+    ],
+    reference: 'REF',
+    outcomes: [['DERM', 'recurrent']],
+  });
   const ids: Record<string, number[]> = { REF: [], MID: [], EXP: [] };
   const rows: Array<[number, string, number, number, number]> = [];
   for (const g of ['REF', 'MID', 'EXP'] as const) {
@@ -32,7 +40,9 @@ export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
   }
   await c.roster(rows);
   await c.cases([
-    ...ids.EXP!.slice(0, 6).flatMap((w) => ['2032-11-10', '2032-11-12', '2032-12-10', '2032-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+    ...ids
+      .EXP!.slice(0, 6)
+      .flatMap((w) => ['2032-11-10', '2032-11-12', '2032-12-10', '2032-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
     ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-12-03'] as [number, number, string]),
     ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2032-12-03'] as [number, number, string]),
   ]);
@@ -45,9 +55,9 @@ export async function makeFlagFixture(ds: DataSource): Promise<FlagFixture> {
   if (run.status !== 'succeeded') throw new Error(`the fixture's run did not succeed: ${JSON.stringify(run)}`);
   const flags = (await ds.query(`SELECT id FROM flags WHERE rule_id = $1`, [rule!.id])) as Array<{ id: string }>;
   if (flags.length !== 1) throw new Error(`expected one flag from the fixture's rule, found ${flags.length}`);
-  const refs = (await ds.query(
-    `SELECT case_ref FROM case_events WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) ORDER BY case_ref`,
-    [c.casesIntake, ids.EXP],
-  )) as Array<{ case_ref: string }>;
+  const refs = (await ds.query(`SELECT case_ref FROM case_events WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) ORDER BY case_ref`, [
+    c.casesIntake,
+    ids.EXP,
+  ])) as Array<{ case_ref: string }>;
   return { cohort: c, ruleId: rule!.id, flagId: flags[0]!.id, caseRefs: refs.map((r) => r.case_ref) };
 }

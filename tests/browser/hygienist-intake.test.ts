@@ -16,8 +16,16 @@ describe('hygienist uploads a roster in Chromium', () => {
 
   const h = useBrowserApp(async (ds) => {
     const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Browser test site') RETURNING id`, [site])) as { id: number }[];
-    await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Browser A', 'none', 0), ($2, 'Browser B', 'noise', 1)`, [ga, gb]);
-    await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', sites.map((s) => s.id));
+    await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Browser A', 'none', 0), ($2, 'Browser B', 'noise', 1)`, [
+      ga,
+      gb,
+    ]);
+    await provisionUser(
+      ds,
+      'hygienist@demo.ratewarden.test',
+      'hygienist',
+      sites.map((s) => s.id),
+    );
   });
 
   it('signs in, uploads, checks and applies a roster, and sees the run it requested complete', async () => {

@@ -18,19 +18,27 @@ describe('intake formats on the intake page, and the first-run page', () => {
     const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/intakes`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { name: 'Templates and format rules' }).waitFor();
-    for (const [name, file, firstColumn] of [['roster template (roster.csv)', 'roster.csv', 'worker_key'], ['case list template (cases.csv)', 'cases.csv', 'case_ref']] as const) {
+    for (const [name, file, firstColumn] of [
+      ['roster template (roster.csv)', 'roster.csv', 'worker_key'],
+      ['case list template (cases.csv)', 'cases.csv', 'case_ref'],
+    ] as const) {
       const link = page.getByRole('link', { name });
       expect(await link.getAttribute('href')).toBe(`/api/intakes/templates/${file}`);
       // The link works for the signed-in reader: the template's header names the format's columns.
       const body = await page.evaluate(async (url) => (await fetch(url)).text(), `/api/intakes/templates/${file}`);
       expect(body.split(/\r?\n/)[0]).toContain(firstColumn);
     }
-    for (const [kind, caption] of [['roster', 'Roster columns'], ['cases', 'Case list columns']] as const) {
+    for (const [kind, caption] of [
+      ['roster', 'Roster columns'],
+      ['cases', 'Case list columns'],
+    ] as const) {
       const table = page.getByRole('table', { name: caption });
       const names = await table.locator('tbody tr').evaluateAll((rows) => rows.map((r) => r.querySelector('code')?.textContent ?? ''));
       expect(names).toEqual(intakeColumns[kind].map((c) => c.name));
     }
-    expect(await page.getByRole('table', { name: 'Roster columns' }).getByRole('row').filter({ hasText: 'hours' }).textContent()).toContain('number 0 to 744, at most 2 decimals');
+    expect(await page.getByRole('table', { name: 'Roster columns' }).getByRole('row').filter({ hasText: 'hours' }).textContent()).toContain(
+      'number 0 to 744, at most 2 decimals',
+    );
     await page.close();
   });
 

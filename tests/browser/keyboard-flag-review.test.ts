@@ -57,7 +57,9 @@ describe('the flag review works from the keyboard', () => {
 
     const [row] = (await h.ds.query(`SELECT state, close_reason, close_comment FROM flags WHERE id = $1`, [fx.flagId])) as Array<Record<string, string>>;
     expect(row).toEqual({ state: 'closed', close_reason: 'action_taken', close_comment: 'Extraction repaired; skin checks offered.' });
-    const [review] = (await h.ds.query(`SELECT detail FROM flag_events WHERE flag_id = $1 AND kind = 'review_started'`, [fx.flagId])) as Array<{ detail: { comment: string } }>;
+    const [review] = (await h.ds.query(`SELECT detail FROM flag_events WHERE flag_id = $1 AND kind = 'review_started'`, [fx.flagId])) as Array<{
+      detail: { comment: string };
+    }>;
     expect(review!.detail.comment).toBe('Checking the extraction logs');
     await page.close();
   });

@@ -11,7 +11,7 @@ import { plantAudiograms } from './audiogram-fixture';
  * standard threshold shift per 29 CFR 1910.95(g)(10); Table F-1 rows for ages 34–35 are not in
  * the stored reference, so uncorrected, said on the page), the suspected case, and the cautions.
  */
-describe('the physician reads a worker\'s audiograms and the shift derived from them', () => {
+describe("the physician reads a worker's audiograms and the shift derived from them", () => {
   let planted = '';
   let uploadedKey = '';
   const h = useBrowserApp(async (ds) => {
@@ -20,7 +20,9 @@ describe('the physician reads a worker\'s audiograms and the shift derived from 
     const sites = await allSiteIds(ds);
     planted = await plantAudiograms(ds, sites);
     // The hearing outcome the shifts become cases of (HEARING_OUTCOME_CODE, default STS).
-    await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ('STS', 'Standard threshold shift', 'test', 'first_event') ON CONFLICT (code) DO NOTHING`);
+    await ds.query(
+      `INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ('STS', 'Standard threshold shift', 'test', 'first_event') ON CONFLICT (code) DO NOTHING`,
+    );
     uploadedKey = `${planted.slice(0, -2)}-2`;
     await ds.query(`INSERT INTO workers (worker_key, birth_year, sex) VALUES ($1, 1988, 'F')`, [uploadedKey]);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', sites);
@@ -41,7 +43,9 @@ describe('the physician reads a worker\'s audiograms and the shift derived from 
     await expect.poll(async () => page.getByRole('status').textContent()).toContain('Stored 2 audiogram rows of 1 workers');
     expect(await page.getByText(/threshold shift: a suspected case/i).count()).toBe(0);
     await page.close();
-    const cases = (await h.ds.query(`SELECT e.status FROM case_events e JOIN workers w ON w.id = e.worker_id WHERE w.worker_key = $1`, [uploadedKey])) as Array<{ status: string }>;
+    const cases = (await h.ds.query(`SELECT e.status FROM case_events e JOIN workers w ON w.id = e.worker_id WHERE w.worker_key = $1`, [
+      uploadedKey,
+    ])) as Array<{ status: string }>;
     expect(cases).toEqual([{ status: 'suspected' }]);
   });
 

@@ -28,7 +28,9 @@ describe('the physician sees the cases behind a flag in Chromium', () => {
     expect(text).toContain(`${fx.cohort.tag}-EXP0`);
     // The physician may not review flags: no review controls.
     expect(await page.getByRole('button', { name: 'Close the flag' }).count()).toBe(0);
-    const audits = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`flag:${fx.flagId}`])) as Array<{ n: number }>;
+    const audits = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [
+      `flag:${fx.flagId}`,
+    ])) as Array<{ n: number }>;
     expect(audits[0]!.n).toBeGreaterThanOrEqual(1);
     await page.close();
   });

@@ -18,14 +18,26 @@ describe('the physician sees the cases no roster row attributes', () => {
   const intakes = { roster: '', cases: '' };
 
   const h = useBrowserApp(async (ds) => {
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['SKIN', 'recurrent'], ['LUNG', 'recurrent', 1]] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [
+        ['SKIN', 'recurrent'],
+        ['LUNG', 'recurrent', 1],
+      ],
+    });
     const site = c.sites[0]!;
     const steady = [];
     for (let i = 0; i < 5; i++) steady.push(await c.worker(`W${i}`, 1980 + i, i % 2 ? 'F' : 'M'));
     const r = await c.worker('R', 1975, 'M');
     const n = await c.worker('N', 1995, 'F');
     await c.roster([
-      ...[...steady, r].flatMap((w, i) => ['2033-01-01', '2033-02-01'].map((m) => [w, m, site, i % 2 ? c.groups.EXP! : c.groups.REF!, 160] as [number, string, number, number, number])),
+      ...[...steady, r].flatMap((w, i) =>
+        ['2033-01-01', '2033-02-01'].map((m) => [w, m, site, i % 2 ? c.groups.EXP! : c.groups.REF!, 160] as [number, string, number, number, number]),
+      ),
       [n, '2033-02-01', site, c.groups.EXP!, 160],
     ]);
     await c.cases([
@@ -51,20 +63,59 @@ describe('the physician sees the cases no roster row attributes', () => {
     // Two checked intakes as the checks store them (intake-routes and the integration tests make real ones):
     // a roster correction that would orphan R's case, and a case list split by outcome, status and group.
     const checked = async (kind: 'roster' | 'cases', diff: unknown) =>
-      ((await ds.query(
-        `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, site_ids, row_count, submitted_by_client, checked_at, diff)
+      (
+        (await ds.query(
+          `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, site_ids, row_count, submitted_by_client, checked_at, diff)
          VALUES ($1, 'checked', $2, $3, 1, $4, 3, 'browser-test', now(), $5) RETURNING id`,
-        [kind, `${kind}-check.csv`, randomBytes(32).toString('hex'), [site], JSON.stringify(diff)],
-      )) as Array<{ id: string }>)[0]!.id;
-    const slice = { siteCode: `RA${c.tag}`, month: '2033-01', stored: true, rows: 5, added: 0, removed: 1, moved: 0, hoursChanged: 0, unchanged: 5, storedHours: 960, newHours: 800 };
+          [kind, `${kind}-check.csv`, randomBytes(32).toString('hex'), [site], JSON.stringify(diff)],
+        )) as Array<{ id: string }>
+      )[0]!.id;
+    const slice = {
+      siteCode: `RA${c.tag}`,
+      month: '2033-01',
+      stored: true,
+      rows: 5,
+      added: 0,
+      removed: 1,
+      moved: 0,
+      hoursChanged: 0,
+      unchanged: 5,
+      storedHours: 960,
+      newHours: 800,
+    };
     intakes.roster = await checked('roster', {
-      kind: 'roster', newWorkers: 0, totals: { added: 0, removed: 1, moved: 0, hoursChanged: 0, unchanged: 5, newSlices: 0, replacedSlices: 1 },
+      kind: 'roster',
+      newWorkers: 0,
+      totals: { added: 0, removed: 1, moved: 0, hoursChanged: 0, unchanged: 5, newSlices: 0, replacedSlices: 1 },
       slices: [{ ...slice, workers: { added: [], removed: [`${c.tag}-R`], moved: [], hoursChanged: [] } }],
-      orphanedCases: { count: 1, withheld: null, cases: [{ caseRef: refs.removed, workerKey: `${c.tag}-R`, outcomeCode: `SKIN${c.tag}`, onsetDate: '2033-01-15', status: 'confirmed', siteCode: `RA${c.tag}`, month: '2033-01' }] },
+      orphanedCases: {
+        count: 1,
+        withheld: null,
+        cases: [
+          {
+            caseRef: refs.removed,
+            workerKey: `${c.tag}-R`,
+            outcomeCode: `SKIN${c.tag}`,
+            onsetDate: '2033-01-15',
+            status: 'confirmed',
+            siteCode: `RA${c.tag}`,
+            month: '2033-01',
+          },
+        ],
+      },
     });
-    const cell = (status: string, group: string | null, n: number) => ({ outcomeCode: `SKIN${c.tag}`, status, groupCode: group, new: { count: n, withheld: null }, changed: { count: 0, withheld: null } });
+    const cell = (status: string, group: string | null, n: number) => ({
+      outcomeCode: `SKIN${c.tag}`,
+      status,
+      groupCode: group,
+      new: { count: n, withheld: null },
+      changed: { count: 0, withheld: null },
+    });
     intakes.cases = await checked('cases', {
-      kind: 'cases', new: 23, changed: 0, unchanged: 0,
+      kind: 'cases',
+      new: 23,
+      changed: 0,
+      unchanged: 0,
       byOutcome: [{ outcomeCode: `SKIN${c.tag}`, new: 23, changed: 0, newWithheld: null, changedWithheld: null }],
       split: [cell('confirmed', `EXP${c.tag}`, 12), cell('confirmed', null, 9), cell('suspected', `EXP${c.tag}`, 2)],
     });
@@ -85,7 +136,7 @@ describe('the physician sees the cases no roster row attributes', () => {
     await page.waitForURL(`${h.app.baseUrl}/runs/unattributed`);
     const table = page.getByRole('table', { name: /^Unattributed cases in run #\d+/ });
     await table.waitFor();
-    const rowOf = async (ref: string) => ((await table.getByRole('row').filter({ hasText: ref }).textContent()) ?? '');
+    const rowOf = async (ref: string) => (await table.getByRole('row').filter({ hasText: ref }).textContent()) ?? '';
     const removed = await rowOf(refs.removed);
     expect(removed).toContain(`${c.tag}-R`);
     expect(removed).toContain('Outcome SKIN');
@@ -94,7 +145,9 @@ describe('the physician sees the cases no roster row attributes', () => {
     const noRoster = await rowOf(refs.noRoster);
     expect(noRoster).toContain(`${c.tag}-N`);
     expect(noRoster).toContain('the worker has no roster row with hours in the onset month');
-    const audits = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target LIKE 'run:%:unattributed'`)) as Array<{ n: number }>;
+    const audits = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target LIKE 'run:%:unattributed'`)) as Array<{
+      n: number;
+    }>;
     expect(audits[0]!.n).toBeGreaterThanOrEqual(1);
     await page.close();
   });
@@ -139,7 +192,9 @@ describe('the physician sees the cases no roster row attributes', () => {
     const cases = phys.getByRole('table', { name: /^Cases that would lose their roster row/ });
     await cases.waitFor();
     expect(await cases.textContent()).toContain(refs.removed);
-    expect(await phys.getByRole('alert').filter({ hasText: 'without a roster row' }).textContent()).toContain('Applying this roster leaves 1 stored case without a roster row');
+    expect(await phys.getByRole('alert').filter({ hasText: 'without a roster row' }).textContent()).toContain(
+      'Applying this roster leaves 1 stored case without a roster row',
+    );
     // The physician reads intakes, but uploads none.
     await phys.goto(`${h.app.baseUrl}/intakes`, { waitUntil: 'networkidle' });
     await phys.getByRole('heading', { level: 1, name: 'Intakes' }).waitFor();

@@ -17,7 +17,7 @@ const PHYSICIAN = 'physician@demo.ratewarden.test';
  * reasons, and after the next run sees it count them so; then a case list that contradicts the
  * ruling shows the conflict on the intake's page and the physician keeps the decision.
  */
-describe('the physician\'s notices, case review and conflicts in Chromium', () => {
+describe("the physician's notices, case review and conflicts in Chromium", () => {
   let fx: FlagFixture;
   let suspectedRef: string;
   let hygienist: Principal;
@@ -81,7 +81,9 @@ describe('the physician\'s notices, case review and conflicts in Chromium', () =
     await page.getByRole('status').filter({ hasText: 'the case is now confirmed' }).waitFor();
 
     // Both decisions asked for a run; the worker's run (here called directly) counts them.
-    const pending = (await h.ds.query(`SELECT count(*)::int AS n FROM run_requests WHERE picked_at IS NULL AND reason = 'a physician reviewed a case'`)) as Array<{ n: number }>;
+    const pending = (await h.ds.query(
+      `SELECT count(*)::int AS n FROM run_requests WHERE picked_at IS NULL AND reason = 'a physician reviewed a case'`,
+    )) as Array<{ n: number }>;
     expect(pending[0]!.n).toBe(2);
     const run = await performRun(h.ds, { trigger: 'cli', settings, appUrl: h.app.baseUrl, waitForLockMs: 60_000 });
     expect(run.status).toBe('succeeded');
@@ -97,7 +99,9 @@ describe('the physician\'s notices, case review and conflicts in Chromium', () =
     const ruledRow = register.getByRole('row').filter({ has: page.getByRole('link', { name: ruledOut, exact: true }) });
     expect(await ruledRow.textContent()).toContain('Ruled out (physician)');
     expect(await ruledRow.textContent()).toContain('Not counted');
-    const reads = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND actor_label = $1`, [PHYSICIAN])) as Array<{ n: number }>;
+    const reads = (await h.ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND actor_label = $1`, [PHYSICIAN])) as Array<{
+      n: number;
+    }>;
     expect(reads[0]!.n).toBeGreaterThanOrEqual(5);
     await page.close();
   });
@@ -109,7 +113,14 @@ describe('the physician\'s notices, case review and conflicts in Chromium', () =
       [ruledOut],
     )) as Array<{ worker_key: string; onset: string }>;
     const csv = `case_ref,worker_key,outcome,onset_date,status\n${ruledOut},${c!.worker_key},DERM${fx.cohort.tag},${c!.onset},confirmed\n`;
-    const { intake } = await receiveIntake(h.ds, { kind: 'cases', mode: 'apply', fileName: 'cases-later.csv', principal: hygienist, stream: Readable.from([Buffer.from(csv)]), allowFutureMonths: true });
+    const { intake } = await receiveIntake(h.ds, {
+      kind: 'cases',
+      mode: 'apply',
+      fileName: 'cases-later.csv',
+      principal: hygienist,
+      stream: Readable.from([Buffer.from(csv)]),
+      allowFutureMonths: true,
+    });
     expect(intake.problems).toEqual([]);
     expect(intake).toMatchObject({ state: 'checked', conflictsPending: true });
 
@@ -124,7 +135,9 @@ describe('the physician\'s notices, case review and conflicts in Chromium', () =
 
     const applied = await applyIntake(h.ds, hygienist, intake.id, null, { allowFutureMonths: true });
     expect(applied.state).toBe('applied');
-    const [now] = (await h.ds.query(`SELECT status, review_id IS NOT NULL AS reviewed FROM case_events WHERE case_ref = $1 AND superseded_by IS NULL`, [ruledOut])) as Array<{ status: string; reviewed: boolean }>;
+    const [now] = (await h.ds.query(`SELECT status, review_id IS NOT NULL AS reviewed FROM case_events WHERE case_ref = $1 AND superseded_by IS NULL`, [
+      ruledOut,
+    ])) as Array<{ status: string; reviewed: boolean }>;
     expect(now).toEqual({ status: 'ruled_out', reviewed: true });
   });
 });

@@ -23,14 +23,23 @@ describe('printing a results page', () => {
     await page.getByRole('table', { name: /^Comparison with the reference group/ }).waitFor();
     expect(await page.getByRole('button', { name: 'Print this page' }).isVisible()).toBe(true);
     const table = page.getByRole('table', { name: /^Comparison with the reference group/ });
-    const onScreen = (await table.locator('thead th').allInnerTexts()).map((s) => s.replace(/[▲▼↕]/g, '').replace(/,\s*sort[\s\S]*$/, '').trim());
+    const onScreen = (await table.locator('thead th').allInnerTexts()).map((s) =>
+      s
+        .replace(/[▲▼↕]/g, '')
+        .replace(/,\s*sort[\s\S]*$/, '')
+        .trim(),
+    );
     await page.emulateMedia({ media: 'print' });
     // Sortable headers are buttons on screen and print hides buttons: the printed headers keep their words.
     const printed = (await table.locator('thead th').allInnerTexts()).map((s) => s.trim());
     expect(printed).toEqual(onScreen);
     expect(printed).toContain('Exposure group');
     expect(await table.locator('thead th').filter({ visible: true }).count()).toBe(onScreen.length);
-    const shown = (role: Parameters<typeof page.getByRole>[0], name?: RegExp) => page.getByRole(role, name ? { name } : {}).first().isVisible();
+    const shown = (role: Parameters<typeof page.getByRole>[0], name?: RegExp) =>
+      page
+        .getByRole(role, name ? { name } : {})
+        .first()
+        .isVisible();
     expect(await shown('navigation')).toBe(false);
     expect(await page.getByRole('form', { name: 'Choose what to show' }).isVisible()).toBe(false);
     expect(await page.getByRole('button').filter({ visible: true }).count()).toBe(0);

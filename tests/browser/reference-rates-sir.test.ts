@@ -17,14 +17,29 @@ import { makeCohort, settings, type Cohort } from '../integration/runs-fixture';
 describe('the hygienist uploads reference rates and reads the SIR page', () => {
   let c: Cohort;
   const h = useBrowserApp(async (ds) => {
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['HEAR', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['HEAR', 'recurrent']],
+    });
     const workers: number[] = [];
     for (let i = 0; i < 5; i++) workers.push(await c.worker(`s${i}`, 1980, 'F'));
     const rows: Array<[number, string, number, number, number]> = [];
     for (const w of workers) for (let m = 1; m <= 12; m++) rows.push([w, `2031-${String(m).padStart(2, '0')}-01`, c.sites[0]!, c.groups.EXP!, 160]);
     await c.roster(rows);
     // Five cases in March and five in September: no count of the group is small, so the hygienist sees its SIR.
-    await c.cases(workers.flatMap((w) => [[w, c.outcomes.HEAR!, '2031-03-10'], [w, c.outcomes.HEAR!, '2031-09-10']] as Array<[number, number, string]>));
+    await c.cases(
+      workers.flatMap(
+        (w) =>
+          [
+            [w, c.outcomes.HEAR!, '2031-03-10'],
+            [w, c.outcomes.HEAR!, '2031-09-10'],
+          ] as Array<[number, number, string]>,
+      ),
+    );
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', await allSiteIds(ds));
   });
 
@@ -33,7 +48,10 @@ describe('the hygienist uploads reference rates and reads the SIR page', () => {
     await page.goto(`${h.app.baseUrl}/overview`, { waitUntil: 'networkidle' });
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Against reference rates' }).click();
     await page.getByRole('heading', { level: 1, name: 'Against reference rates (SIR)' }).waitFor();
-    await page.getByText(/Healthy-worker effect/).first().waitFor();
+    await page
+      .getByText(/Healthy-worker effect/)
+      .first()
+      .waitFor();
 
     const header = 'outcome,sex,age_from,age_to,year,rate_per_person_year,source';
     const fileInput = page.getByLabel('Reference-rate file (CSV)');
@@ -62,7 +80,13 @@ describe('the hygienist uploads reference rates and reads the SIR page', () => {
     expect(row).toContain(formatFigure(e)); // expected
     expect(row).toContain(formatFigure(10 / e)); // SIR = O / E
     expect(row).toContain(`${formatFigure(chisquareQuantile(0.025, 20) / 2 / e)} to ${formatFigure(chisquareQuantile(0.975, 22) / 2 / e)}`);
-    expect(await page.locator('figure').getByText(/SIR against the reference rates with 95% exact intervals/).first().isVisible()).toBe(true);
+    expect(
+      await page
+        .locator('figure')
+        .getByText(/SIR against the reference rates with 95% exact intervals/)
+        .first()
+        .isVisible(),
+    ).toBe(true);
     expect(await page.getByText(/reference rates version \d+ \(Invented registry table 2031\)/).count()).toBe(1);
     await page.close();
   });

@@ -11,7 +11,9 @@ import { pageSignedInAs, useBrowserApp } from '../support/browser-app';
  */
 describe('the hygienist asks for a run now in Chromium', () => {
   const h = useBrowserApp(async (ds) => {
-    const [site] = (await ds.query(`INSERT INTO sites (code, name) VALUES ('RN' || upper(substr(md5(random()::text), 1, 6)), 'Run-now test site') RETURNING id`)) as Array<{ id: number }>;
+    const [site] = (await ds.query(
+      `INSERT INTO sites (code, name) VALUES ('RN' || upper(substr(md5(random()::text), 1, 6)), 'Run-now test site') RETURNING id`,
+    )) as Array<{ id: number }>;
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', [site!.id]);
   });
 
@@ -28,12 +30,17 @@ describe('the hygienist asks for a run now in Chromium', () => {
 
     const outcome = await runIfRequested(h.ds, settings, h.app.baseUrl);
     expect(outcome?.status).toBe('succeeded');
-    const [run] = (await h.ds.query(`SELECT number::int AS number, trigger, state FROM runs WHERE id = $1`, [outcome?.status === 'succeeded' ? outcome.runId : null])) as Array<{ number: number; trigger: string; state: string }>;
+    const [run] = (await h.ds.query(`SELECT number::int AS number, trigger, state FROM runs WHERE id = $1`, [
+      outcome?.status === 'succeeded' ? outcome.runId : null,
+    ])) as Array<{ number: number; trigger: string; state: string }>;
     expect(run).toMatchObject({ trigger: 'request', state: 'succeeded' });
     expect(run!.number).toBeGreaterThan(last);
 
     // The page polls until the requested run has finished.
-    await page.getByRole('status').filter({ hasText: `Run #${run!.number} has finished` }).waitFor({ timeout: 30_000 });
+    await page
+      .getByRole('status')
+      .filter({ hasText: `Run #${run!.number} has finished` })
+      .waitFor({ timeout: 30_000 });
     const history = page.getByRole('table', { name: /^Runs \(/ });
     const row = history.getByRole('row').filter({ has: page.getByRole('cell', { name: new RegExp(`^#${run!.number}(?!\\d)`) }) });
     expect(await row.getByRole('cell').allTextContents()).toEqual(expect.arrayContaining([`#${run!.number}live`, 'run button', 'succeeded']));

@@ -39,7 +39,12 @@ describe('the administrator creates a site and sets 90 % intervals; the next run
     await form.getByLabel('Code').fill(code.toLowerCase());
     await form.getByLabel('Name').fill('Harbour workshop');
     await form.getByRole('button', { name: 'Create the site' }).click();
-    await admin.getByRole('table', { name: /^Sites \(/ }).getByRole('row').filter({ hasText: code }).filter({ hasText: 'Harbour workshop' }).waitFor();
+    await admin
+      .getByRole('table', { name: /^Sites \(/ })
+      .getByRole('row')
+      .filter({ hasText: code })
+      .filter({ hasText: 'Harbour workshop' })
+      .waitFor();
     const [site] = (await h.ds.query(`SELECT name, retired_at FROM sites WHERE code = $1`, [code])) as Array<{ name: string; retired_at: Date | null }>;
     expect(site).toEqual({ name: 'Harbour workshop', retired_at: null });
 
@@ -48,12 +53,17 @@ describe('the administrator creates a site and sets 90 % intervals; the next run
     const settingsForm = admin.getByRole('form', { name: 'Change the analysis settings' });
     await settingsForm.getByLabel('Confidence level').selectOption({ label: '90%' });
     await settingsForm.getByRole('button', { name: 'Save as a new version' }).click();
-    const saved = await admin.getByRole('status').filter({ hasText: /Saved as version \d+; a run has been requested\./ }).textContent();
+    const saved = await admin
+      .getByRole('status')
+      .filter({ hasText: /Saved as version \d+; a run has been requested\./ })
+      .textContent();
     const version = Number(/version (\d+)/.exec(saved!)![1]);
     await admin.getByText(`Current: version ${version}`, { exact: false }).waitFor();
     await admin.close();
 
-    const [request] = (await h.ds.query(`SELECT reason FROM run_requests WHERE picked_at IS NULL ORDER BY requested_at DESC LIMIT 1`)) as Array<{ reason: string }>;
+    const [request] = (await h.ds.query(`SELECT reason FROM run_requests WHERE picked_at IS NULL ORDER BY requested_at DESC LIMIT 1`)) as Array<{
+      reason: string;
+    }>;
     expect(request!.reason).toContain(`analysis settings changed to version ${version}`);
     const outcome = await runIfRequested(h.ds, settings, h.app.baseUrl);
     expect(outcome?.status).toBe('succeeded');

@@ -18,7 +18,7 @@ describe('the safety manager of two sites watches their sites in Chromium', () =
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', fx.cohort.sites);
   });
 
-  it('creates a site-level rule and sees its flag with only its site\'s figures', async () => {
+  it("creates a site-level rule and sees its flag with only its site's figures", async () => {
     const page = await pageSignedInAs(h, 'safety@demo.ratewarden.test');
     await page.goto(`${h.app.baseUrl}/rules/new`, { waitUntil: 'networkidle' });
     await page.getByRole('heading', { level: 1, name: 'New watch rule' }).waitFor();
@@ -35,7 +35,10 @@ describe('the safety manager of two sites watches their sites in Chromium', () =
     expect(await form.textContent()).toContain('over one family per period: every exposure group the rule covers × every chosen site, each on its own results');
     await page.getByRole('button', { name: 'Create the rule' }).click();
     await page.getByRole('heading', { level: 1, name: 'Watch rules' }).waitFor();
-    const row = page.getByRole('table', { name: /^Watch rules/ }).getByRole('row').filter({ has: page.getByRole('link', { name: ruleName, exact: true }) });
+    const row = page
+      .getByRole('table', { name: /^Watch rules/ })
+      .getByRole('row')
+      .filter({ has: page.getByRole('link', { name: ruleName, exact: true }) });
     expect(await row.getByRole('cell').allTextContents()).toContain('Run test site one, Run test site two');
     const [stored] = (await h.ds.query(`SELECT site_ids FROM watch_rules WHERE name = $1`, [ruleName])) as Array<{ site_ids: number[] }>;
     expect(stored!.site_ids).toEqual([...fx.cohort.sites].sort((a, b) => a - b));
@@ -44,7 +47,10 @@ describe('the safety manager of two sites watches their sites in Chromium', () =
     expect(o.status).toBe('succeeded');
 
     await page.goto(`${h.app.baseUrl}/flags?outcome=${fx.cohort.outcomes.SKIN}`, { waitUntil: 'networkidle' });
-    const flagRow = page.getByRole('table', { name: /^Flags/ }).getByRole('row').filter({ hasText: ruleName });
+    const flagRow = page
+      .getByRole('table', { name: /^Flags/ })
+      .getByRole('row')
+      .filter({ hasText: ruleName });
     expect(await flagRow.count()).toBe(1);
     expect(await flagRow.getByRole('cell').allTextContents()).toContain('Run test site one');
     await flagRow.getByRole('link', { name: 'Group EXP' }).click();

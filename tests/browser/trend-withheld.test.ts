@@ -18,7 +18,14 @@ describe('a withheld point on the trends chart', () => {
   let c: Cohort;
   const h = useBrowserApp(async (ds) => {
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['DERM', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['DERM', 'recurrent']],
+    });
     const rows: Array<[number, string, number, number, number]> = [];
     const ids: Record<string, number[]> = { REF: [], EXP: [] };
     for (const g of ['REF', 'EXP'] as const) {
@@ -30,7 +37,14 @@ describe('a withheld point on the trends chart', () => {
     }
     await c.roster(rows);
     const cases = (g: 'REF' | 'EXP', day: string, n: number) => ids[g]!.slice(0, n).map((w) => [w, c.outcomes.DERM!, day] as [number, number, string]);
-    await c.cases([...cases('REF', '2032-10-05', 6), ...cases('REF', '2032-11-05', 6), ...cases('REF', '2032-12-05', 6), ...cases('EXP', '2032-10-07', 6), ...cases('EXP', '2032-11-07', 2), ...cases('EXP', '2032-12-07', 6)]);
+    await c.cases([
+      ...cases('REF', '2032-10-05', 6),
+      ...cases('REF', '2032-11-05', 6),
+      ...cases('REF', '2032-12-05', 6),
+      ...cases('EXP', '2032-10-07', 6),
+      ...cases('EXP', '2032-11-07', 2),
+      ...cases('EXP', '2032-12-07', 6),
+    ]);
     const run = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', waitForLockMs: 60_000 });
     if (run.status !== 'succeeded') throw new Error(`the run did not succeed: ${JSON.stringify(run)}`);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', await allSiteIds(ds));
@@ -43,7 +57,9 @@ describe('a withheld point on the trends chart', () => {
     await figure.locator('svg').first().waitFor();
     const svgText = (await figure.locator('svg text').allTextContents()).join(' | ');
     expect(svgText).toContain(WITHHELD_LEGEND);
-    expect(await figure.textContent()).toMatch(/figures are withheld from you \(a count too small to show, or one that would reveal it\): [^.]*2032-11 \([^)]*Group EXP/);
+    expect(await figure.textContent()).toMatch(
+      /figures are withheld from you \(a count too small to show, or one that would reveal it\): [^.]*2032-11 \([^)]*Group EXP/,
+    );
     await figure.getByRole('button', { name: 'Show as a table' }).click();
     const nov = figure.getByRole('row').filter({ hasText: '2032-11' }).filter({ hasText: 'Group EXP' });
     const cells = (await nov.getByRole('cell').allTextContents()).map((t) => t.trim());

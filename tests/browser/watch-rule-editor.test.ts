@@ -32,9 +32,18 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
   const field = (page: Page, label: string) => page.getByRole('form', { name: 'Watch rule' }).getByLabel(label, { exact: true });
   /** The error the field's aria-describedby points at ('' when there is none). */
   const errorOf = (page: Page, label: string) =>
-    field(page, label).evaluate((el) => (el.getAttribute('aria-invalid') === 'true' ? (el.getAttribute('aria-describedby') ?? '').split(' ').map((id) => document.getElementById(id)?.textContent ?? '').join(' ') : ''));
+    field(page, label).evaluate((el) =>
+      el.getAttribute('aria-invalid') === 'true'
+        ? (el.getAttribute('aria-describedby') ?? '')
+            .split(' ')
+            .map((id) => document.getElementById(id)?.textContent ?? '')
+            .join(' ')
+        : '',
+    );
   const storedRule = async () =>
-    (await h.ds.query(`SELECT threshold, min_cases, window_kind, recipients, active FROM watch_rules WHERE name = $1`, [ruleName])) as Array<Record<string, unknown>>;
+    (await h.ds.query(`SELECT threshold, min_cases, window_kind, recipients, active FROM watch_rules WHERE name = $1`, [ruleName])) as Array<
+      Record<string, unknown>
+    >;
 
   it('refuses bad numbers without losing the input, saves the rule, lists it and keeps an edit', async () => {
     const page = await pageSignedInAs(h, 'safety@demo.ratewarden.test');
@@ -71,7 +80,10 @@ describe('the safety manager creates and edits a watch rule in Chromium', () => 
     await field(page, 'Minimum cases').fill('6');
     await page.getByRole('button', { name: 'Create the rule' }).click();
     await page.getByRole('heading', { level: 1, name: 'Watch rules' }).waitFor();
-    const row = page.getByRole('table', { name: /^Watch rules/ }).getByRole('row').filter({ has: page.getByRole('link', { name: ruleName, exact: true }) });
+    const row = page
+      .getByRole('table', { name: /^Watch rules/ })
+      .getByRole('row')
+      .filter({ has: page.getByRole('link', { name: ruleName, exact: true }) });
     await row.waitFor();
     expect(await row.getByRole('cell').allTextContents()).toEqual(expect.arrayContaining([outcome, group, '1.5', 'active']));
     expect(await row.textContent()).toContain('at least 6 cases');

@@ -7,7 +7,7 @@ import { testApiConfig } from '../support/test-config';
 import { openTestDataSource } from '../support/test-db';
 
 /** The administrator changes a person's role and sites through PATCH /api/admin/users/:id. */
-describe('changing a person\'s access', () => {
+describe("changing a person's access", () => {
   let ds: DataSource;
   let admin: SignedInAgent;
   let siteIds: number[];
@@ -29,7 +29,10 @@ describe('changing a person\'s access', () => {
   });
 
   it('stores the new role and sites, answers with the person, and audits the change', async () => {
-    const res = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'safety_manager', siteIds: [siteIds[1]] });
+    const res = await admin.agent
+      .patch(`/api/admin/users/${personId}`)
+      .set('x-csrf-token', admin.csrf)
+      .send({ role: 'safety_manager', siteIds: [siteIds[1]] });
     expect(res.status).toBe(200);
     expect(adminUserSchema.parse(res.body)).toMatchObject({ email: 'access-change@kestrelmoor.test', role: 'safety_manager', siteIds: [siteIds[1]] });
     const [stored] = (await ds.query(
@@ -37,7 +40,9 @@ describe('changing a person\'s access', () => {
       [personId],
     )) as Array<{ role: string; sites: number[] }>;
     expect(stored).toEqual({ role: 'safety_manager', sites: [siteIds[1]] });
-    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE actor_label = 'admin@demo.ratewarden.test' AND target LIKE $1`, [`%${personId}%`])) as Array<{ n: number }>;
+    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE actor_label = 'admin@demo.ratewarden.test' AND target LIKE $1`, [
+      `%${personId}%`,
+    ])) as Array<{ n: number }>;
     expect(audits[0]!.n).toBeGreaterThan(0);
   });
 
@@ -45,10 +50,16 @@ describe('changing a person\'s access', () => {
     const none = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: null, siteIds: [] });
     expect(none.status).toBe(200);
     expect(none.body).toMatchObject({ role: null, siteIds: [] });
-    const badSite = await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds: [2_000_000_000] });
+    const badSite = await admin.agent
+      .patch(`/api/admin/users/${personId}`)
+      .set('x-csrf-token', admin.csrf)
+      .send({ role: 'hygienist', siteIds: [2_000_000_000] });
     expect(badSite.status).toBeGreaterThanOrEqual(400);
     expect(badSite.status).toBeLessThan(500);
-    const nobody = await admin.agent.patch('/api/admin/users/00000000-0000-4000-8000-000000000000').set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds: [] });
+    const nobody = await admin.agent
+      .patch('/api/admin/users/00000000-0000-4000-8000-000000000000')
+      .set('x-csrf-token', admin.csrf)
+      .send({ role: 'hygienist', siteIds: [] });
     expect(nobody.status).toBe(404);
   });
 
@@ -62,7 +73,10 @@ describe('changing a person\'s access', () => {
   it('reads audit entries without counts or measure values, old entries included (the log itself is append-only)', async () => {
     const target = `flag:legacy-${Date.now()}`;
     // As written before entries stopped carrying them: a physician's read of 3 cases, a flag raised at a value of 12.5.
-    await ds.query(`INSERT INTO audit_events (actor_label, action, target, detail) VALUES ('physician@demo.ratewarden.test', 'cases.read', $1, '{"count": 3}'), ('system', 'flag.raise', $1, '{"runId": "r", "value": 12.5, "period": "2031-05-01"}')`, [target]);
+    await ds.query(
+      `INSERT INTO audit_events (actor_label, action, target, detail) VALUES ('physician@demo.ratewarden.test', 'cases.read', $1, '{"count": 3}'), ('system', 'flag.raise', $1, '{"runId": "r", "value": 12.5, "period": "2031-05-01"}')`,
+      [target],
+    );
     const mine: Array<{ action: string; target: string; detail: Record<string, unknown> }> = [];
     for (const action of ['cases.read', 'flag.raise']) {
       const res = await admin.agent.get('/api/admin/audit').query({ action }).expect(200);
@@ -79,7 +93,9 @@ describe('changing a person\'s access', () => {
     await admin.agent.patch(`/api/admin/users/${personId}`).set('x-csrf-token', admin.csrf).send({ role: 'hygienist', siteIds }).expect(200);
     // "Quill" is in the administrator's name, not in the e-mail the entry was written with.
     const res = await admin.agent.get('/api/admin/audit').query({ action: 'user.access_changed', actor: 'Quill' }).expect(200);
-    const entry = (res.body as Array<{ actor: string; actorName: string | null; target: string; targetName: string | null }>).find((e) => e.target === `user:${personId}`);
+    const entry = (res.body as Array<{ actor: string; actorName: string | null; target: string; targetName: string | null }>).find(
+      (e) => e.target === `user:${personId}`,
+    );
     expect(entry).toMatchObject({ actor: 'admin@demo.ratewarden.test', actorName: 'Ada Quillfeather', targetName: 'Ines Okafor' });
   });
 });

@@ -45,7 +45,12 @@ describe('the API under load', () => {
     const answers = await Promise.all(
       Array.from({ length: 8 }, async () => {
         const res = await hygienist.agent.get('/api/groups');
-        return { status: res.status, retryAfter: res.headers['retry-after'] as string | undefined, code: (res.body as { code?: string }).code, ms: Date.now() - started };
+        return {
+          status: res.status,
+          retryAfter: res.headers['retry-after'] as string | undefined,
+          code: (res.body as { code?: string }).code,
+          ms: Date.now() - started,
+        };
       }),
     );
     expect(answers.every((a) => a.status === 503 && a.retryAfter === '2' && a.code === 'service_unavailable')).toBe(true);

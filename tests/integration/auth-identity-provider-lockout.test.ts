@@ -20,7 +20,11 @@ describe('password guesses at the local identity provider', () => {
 
   async function startIdp(perAccount: number, perAddress: number): Promise<string> {
     const port = await freePort();
-    const config = readIdpConfig({ IDP_PORT: String(port), IDP_FAILED_SIGN_INS_PER_ACCOUNT: String(perAccount), IDP_FAILED_SIGN_INS_PER_ADDRESS: String(perAddress) });
+    const config = readIdpConfig({
+      IDP_PORT: String(port),
+      IDP_FAILED_SIGN_INS_PER_ACCOUNT: String(perAccount),
+      IDP_FAILED_SIGN_INS_PER_ADDRESS: String(perAddress),
+    });
     const app = createIdentityProviderApp(config, await createProvider(config));
     server = createServer(app);
     await new Promise<void>((resolve) => server!.listen(port, '127.0.0.1', resolve));
@@ -30,10 +34,20 @@ describe('password guesses at the local identity provider', () => {
   /** Opens a sign-in (authorization request) and returns its form's address with the interaction cookies. */
   async function openSignIn(issuer: string): Promise<{ action: URL; cookie: string }> {
     const auth = new URL('/auth', issuer);
-    auth.search = new URLSearchParams({ client_id: 'ratewarden-web', redirect_uri: 'http://127.0.0.1:3000/auth/callback', response_type: 'code', scope: 'openid email', state: 's', nonce: 'n' }).toString();
+    auth.search = new URLSearchParams({
+      client_id: 'ratewarden-web',
+      redirect_uri: 'http://127.0.0.1:3000/auth/callback',
+      response_type: 'code',
+      scope: 'openid email',
+      state: 's',
+      nonce: 'n',
+    }).toString();
     const res = await fetch(auth, { redirect: 'manual' });
     expect(res.status).toBe(303);
-    const cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+    const cookie = res.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; ');
     return { action: new URL(`${res.headers.get('location')!}/login`, issuer), cookie };
   }
 

@@ -27,7 +27,7 @@ describe('sign-in through the OpenID Connect provider', () => {
     await ds.destroy();
   });
 
-  it('tells the screen the server\'s small-cell threshold in the session, signed in or not', async () => {
+  it("tells the screen the server's small-cell threshold in the session, signed in or not", async () => {
     const anonymous = await request(app).get('/api/session').expect(200);
     expect(anonymous.body).toMatchObject({ user: null, smallCellThreshold: 5 });
     const strict = createApp({ dataSource: ds, config: testApiConfig({ SMALL_CELL_THRESHOLD: '11' }) });
@@ -38,7 +38,9 @@ describe('sign-in through the OpenID Connect provider', () => {
     const { agent } = await signIn(app, 'safety@demo.ratewarden.test');
     const session = await agent.get('/api/session').expect(200);
     expect(session.body.user).toMatchObject({ email: 'safety@demo.ratewarden.test', role: 'safety_manager', siteIds: [siteIds[0]] });
-    const audit: { action: string }[] = await ds.query(`SELECT action FROM audit_events WHERE actor_label = 'safety@demo.ratewarden.test' AND action = 'auth.sign_in'`);
+    const audit: { action: string }[] = await ds.query(
+      `SELECT action FROM audit_events WHERE actor_label = 'safety@demo.ratewarden.test' AND action = 'auth.sign_in'`,
+    );
     expect(audit.length).toBeGreaterThan(0);
   });
 
@@ -80,7 +82,7 @@ describe('sign-in through the OpenID Connect provider', () => {
     await agent.post('/api/admin/clients').set('x-csrf-token', csrf).send(body).expect(201);
   });
 
-  it('signs out at both ends: the session ends and the browser goes to the provider\'s end-session page', async () => {
+  it("signs out at both ends: the session ends and the browser goes to the provider's end-session page", async () => {
     const { agent, csrf } = await signIn(app, 'admin@demo.ratewarden.test');
     const out = await agent.post('/auth/logout').set('x-csrf-token', csrf).expect(303);
     const target = new URL(out.headers.location as string);
@@ -100,7 +102,9 @@ describe('integration client tokens', () => {
 
   beforeAll(async () => {
     ds = await openTestDataSource();
-    await ds.query(`INSERT INTO integration_clients (client_id, name) VALUES ('hr-sync-demo', 'HR sync') ON CONFLICT (client_id) DO UPDATE SET revoked_at = NULL`);
+    await ds.query(
+      `INSERT INTO integration_clients (client_id, name) VALUES ('hr-sync-demo', 'HR sync') ON CONFLICT (client_id) DO UPDATE SET revoked_at = NULL`,
+    );
     app = createApp({ dataSource: ds, config: testApiConfig() });
   });
   afterAll(async () => {

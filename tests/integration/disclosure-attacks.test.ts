@@ -45,7 +45,13 @@ describe('small-count disclosure against a hostile reader', () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
     dc = await makeDisclosureCohort(ds);
-    u = { outcomes: [dc.outcomes.SPA, dc.outcomes.BUS], groups: [dc.groups.REF, dc.groups.LOW, dc.groups.HIGH], sites: dc.sites, months: dc.months, threshold: THRESHOLD };
+    u = {
+      outcomes: [dc.outcomes.SPA, dc.outcomes.BUS],
+      groups: [dc.groups.REF, dc.groups.LOW, dc.groups.HIGH],
+      sites: dc.sites,
+      months: dc.months,
+      threshold: THRESHOLD,
+    };
 
     const allSites = await allSiteIds(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', allSites);
@@ -64,19 +70,55 @@ describe('small-count disclosure against a hostile reader', () => {
 
     // Watch rules the product's way (at the least minimum of 5), and as legacy rules stored before
     // that minimum existed, selecting on a single case, written straight into the table.
-    for (const [outcomeId, measure, window] of [[dc.outcomes.SPA, 'rate', 'rolling12'], [dc.outcomes.BUS, 'irr', 'rolling12'], [dc.outcomes.BUS, 'rate', 'month']] as const) {
-      const res = await as.safety.agent.post('/api/rules').set('x-csrf-token', as.safety.csrf)
-        .send({ name: `Watch ${measure} ${window}`, outcomeId, measure, thresholdOn: 'estimate', threshold: 0, minCases: THRESHOLD, window, fdrControl: false });
+    for (const [outcomeId, measure, window] of [
+      [dc.outcomes.SPA, 'rate', 'rolling12'],
+      [dc.outcomes.BUS, 'irr', 'rolling12'],
+      [dc.outcomes.BUS, 'rate', 'month'],
+    ] as const) {
+      const res = await as.safety.agent
+        .post('/api/rules')
+        .set('x-csrf-token', as.safety.csrf)
+        .send({
+          name: `Watch ${measure} ${window}`,
+          outcomeId,
+          measure,
+          thresholdOn: 'estimate',
+          threshold: 0,
+          minCases: THRESHOLD,
+          window,
+          fdrControl: false,
+        });
       expect(res.status, JSON.stringify(res.body)).toBe(201);
     }
     // Site rules too: the partial reader's own, on their two sites, and legacy ones on every site.
-    for (const [outcomeId, measure, window] of [[dc.outcomes.SPA, 'rate', 'rolling12'], [dc.outcomes.BUS, 'irr', 'rolling12'], [dc.outcomes.BUS, 'rate', 'month']] as const) {
-      const res = await as.partial.agent.post('/api/rules').set('x-csrf-token', as.partial.csrf)
-        .send({ name: `Site watch ${measure} ${window}`, outcomeId, siteIds: dc.sites.slice(0, 2), measure, thresholdOn: 'estimate', threshold: 0, minCases: THRESHOLD, window, fdrControl: false });
+    for (const [outcomeId, measure, window] of [
+      [dc.outcomes.SPA, 'rate', 'rolling12'],
+      [dc.outcomes.BUS, 'irr', 'rolling12'],
+      [dc.outcomes.BUS, 'rate', 'month'],
+    ] as const) {
+      const res = await as.partial.agent
+        .post('/api/rules')
+        .set('x-csrf-token', as.partial.csrf)
+        .send({
+          name: `Site watch ${measure} ${window}`,
+          outcomeId,
+          siteIds: dc.sites.slice(0, 2),
+          measure,
+          thresholdOn: 'estimate',
+          threshold: 0,
+          minCases: THRESHOLD,
+          window,
+          fdrControl: false,
+        });
       expect(res.status, JSON.stringify(res.body)).toBe(201);
     }
     for (const outcomeId of u.outcomes) {
-      for (const [measure, window] of [['rate', 'month'], ['rate', 'rolling12'], ['irr', 'month'], ['irr', 'rolling12']]) {
+      for (const [measure, window] of [
+        ['rate', 'month'],
+        ['rate', 'rolling12'],
+        ['irr', 'month'],
+        ['irr', 'rolling12'],
+      ]) {
         for (const siteIds of [null, dc.sites]) {
           await ds.query(
             `INSERT INTO watch_rules (name, outcome_id, site_ids, measure, threshold_on, threshold, min_cases, window_kind, fdr_control) VALUES ($1, $2, $3, $4, 'estimate', 0, 1, $5, false)`,
@@ -106,7 +148,8 @@ describe('small-count disclosure against a hostile reader', () => {
     for (const outcomeId of u.outcomes)
       for (const exposureGroupId of u.groups)
         for (const window of ['month', 'rolling12'] as const)
-          for (const period of u.months) for (const by of ['age', 'sex', 'site'] as const) company.push({ by, siteId: null, outcomeId, exposureGroupId, window, period });
+          for (const period of u.months)
+            for (const by of ['age', 'sex', 'site'] as const) company.push({ by, siteId: null, outcomeId, exposureGroupId, window, period });
     truth.results = await readResults(as.physician, runId, u.outcomes, u.sites);
     seen.results = await readResults(as.hygienist, runId, u.outcomes, u.sites);
     truth.strata = await readStrata(as.physician, runId, company);
@@ -171,10 +214,25 @@ describe('small-count disclosure against a hostile reader', () => {
         // The rate times the person-time is this (shown) count: it never stands for a withheld one.
         if (r.personTime > 0) expect(((r.rate.estimate as number) * r.personTime) / settings.per, k).toBeCloseTo(r.cases, 6);
       }
-      const ref = r.referenceGroupId !== null && !r.isReference ? seen.results.get(resultKey(r.siteId, r.outcomeId, r.referenceGroupId, r.window, r.period)) : undefined;
+      const ref =
+        r.referenceGroupId !== null && !r.isReference ? seen.results.get(resultKey(r.siteId, r.outcomeId, r.referenceGroupId, r.window, r.period)) : undefined;
       if (r.cases !== null && ref && ref.cases === null) {
         expect(r.comparisonSuppressed, k).toBe(true);
-        expect([r.irr.estimate, r.irr.lower, r.irr.upper, r.irr.p, r.ird.estimate, r.ird.lower, r.expected, r.mhAge.irr.estimate, r.mhSite.irr.estimate, r.mhSex.irr.estimate], k).toEqual(Array(10).fill(null));
+        expect(
+          [
+            r.irr.estimate,
+            r.irr.lower,
+            r.irr.upper,
+            r.irr.p,
+            r.ird.estimate,
+            r.ird.lower,
+            r.expected,
+            r.mhAge.irr.estimate,
+            r.mhSite.irr.estimate,
+            r.mhSex.irr.estimate,
+          ],
+          k,
+        ).toEqual(Array(10).fill(null));
       }
     }
     for (const [k, table] of seen.strata) {
@@ -228,8 +286,19 @@ describe('small-count disclosure against a hostile reader', () => {
   it('attack 2: watch rules below 5 cases are refused, and legacy ones never flag a small or withheld count', async () => {
     for (const who of [as.safety, as.hygienist]) {
       for (const minCases of [1, 2, 3, 4]) {
-        const res = await who.agent.post('/api/rules').set('x-csrf-token', who.csrf)
-          .send({ name: `Small ${minCases}`, outcomeId: dc.outcomes.SPA, measure: 'rate', thresholdOn: 'estimate', threshold: 0, minCases, window: 'month', fdrControl: false });
+        const res = await who.agent
+          .post('/api/rules')
+          .set('x-csrf-token', who.csrf)
+          .send({
+            name: `Small ${minCases}`,
+            outcomeId: dc.outcomes.SPA,
+            measure: 'rate',
+            thresholdOn: 'estimate',
+            threshold: 0,
+            minCases,
+            window: 'month',
+            fdrControl: false,
+          });
         expect(res.status).toBe(422);
       }
     }
@@ -263,7 +332,10 @@ describe('small-count disclosure against a hostile reader', () => {
     const latest = dc.months.at(-1)!;
     const smallLatest = [...truth.results.values()].filter((r) => r.siteId === null && r.period === latest && isSmall(r.cases!));
     expect(smallLatest.length).toBeGreaterThan(0);
-    for (const r of smallLatest) expect(real.some((f) => f.siteId === null && f.outcomeId === r.outcomeId && f.exposureGroupId === r.exposureGroupId && f.figures.window === r.window)).toBe(false);
+    for (const r of smallLatest)
+      expect(
+        real.some((f) => f.siteId === null && f.outcomeId === r.outcomeId && f.exposureGroupId === r.exposureGroupId && f.figures.window === r.window),
+      ).toBe(false);
   });
 
   it('attack 3: by-site strata withhold as the site results do, and site tables by age or sex are never shown', async () => {
@@ -272,7 +344,10 @@ describe('small-count disclosure against a hostile reader', () => {
       if (table.by !== 'site') continue;
       const [, , o, , window, period] = k.split('|');
       for (const s of table.strata) {
-        for (const [arm, g] of [[s.exposed, table.exposureGroupId], [s.reference, table.referenceGroupId]] as const) {
+        for (const [arm, g] of [
+          [s.exposed, table.exposureGroupId],
+          [s.reference, table.referenceGroupId],
+        ] as const) {
           if (arm === null || g === null) continue;
           const row = seen.results.get(resultKey(Number(s.key), Number(o), g, window!, period!));
           if (!row) {
@@ -289,7 +364,8 @@ describe('small-count disclosure against a hostile reader', () => {
     for (const siteId of dc.sites)
       for (const outcomeId of u.outcomes)
         for (const exposureGroupId of u.groups)
-          for (const period of yearlyEnds()) for (const by of ['age', 'sex'] as const) siteTables.push({ by, siteId, outcomeId, exposureGroupId, window: 'rolling12', period });
+          for (const period of yearlyEnds())
+            for (const by of ['age', 'sex'] as const) siteTables.push({ by, siteId, outcomeId, exposureGroupId, window: 'rolling12', period });
     const tables = await readStrata(as.hygienist, runId, siteTables);
     let cells = 0;
     for (const [k, table] of tables) {
@@ -305,7 +381,13 @@ describe('small-count disclosure against a hostile reader', () => {
     expect(cells).toBeGreaterThan(500);
     // Company tables by age at those windows are shown where they hold no small stratum: the site
     // tables they would be differenced with are not.
-    expect(yearlyEnds().some((p) => [...seen.strata.entries()].some(([k, t]) => k.startsWith('age|all|') && k.endsWith(`rolling12|${p}`) && t.strata.every((s) => s.exposed.cases !== null)))).toBe(true);
+    expect(
+      yearlyEnds().some((p) =>
+        [...seen.strata.entries()].some(
+          ([k, t]) => k.startsWith('age|all|') && k.endsWith(`rolling12|${p}`) && t.strata.every((s) => s.exposed.cases !== null),
+        ),
+      ),
+    ).toBe(true);
   }, 300_000);
 
   it('attack 4: adjusted measures, p and homogeneity are null wherever one of their strata is withheld', () => {
@@ -316,12 +398,17 @@ describe('small-count disclosure against a hostile reader', () => {
       const groups = [r.exposureGroupId, r.referenceGroupId];
       const tableShown = (by: 'age' | 'sex') => {
         const table = seen.strata.get(strataKey(by, null, r.outcomeId, r.exposureGroupId, r.window, r.period));
-        return r.siteId === null && table !== undefined && table.strata.every((s) => s.exposed.cases !== null && (s.reference === null || s.reference.cases !== null));
+        return (
+          r.siteId === null &&
+          table !== undefined &&
+          table.strata.every((s) => s.exposed.cases !== null && (s.reference === null || s.reference.cases !== null))
+        );
       };
       const open = {
         age: tableShown('age'),
         sex: tableShown('sex'),
-        site: r.siteId === null && groups.every((g) => dc.sites.every((s) => seen.results.get(resultKey(s, r.outcomeId, g, r.window, r.period))?.cases !== null)),
+        site:
+          r.siteId === null && groups.every((g) => dc.sites.every((s) => seen.results.get(resultKey(s, r.outcomeId, g, r.window, r.period))?.cases !== null)),
       };
       for (const by of ['age', 'sex', 'site'] as const) {
         const mh = { age: r.mhAge, sex: r.mhSex, site: r.mhSite }[by];
@@ -331,7 +418,9 @@ describe('small-count disclosure against a hostile reader', () => {
           continue;
         }
         hidden[by]++;
-        expect([mh.irr.estimate, mh.irr.lower, mh.irr.upper, mh.irr.p, mh.ird.estimate, mh.ird.lower, mh.ird.upper], `${k} by ${by}`).toEqual(Array(7).fill(null));
+        expect([mh.irr.estimate, mh.irr.lower, mh.irr.upper, mh.irr.p, mh.ird.estimate, mh.ird.lower, mh.ird.upper], `${k} by ${by}`).toEqual(
+          Array(7).fill(null),
+        );
         expect(homogeneity, `${k} by ${by}`).toBeUndefined();
       }
     }
@@ -357,7 +446,11 @@ describe('small-count disclosure against a hostile reader', () => {
     expect(flagEntries.some((e) => e.action === 'cases.read')).toBe(true);
     expect(flagEntries.some((e) => e.action === 'flag.raise')).toBe(true);
     const countish = /value|cases|count|expected|worst|previous|estimate|lower|upper|rate|irr|ird/i;
-    for (const e of flagEntries) expect(Object.keys(e.detail ?? {}).filter((key) => countish.test(key)), `${e.action} ${e.target}`).toEqual([]);
+    for (const e of flagEntries)
+      expect(
+        Object.keys(e.detail ?? {}).filter((key) => countish.test(key)),
+        `${e.action} ${e.target}`,
+      ).toEqual([]);
 
     const box = mailboxMessageSchema.array().parse((await as.admin.agent.get('/api/mailbox').expect(200)).body);
     expect(box.length).toBe(kept.length);
@@ -369,13 +462,18 @@ describe('small-count disclosure against a hostile reader', () => {
     }
   });
 
-  it('attack 6: a safety manager of some sites gets no company flags, their sites\' flags with their sites\' figures only, and no case totals from the run', async () => {
+  it("attack 6: a safety manager of some sites gets no company flags, their sites' flags with their sites' figures only, and no case totals from the run", async () => {
     const mySites = dc.sites.slice(0, 2);
     const flags = flagSchema.array().parse((await as.partial.agent.get('/api/flags').expect(200)).body);
     const real = flagSchema.array().parse((await as.physician.agent.get('/api/flags').expect(200)).body);
     expect(real.some((f) => f.siteId === null)).toBe(true);
     expect(real.some((f) => f.siteId !== null && !mySites.includes(f.siteId))).toBe(true);
-    expect(flags.map((f) => f.id).sort()).toEqual(real.filter((f) => f.siteId !== null && mySites.includes(f.siteId)).map((f) => f.id).sort());
+    expect(flags.map((f) => f.id).sort()).toEqual(
+      real
+        .filter((f) => f.siteId !== null && mySites.includes(f.siteId))
+        .map((f) => f.id)
+        .sort(),
+    );
     expect(flags.length).toBeGreaterThan(0);
     for (const f of real.filter((x) => x.siteId === null || !mySites.includes(x.siteId))) await as.partial.agent.get(`/api/flags/${f.id}`).expect(404);
     for (const f of flags) {
@@ -394,20 +492,38 @@ describe('small-count disclosure against a hostile reader', () => {
     expect(current.summary).not.toHaveProperty('cases');
     expect((await as.partial.agent.get(`/api/runs/${runId}`).expect(200)).body.summary).not.toHaveProperty('cases');
     await as.partial.agent.get(`/api/runs/${runId}/results`).expect(403);
-    for (const who of [as.hygienist, as.safety]) expect(runDetailSchema.parse((await who.agent.get('/api/runs/current').expect(200)).body).summary).not.toHaveProperty('cases');
+    for (const who of [as.hygienist, as.safety])
+      expect(runDetailSchema.parse((await who.agent.get('/api/runs/current').expect(200)).body).summary).not.toHaveProperty('cases');
     expect(runDetailSchema.parse((await as.physician.agent.get('/api/runs/current').expect(200)).body).summary).toHaveProperty('cases');
   });
 
   it('older runs: their results are the physician’s alone, and the diff withholds the earlier side', async () => {
     for (const who of [as.hygienist, as.safety]) {
       await who.agent.get(`/api/runs/${firstRun}/results`).query({ outcomeId: dc.outcomes.SPA }).expect(403);
-      await who.agent.get(`/api/runs/${firstRun}/strata`).query({ outcomeId: dc.outcomes.BUS, exposureGroupId: dc.groups.REF, window: 'rolling12', period: dc.months.at(-1), by: 'age' }).expect(403);
+      await who.agent
+        .get(`/api/runs/${firstRun}/strata`)
+        .query({ outcomeId: dc.outcomes.BUS, exposureGroupId: dc.groups.REF, window: 'rolling12', period: dc.months.at(-1), by: 'age' })
+        .expect(403);
       await who.agent.get('/api/runs/diff').query({ from: runId, to: firstRun }).expect(403);
     }
     await as.physician.agent.get(`/api/runs/${firstRun}/results`).query({ outcomeId: dc.outcomes.SPA }).expect(200);
     for (const siteId of [null, ...dc.sites]) {
-      const diff = runDiffSchema.parse((await as.hygienist.agent.get('/api/runs/diff').query({ from: firstRun, to: runId, ...(siteId !== null && { siteId }) }).expect(200)).body);
-      const real = runDiffSchema.parse((await as.physician.agent.get('/api/runs/diff').query({ from: firstRun, to: runId, ...(siteId !== null && { siteId }) }).expect(200)).body);
+      const diff = runDiffSchema.parse(
+        (
+          await as.hygienist.agent
+            .get('/api/runs/diff')
+            .query({ from: firstRun, to: runId, ...(siteId !== null && { siteId }) })
+            .expect(200)
+        ).body,
+      );
+      const real = runDiffSchema.parse(
+        (
+          await as.physician.agent
+            .get('/api/runs/diff')
+            .query({ from: firstRun, to: runId, ...(siteId !== null && { siteId }) })
+            .expect(200)
+        ).body,
+      );
       expect(diff.rows.length).toBe(real.rows.length);
       if (siteId === null) expect(diff.rows.length).toBeGreaterThan(0);
       for (const row of diff.rows) {

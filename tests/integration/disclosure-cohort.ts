@@ -55,7 +55,18 @@ function casesIn(rnd: () => number, outcome: 'SPA' | 'BUS', group: GroupName, si
 
 export async function makeDisclosureCohort(ds: DataSource, seed = 20261202): Promise<DisclosureCohort> {
   const rnd = prng(seed);
-  const cohort = await makeCohort(ds, { groups: [['REF', 0], ['LOW', 1], ['HIGH', 2]], reference: 'REF', outcomes: [['SPA', 'recurrent'], ['BUS', 'recurrent']] });
+  const cohort = await makeCohort(ds, {
+    groups: [
+      ['REF', 0],
+      ['LOW', 1],
+      ['HIGH', 2],
+    ],
+    reference: 'REF',
+    outcomes: [
+      ['SPA', 'recurrent'],
+      ['BUS', 'recurrent'],
+    ],
+  });
   const more = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Run test site three'), ($2, 'Run test site four') RETURNING id`, [
     `RC${cohort.tag}`,
     `RD${cohort.tag}`,
@@ -85,10 +96,10 @@ export async function makeDisclosureCohort(ds: DataSource, seed = 20261202): Pro
   }
   await cohort.roster(roster);
   // The case list reports every rostered month of all four sites (makeCohort's roster() names its own two): complete periods.
-  await ds.query(
-    `UPDATE intakes SET reports_site_ids = $2, reports_through = (SELECT max(month) FROM roster_slices WHERE site_id = ANY($2)) WHERE id = $1`,
-    [cohort.casesIntake, sites],
-  );
+  await ds.query(`UPDATE intakes SET reports_site_ids = $2, reports_through = (SELECT max(month) FROM roster_slices WHERE site_id = ANY($2)) WHERE id = $1`, [
+    cohort.casesIntake,
+    sites,
+  ]);
 
   let caseNo = 0;
   const addCases = async (rows: Array<[number, number, string]>) => {
@@ -107,7 +118,8 @@ export async function makeDisclosureCohort(ds: DataSource, seed = 20261202): Pro
         months.forEach((m, mi) => {
           if (si === 3 && mi < 3) return;
           const n = casesIn(rnd, o, g, si, mi);
-          for (let k = 0; k < n; k++) cases.push([list[Math.floor(rnd() * list.length)]!, outcomes[o], `${m.slice(0, 8)}${String(1 + Math.floor(rnd() * 28)).padStart(2, '0')}`]);
+          for (let k = 0; k < n; k++)
+            cases.push([list[Math.floor(rnd() * list.length)]!, outcomes[o], `${m.slice(0, 8)}${String(1 + Math.floor(rnd() * 28)).padStart(2, '0')}`]);
         });
       }
     }

@@ -65,7 +65,7 @@ export class LinearSystem {
   private prepare(): void {
     if (this.prepared) return;
     const fixed = new Map<string, number>();
-    for (let changed = true; changed; ) {
+    for (let changed = true; changed;) {
       changed = false;
       for (const row of this.rows) {
         let c = 0;
@@ -93,7 +93,8 @@ export class LinearSystem {
         else if (k !== 0) terms.set(v, k);
       }
       if (terms.size === 0) {
-        if (c < row.lo - EPS || c > row.hi + EPS) throw new Error(`the published figures contradict each other (${termsKey(row.terms)} = ${c}, not in [${row.lo}, ${row.hi}])`);
+        if (c < row.lo - EPS || c > row.hi + EPS)
+          throw new Error(`the published figures contradict each other (${termsKey(row.terms)} = ${c}, not in [${row.lo}, ${row.hi}])`);
         continue;
       }
       if ([...terms.values()].every((k) => k > 0) && row.lo - c <= EPS && row.hi === Infinity) continue;
@@ -186,7 +187,11 @@ export class LinearSystem {
     const ints: Record<string, 1> = Object.fromEntries([...names.values()].map((n) => [n, 1 as const]));
     const solve = (opType: 'min' | 'max', extra: Record<string, { max: number }>) => {
       this.solves++;
-      const out = solver.Solve({ optimize: 'obj', opType, constraints: { ...constraints, ...extra }, variables, ...(integer && { ints }) }) as { feasible: boolean; result: number; bounded?: boolean };
+      const out = solver.Solve({ optimize: 'obj', opType, constraints: { ...constraints, ...extra }, variables, ...(integer && { ints }) }) as {
+        feasible: boolean;
+        result: number;
+        bounded?: boolean;
+      };
       if (!out.feasible) throw new Error(`the attacker's system has no solution for ${termsKey(target)}`);
       return out.result;
     };

@@ -3,11 +3,13 @@ import { runResultSchema, runStrataSchema, type RunResult, type RunStrata } from
 import type { SignedInAgent } from '../support/sign-in';
 
 /** Key of one result row: scope (site id or "all"), outcome, group, window, period. */
-export const resultKey = (siteId: number | null, outcomeId: number, groupId: number, window: string, period: string) => `${siteId ?? 'all'}|${outcomeId}|${groupId}|${window}|${period}`;
+export const resultKey = (siteId: number | null, outcomeId: number, groupId: number, window: string, period: string) =>
+  `${siteId ?? 'all'}|${outcomeId}|${groupId}|${window}|${period}`;
 
 export type By = 'age' | 'sex' | 'site';
 /** Key of one stratum table: by, scope, outcome, group, window, period. */
-export const strataKey = (by: By, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string) => `${by}|${siteId ?? 'all'}|${outcomeId}|${groupId}|${window}|${period}`;
+export const strataKey = (by: By, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string) =>
+  `${by}|${siteId ?? 'all'}|${outcomeId}|${groupId}|${window}|${period}`;
 
 export interface StrataRequest {
   by: By;

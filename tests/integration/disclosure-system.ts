@@ -80,7 +80,10 @@ export function observe(
     if (scope !== 'all' || !u.outcomes.includes(Number(o))) continue;
     const real = truth.strata.get(key)!;
     const months = monthsOf(u, window, period);
-    const arms: Array<['exposed' | 'reference', number | null]> = [['exposed', table.exposureGroupId], ['reference', table.referenceGroupId]];
+    const arms: Array<['exposed' | 'reference', number | null]> = [
+      ['exposed', table.exposureGroupId],
+      ['reference', table.referenceGroupId],
+    ];
     for (const stratum of table.strata) {
       const realStratum = real.strata.find((s) => s.key === stratum.key)!;
       for (const [arm, g] of arms) {
@@ -90,7 +93,13 @@ export function observe(
           by === 'site'
             ? sumOf(months.map((m) => x(Number(o), g, Number(stratum.key), m)))
             : sumOf(months.map((m) => stratumVar(by, Number(o), g, stratum.key, m)));
-        out.push({ terms, label: labelOf(shown.cases, shown.withheld), truth: realStratum[arm]!.cases!, what: `strata ${key} ${arm} ${stratum.key ?? 'unknown'}`, tableLabel: by !== 'site' });
+        out.push({
+          terms,
+          label: labelOf(shown.cases, shown.withheld),
+          truth: realStratum[arm]!.cases!,
+          what: `strata ${key} ${arm} ${stratum.key ?? 'unknown'}`,
+          tableLabel: by !== 'site',
+        });
       }
     }
   }
@@ -165,7 +174,8 @@ export function truthOf(u: Universe, truth: { results: Map<string, RunResult>; s
     const m = u.months.indexOf(period!);
     for (const s of table.strata) {
       value.set(stratumVar(by as 'age' | 'sex', Number(o), table.exposureGroupId, s.key, m), s.exposed.cases!);
-      if (s.reference && table.referenceGroupId !== null) value.set(stratumVar(by as 'age' | 'sex', Number(o), table.referenceGroupId, s.key, m), s.reference.cases!);
+      if (s.reference && table.referenceGroupId !== null)
+        value.set(stratumVar(by as 'age' | 'sex', Number(o), table.referenceGroupId, s.key, m), s.reference.cases!);
     }
   }
   return value;
@@ -209,7 +219,8 @@ export function linearAttack(u: Universe, observations: Observation[], strata: M
     // is let through only if its labels alone narrow it at least as much.
     labels ??= systemOf(u, observations, strata, true);
     const l = labels.range(ob.terms, T - 1, { integer: false });
-    if (r.min > Math.max(1, l.min) || r.max < Math.min(T - 1, l.max)) narrowed.push(`${ob.what} (${ob.label.withheld}, true ${ob.truth}): the figures allow ${r.min}…${r.max}, its label ${l.min}…${l.max}`);
+    if (r.min > Math.max(1, l.min) || r.max < Math.min(T - 1, l.max))
+      narrowed.push(`${ob.what} (${ob.label.withheld}, true ${ob.truth}): the figures allow ${r.min}…${r.max}, its label ${l.min}…${l.max}`);
     // A leak shows in the first few; the rest would only take time.
     if (narrowed.length >= 10) break;
   }

@@ -26,7 +26,14 @@ describe('the site margin of a shown company count', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['EDGE', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['EDGE', 'recurrent']],
+    });
     const rows: Array<[number, string, number, number, number]> = [];
     const cases: Array<[number, number, string]> = [];
     for (const [s, site] of c.sites.entries()) {
@@ -62,13 +69,26 @@ describe('the site margin of a shown company count', () => {
   it('shows the company count of 8 and leaves both sites unlabelled, in every window', async () => {
     for (const window of ['month', 'rolling12']) {
       const company = await as.safety.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.EDGE, window }).expect(200);
-      const exp = runResultSchema.array().parse(company.body).find((r) => r.exposureGroupId === c.groups.EXP)!;
+      const exp = runResultSchema
+        .array()
+        .parse(company.body)
+        .find((r) => r.exposureGroupId === c.groups.EXP)!;
       expect(exp).toMatchObject({ cases: 8, withheld: null });
       for (const site of c.sites) {
         const own = await as.safety.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.EDGE, window, siteId: site }).expect(200);
-        expect(runResultSchema.array().parse(own.body).find((r) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: null, withheld: 'months' });
+        expect(
+          runResultSchema
+            .array()
+            .parse(own.body)
+            .find((r) => r.exposureGroupId === c.groups.EXP),
+        ).toMatchObject({ cases: null, withheld: 'months' });
         const physician = await as.physician.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.EDGE, window, siteId: site }).expect(200);
-        expect(runResultSchema.array().parse(physician.body).find((r) => r.exposureGroupId === c.groups.EXP)).toMatchObject({ cases: 4, withheld: null });
+        expect(
+          runResultSchema
+            .array()
+            .parse(physician.body)
+            .find((r) => r.exposureGroupId === c.groups.EXP),
+        ).toMatchObject({ cases: 4, withheld: null });
       }
     }
   });

@@ -27,12 +27,22 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     return (o as { runId: string }).runId;
   };
   const flagsOfRule = async () =>
-    (await ds.query(`SELECT id, exposure_group_id, state, value, worst_value FROM flags WHERE rule_id = $1 ORDER BY raised_at`, [ruleId])) as Array<Record<string, any>>;
+    (await ds.query(`SELECT id, exposure_group_id, state, value, worst_value FROM flags WHERE rule_id = $1 ORDER BY raised_at`, [ruleId])) as Array<
+      Record<string, any>
+    >;
 
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['MID', 1], ['EXP', 2]], reference: 'REF', outcomes: [['DERM', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['MID', 1],
+        ['EXP', 2],
+      ],
+      reference: 'REF',
+      outcomes: [['DERM', 'recurrent']],
+    });
     const rows: Array<[number, string, number, number, number]> = [];
     for (const g of ['REF', 'MID', 'EXP'] as const) {
       for (let i = 0; i < 10; i++) {
@@ -43,19 +53,38 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     }
     await c.roster(rows);
     await c.cases([
-      ...ids.EXP!.slice(0, 6).flatMap((w) => ['2031-11-10', '2031-11-12', '2031-12-10', '2031-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
+      ...ids
+        .EXP!.slice(0, 6)
+        .flatMap((w) => ['2031-11-10', '2031-11-12', '2031-12-10', '2031-12-12'].map((d) => [w, c.outcomes.DERM!, d] as [number, number, string])),
       ...ids.REF!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-12-03'] as [number, number, string]),
       ...ids.MID!.slice(0, 5).map((w) => [w, c.outcomes.DERM!, '2031-12-03'] as [number, number, string]),
     ]);
-    const [p] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test physician', 'physician') RETURNING id, email`, [`phys-${c.tag}`, `phys-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
+    const [p] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test physician', 'physician') RETURNING id, email`, [
+      `phys-${c.tag}`,
+      `phys-${c.tag.toLowerCase()}@kestrelmoor.test`,
+    ])) as Array<{ id: string; email: string }>;
     // A company-wide rule and its flag are for people who read every site (other files' sites exist too).
     const allSites = await allSiteIds(ds);
     physician = { kind: 'user', id: p!.id, email: p!.email, name: 'Test physician', role: 'physician', siteIds: allSites };
-    const [s] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test safety', 'safety_manager') RETURNING id, email`, [`safe-${c.tag}`, `safe-${c.tag.toLowerCase()}@kestrelmoor.test`])) as Array<{ id: string; email: string }>;
+    const [s] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test safety', 'safety_manager') RETURNING id, email`, [
+      `safe-${c.tag}`,
+      `safe-${c.tag.toLowerCase()}@kestrelmoor.test`,
+    ])) as Array<{ id: string; email: string }>;
     safety = { kind: 'user', id: s!.id, email: s!.email, name: 'Test safety', role: 'safety_manager', siteIds: allSites };
-    const rule = await createRule(ds, safety, watchRuleInputSchema.parse({
-      name: 'IRR lower bound above 1', outcomeId: c.outcomes.DERM, measure: 'irr', thresholdOn: 'lower_bound', threshold: 1, minCases: 5, window: 'rolling12', recipients: [recipient],
-    }));
+    const rule = await createRule(
+      ds,
+      safety,
+      watchRuleInputSchema.parse({
+        name: 'IRR lower bound above 1',
+        outcomeId: c.outcomes.DERM,
+        measure: 'irr',
+        thresholdOn: 'lower_bound',
+        threshold: 1,
+        minCases: 5,
+        window: 'rolling12',
+        recipients: [recipient],
+      }),
+    );
     ruleId = rule.id;
   });
   afterAll(async () => {
@@ -89,10 +118,14 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
   });
 
   it('the next run with the same data leaves the one open flag alone: no duplicate, no new notice', async () => {
-    const before = ((await ds.query(`SELECT count(*)::int AS n FROM notices n JOIN flags f ON f.id = n.flag_id WHERE f.rule_id = $1`, [ruleId])) as Array<{ n: number }>)[0]!.n;
+    const before = (
+      (await ds.query(`SELECT count(*)::int AS n FROM notices n JOIN flags f ON f.id = n.flag_id WHERE f.rule_id = $1`, [ruleId])) as Array<{ n: number }>
+    )[0]!.n;
     await run();
     expect((await flagsOfRule()).length).toBe(1);
-    const after = ((await ds.query(`SELECT count(*)::int AS n FROM notices n JOIN flags f ON f.id = n.flag_id WHERE f.rule_id = $1`, [ruleId])) as Array<{ n: number }>)[0]!.n;
+    const after = (
+      (await ds.query(`SELECT count(*)::int AS n FROM notices n JOIN flags f ON f.id = n.flag_id WHERE f.rule_id = $1`, [ruleId])) as Array<{ n: number }>
+    )[0]!.n;
     expect(after).toBe(before);
   });
 
@@ -113,13 +146,17 @@ describe('watch rules raise, update, escalate and re-raise flags', () => {
     const cases = await flagCases(ds, physician, flag!.id);
     expect(cases.length).toBe(28);
     expect(cases.every((x) => x.workerKey.startsWith(`${c.tag}-EXP`))).toBe(true);
-    const audits = (await ds.query(`SELECT action, actor_id FROM audit_events WHERE target = $1 AND action = 'cases.read'`, [`flag:${flag!.id}`])) as Array<{ actor_id: string }>;
+    const audits = (await ds.query(`SELECT action, actor_id FROM audit_events WHERE target = $1 AND action = 'cases.read'`, [`flag:${flag!.id}`])) as Array<{
+      actor_id: string;
+    }>;
     expect(audits.map((a) => a.actor_id)).toEqual([physician.kind === 'user' ? physician.id : '']);
   });
 
   it('review then close; the closed flag is not raised again unless the measure worsens past it', async () => {
     const [flag] = await flagsOfRule();
-    await expect(closeFlag(ds, safety, flag!.id, { reason: 'explained', comment: 'x' }).then(() => startReview(ds, safety, flag!.id, undefined))).rejects.toThrow(/closed/);
+    await expect(
+      closeFlag(ds, safety, flag!.id, { reason: 'explained', comment: 'x' }).then(() => startReview(ds, safety, flag!.id, undefined)),
+    ).rejects.toThrow(/closed/);
     const closed = await getFlag(ds, flag!.id);
     expect(closed.state).toBe('closed');
     expect(closed.closeReason).toBe('explained');

@@ -41,8 +41,11 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
   };
   const write = (who: SignedInAgent, path: string, body: object) => who.agent.post(path).set('x-csrf-token', who.csrf).send(body);
   const flagsOf = async (ruleId: string) =>
-    (await ds.query(`SELECT id, site_id, exposure_group_id, state, value, worst_value, crossing FROM flags WHERE rule_id = $1 ORDER BY raised_at`, [ruleId])) as Array<Record<string, any>>;
-  const eventsOf = async (flagId: string) => ((await ds.query(`SELECT kind FROM flag_events WHERE flag_id = $1 ORDER BY id`, [flagId])) as Array<{ kind: string }>).map((e) => e.kind);
+    (await ds.query(`SELECT id, site_id, exposure_group_id, state, value, worst_value, crossing FROM flags WHERE rule_id = $1 ORDER BY raised_at`, [
+      ruleId,
+    ])) as Array<Record<string, any>>;
+  const eventsOf = async (flagId: string) =>
+    ((await ds.query(`SELECT kind FROM flag_events WHERE flag_id = $1 ORDER BY id`, [flagId])) as Array<{ kind: string }>).map((e) => e.kind);
   /** The notices of one kind of event of a flag, by recipient. */
   const noticesOf = async (flagId: string, kind: string) =>
     (await ds.query(
@@ -94,7 +97,15 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     await as.twoSites.agent.patch(`/api/rules/${siteRuleId}`).set('x-csrf-token', as.twoSites.csrf).send({ siteIds: null }).expect(403);
     // The company-wide twin, and a company-wide rate rule that does flag, by a reader of every site.
     await write(as.hygienist, '/api/rules', { ...body, name: 'Skin IRR, company', recipients: [] }).expect(201);
-    await write(as.hygienist, '/api/rules', { name: 'Skin rate, company', outcomeId: c.outcomes.SKIN, measure: 'rate', thresholdOn: 'estimate', threshold: 1, window: 'rolling12', fdrControl: false }).expect(201);
+    await write(as.hygienist, '/api/rules', {
+      name: 'Skin rate, company',
+      outcomeId: c.outcomes.SKIN,
+      measure: 'rate',
+      thresholdOn: 'estimate',
+      threshold: 1,
+      window: 'rolling12',
+      fdrControl: false,
+    }).expect(201);
   });
 
   it('raises a flag at the site with the excess, which the company-wide rule misses', async () => {
@@ -106,7 +117,10 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     expect(flags[0]!.value).toBeCloseTo(1.4568, 3); // the exact lower bound (site-excess-cohort.ts)
     const [company] = (await ds.query(`SELECT id FROM watch_rules WHERE name = 'Skin IRR, company'`)) as Array<{ id: string }>;
     expect(await flagsOf(company!.id)).toEqual([]);
-    const [rate] = (await ds.query(`SELECT f.id, f.site_id FROM flags f JOIN watch_rules r ON r.id = f.rule_id WHERE r.name = 'Skin rate, company'`)) as Array<{ id: string; site_id: number | null }>;
+    const [rate] = (await ds.query(`SELECT f.id, f.site_id FROM flags f JOIN watch_rules r ON r.id = f.rule_id WHERE r.name = 'Skin rate, company'`)) as Array<{
+      id: string;
+      site_id: number | null;
+    }>;
     expect(rate).toMatchObject({ site_id: null });
     companyRateFlagId = rate!.id;
     // Benjamini–Hochberg across EXP at both sites (family of two): q = 2 p for site one.
@@ -115,7 +129,7 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     expect(detail.figures).toMatchObject({ runId, cases: 20, completeness: 'complete', period: '2031-12-01' });
   });
 
-  it('the safety manager of both sites sees the site flag with that site\'s figures only, and no company flag', async () => {
+  it("the safety manager of both sites sees the site flag with that site's figures only, and no company flag", async () => {
     const [one] = c.sites as [number, number];
     const list = flagSchema.array().parse((await as.twoSites.agent.get('/api/flags').expect(200)).body);
     expect(list.map((f) => f.id)).toEqual([siteFlagId]);
@@ -168,7 +182,10 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     expect(await eventsOf(siteFlagId)).toEqual(['raised', 'escalated']);
     expect((await noticesOf(siteFlagId, 'escalated')).map((n) => n.recipient)).toEqual(['physician@demo.ratewarden.test', recipient].sort());
     // Those six were ruled out after all: the next run is back where it was before the worsening.
-    await ds.query(`UPDATE case_events SET status = 'ruled_out' WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) AND onset_date = '2031-11-20'`, [c.casesIntake, exp.slice(0, 6)]);
+    await ds.query(`UPDATE case_events SET status = 'ruled_out' WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) AND onset_date = '2031-11-20'`, [
+      c.casesIntake,
+      exp.slice(0, 6),
+    ]);
     await run();
     const [eased] = await flagsOf(siteRuleId);
     expect(eased).toMatchObject({ crossing: true, state: 'raised' });
@@ -209,7 +226,10 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
     expect(f.events.map((e) => e.kind)).toEqual(['raised', 'escalated', 'eased', 'cleared']);
 
     // Those reference cases ruled out: past the rule again.
-    await ds.query(`UPDATE case_events SET status = 'ruled_out' WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) AND onset_date = '2031-12-15'`, [c.casesIntake, ref]);
+    await ds.query(`UPDATE case_events SET status = 'ruled_out' WHERE intake_id = $1 AND worker_id = ANY($2::bigint[]) AND onset_date = '2031-12-15'`, [
+      c.casesIntake,
+      ref,
+    ]);
     await run();
     expect(await eventsOf(siteFlagId)).toEqual(['raised', 'escalated', 'eased', 'cleared', 'crossed_again']);
     expect((await noticesOf(siteFlagId, 'crossed_again')).map((n) => n.subject)).toEqual(
@@ -226,13 +246,28 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
       transport.close();
     }
     // Each e-mail links to its notice in the inbox, whose subject says what happened.
-    const mails = (await ds.query(`SELECT subject, message_id FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [recipient])) as Array<{ subject: string; message_id: string }>;
-    const notices = (await ds.query(`SELECT id, subject, mail_subject FROM notices WHERE recipient = $1`, [recipient])) as Array<{ id: string; subject: string; mail_subject: string }>;
+    const mails = (await ds.query(`SELECT subject, message_id FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [recipient])) as Array<{
+      subject: string;
+      message_id: string;
+    }>;
+    const notices = (await ds.query(`SELECT id, subject, mail_subject FROM notices WHERE recipient = $1`, [recipient])) as Array<{
+      id: string;
+      subject: string;
+      mail_subject: string;
+    }>;
     const noticeOfMail = (m: { message_id: string }) => notices.find((n) => m.message_id === `<notice-${n.id}@ratewarden.local>`)!;
     expect(mails.map((m) => m.subject)).toEqual(mails.map((m) => noticeOfMail(m).mail_subject));
-    const subjects = mails.map((m) => noticeOfMail(m).subject.replace(/^Ratewarden: watch rule "Skin IRR, my sites" /, '').replace(/ for Group EXP at Run test site one$/, ''));
-    expect(subjects.sort()).toEqual(['raised a flag', 'flag worsened', 'follow-up, worsening withdrawn', 'follow-up, no longer past the rule', 'flag past the rule again'].sort());
-    expect(mails.map((m) => m.subject).sort()).toEqual([...Array(3).fill('Ratewarden: a new threshold notice for you'), ...Array(2).fill('Ratewarden: a follow-up notice for you')].sort());
+    const subjects = mails.map((m) =>
+      noticeOfMail(m)
+        .subject.replace(/^Ratewarden: watch rule "Skin IRR, my sites" /, '')
+        .replace(/ for Group EXP at Run test site one$/, ''),
+    );
+    expect(subjects.sort()).toEqual(
+      ['raised a flag', 'flag worsened', 'follow-up, worsening withdrawn', 'follow-up, no longer past the rule', 'flag past the rule again'].sort(),
+    );
+    expect(mails.map((m) => m.subject).sort()).toEqual(
+      [...Array(3).fill('Ratewarden: a new threshold notice for you'), ...Array(2).fill('Ratewarden: a follow-up notice for you')].sort(),
+    );
     const states = (await ds.query(`SELECT DISTINCT state FROM notices WHERE flag_id = $1`, [siteFlagId])) as Array<{ state: string }>;
     expect(states).toEqual([{ state: 'sent' }]);
   });
@@ -240,22 +275,41 @@ describe('site-level watch rules, their readers, and follow-up notices', () => {
   it('a roster without its case list: rules read the latest complete period, or with the partial setting say "partial"', async () => {
     const [one] = c.sites as [number, number];
     // January 2032's roster at site one, with no case list reporting it: that month is partial.
-    await c.roster([...exp, ...ref].map((w) => [w, '2032-01-01', one, exp.includes(w) ? c.groups.EXP! : c.groups.REF!, 160] as [number, string, number, number, number]));
+    await c.roster(
+      [...exp, ...ref].map((w) => [w, '2032-01-01', one, exp.includes(w) ? c.groups.EXP! : c.groups.REF!, 160] as [number, string, number, number, number]),
+    );
     await ds.query(`UPDATE intakes SET reports_through = '2031-12-01' WHERE id = $1`, [c.casesIntake]);
-    const rateRule = (name: string) => write(as.twoSites, '/api/rules', { name, outcomeId: c.outcomes.SKIN, siteIds: [one], measure: 'rate', thresholdOn: 'estimate', threshold: 1, window: 'rolling12', fdrControl: false });
+    const rateRule = (name: string) =>
+      write(as.twoSites, '/api/rules', {
+        name,
+        outcomeId: c.outcomes.SKIN,
+        siteIds: [one],
+        measure: 'rate',
+        thresholdOn: 'estimate',
+        threshold: 1,
+        window: 'rolling12',
+        fdrControl: false,
+      });
     const complete = watchRuleSchema.parse((await rateRule('Skin rate, site one').expect(201)).body);
     await run();
-    const [onComplete] = (await ds.query(`SELECT id, to_char(period, 'YYYY-MM') AS period FROM flags WHERE rule_id = $1`, [complete.id])) as Array<{ id: string; period: string }>;
+    const [onComplete] = (await ds.query(`SELECT id, to_char(period, 'YYYY-MM') AS period FROM flags WHERE rule_id = $1`, [complete.id])) as Array<{
+      id: string;
+      period: string;
+    }>;
     expect(onComplete!.period).toBe('2031-12');
     for (const n of await noticesOf(onComplete!.id, 'raised')) expect(n.body).toContain('Period: 12 months ending Dec 2031, complete');
 
     const partial = watchRuleSchema.parse((await rateRule('Skin rate, site one, partial periods too').expect(201)).body);
     const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', rulesOnPartialPeriods: true });
     expect(o.status).toBe('succeeded');
-    const [onPartial] = (await ds.query(`SELECT id, to_char(period, 'YYYY-MM') AS period, detail->>'completeness' AS completeness FROM flags WHERE rule_id = $1`, [partial.id])) as Array<{ id: string; period: string; completeness: string }>;
+    const [onPartial] = (await ds.query(
+      `SELECT id, to_char(period, 'YYYY-MM') AS period, detail->>'completeness' AS completeness FROM flags WHERE rule_id = $1`,
+      [partial.id],
+    )) as Array<{ id: string; period: string; completeness: string }>;
     expect(onPartial).toMatchObject({ period: '2032-01', completeness: 'partial' });
     const notices = await noticesOf(onPartial!.id, 'raised');
     expect(notices.map((n) => n.recipient)).toEqual(['physician@demo.ratewarden.test']); // the rule names no one else
-    for (const n of notices) expect(n.body).toContain('Period: 12 months ending Jan 2032, partial (a roster or case list of the period was not in when the run read it)');
+    for (const n of notices)
+      expect(n.body).toContain('Period: 12 months ending Jan 2032, partial (a roster or case list of the period was not in when the run read it)');
   });
 });

@@ -16,7 +16,9 @@ describe('exposure group and outcome routes', () => {
   const tag = randomBytes(3).toString('hex').toUpperCase();
 
   const write = (who: SignedInAgent, method: 'post' | 'patch' | 'put', path: string, body?: object) =>
-    who.agent[method](path).set('x-csrf-token', who.csrf).send(body ?? {});
+    who.agent[method](path)
+      .set('x-csrf-token', who.csrf)
+      .send(body ?? {});
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -44,7 +46,12 @@ describe('exposure group and outcome routes', () => {
   const history = async (path: string) => ((await as.safety.agent.get(path).expect(200)).body as unknown[]).map((h) => configChangeSchema.parse(h));
 
   it('creates an exposure group (code upper-cased) and refuses the same code twice', async () => {
-    const res = await write(as.hygienist, 'post', '/api/groups', { code: ` grind${tag} `, name: 'Grinding', hazard: 'respirable silica', exposureLevel: 2 }).expect(201);
+    const res = await write(as.hygienist, 'post', '/api/groups', {
+      code: ` grind${tag} `,
+      name: 'Grinding',
+      hazard: 'respirable silica',
+      exposureLevel: 2,
+    }).expect(201);
     const g = exposureGroupSchema.parse(res.body);
     expect(g).toMatchObject({ code: `GRIND${tag}`, name: 'Grinding', hazard: 'respirable silica', exposureLevel: 2, isReference: false, description: null });
     await write(as.hygienist, 'post', '/api/groups', { code: `GRIND${tag}`, name: 'Again', hazard: 'x', exposureLevel: 1 }).expect(409);
@@ -56,19 +63,31 @@ describe('exposure group and outcome routes', () => {
   });
 
   it('edits a group and keeps each change, with before and after, in the history', async () => {
-    const g = exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `WELD${tag}`, name: 'Welding', hazard: 'fume', exposureLevel: 1 }).expect(201)).body);
-    const edited = exposureGroupSchema.parse((await write(as.hygienist, 'patch', `/api/groups/${g.id}`, { name: 'Welding bay', description: 'MIG and TIG' }).expect(200)).body);
+    const g = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'post', '/api/groups', { code: `WELD${tag}`, name: 'Welding', hazard: 'fume', exposureLevel: 1 }).expect(201)).body,
+    );
+    const edited = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'patch', `/api/groups/${g.id}`, { name: 'Welding bay', description: 'MIG and TIG' }).expect(200)).body,
+    );
     expect(edited).toMatchObject({ id: g.id, code: `WELD${tag}`, name: 'Welding bay', hazard: 'fume', exposureLevel: 1, description: 'MIG and TIG' });
     const h = await history(`/api/groups/${g.id}/history`);
     expect(h.map((x) => x.action)).toEqual(['group.update', 'group.create']);
-    expect(h[0]).toMatchObject({ actor: expect.stringContaining('hygienist@demo.ratewarden.test'), before: { name: 'Welding', description: null }, after: { name: 'Welding bay', description: 'MIG and TIG' } });
+    expect(h[0]).toMatchObject({
+      actor: expect.stringContaining('hygienist@demo.ratewarden.test'),
+      before: { name: 'Welding', description: null },
+      after: { name: 'Welding bay', description: 'MIG and TIG' },
+    });
     expect(h[1]!.before).toBeNull();
     await write(as.hygienist, 'patch', '/api/groups/999999999', { name: 'x' }).expect(404);
   });
 
   it('sets the reference group: exactly one, and the old one is told so in its history', async () => {
-    const a = exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `OFFA${tag}`, name: 'Office A', hazard: 'none', exposureLevel: 0 }).expect(201)).body);
-    const b = exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `OFFB${tag}`, name: 'Office B', hazard: 'none', exposureLevel: 0 }).expect(201)).body);
+    const a = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'post', '/api/groups', { code: `OFFA${tag}`, name: 'Office A', hazard: 'none', exposureLevel: 0 }).expect(201)).body,
+    );
+    const b = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'post', '/api/groups', { code: `OFFB${tag}`, name: 'Office B', hazard: 'none', exposureLevel: 0 }).expect(201)).body,
+    );
     await write(as.hygienist, 'post', `/api/groups/${a.id}/reference`).expect(200);
     const after = ((await write(as.hygienist, 'post', `/api/groups/${b.id}/reference`).expect(200)).body as unknown[]).map((x) => exposureGroupSchema.parse(x));
     expect(after.filter((x) => x.isReference).map((x) => x.id)).toEqual([b.id]);
@@ -80,11 +99,19 @@ describe('exposure group and outcome routes', () => {
 
   it('sets ordinal levels in one change, recording only the groups that moved', async () => {
     const mk = async (code: string, level: number | null) =>
-      exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `${code}${tag}`, name: code, hazard: 'noise', exposureLevel: level }).expect(201)).body);
+      exposureGroupSchema.parse(
+        (await write(as.hygienist, 'post', '/api/groups', { code: `${code}${tag}`, name: code, hazard: 'noise', exposureLevel: level }).expect(201)).body,
+      );
     const low = await mk('LOW', 1);
     const mid = await mk('MID', 2);
     const high = await mk('HIGH', 2);
-    const res = await write(as.hygienist, 'put', '/api/groups/levels', { levels: [{ id: low.id, exposureLevel: 1 }, { id: mid.id, exposureLevel: 2 }, { id: high.id, exposureLevel: 3 }] }).expect(200);
+    const res = await write(as.hygienist, 'put', '/api/groups/levels', {
+      levels: [
+        { id: low.id, exposureLevel: 1 },
+        { id: mid.id, exposureLevel: 2 },
+        { id: high.id, exposureLevel: 3 },
+      ],
+    }).expect(200);
     const levels = new Map((res.body as Array<{ id: number; exposureLevel: number | null }>).map((x) => [x.id, x.exposureLevel]));
     expect([levels.get(low.id), levels.get(mid.id), levels.get(high.id)]).toEqual([1, 2, 3]);
     expect((await history(`/api/groups/${high.id}/history`))[0]).toMatchObject({ before: { exposureLevel: 2 }, after: { exposureLevel: 3 } });
@@ -95,12 +122,23 @@ describe('exposure group and outcome routes', () => {
   });
 
   it('creates and edits an outcome with its own reference group, history kept', async () => {
-    const ref = exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `ADMIN${tag}`, name: 'Administration', hazard: 'none', exposureLevel: 0 }).expect(201)).body);
-    const created = outcomeSchema.parse((await write(as.hygienist, 'post', '/api/outcomes', {
-      code: `NIHL${tag}`, name: 'Noise-induced hearing loss', caseDefinition: 'Standard threshold shift confirmed by retest', countingRule: 'first_event',
-    }).expect(201)).body);
+    const ref = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'post', '/api/groups', { code: `ADMIN${tag}`, name: 'Administration', hazard: 'none', exposureLevel: 0 }).expect(201)).body,
+    );
+    const created = outcomeSchema.parse(
+      (
+        await write(as.hygienist, 'post', '/api/outcomes', {
+          code: `NIHL${tag}`,
+          name: 'Noise-induced hearing loss',
+          caseDefinition: 'Standard threshold shift confirmed by retest',
+          countingRule: 'first_event',
+        }).expect(201)
+      ).body,
+    );
     expect(created).toMatchObject({ code: `NIHL${tag}`, countingRule: 'first_event', lagMonths: 0, referenceGroupId: null });
-    const edited = outcomeSchema.parse((await write(as.hygienist, 'patch', `/api/outcomes/${created.id}`, { referenceGroupId: ref.id, lagMonths: 6 }).expect(200)).body);
+    const edited = outcomeSchema.parse(
+      (await write(as.hygienist, 'patch', `/api/outcomes/${created.id}`, { referenceGroupId: ref.id, lagMonths: 6 }).expect(200)).body,
+    );
     expect(edited).toMatchObject({ referenceGroupId: ref.id, lagMonths: 6, name: 'Noise-induced hearing loss' });
     const bad = await write(as.hygienist, 'patch', `/api/outcomes/${created.id}`, { referenceGroupId: 999999999 }).expect(422);
     expect(JSON.stringify(bad.body)).toMatch(/referenceGroupId/);
@@ -112,8 +150,13 @@ describe('exposure group and outcome routes', () => {
   });
 
   it('refuses every write to the roles other than the hygienist, changing nothing', async () => {
-    const g = exposureGroupSchema.parse((await write(as.hygienist, 'post', '/api/groups', { code: `LOCK${tag}`, name: 'Locked', hazard: 'x', exposureLevel: 1 }).expect(201)).body);
-    const o = outcomeSchema.parse((await write(as.hygienist, 'post', '/api/outcomes', { code: `LOCKO${tag}`, name: 'Locked', caseDefinition: 'x', countingRule: 'recurrent' }).expect(201)).body);
+    const g = exposureGroupSchema.parse(
+      (await write(as.hygienist, 'post', '/api/groups', { code: `LOCK${tag}`, name: 'Locked', hazard: 'x', exposureLevel: 1 }).expect(201)).body,
+    );
+    const o = outcomeSchema.parse(
+      (await write(as.hygienist, 'post', '/api/outcomes', { code: `LOCKO${tag}`, name: 'Locked', caseDefinition: 'x', countingRule: 'recurrent' }).expect(201))
+        .body,
+    );
     for (const who of [as.safety, as.physician, as.admin]) {
       await write(who, 'post', '/api/groups', { code: `X${tag}`, name: 'x', hazard: 'x', exposureLevel: 1 }).expect(403);
       await write(who, 'patch', `/api/groups/${g.id}`, { name: 'changed' }).expect(403);

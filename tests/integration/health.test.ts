@@ -19,19 +19,25 @@ describe('/api/health against the real database', () => {
   });
 
   it('answers ok with the version when PostgreSQL is up', async () => {
-    const res = await request(createApp({ dataSource: ds, config })).get('/api/health').expect(200);
+    const res = await request(createApp({ dataSource: ds, config }))
+      .get('/api/health')
+      .expect(200);
     expect(healthSchema.parse(res.body)).toEqual({ status: 'ok', db: 'ok', version: RATEWARDEN_VERSION });
   });
 
   it('answers 503 with db "down" when PostgreSQL is unreachable', async () => {
     const unreachable = createDataSource('postgres://ratewarden@127.0.0.1:1/none', 1);
     await unreachable.initialize().catch(() => undefined);
-    const res = await request(createApp({ dataSource: unreachable, config })).get('/api/health').expect(503);
+    const res = await request(createApp({ dataSource: unreachable, config }))
+      .get('/api/health')
+      .expect(503);
     expect(res.body).toMatchObject({ status: 'degraded', db: 'down' });
   });
 
   it('turns an unknown API route into a JSON problem, not an HTML page', async () => {
-    const res = await request(createApp({ dataSource: ds, config })).get('/api/no-such-thing').expect(404);
+    const res = await request(createApp({ dataSource: ds, config }))
+      .get('/api/no-such-thing')
+      .expect(404);
     expect(res.headers['content-type']).toMatch(/application\/json/);
     expect(problemSchema.parse(res.body).code).toBe('not_found');
   });
@@ -47,7 +53,9 @@ describe('/api/health against the real database', () => {
   });
 
   it('serves the built web app for client-side routes', async () => {
-    const res = await request(createApp({ dataSource: ds, config })).get('/some/page').expect(200);
+    const res = await request(createApp({ dataSource: ds, config }))
+      .get('/some/page')
+      .expect(200);
     expect(res.text).toContain('<div id="root">');
   });
 

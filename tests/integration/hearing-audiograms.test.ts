@@ -28,10 +28,24 @@ describe('audiogram intake → derived shifts → next run', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['NOISE', 2]], reference: 'REF', outcomes: [['HEAR', 'first_event']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['NOISE', 2],
+      ],
+      reference: 'REF',
+      outcomes: [['HEAR', 'first_event']],
+    });
     const ids: Record<string, number> = {};
     // n1, n2 born 1990 (M); n3 born 1985 (F: Table F-2 not stored, compared uncorrected); r1, r2 reference.
-    for (const [k, by, sex] of [['n1', 1990, 'M'], ['n2', 1990, 'M'], ['n3', 1985, 'F'], ['r1', 1980, 'M'], ['r2', 1982, 'F']] as const) ids[k] = await c.worker(k, by, sex);
+    for (const [k, by, sex] of [
+      ['n1', 1990, 'M'],
+      ['n2', 1990, 'M'],
+      ['n3', 1985, 'F'],
+      ['r1', 1980, 'M'],
+      ['r2', 1982, 'F'],
+    ] as const)
+      ids[k] = await c.worker(k, by, sex);
     const rows: Array<[number, string, number, number, number]> = [];
     for (let m = 1; m <= 12; m += 1) {
       const month = `2025-${String(m).padStart(2, '0')}-01`;
@@ -50,7 +64,12 @@ describe('audiogram intake → derived shifts → next run', () => {
   });
 
   it('rejects a file with wrong cells and unknown workers, naming line and column, storing nothing', async () => {
-    const body = [HEADER, `${key('n1')},2024-03-04,left,baseline,5,5,12,10,10,10,`, `NOBODY-1,2024-03-04,left,baseline,5,5,10,10,10,10,`, `${key('n1')},2024-13-04,left,annual,5,5,10,10,10,10,`].join('\n');
+    const body = [
+      HEADER,
+      `${key('n1')},2024-03-04,left,baseline,5,5,12,10,10,10,`,
+      `NOBODY-1,2024-03-04,left,baseline,5,5,10,10,10,10,`,
+      `${key('n1')},2024-13-04,left,annual,5,5,10,10,10,10,`,
+    ].join('\n');
     const res = await upload(hyg, Buffer.from(body)).expect(422);
     expect(res.body.details.problems).toEqual([
       expect.objectContaining({ line: 2, column: 'hl_2000', value: '12' }),
@@ -62,7 +81,7 @@ describe('audiogram intake → derived shifts → next run', () => {
     expect(await ds.query(`SELECT count(*)::int AS n FROM audiograms`)).toEqual([{ n: 0 }]);
   });
 
-  it('takes the cohort\'s audiograms and answers the hygienist without any shift count', async () => {
+  it("takes the cohort's audiograms and answers the hygienist without any shift count", async () => {
     const both = (k: string, date: string, type: string, v: string) => [`${key(k)},${date},left,${type},${v}`, `${key(k)},${date},right,${type},${v}`];
     const normal = '5,5,5,5,10,10,';
     const body = [
@@ -70,21 +89,29 @@ describe('audiogram intake → derived shifts → next run', () => {
       // n1: baseline 5,5,10 at 2/3/4 kHz (age 34); annual 2025-06-10 left 20,20,25 (age 35): change 15,15,15 minus Table F-1
       // 35 − 34 (not stored → uncorrected, reported) → average 15 ≥ 10: shift, left ear. Right ear unchanged.
       ...both('n1', '2024-06-10', 'baseline', normal),
-      `${key('n1')},2025-06-10,left,annual,5,5,20,20,25,20,`, `${key('n1')},2025-06-10,right,annual,${normal}`,
+      `${key('n1')},2025-06-10,left,annual,5,5,20,20,25,20,`,
+      `${key('n1')},2025-06-10,right,annual,${normal}`,
       // n2: the annual shows a shift but a retest 20 days later does not: no shift (1910.95(g)(7)(ii)).
       ...both('n2', '2024-06-10', 'baseline', normal),
-      `${key('n2')},2025-06-10,left,annual,5,5,20,20,25,20,`, `${key('n2')},2025-06-10,right,annual,${normal}`,
+      `${key('n2')},2025-06-10,left,annual,5,5,20,20,25,20,`,
+      `${key('n2')},2025-06-10,right,annual,${normal}`,
       `${key('n2')},2025-06-30,left,retest,${normal}`,
       // n3: right ear 15,15,20 against 5,5,10: average change 10: shift (exactly 10 counts).
       ...both('n3', '2024-07-01', 'baseline', normal),
-      `${key('n3')},2025-07-01,left,annual,${normal}`, `${key('n3')},2025-07-01,right,annual,5,5,15,15,20,10,`,
+      `${key('n3')},2025-07-01,left,annual,${normal}`,
+      `${key('n3')},2025-07-01,right,annual,5,5,15,15,20,10,`,
       // r1, r2: no change.
-      ...both('r1', '2024-05-01', 'baseline', normal), ...both('r1', '2025-05-01', 'annual', normal),
-      ...both('r2', '2024-05-01', 'baseline', normal), ...both('r2', '2025-05-01', 'annual', normal),
+      ...both('r1', '2024-05-01', 'baseline', normal),
+      ...both('r1', '2025-05-01', 'annual', normal),
+      ...both('r2', '2024-05-01', 'baseline', normal),
+      ...both('r2', '2025-05-01', 'annual', normal),
     ].join('\r\n');
     const res = await upload(hyg, Buffer.from(body)).expect(201);
     expect(res.body).toEqual({ intakeId: expect.any(String), rows: 21, workers: 5 });
-    const cases = (await ds.query(`SELECT w.worker_key, to_char(e.onset_date, 'YYYY-MM-DD') AS onset, e.status FROM case_events e JOIN workers w ON w.id = e.worker_id WHERE e.intake_id = $1 ORDER BY 1`, [res.body.intakeId])) as unknown[];
+    const cases = (await ds.query(
+      `SELECT w.worker_key, to_char(e.onset_date, 'YYYY-MM-DD') AS onset, e.status FROM case_events e JOIN workers w ON w.id = e.worker_id WHERE e.intake_id = $1 ORDER BY 1`,
+      [res.body.intakeId],
+    )) as unknown[];
     expect(cases).toEqual([
       { worker_key: key('n1'), onset: '2025-06-10', status: 'suspected' },
       { worker_key: key('n3'), onset: '2025-07-01', status: 'suspected' },
@@ -103,7 +130,10 @@ describe('audiogram intake → derived shifts → next run', () => {
     const bytes = Buffer.from(await book.xlsx.writeBuffer());
     const res = await upload(hyg, bytes, 'audiograms.xlsx').expect(201);
     expect(res.body.rows).toBe(2);
-    expect(await ds.query(`SELECT hl_8000 FROM audiograms WHERE intake_id = $1 ORDER BY ear`, [res.body.intakeId])).toEqual([{ hl_8000: 15 }, { hl_8000: null }]);
+    expect(await ds.query(`SELECT hl_8000 FROM audiograms WHERE intake_id = $1 ORDER BY ear`, [res.body.intakeId])).toEqual([
+      { hl_8000: 15 },
+      { hl_8000: null },
+    ]);
   });
 
   it('shows the physician each shift with its computation, audited; nobody else reads audiograms', async () => {
@@ -114,25 +144,37 @@ describe('audiogram intake → derived shifts → next run', () => {
     const compared = left.steps.find((s: { kind: string }) => s.kind === 'compared');
     expect(compared.ageCorrection).toMatchObject({ applied: false });
     expect(res.body.cases).toEqual([{ caseRef: `STS-${key('n1')}-2025-06-10`, onsetDate: '2025-06-10', status: 'suspected' }]);
-    const audit = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target LIKE 'audiograms:worker:%'`)) as { n: number }[];
+    const audit = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target LIKE 'audiograms:worker:%'`)) as {
+      n: number;
+    }[];
     expect(audit[0]!.n).toBeGreaterThan(0);
     const list = await phys.agent.get('/api/audiograms/workers').expect(200);
     expect(list.body.workers.map((w: { workerKey: string; shifts: number }) => [w.workerKey, w.shifts])).toEqual([
-      [key('n1'), 1], [key('n2'), 0], [key('n3'), 1], [key('r1'), 0], [key('r2'), 0],
+      [key('n1'), 1],
+      [key('n2'), 0],
+      [key('n3'), 1],
+      [key('r1'), 0],
+      [key('r2'), 0],
     ]);
     await hyg.agent.get(`/api/audiograms/workers/${key('n1')}`).expect(403);
     await hyg.agent.get('/api/audiograms/workers').expect(403);
   });
 
-  it('the next run counts the derived cases (suspected cases counted in this run\'s settings)', async () => {
-    const outcome = await performRun(ds, { trigger: 'cli', settings: { ...settings, countedStatuses: ['suspected', 'confirmed'] }, appUrl: 'http://127.0.0.1:3000' });
+  it("the next run counts the derived cases (suspected cases counted in this run's settings)", async () => {
+    const outcome = await performRun(ds, {
+      trigger: 'cli',
+      settings: { ...settings, countedStatuses: ['suspected', 'confirmed'] },
+      appUrl: 'http://127.0.0.1:3000',
+    });
     expect(outcome.status).toBe('succeeded');
     const runId = (outcome as { runId: string }).runId;
     const results = await storedResults(ds, runId, c.outcomes.HEAR!);
     // n1 in June 2025 and n3 in July 2025, both NOISE; no REF case.
     expect(results.get(`${c.groups.NOISE}:month:2025-06`)!.cases).toBe(1);
     expect(results.get(`${c.groups.NOISE}:month:2025-07`)!.cases).toBe(1);
-    const summary = ((await ds.query(`SELECT summary FROM runs WHERE id = $1`, [runId])) as Array<{ summary: { cases: Array<{ outcomeId: number; counted: number }> } }>)[0]!.summary;
+    const summary = (
+      (await ds.query(`SELECT summary FROM runs WHERE id = $1`, [runId])) as Array<{ summary: { cases: Array<{ outcomeId: number; counted: number }> } }>
+    )[0]!.summary;
     expect(summary.cases.find((t) => t.outcomeId === c.outcomes.HEAR)!.counted).toBe(2);
   });
 });

@@ -92,7 +92,14 @@ export interface RawAnswer {
  * `announced`, the content length says that many bytes but only `body` is sent, and the answer is
  * awaited (a server refusing an announced size answers before reading and closes the connection).
  */
-export function rawPost(baseUrl: string, path: string, s: ProcessSession, contentType: string, body: Buffer, opts: { chunked?: boolean; timeoutMs?: number; pauseAt?: number; announced?: number } = {}): Promise<RawAnswer> {
+export function rawPost(
+  baseUrl: string,
+  path: string,
+  s: ProcessSession,
+  contentType: string,
+  body: Buffer,
+  opts: { chunked?: boolean; timeoutMs?: number; pauseAt?: number; announced?: number } = {},
+): Promise<RawAnswer> {
   return new Promise((resolve, reject) => {
     const req = http.request(new URL(path, baseUrl), {
       method: 'POST',

@@ -26,13 +26,18 @@ describe('case-list diff split by outcome, status and exposure group', () => {
   const as = {} as Record<'hygienist' | 'physician', SignedInAgent>;
 
   const upload = (kind: 'roster' | 'cases', body: string, mode: 'check' | 'apply') =>
-    as.hygienist.agent.post(`/api/intakes?kind=${kind}&mode=${mode}`).set('x-csrf-token', as.hygienist.csrf).attach('file', Buffer.from(c.fill(body)), { filename: `${kind}.csv`, contentType: 'text/csv' });
+    as.hygienist.agent
+      .post(`/api/intakes?kind=${kind}&mode=${mode}`)
+      .set('x-csrf-token', as.hygienist.csrf)
+      .attach('file', Buffer.from(c.fill(body)), { filename: `${kind}.csv`, contentType: 'text/csv' });
 
   beforeAll(async () => {
     ds = await openTestDataSource();
     c = await makeCorner(ds);
     OC = `OC${c.tag}`;
-    await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, 'Outcome C (lagged)', 'test', 'recurrent', 1)`, [OC]);
+    await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, 'Outcome C (lagged)', 'test', 'recurrent', 1)`, [
+      OC,
+    ]);
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', c.siteIds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', c.siteIds);
     app = createApp({ dataSource: ds, config: testApiConfig() });

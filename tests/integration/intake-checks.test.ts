@@ -38,7 +38,10 @@ describe('intake checks (service level, real PostgreSQL)', () => {
     expect(intake.diff).toMatchObject({ kind: 'roster', newWorkers: 3, totals: { newSlices: 2, replacedSlices: 0, added: 6 } });
     // Hours by hand: January 160 + 150.5 + 120.25, February 158 + 149 + 0.
     const d = intake.diff as { slices: Array<{ month: string; newHours: number }> };
-    expect(d.slices.map((s) => [s.month, s.newHours])).toEqual([['2024-01', 430.75], ['2024-02', 307]]);
+    expect(d.slices.map((s) => [s.month, s.newHours])).toEqual([
+      ['2024-01', 430.75],
+      ['2024-02', 307],
+    ]);
     // Checked is not applied: nothing is current yet.
     expect(await currentRoster(ds, c.siteIds)).toEqual([]);
     const { intake: after } = await c.upload('roster', c.fixture('roster-valid.csv'));
@@ -120,7 +123,9 @@ describe('intake checks (service level, real PostgreSQL)', () => {
     const i = await rejected('roster', fixture);
     expect(i.problems[0]!.reason).toMatch(reason);
     expect(await ds.query(`SELECT 1 FROM roster_entries WHERE intake_id = $1`, [i.id])).toEqual([]);
-    const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging' AND tablename = $1`, [`s_${i.id.replace(/-/g, '')}`]);
+    const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging' AND tablename = $1`, [
+      `s_${i.id.replace(/-/g, '')}`,
+    ]);
     expect(n).toBe(0);
   });
 
@@ -141,8 +146,14 @@ describe('intake checks (service level, real PostgreSQL)', () => {
       const { intake } = await c.upload('cases', c.fixture('cases-valid.csv'));
       expect(intake.problems).toEqual([]);
       expect(intake.diff).toEqual({
-        kind: 'cases', new: 2, changed: 0, unchanged: 0,
-        byOutcome: [{ outcomeCode: c.codes.OA, new: 1, changed: 0, newWithheld: null, changedWithheld: null }, { outcomeCode: c.codes.OB, new: 1, changed: 0, newWithheld: null, changedWithheld: null }],
+        kind: 'cases',
+        new: 2,
+        changed: 0,
+        unchanged: 0,
+        byOutcome: [
+          { outcomeCode: c.codes.OA, new: 1, changed: 0, newWithheld: null, changedWithheld: null },
+          { outcomeCode: c.codes.OB, new: 1, changed: 0, newWithheld: null, changedWithheld: null },
+        ],
         // Each case in the group of its worker's roster row of the onset month (the service stores every count; the API withholds).
         split: [
           { outcomeCode: c.codes.OA, status: 'confirmed', groupCode: c.codes.GA, new: { count: 1, withheld: null }, changed: { count: 0, withheld: null } },
@@ -185,9 +196,20 @@ describe('intake checks (service level, real PostgreSQL)', () => {
   it('derives the zod row schema from the same rules (same reasons as SQL)', () => {
     const schema = rowSchema('roster');
     const ok = schema.safeParse({ worker_key: 'W1', site: 'nfd', exposure_group: 'office', month: '2024-01', hours: '151,5', birth_year: '1980', sex: 'f' });
-    expect(ok.success && ok.data).toEqual({ worker_key: 'W1', site: 'NFD', exposure_group: 'OFFICE', month: '2024-01', hours: 151.5, birth_year: 1980, sex: 'F', job_title: null });
+    expect(ok.success && ok.data).toEqual({
+      worker_key: 'W1',
+      site: 'NFD',
+      exposure_group: 'OFFICE',
+      month: '2024-01',
+      hours: 151.5,
+      birth_year: 1980,
+      sex: 'F',
+      job_title: null,
+    });
     const bad = schema.safeParse({ worker_key: 'W1', site: 'NFD', exposure_group: 'X', month: '2024-13', hours: '745', birth_year: '1980', sex: 'F' });
     expect(bad.success).toBe(false);
-    expect(bad.error!.issues.map((i) => i.message).sort()).toEqual(['hours must be between 0 and 744', reasons.shape('month', rosterColumns.find((x) => x.name === 'month')!.rule)].sort());
+    expect(bad.error!.issues.map((i) => i.message).sort()).toEqual(
+      ['hours must be between 0 and 744', reasons.shape('month', rosterColumns.find((x) => x.name === 'month')!.rule)].sort(),
+    );
   });
 });

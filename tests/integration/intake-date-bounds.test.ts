@@ -38,7 +38,11 @@ describe('month and date bounds of intake files', () => {
   });
 
   it('refuses year 0000 and months before 1950 in a roster, by line and column', async () => {
-    const { intake } = await c.upload('roster', `${ROSTER}\n{W}1,{S1},{GA},0000-01,160,1980,F\n{W}2,{S1},{GA},1949-12,160,1980,F\n{W}3,{S1},{GA},1950-01,160,1980,F\n`, { now: june });
+    const { intake } = await c.upload(
+      'roster',
+      `${ROSTER}\n{W}1,{S1},{GA},0000-01,160,1980,F\n{W}2,{S1},{GA},1949-12,160,1980,F\n{W}3,{S1},{GA},1950-01,160,1980,F\n`,
+      { now: june },
+    );
     expect(intake.state).toBe('rejected');
     expect(intake.problems).toEqual([
       { line: 2, column: 'month', value: '0000-01', reason: 'month must be between 1950-01 and 2099-12' },
@@ -64,7 +68,11 @@ describe('month and date bounds of intake files', () => {
     });
 
     it('refuses onset year 0000 and dates before 1900 by line and column instead of failing', async () => {
-      const { intake } = await c.upload('cases', `${CASES}\nK1{W},{W}10,{OA},0000-01-01,confirmed\nK2{W},{W}10,{OA},1899-12-31,confirmed\nK3{W},{W}10,{OA},0000-02-30,confirmed\n`, { now: june });
+      const { intake } = await c.upload(
+        'cases',
+        `${CASES}\nK1{W},{W}10,{OA},0000-01-01,confirmed\nK2{W},{W}10,{OA},1899-12-31,confirmed\nK3{W},{W}10,{OA},0000-02-30,confirmed\n`,
+        { now: june },
+      );
       expect(intake.state).toBe('rejected');
       expect(intake.problems.map((p) => [p.line, p.column, p.reason])).toEqual([
         [2, 'onset_date', 'onset_date must be between 1900-01-01 and 2099-12-31'],
@@ -84,27 +92,67 @@ describe('month and date bounds of intake files', () => {
   it('gives the same verdicts in the shared row schema', () => {
     const row = { worker_key: 'W1', site: 'NFD', exposure_group: 'OFFICE', hours: '1', birth_year: '1980', sex: 'F' };
     expect(rowSchema('roster').safeParse({ ...row, month: '0000-01' }).error!.issues[0]!.message).toBe('month must be between 1950-01 and 2099-12');
-    expect(rowSchema('roster', { latestMonth: '2025-06' }).safeParse({ ...row, month: '2025-07' }).error!.issues[0]!.message).toBe(reasons.future('month', '2025-06'));
+    expect(rowSchema('roster', { latestMonth: '2025-06' }).safeParse({ ...row, month: '2025-07' }).error!.issues[0]!.message).toBe(
+      reasons.future('month', '2025-06'),
+    );
     expect(rowSchema('roster', { latestMonth: '2025-06' }).safeParse({ ...row, month: '2025-06' }).success).toBe(true);
   });
 
   it('says the same in SQL (case lists) as in the shared judge (rosters, schemas), value by value', async () => {
     const month = rosterColumns.find((x) => x.name === 'month')!;
     const onset = caseColumns.find((x) => x.name === 'onset_date')!;
-    const values = ['0000-01', '1949-12', '1950-01', '2025-06', '2025-07', '2099-12', '2100-01', '9999-12', '2025-13', '', ' 2025-06 ',
-      '0000-01-01', '0000-02-30', '1899-12-31', '1900-01-01', '2024-02-29', '2023-02-29', '2025-06-30', '2025-07-01', '2099-12-31', '2100-01-01', '9999-12-31', '2025-06-31'];
+    const values = [
+      '0000-01',
+      '1949-12',
+      '1950-01',
+      '2025-06',
+      '2025-07',
+      '2099-12',
+      '2100-01',
+      '9999-12',
+      '2025-13',
+      '',
+      ' 2025-06 ',
+      '0000-01-01',
+      '0000-02-30',
+      '1899-12-31',
+      '1900-01-01',
+      '2024-02-29',
+      '2023-02-29',
+      '2025-06-30',
+      '2025-07-01',
+      '2099-12-31',
+      '2100-01-01',
+      '9999-12-31',
+      '2025-06-31',
+    ];
     for (const bounds of [{ latestMonth: '2025-06' }, { latestMonth: null }]) {
       for (const def of [month, onset]) {
         const judge = cellJudge(def, bounds);
-        const sql = (await ds.query(`SELECT v, ${cellCheckSql('d', def, {}, bounds)} AS reason FROM unnest($1::text[]) AS d(${def.name}) CROSS JOIN LATERAL (SELECT d.${def.name} AS v) x`, [values])) as Array<{ v: string; reason: string | null }>;
-        expect(sql.map((r) => [r.v, r.reason]), `${def.name} ${bounds.latestMonth}`).toEqual(values.map((v) => [v, judge(v).reason]));
+        const sql = (await ds.query(
+          `SELECT v, ${cellCheckSql('d', def, {}, bounds)} AS reason FROM unnest($1::text[]) AS d(${def.name}) CROSS JOIN LATERAL (SELECT d.${def.name} AS v) x`,
+          [values],
+        )) as Array<{ v: string; reason: string | null }>;
+        expect(
+          sql.map((r) => [r.v, r.reason]),
+          `${def.name} ${bounds.latestMonth}`,
+        ).toEqual(values.map((v) => [v, judge(v).reason]));
       }
     }
   });
 
   it('turns any other PostgreSQL data error of COPY into a problem of its line and column', () => {
-    const err = translateCopyError({ code: '22008', message: 'date/time field value out of range: "0000-01-01"', where: 'COPY s_x, line 3, column month: "0000-01-01"' });
-    expect(err).toMatchObject({ status: 422, details: { problems: [{ line: 4, column: 'month', reason: 'a value in column month cannot be stored (line 4): date/time field value out of range: "0000-01-01"' }] } });
+    const err = translateCopyError({
+      code: '22008',
+      message: 'date/time field value out of range: "0000-01-01"',
+      where: 'COPY s_x, line 3, column month: "0000-01-01"',
+    });
+    expect(err).toMatchObject({
+      status: 422,
+      details: {
+        problems: [{ line: 4, column: 'month', reason: 'a value in column month cannot be stored (line 4): date/time field value out of range: "0000-01-01"' }],
+      },
+    });
     const numeric = translateCopyError({ code: '22003', message: 'numeric field overflow' });
     expect(numeric).toMatchObject({ status: 422, details: { problems: [{ line: null, column: null }] } });
   });
@@ -114,7 +162,10 @@ describe('month and date bounds of intake files', () => {
     let future: SignedInAgent;
     const current = monthOf(new Date());
     const upload = (who: SignedInAgent, body: string, name: string) =>
-      who.agent.post('/api/intakes?kind=roster&mode=check').set('x-csrf-token', who.csrf).attach('file', Buffer.from(c.fill(body)), { filename: name, contentType: 'text/csv' });
+      who.agent
+        .post('/api/intakes?kind=roster&mode=check')
+        .set('x-csrf-token', who.csrf)
+        .attach('file', Buffer.from(c.fill(body)), { filename: name, contentType: 'text/csv' });
     beforeAll(async () => {
       await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist', c.siteIds);
       hyg = await signIn(createApp({ dataSource: ds, config: testApiConfig() }), 'hygienist@demo.ratewarden.test');

@@ -20,10 +20,17 @@ describe('expiry of checked intakes', () => {
   let hyg: SignedInAgent;
   let n = 0;
   const roster = () => `worker_key,site,exposure_group,month,hours,birth_year,sex\n{W}${++n},{S1},{GA},2025-01,160,1980,F\n`;
-  const upload = async () => (await hyg.agent.post('/api/intakes?kind=roster&mode=check').set('x-csrf-token', hyg.csrf)
-    .attach('file', Buffer.from(c.fill(roster())), { filename: 'wait.csv', contentType: 'text/csv' }).expect(201)).body.intake as { id: string };
+  const upload = async () =>
+    (
+      await hyg.agent
+        .post('/api/intakes?kind=roster&mode=check')
+        .set('x-csrf-token', hyg.csrf)
+        .attach('file', Buffer.from(c.fill(roster())), { filename: 'wait.csv', contentType: 'text/csv' })
+        .expect(201)
+    ).body.intake as { id: string };
   const tablesOf = async (id: string) =>
-    (await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging' AND tablename LIKE $1`, [`s_${id.replace(/-/g, '')}%`]))[0].n as number;
+    (await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging' AND tablename LIKE $1`, [`s_${id.replace(/-/g, '')}%`]))[0]
+      .n as number;
   const age = (id: string, hours: number) => ds.query(`UPDATE intakes SET checked_at = now() - $2 * interval '1 hour' WHERE id = $1`, [id, hours]);
   const stateOf = async (id: string) => (await ds.query(`SELECT state, problems, staging_table FROM intakes WHERE id = $1`, [id]))[0];
 
@@ -49,7 +56,9 @@ describe('expiry of checked intakes', () => {
     expect(await tablesOf(old.id)).toBe(0);
     expect(await tablesOf(young.id)).toBe(3);
     expect((await stateOf(old.id)).problems).toEqual([{ line: null, column: null, value: null, reason: reasons.intakeExpired(48) }]);
-    expect(await ds.query(`SELECT actor_label FROM audit_events WHERE action = 'intake.expire' AND target = $1`, [`intake:${old.id}`])).toEqual([{ actor_label: 'anonymous' }]);
+    expect(await ds.query(`SELECT actor_label FROM audit_events WHERE action = 'intake.expire' AND target = $1`, [`intake:${old.id}`])).toEqual([
+      { actor_label: 'anonymous' },
+    ]);
 
     const refused = await hyg.agent.post(`/api/intakes/${old.id}/apply`).set('x-csrf-token', hyg.csrf).expect(409);
     expect(refused.body.message).toBe(`only a checked intake can be applied; this one is rejected: ${reasons.intakeExpired(48)}`);
@@ -60,7 +69,10 @@ describe('expiry of checked intakes', () => {
   it('refuses, and expires, an intake found too old at apply', async () => {
     const it1 = await upload();
     await age(it1.id, 30);
-    await expect(applyIntake(ds, c.principal, it1.id, null, { expiryHours: 24 })).rejects.toMatchObject({ status: 409, message: `only a checked intake can be applied; this one is rejected: ${reasons.intakeExpired(24)}` });
+    await expect(applyIntake(ds, c.principal, it1.id, null, { expiryHours: 24 })).rejects.toMatchObject({
+      status: 409,
+      message: `only a checked intake can be applied; this one is rejected: ${reasons.intakeExpired(24)}`,
+    });
     expect(await stateOf(it1.id)).toMatchObject({ state: 'rejected', staging_table: null });
     expect(await tablesOf(it1.id)).toBe(0);
     expect(await ds.query(`SELECT count(*)::int AS n FROM roster_entries WHERE intake_id = $1`, [it1.id])).toEqual([{ n: 0 }]);

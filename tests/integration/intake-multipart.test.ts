@@ -3,8 +3,18 @@ import type { DataSource } from 'typeorm';
 import { provisionUser } from '../support/sign-in';
 import { openTestDataSource } from '../support/test-db';
 import {
-  abortedPost, BOUNDARY, closing, filePart, health, MULTIPART, multipartBody, rawPost, signInToProcess, startApiProcess,
-  type ApiProcess, type ProcessSession,
+  abortedPost,
+  BOUNDARY,
+  closing,
+  filePart,
+  health,
+  MULTIPART,
+  multipartBody,
+  rawPost,
+  signInToProcess,
+  startApiProcess,
+  type ApiProcess,
+  type ProcessSession,
 } from './intake-api-process';
 import { makeCorner, type Corner } from './intake-support';
 
@@ -20,7 +30,8 @@ describe('broken multipart uploads', () => {
   let hyg: ProcessSession;
   const path = '/api/intakes?kind=roster&mode=check';
   let n = 0;
-  const roster = () => c.fill(`worker_key,site,exposure_group,month,hours,birth_year,sex\n{W}${++n},{S1},{GA},2025-01,160,1980,F\n{W}${++n},{S1},{GB},2025-01,120,1975,M\n`);
+  const roster = () =>
+    c.fill(`worker_key,site,exposure_group,month,hours,birth_year,sex\n{W}${++n},{S1},{GA},2025-01,160,1980,F\n{W}${++n},{S1},{GB},2025-01,120,1975,M\n`);
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -92,7 +103,13 @@ describe('broken multipart uploads', () => {
     const head = Buffer.concat([filePart(roster()).subarray(0, -2)]);
     await abortedPost(api.baseUrl, path, hyg, MULTIPART, head, head.length + 100_000);
     await stillServing();
-    await expect.poll(async () => (await ds.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state LIKE 'idle in transaction%'`))[0].n, { timeout: 10_000 }).toBe(0);
+    await expect
+      .poll(
+        async () =>
+          (await ds.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state LIKE 'idle in transaction%'`))[0].n,
+        { timeout: 10_000 },
+      )
+      .toBe(0);
     expect(await ds.query(`SELECT count(*)::int AS n FROM intakes`)).toEqual(before);
     // And the next upload goes through.
     expect((await rawPost(api.baseUrl, path, hyg, MULTIPART, multipartBody(roster()))).status).toBe(201);

@@ -25,7 +25,10 @@ describe('intake routes through the API', () => {
   let token: string;
 
   const upload = (who: SignedInAgent, query: string, body: string, fileName = 'roster.csv') =>
-    who.agent.post(`/api/intakes?${query}`).set('x-csrf-token', who.csrf).attach('file', Buffer.from(c.fill(body)), { filename: fileName, contentType: 'text/csv' });
+    who.agent
+      .post(`/api/intakes?${query}`)
+      .set('x-csrf-token', who.csrf)
+      .attach('file', Buffer.from(c.fill(body)), { filename: fileName, contentType: 'text/csv' });
   const post = (who: SignedInAgent, path: string) => who.agent.post(path).set('x-csrf-token', who.csrf);
 
   beforeAll(async () => {
@@ -49,7 +52,17 @@ describe('intake routes through the API', () => {
     const res = await upload(hyg, 'kind=roster&mode=check', roster(['{W}1,{S1},{GA},2025-01,160,1980,F', '{W}2,{S1},{GB},2025-01,151.25,1975,M'])).expect(201);
     const { intake, duplicate } = intakeUploadResponseSchema.parse(res.body);
     expect(duplicate).toBe(false);
-    expect(intake).toMatchObject({ state: 'checked', rowCount: 2, problemCount: 0, fileName: 'roster.csv', siteIds: [c.siteIds[0]], monthFrom: '2025-01', monthTo: '2025-01', staged: true, submittedBy: 'hygienist@demo.ratewarden.test' });
+    expect(intake).toMatchObject({
+      state: 'checked',
+      rowCount: 2,
+      problemCount: 0,
+      fileName: 'roster.csv',
+      siteIds: [c.siteIds[0]],
+      monthFrom: '2025-01',
+      monthTo: '2025-01',
+      staged: true,
+      submittedBy: 'hygienist@demo.ratewarden.test',
+    });
     // Hours by hand: 160 + 151.25.
     expect(intake.diff).toMatchObject({ kind: 'roster', newWorkers: 2, totals: { added: 2, newSlices: 1 }, slices: [{ month: '2025-01', newHours: 311.25 }] });
     expect(await currentRoster(ds, c.siteIds)).toEqual([]);
@@ -61,7 +74,10 @@ describe('intake routes through the API', () => {
 
     const applied = intakeDetailSchema.parse((await post(hyg, `/api/intakes/${intake.id}/apply`).expect(200)).body);
     expect(applied).toMatchObject({ state: 'applied', staged: false, runRequest: { reason: 'roster intake applied' } });
-    expect((await currentRoster(ds, c.siteIds)).map((r) => [r.worker_key, r.hours])).toEqual([[`${c.codes.W}1`, '160.00'], [`${c.codes.W}2`, '151.25']]);
+    expect((await currentRoster(ds, c.siteIds)).map((r) => [r.worker_key, r.hours])).toEqual([
+      [`${c.codes.W}1`, '160.00'],
+      [`${c.codes.W}2`, '151.25'],
+    ]);
     // Applying twice is refused: it is no longer checked.
     await post(hyg, `/api/intakes/${intake.id}/apply`).expect(409);
   });
@@ -69,7 +85,10 @@ describe('intake routes through the API', () => {
   it('answers a file with problems with 422 and the problems per line and column', async () => {
     const res = await upload(hyg, 'kind=roster&mode=check', roster(['{W}3,{S1},{GA},2025-13,160,1980,F', '{W}4,{S1},{GA},2025-02,800,1980,F'])).expect(422);
     expect(res.body.details.intake).toMatchObject({ state: 'rejected', problemCount: 2 });
-    expect(res.body.details.intake.problems.map((p: { line: number; column: string }) => [p.line, p.column])).toEqual([[2, 'month'], [3, 'hours']]);
+    expect(res.body.details.intake.problems.map((p: { line: number; column: string }) => [p.line, p.column])).toEqual([
+      [2, 'month'],
+      [3, 'hours'],
+    ]);
   });
 
   it('discards a checked intake', async () => {
@@ -94,7 +113,12 @@ describe('intake routes through the API', () => {
   });
 
   it('refuses a hygienist a file with rows of a site outside their sites, storing nothing', async () => {
-    const res = await upload(narrow, 'kind=roster&mode=apply', roster(['{W}7,{S1},{GA},2025-05,100,1970,M', '{W}8,{S2},{GA},2025-05,100,1970,M']), 'other-site.csv').expect(403);
+    const res = await upload(
+      narrow,
+      'kind=roster&mode=apply',
+      roster(['{W}7,{S1},{GA},2025-05,100,1970,M', '{W}8,{S2},{GA},2025-05,100,1970,M']),
+      'other-site.csv',
+    ).expect(403);
     expect(res.body.error?.code ?? res.body.code).toBe('forbidden');
     expect(await ds.query(`SELECT count(*)::int AS n FROM intakes WHERE file_name = 'other-site.csv'`)).toEqual([{ n: 0 }]);
     expect(await ds.query(`SELECT count(*)::int AS n FROM workers WHERE worker_key = ANY($1)`, [[`${c.codes.W}7`, `${c.codes.W}8`]])).toEqual([{ n: 0 }]);
@@ -109,10 +133,12 @@ describe('intake routes through the API', () => {
   it('lets the integration client check, and check-and-apply, with its bearer token', async () => {
     const bearer = (path: string) => request(app).post(path).set('authorization', `Bearer ${token}`);
     const checked = await bearer('/api/intakes?kind=roster&mode=check')
-      .attach('file', Buffer.from(c.fill(roster(['{W}9,{S1},{GC},2025-06,80.5,1990,X']))), 'hr-export.csv').expect(201);
+      .attach('file', Buffer.from(c.fill(roster(['{W}9,{S1},{GC},2025-06,80.5,1990,X']))), 'hr-export.csv')
+      .expect(201);
     expect(checked.body.intake).toMatchObject({ state: 'checked', submittedBy: 'client:hr-sync-demo' });
     const applied = await bearer('/api/intakes?kind=roster&mode=apply')
-      .attach('file', Buffer.from(c.fill(roster(['{W}10,{S1},{GC},2025-07,90,1991,F']))), 'hr-export-2.csv').expect(201);
+      .attach('file', Buffer.from(c.fill(roster(['{W}10,{S1},{GC},2025-07,90,1991,F']))), 'hr-export-2.csv')
+      .expect(201);
     expect(applied.body.intake).toMatchObject({ state: 'applied', runRequest: { reason: 'roster intake applied' } });
     expect((await currentRoster(ds, c.siteIds)).filter((r) => r.month === '2025-07').map((r) => r.worker_key)).toEqual([`${c.codes.W}10`]);
   });
@@ -126,8 +152,11 @@ describe('intake routes through the API', () => {
     await request(app).post('/api/groups').set(auth).send({ code: 'NOPE', name: 'x', hazard: 'x', exposureLevel: 1 }).expect(403);
     await request(app).get('/api/runs').set(auth).expect(403);
     // A wrong token is not a token.
-    await request(app).post('/api/intakes?kind=roster&mode=check').set('authorization', 'Bearer not-a-token')
-      .attach('file', Buffer.from('worker_key\n'), 'x.csv').expect(401);
+    await request(app)
+      .post('/api/intakes?kind=roster&mode=check')
+      .set('authorization', 'Bearer not-a-token')
+      .attach('file', Buffer.from('worker_key\n'), 'x.csv')
+      .expect(401);
   });
 
   it('serves the templates: the header and an example row that passes the row schema', async () => {
@@ -147,9 +176,16 @@ describe('intake routes through the API', () => {
   it("refreshes the roster tables' missing planner statistics before checking a case list (after a large roster the check otherwise takes a bad plan)", async () => {
     await upload(hyg, 'kind=roster&mode=apply', roster(['{W}90,{S1},{GA},2025-04,160,1980,F'])).expect(201);
     await ds.query(`SELECT pg_stat_reset_single_table_counters('roster_entries'::regclass)`);
-    const lastAnalyze = async () => ((await ds.query(`SELECT last_analyze FROM pg_stat_user_tables WHERE relname = 'roster_entries'`)) as Array<{ last_analyze: Date | null }>)[0]!.last_analyze;
+    const lastAnalyze = async () =>
+      ((await ds.query(`SELECT last_analyze FROM pg_stat_user_tables WHERE relname = 'roster_entries'`)) as Array<{ last_analyze: Date | null }>)[0]!
+        .last_analyze;
     expect(await lastAnalyze()).toBeNull();
-    await upload(hyg, 'kind=cases&mode=check', 'case_ref,worker_key,outcome,onset_date,status\n{W}-STATS-1,{W}90,{OA},2025-04-10,confirmed\n', 'cases.csv').expect(201);
+    await upload(
+      hyg,
+      'kind=cases&mode=check',
+      'case_ref,worker_key,outcome,onset_date,status\n{W}-STATS-1,{W}90,{OA},2025-04-10,confirmed\n',
+      'cases.csv',
+    ).expect(201);
     expect(await lastAnalyze()).not.toBeNull();
   });
 });

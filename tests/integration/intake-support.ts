@@ -27,20 +27,39 @@ export interface Corner {
 export async function makeCorner(ds: DataSource): Promise<Corner> {
   const tag = randomBytes(3).toString('hex').toUpperCase();
   const codes = { S1: `S1${tag}`, S2: `S2${tag}`, GA: `GA${tag}`, GB: `GB${tag}`, GC: `GC${tag}`, OA: `OA${tag}`, OB: `OB${tag}`, W: `T${tag}-` };
-  const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Test site one'), ($2, 'Test site two') RETURNING id`, [codes.S1, codes.S2])) as { id: number }[];
-  await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'A', 'none', 0), ($2, 'B', 'noise', 1), ($3, 'C', 'dust', 2)`, [codes.GA, codes.GB, codes.GC]);
-  await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ($1, 'Outcome A', 'test', 'first_event'), ($2, 'Outcome B', 'test', 'recurrent')`, [codes.OA, codes.OB]);
-  const [user] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test hygienist', 'hygienist') RETURNING id`, [`test-${tag}`, `hyg-${tag}@test.invalid`])) as { id: string }[];
+  const sites = (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Test site one'), ($2, 'Test site two') RETURNING id`, [codes.S1, codes.S2])) as {
+    id: number;
+  }[];
+  await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'A', 'none', 0), ($2, 'B', 'noise', 1), ($3, 'C', 'dust', 2)`, [
+    codes.GA,
+    codes.GB,
+    codes.GC,
+  ]);
+  await ds.query(
+    `INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ($1, 'Outcome A', 'test', 'first_event'), ($2, 'Outcome B', 'test', 'recurrent')`,
+    [codes.OA, codes.OB],
+  );
+  const [user] = (await ds.query(`INSERT INTO users (subject, email, name, role) VALUES ($1, $2, 'Test hygienist', 'hygienist') RETURNING id`, [
+    `test-${tag}`,
+    `hyg-${tag}@test.invalid`,
+  ])) as { id: string }[];
   const siteIds = sites.map((s) => s.id);
   const principal: Principal = { kind: 'user', id: user!.id, email: `hyg-${tag}@test.invalid`, name: 'Test hygienist', role: 'hygienist', siteIds };
   const fill = (text: string) => text.replace(/\{(S1|S2|GA|GB|GC|OA|OB|W)\}/g, (_m, k: keyof typeof codes) => codes[k]);
   return {
-    tag, codes, siteIds, principal, fill,
+    tag,
+    codes,
+    siteIds,
+    principal,
+    fill,
     // latin1 maps bytes 1:1, so non-UTF-8 and binary fixtures keep their exact bytes.
     fixture: (name) => Buffer.from(fill(readFileSync(join(fixtureDir, name), 'latin1')), 'latin1'),
     upload: (kind, body, opts = {}) =>
       receiveIntake(ds, {
-        kind, mode: 'check', fileName: `${kind}.csv`, principal,
+        kind,
+        mode: 'check',
+        fileName: `${kind}.csv`,
+        principal,
         stream: Readable.from([typeof body === 'string' ? Buffer.from(fill(body)) : body]),
         ...opts,
       }),
@@ -48,7 +67,10 @@ export async function makeCorner(ds: DataSource): Promise<Corner> {
 }
 
 /** Current roster rows of the corner's sites, as the store holds them. */
-export async function currentRoster(ds: DataSource, siteIds: number[]): Promise<Array<{ worker_key: string; site: string; month: string; grp: string; hours: string }>> {
+export async function currentRoster(
+  ds: DataSource,
+  siteIds: number[],
+): Promise<Array<{ worker_key: string; site: string; month: string; grp: string; hours: string }>> {
   return ds.query(
     `SELECT w.worker_key, si.code AS site, to_char(re.month, 'YYYY-MM') AS month, g.code AS grp, re.hours::text AS hours
      FROM roster_entries re JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month

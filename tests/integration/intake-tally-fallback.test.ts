@@ -35,11 +35,15 @@ describe('intake: the SQL fallback for the roster tallies', () => {
   // Five workers over two sites and three months, each worker's months in order; W5 changes birth
   // year and sex between rows (the checks later flag that; the tallies must carry min and max).
   const body = [
-    ['W1', 'A', '2031-01', '160', '1980', 'F'], ['W1', 'A', '2031-02', '150.5', '1980', 'F'],
-    ['W2', 'A', '2031-01', '80', '1975', 'M'], ['W2', 'B', '2031-03', '12.25', '1975', 'M'],
-    ['W3', 'B', '2031-01', '100', '1990', 'X'], ['W3', 'B', '2031-02', '100', '1990', 'X'],
+    ['W1', 'A', '2031-01', '160', '1980', 'F'],
+    ['W1', 'A', '2031-02', '150.5', '1980', 'F'],
+    ['W2', 'A', '2031-01', '80', '1975', 'M'],
+    ['W2', 'B', '2031-03', '12.25', '1975', 'M'],
+    ['W3', 'B', '2031-01', '100', '1990', 'X'],
+    ['W3', 'B', '2031-02', '100', '1990', 'X'],
     ['W4', 'B', '2031-03', '0', '1969', 'F'],
-    ['W5', 'A', '2031-01', '40', '1985', 'F'], ['W5', 'A', '2031-02', '40', '1986', 'M'],
+    ['W5', 'A', '2031-01', '40', '1985', 'F'],
+    ['W5', 'A', '2031-02', '40', '1986', 'M'],
   ]
     .map(([w, s, m, h, by, sex]) => `${tag}-${w},${tag}${s},${tag}G,${m},${h},${by},${sex},\n`)
     .join('');
@@ -49,7 +53,9 @@ describe('intake: the SQL fallback for the roster tallies', () => {
   const tallies = async (name: string) => {
     const st = rosterStage(name);
     const workers = (await client.query(`SELECT k, by_min, by_max, sex_min, sex_max FROM ${st.workers} ORDER BY k`)).rows;
-    const slices = (await client.query(`SELECT site_code, m, month::text, n::int, hours::numeric(12, 2)::text AS hours FROM ${st.slices} ORDER BY site_code, m`)).rows;
+    const slices = (
+      await client.query(`SELECT site_code, m, month::text, n::int, hours::numeric(12, 2)::text AS hours FROM ${st.slices} ORDER BY site_code, m`)
+    ).rows;
     return { workers, slices };
   };
 

@@ -22,18 +22,40 @@ describe('intake versions: check, apply, supersede, restore (service level, real
   });
 
   it('checks, shows the diff against the stored month, applies, supersedes and restores', async () => {
-    const v1 = await c.upload('roster', roster(['{W}1,{S1},{GA},2024-03,160,1980,F', '{W}2,{S1},{GA},2024-03,150,1981,M', '{W}3,{S1},{GB},2024-03,140,1982,F']), { mode: 'apply' });
+    const v1 = await c.upload(
+      'roster',
+      roster(['{W}1,{S1},{GA},2024-03,160,1980,F', '{W}2,{S1},{GA},2024-03,150,1981,M', '{W}3,{S1},{GB},2024-03,140,1982,F']),
+      { mode: 'apply' },
+    );
     expect(v1.intake.state).toBe('applied');
     expect(v1.intake.runRequest?.reason).toBe('roster intake applied');
 
     // Version 2 of the same site × month: W1 unchanged, W2 moved to GB, W3 hours changed, W4 added; (W2 in GB, and W3 …)
-    const v2 = await c.upload('roster', roster(['{W}1,{S1},{GA},2024-03,160,1980,F', '{W}2,{S1},{GB},2024-03,150,1981,M', '{W}3,{S1},{GB},2024-03,141.5,1982,F', '{W}4,{S1},{GC},2024-03,20,1999,X']));
+    const v2 = await c.upload(
+      'roster',
+      roster([
+        '{W}1,{S1},{GA},2024-03,160,1980,F',
+        '{W}2,{S1},{GB},2024-03,150,1981,M',
+        '{W}3,{S1},{GB},2024-03,141.5,1982,F',
+        '{W}4,{S1},{GC},2024-03,20,1999,X',
+      ]),
+    );
     expect(v2.intake.state).toBe('checked');
     expect(v2.intake.diff).toMatchObject({
-      kind: 'roster', newWorkers: 1,
+      kind: 'roster',
+      newWorkers: 1,
       totals: { added: 1, removed: 0, moved: 1, hoursChanged: 1, unchanged: 1, newSlices: 0, replacedSlices: 1 },
       orphanedCases: { count: 0, withheld: null, cases: [] },
-      slices: [{ siteCode: c.codes.S1, month: '2024-03', stored: true, storedHours: 450, newHours: 471.5, workers: { added: [`${c.codes.W}4`], removed: [], moved: [`${c.codes.W}2`], hoursChanged: [`${c.codes.W}3`] } }],
+      slices: [
+        {
+          siteCode: c.codes.S1,
+          month: '2024-03',
+          stored: true,
+          storedHours: 450,
+          newHours: 471.5,
+          workers: { added: [`${c.codes.W}4`], removed: [], moved: [`${c.codes.W}2`], hoursChanged: [`${c.codes.W}3`] },
+        },
+      ],
     });
     // Still the old version until apply.
     expect((await currentRoster(ds, c.siteIds)).map((r) => r.hours)).toEqual(['160.00', '150.00', '140.00']);
@@ -41,7 +63,10 @@ describe('intake versions: check, apply, supersede, restore (service level, real
     const applied = await applyIntake(ds, c.principal, v2.intake.id);
     expect(applied.state).toBe('applied');
     expect((await currentRoster(ds, c.siteIds)).map((r) => [r.worker_key.slice(-1), r.grp.slice(0, 2), r.hours])).toEqual([
-      ['1', 'GA', '160.00'], ['2', 'GB', '150.00'], ['3', 'GB', '141.50'], ['4', 'GC', '20.00'],
+      ['1', 'GA', '160.00'],
+      ['2', 'GB', '150.00'],
+      ['3', 'GB', '141.50'],
+      ['4', 'GC', '20.00'],
     ]);
     const [old] = await ds.query(`SELECT state, superseded_at IS NOT NULL AS marked FROM intakes WHERE id = $1`, [v1.intake.id]);
     expect(old).toEqual({ state: 'superseded', marked: true });
@@ -62,17 +87,25 @@ describe('intake versions: check, apply, supersede, restore (service level, real
     await c.upload('roster', roster(['{W}50,{S1},{GA},2024-05,100,1970,M']), { mode: 'apply' });
     const other = await c.upload('roster', roster(['{W}50,{S2},{GA},2024-05,100,1970,M']));
     expect(other.intake.state).toBe('rejected');
-    expect(other.intake.problems[0]).toMatchObject({ line: 2, column: 'site', reason: 'the worker is already on the stored roster of another site for this month' });
+    expect(other.intake.problems[0]).toMatchObject({
+      line: 2,
+      column: 'site',
+      reason: 'the worker is already on the stored roster of another site for this month',
+    });
   });
 
   it('detects the very same file by checksum and changes nothing', async () => {
     const body = roster(['{W}60,{S2},{GA},2024-06,100,1970,M']);
     const first = await c.upload('roster', body, { mode: 'apply' });
-    const counts = await ds.query(`SELECT (SELECT count(*) FROM intakes) AS i, (SELECT count(*) FROM roster_entries) AS r, (SELECT count(*) FROM run_requests) AS q`);
+    const counts = await ds.query(
+      `SELECT (SELECT count(*) FROM intakes) AS i, (SELECT count(*) FROM roster_entries) AS r, (SELECT count(*) FROM run_requests) AS q`,
+    );
     const again = await c.upload('roster', body, { mode: 'apply' });
     expect(again.duplicate).toBe(true);
     expect(again.intake.id).toBe(first.intake.id);
-    expect(await ds.query(`SELECT (SELECT count(*) FROM intakes) AS i, (SELECT count(*) FROM roster_entries) AS r, (SELECT count(*) FROM run_requests) AS q`)).toEqual(counts);
+    expect(
+      await ds.query(`SELECT (SELECT count(*) FROM intakes) AS i, (SELECT count(*) FROM roster_entries) AS r, (SELECT count(*) FROM run_requests) AS q`),
+    ).toEqual(counts);
   });
 
   it('discards a checked intake: staged rows dropped, nothing applied', async () => {
@@ -101,18 +134,33 @@ describe('intake versions: check, apply, supersede, restore (service level, real
     await c.upload('roster', roster(['{W}100,{S1},{GA},2024-10,100,1970,M']), { mode: 'apply' });
     const first = await c.upload('cases', 'case_ref,worker_key,outcome,onset_date,status\nK1{W},{W}100,{OA},2024-10-02,suspected\n', { mode: 'apply' });
     expect(first.intake.state).toBe('applied');
-    const second = await c.upload('cases', 'case_ref,worker_key,outcome,onset_date,status\nK1{W},{W}100,{OA},2024-10-02,confirmed\nK2{W},{W}100,{OB},2024-10-20,confirmed\n', { mode: 'apply' });
+    const second = await c.upload(
+      'cases',
+      'case_ref,worker_key,outcome,onset_date,status\nK1{W},{W}100,{OA},2024-10-02,confirmed\nK2{W},{W}100,{OB},2024-10-20,confirmed\n',
+      { mode: 'apply' },
+    );
     expect(second.intake.diff).toMatchObject({ kind: 'cases', new: 1, changed: 1, unchanged: 0 });
-    const status = () => ds.query(`SELECT case_ref, status FROM case_events WHERE superseded_by IS NULL AND case_ref LIKE $1 ORDER BY case_ref`, [`%${c.codes.W}`]);
-    expect(await status()).toEqual([{ case_ref: `K1${c.codes.W}`, status: 'confirmed' }, { case_ref: `K2${c.codes.W}`, status: 'confirmed' }]);
+    const status = () =>
+      ds.query(`SELECT case_ref, status FROM case_events WHERE superseded_by IS NULL AND case_ref LIKE $1 ORDER BY case_ref`, [`%${c.codes.W}`]);
+    expect(await status()).toEqual([
+      { case_ref: `K1${c.codes.W}`, status: 'confirmed' },
+      { case_ref: `K2${c.codes.W}`, status: 'confirmed' },
+    ]);
     expect((await ds.query(`SELECT state FROM intakes WHERE id = $1`, [first.intake.id]))[0].state).toBe('superseded');
     await restoreIntake(ds, c.principal, first.intake.id);
-    expect(await status()).toEqual([{ case_ref: `K1${c.codes.W}`, status: 'suspected' }, { case_ref: `K2${c.codes.W}`, status: 'confirmed' }]);
+    expect(await status()).toEqual([
+      { case_ref: `K1${c.codes.W}`, status: 'suspected' },
+      { case_ref: `K2${c.codes.W}`, status: 'confirmed' },
+    ]);
   });
 
   it('leaves nothing behind when the intake process is killed mid-COPY', async () => {
     const prefix = `${c.codes.W}K`;
-    const child = spawn(process.execPath, ['--import', 'tsx', join(import.meta.dirname, 'intake-kill-child.ts'), testDatabaseUrl(), c.codes.S2, c.codes.GA, prefix, JSON.stringify(c.principal)], { stdio: ['ignore', 'pipe', 'inherit'] });
+    const child = spawn(
+      process.execPath,
+      ['--import', 'tsx', join(import.meta.dirname, 'intake-kill-child.ts'), testDatabaseUrl(), c.codes.S2, c.codes.GA, prefix, JSON.stringify(c.principal)],
+      { stdio: ['ignore', 'pipe', 'inherit'] },
+    );
     await new Promise<void>((resolve, reject) => {
       child.stdout.on('data', (d: Buffer) => d.toString().includes('copying') && resolve());
       child.on('exit', (code) => reject(new Error(`child exited early (${code})`)));
@@ -134,13 +182,29 @@ describe('intake versions: check, apply, supersede, restore (service level, real
 
   it('stores person-time and case counts equal to totals computed independently from the generated CSV', async () => {
     const shape = {
-      seed: 99, workers: 300, firstMonth: '2018-01', months: 24, sites: [c.codes.S1, c.codes.S2], workerPrefix: `${c.codes.W}G`,
-      groups: [{ code: c.codes.GA, share: 0.5 }, { code: c.codes.GB, share: 0.3 }, { code: c.codes.GC, share: 0.2 }],
-      outcomes: [{ code: c.codes.OA, ratePer100py: 30, firstEventOnly: true, rateRatio: { [c.codes.GC]: 3 } }, { code: c.codes.OB, ratePer100py: 50, firstEventOnly: false }],
+      seed: 99,
+      workers: 300,
+      firstMonth: '2018-01',
+      months: 24,
+      sites: [c.codes.S1, c.codes.S2],
+      workerPrefix: `${c.codes.W}G`,
+      groups: [
+        { code: c.codes.GA, share: 0.5 },
+        { code: c.codes.GB, share: 0.3 },
+        { code: c.codes.GC, share: 0.2 },
+      ],
+      outcomes: [
+        { code: c.codes.OA, ratePer100py: 30, firstEventOnly: true, rateRatio: { [c.codes.GC]: 3 } },
+        { code: c.codes.OB, ratePer100py: 50, firstEventOnly: false },
+      ],
     };
     let rosterCsv = rosterCsvHeader;
     let casesCsv = caseCsvHeader;
-    generateCohort(shape, (r) => (rosterCsv += rosterCsvLine(r)), (k) => (casesCsv += caseCsvLine(k)));
+    generateCohort(
+      shape,
+      (r) => (rosterCsv += rosterCsvLine(r)),
+      (k) => (casesCsv += caseCsvLine(k)),
+    );
     const r = await c.upload('roster', Buffer.from(rosterCsv), { mode: 'apply' });
     expect(r.intake.problems).toEqual([]);
     const k = await c.upload('cases', Buffer.from(casesCsv), { mode: 'apply' });
@@ -157,10 +221,15 @@ describe('intake versions: check, apply, supersede, restore (service level, real
     const stored = await ds.query(
       `SELECT g.code, (sum(re.hours) * 100)::bigint::text AS centi, count(*)::int AS n FROM roster_entries re
        JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
-       JOIN exposure_groups g ON g.id = re.exposure_group_id WHERE re.intake_id = $1 GROUP BY g.code ORDER BY g.code`, [r.intake.id]);
+       JOIN exposure_groups g ON g.id = re.exposure_group_id WHERE re.intake_id = $1 GROUP BY g.code ORDER BY g.code`,
+      [r.intake.id],
+    );
     expect(stored.map((s: { code: string; centi: string }) => [s.code, Number(s.centi)])).toEqual([...hoursByGroup].sort(([a], [b]) => a.localeCompare(b)));
     expect(stored.reduce((t: number, s: { n: number }) => t + s.n, 0)).toBe(rows.length);
-    const storedCases = await ds.query(`SELECT o.code, count(*)::int AS n FROM case_events ce JOIN outcomes o ON o.id = ce.outcome_id WHERE ce.intake_id = $1 AND ce.superseded_by IS NULL GROUP BY o.code ORDER BY o.code`, [k.intake.id]);
+    const storedCases = await ds.query(
+      `SELECT o.code, count(*)::int AS n FROM case_events ce JOIN outcomes o ON o.id = ce.outcome_id WHERE ce.intake_id = $1 AND ce.superseded_by IS NULL GROUP BY o.code ORDER BY o.code`,
+      [k.intake.id],
+    );
     expect(storedCases.map((s: { code: string; n: number }) => [s.code, s.n])).toEqual([...casesByOutcome].sort(([a], [b]) => a.localeCompare(b)));
     expect(caseRows.length).toBeGreaterThan(20);
   });

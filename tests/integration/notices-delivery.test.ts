@@ -27,15 +27,31 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     smtp = null;
   };
   const received = async (address: string) =>
-    (await ds.query(`SELECT subject, text_body FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [address])) as Array<{ subject: string; text_body: string }>;
+    (await ds.query(`SELECT subject, text_body FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [address])) as Array<{
+      subject: string;
+      text_body: string;
+    }>;
   const noticeOf = async (address: string) =>
     (await ds.query(`SELECT state, attempts, last_error, sent_at FROM notices WHERE recipient = $1`, [address])) as Array<Record<string, any>>;
 
   /** A new rule whose only extra recipient is `address`, then a run: one new flag, one notice to `address`. */
   async function flagWithNoticeTo(address: string): Promise<void> {
-    await createRule(ds, { kind: 'client', clientId: 'notice-tests' }, watchRuleInputSchema.parse({
-      name: `Rate above 1 per 1,000 person-years (${address})`, outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.EXP, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients: [address],
-    }));
+    await createRule(
+      ds,
+      { kind: 'client', clientId: 'notice-tests' },
+      watchRuleInputSchema.parse({
+        name: `Rate above 1 per 1,000 person-years (${address})`,
+        outcomeId: c.outcomes.NOISE,
+        exposureGroupId: c.groups.EXP,
+        measure: 'rate',
+        thresholdOn: 'estimate',
+        threshold: 1,
+        minCases: 5,
+        window: 'month',
+        fdrControl: false,
+        recipients: [address],
+      }),
+    );
     const o = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
     expect(o.status).toBe('succeeded');
     expect(await noticeOf(address)).toMatchObject([{ state: 'pending', attempts: 0 }]);
@@ -46,7 +62,16 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     await clearCohortData(ds);
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician');
     port = await freePort();
-    sender = { smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>', retryBaseMs: 200, retryMaxMs: 1_000, maxAttempts: 50, sendingLeaseMs: 60_000 };
+    sender = {
+      smtpHost: '127.0.0.1',
+      smtpPort: port,
+      smtpSecure: false,
+      from: 'Ratewarden <notices@ratewarden.invalid>',
+      retryBaseMs: 200,
+      retryMaxMs: 1_000,
+      maxAttempts: 50,
+      sendingLeaseMs: 60_000,
+    };
     // Six exposed cases in one site's month: not small, so a rule may flag them (rules see only shown counts).
     c = await noticeCohort(ds);
     await startSmtp();
@@ -72,7 +97,11 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     const mails = await received(address);
     expect(mails.length).toBe(1);
     // The e-mail only links to the notice in the inbox; the notice is read there.
-    const [notice] = (await ds.query(`SELECT id, subject, body FROM notices WHERE recipient = $1`, [address])) as Array<{ id: string; subject: string; body: string }>;
+    const [notice] = (await ds.query(`SELECT id, subject, body FROM notices WHERE recipient = $1`, [address])) as Array<{
+      id: string;
+      subject: string;
+      body: string;
+    }>;
     expect(mails[0]!.subject).toBe('Ratewarden: a new threshold notice for you');
     expect(mails[0]!.text_body).toContain(`/notices/${notice!.id}`);
     expect(mails[0]!.text_body).not.toContain('Group EXP');
@@ -81,7 +110,9 @@ describe('threshold notices reach the SMTP fake exactly once', () => {
     // A flag rests on a shown count (6), so every recipient reads it (compose-notice.test.ts covers a small one) ...
     expect(notice!.body).toContain('Cases in the group: 6');
     // ... and the physician's notice of the same flag.
-    const [forPhysician] = (await ds.query(`SELECT body FROM notices WHERE recipient = $1 ORDER BY created_at DESC LIMIT 1`, ['physician@demo.ratewarden.test'])) as Array<{ body: string }>;
+    const [forPhysician] = (await ds.query(`SELECT body FROM notices WHERE recipient = $1 ORDER BY created_at DESC LIMIT 1`, [
+      'physician@demo.ratewarden.test',
+    ])) as Array<{ body: string }>;
     expect(forPhysician!.body).toContain('Cases in the group: 6');
     expect(forPhysician!.body).toMatch(/Value: /);
     expect(await noticeOf(address)).toMatchObject([{ state: 'sent', attempts: 1, last_error: null }]);

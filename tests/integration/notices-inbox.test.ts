@@ -39,7 +39,7 @@ describe('the notices inbox', () => {
     await ds.destroy();
   });
 
-  it('lists each person\'s own notices with flag, period, completeness and state', async () => {
+  it("lists each person's own notices with flag, period, completeness and state", async () => {
     const mine = noticeSummarySchema.array().parse((await as.physician.agent.get('/api/notices').expect(200)).body);
     expect(mine).toHaveLength(1);
     expect(mine[0]).toMatchObject({ kind: 'raised', period: '2031-03-01', completeness: 'complete', state: 'new', readAt: null });
@@ -61,7 +61,9 @@ describe('the notices inbox', () => {
   it('opening a notice shows its text and marks it read; it can be marked new again', async () => {
     const [n] = noticeSummarySchema.array().parse((await as.physician.agent.get('/api/notices?state=new').expect(200)).body);
     expect((await as.physician.agent.get('/api/notices/unread').expect(200)).body).toEqual({ unread: 1 });
-    const opened = noticeDetailSchema.parse((await as.physician.agent.post(`/api/notices/${n!.id}/open`).set('x-csrf-token', as.physician.csrf).expect(200)).body);
+    const opened = noticeDetailSchema.parse(
+      (await as.physician.agent.post(`/api/notices/${n!.id}/open`).set('x-csrf-token', as.physician.csrf).expect(200)).body,
+    );
     expect(opened.state).toBe('read');
     // The physician's notice has the figures (6 cases is not small).
     expect(opened.text).toContain('Cases in the group: 6');
@@ -70,9 +72,13 @@ describe('the notices inbox', () => {
     expect((await as.physician.agent.get('/api/notices?state=read').expect(200)).body).toHaveLength(1);
     expect((await as.physician.agent.get('/api/notices/unread').expect(200)).body).toEqual({ unread: 0 });
     // Opened again: the first reading's time stays.
-    const again = noticeDetailSchema.parse((await as.physician.agent.post(`/api/notices/${n!.id}/open`).set('x-csrf-token', as.physician.csrf).expect(200)).body);
+    const again = noticeDetailSchema.parse(
+      (await as.physician.agent.post(`/api/notices/${n!.id}/open`).set('x-csrf-token', as.physician.csrf).expect(200)).body,
+    );
     expect(again.readAt).toBe(opened.readAt);
-    const unread = noticeSummarySchema.parse((await as.physician.agent.post(`/api/notices/${n!.id}/unread`).set('x-csrf-token', as.physician.csrf).expect(200)).body);
+    const unread = noticeSummarySchema.parse(
+      (await as.physician.agent.post(`/api/notices/${n!.id}/unread`).set('x-csrf-token', as.physician.csrf).expect(200)).body,
+    );
     expect(unread.state).toBe('new');
   });
 

@@ -20,12 +20,20 @@ describe('threshold notices resent after an interruption reach the recipient onc
   let smtp: FakeSmtp;
   let port: number;
   const mailbox = async (address: string) =>
-    (await ds.query(`SELECT message_id, subject FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [address])) as Array<{ message_id: string; subject: string }>;
+    (await ds.query(`SELECT message_id, subject FROM dev_mailbox WHERE $1 = ANY(rcpt_to) ORDER BY id`, [address])) as Array<{
+      message_id: string;
+      subject: string;
+    }>;
   const notice = async (id: string) =>
-    ((await ds.query(`SELECT state, attempts, message_id, server_response, last_error, last_attempt_at, sent_at FROM notices WHERE id = $1`, [id])) as Array<Record<string, any>>)[0]!;
+    (
+      (await ds.query(`SELECT state, attempts, message_id, server_response, last_error, last_attempt_at, sent_at FROM notices WHERE id = $1`, [id])) as Array<
+        Record<string, any>
+      >
+    )[0]!;
   const address = (what: string) => `${what}-${c.tag.toLowerCase()}@kestrelmoor.test`;
   // Only the notices a test made: the physician's copies of each flag stay in the outbox, unsent.
-  const onlyFor = async (ids: string[]) => ds.query(`UPDATE notices SET next_attempt_at = now() + interval '1 day' WHERE state = 'pending' AND id <> ALL($1::uuid[])`, [ids]);
+  const onlyFor = async (ids: string[]) =>
+    ds.query(`UPDATE notices SET next_attempt_at = now() + interval '1 day' WHERE state = 'pending' AND id <> ALL($1::uuid[])`, [ids]);
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -40,7 +48,7 @@ describe('threshold notices resent after an interruption reach the recipient onc
     await ds.destroy();
   });
 
-  it('records the attempt before sending and the server\'s reply after, under a Message-ID fixed by the notice', async () => {
+  it("records the attempt before sending and the server's reply after, under a Message-ID fixed by the notice", async () => {
     const to = address('plain');
     const [id] = await raiseNotices(ds, c, `plain ${c.tag}`, [to]);
     await onlyFor([id!]);
@@ -105,7 +113,13 @@ describe('threshold notices resent after an interruption reach the recipient onc
       const claim = await claimNextNotice(ds, sender);
       expect(claim).toMatchObject({ kind: 'claimed', notice: { id, attempts: 1, messageId: `<notice-${id}@ratewarden.local>` } });
       if (claim.kind !== 'claimed') return;
-      await transport.sendMail({ from: sender.from, to: claim.notice.recipient, subject: claim.notice.subject, text: claim.notice.body, messageId: claim.notice.messageId });
+      await transport.sendMail({
+        from: sender.from,
+        to: claim.notice.recipient,
+        subject: claim.notice.subject,
+        text: claim.notice.body,
+        messageId: claim.notice.messageId,
+      });
       expect(await notice(id!)).toMatchObject({ state: 'sending', attempts: 1 });
       // Within the lease another sender leaves it alone ...
       expect(await sendDueNotices(ds, transport, sender)).toEqual({ sent: 0, failed: 0 });
@@ -143,6 +157,9 @@ describe('threshold notices resent after an interruption reach the recipient onc
     expect(await keepInMailbox(ds, { from: 'a@x.test', to, raw: raw('<same@x.test>') })).toBe(false);
     expect(await keepInMailbox(ds, { from: 'a@x.test', to: [address('other')], raw: raw('<same@x.test>') })).toBe(true);
     expect(await keepInMailbox(ds, { from: 'a@x.test', to, raw: raw('<another@x.test>') })).toBe(true);
-    expect(await mailbox(to[0]!)).toEqual([{ message_id: '<same@x.test>', subject: 'twice' }, { message_id: '<another@x.test>', subject: 'twice' }]);
+    expect(await mailbox(to[0]!)).toEqual([
+      { message_id: '<same@x.test>', subject: 'twice' },
+      { message_id: '<another@x.test>', subject: 'twice' },
+    ]);
   });
 });

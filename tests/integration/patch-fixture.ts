@@ -22,10 +22,11 @@ export interface WriteFixture {
 /** Something of every kind the write routes change (a person, an exposure group, an outcome, a watch rule), and who may change it. */
 export async function writeFixture(ds: DataSource): Promise<WriteFixture> {
   const tag = randomBytes(3).toString('hex').toUpperCase();
-  const siteIds = ((await ds.query(
-    `INSERT INTO sites (code, name) VALUES ($1, 'Patch site A'), ($2, 'Patch site B') RETURNING id`,
-    [`PA${tag}`, `PB${tag}`],
-  )) as Array<{ id: number }>).map((s) => s.id);
+  const siteIds = (
+    (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Patch site A'), ($2, 'Patch site B') RETURNING id`, [`PA${tag}`, `PB${tag}`])) as Array<{
+      id: number;
+    }>
+  ).map((s) => s.id);
   const personId = await provisionUser(ds, `patch-${tag.toLowerCase()}@kestrelmoor.test`, 'hygienist', siteIds);
   await provisionUser(ds, 'admin@demo.ratewarden.test', 'administrator');
   await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist');
@@ -38,11 +39,29 @@ export async function writeFixture(ds: DataSource): Promise<WriteFixture> {
     safety: await signIn(app, 'safety@demo.ratewarden.test'),
   };
   const write: WriteFixture['write'] = (who, method, path, body) => who.agent[method](path).set('x-csrf-token', who.csrf).send(body);
-  const group = await write(as.hygienist, 'post', '/api/groups', { code: `PG${tag}`, name: 'Patch group', hazard: 'noise', exposureLevel: 2, description: 'kept' }).expect(201);
-  const outcome = await write(as.hygienist, 'post', '/api/outcomes', { code: `PO${tag}`, name: 'Patch outcome', caseDefinition: 'test', countingRule: 'recurrent', lagMonths: 6 }).expect(201);
-  const rule = await write(as.safety, 'post', '/api/rules', {
-    name: `Patch rule ${tag}`, outcomeId: outcome.body.id, exposureGroupId: group.body.id, measure: 'irr', threshold: 1.5, recipients: ['watch@kestrelmoor.test'],
+  const group = await write(as.hygienist, 'post', '/api/groups', {
+    code: `PG${tag}`,
+    name: 'Patch group',
+    hazard: 'noise',
+    exposureLevel: 2,
+    description: 'kept',
   }).expect(201);
-  const audits = async (target: string) => ((await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE target = $1`, [target])) as Array<{ n: number }>)[0]!.n;
+  const outcome = await write(as.hygienist, 'post', '/api/outcomes', {
+    code: `PO${tag}`,
+    name: 'Patch outcome',
+    caseDefinition: 'test',
+    countingRule: 'recurrent',
+    lagMonths: 6,
+  }).expect(201);
+  const rule = await write(as.safety, 'post', '/api/rules', {
+    name: `Patch rule ${tag}`,
+    outcomeId: outcome.body.id,
+    exposureGroupId: group.body.id,
+    measure: 'irr',
+    threshold: 1.5,
+    recipients: ['watch@kestrelmoor.test'],
+  }).expect(201);
+  const audits = async (target: string) =>
+    ((await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE target = $1`, [target])) as Array<{ n: number }>)[0]!.n;
   return { tag, siteIds, personId, groupId: group.body.id, outcomeId: outcome.body.id, ruleId: rule.body.id, as, write, audits };
 }

@@ -62,11 +62,14 @@ describe('PATCH without a change, and partial PATCHes', () => {
     expect(await f.audits(`outcome:${f.outcomeId}`)).toBe(audits);
   });
 
-  it('a person\'s access (the same sites in another order count as the same)', async () => {
+  it("a person's access (the same sites in another order count as the same)", async () => {
     const read = async () => ((await f.as.admin.agent.get('/api/admin/users').expect(200)).body as Array<{ id: string }>).find((u) => u.id === f.personId)!;
     const person = await read();
     const [a, b] = f.siteIds;
-    for (const body of [{ role: 'hygienist', siteIds: [b, a] }, { role: 'hygienist', siteIds: [a, b, a] }]) {
+    for (const body of [
+      { role: 'hygienist', siteIds: [b, a] },
+      { role: 'hygienist', siteIds: [a, b, a] },
+    ]) {
       expect((await f.write(f.as.admin, 'patch', `/api/admin/users/${f.personId}`, body).expect(200)).body).toEqual(person);
     }
     expect(await f.audits(`user:${f.personId}`)).toBe(0);
@@ -77,7 +80,14 @@ describe('PATCH without a change, and partial PATCHes', () => {
 
   it('a partial PATCH changes what it names, leaves the rest, and is audited once', async () => {
     const rule = (await f.write(f.as.safety, 'patch', `/api/rules/${f.ruleId}`, { name: `Renamed ${f.tag}` }).expect(200)).body;
-    expect(rule).toMatchObject({ name: `Renamed ${f.tag}`, exposureGroupId: f.groupId, threshold: 1.5, minCases: 5, recipients: ['watch@kestrelmoor.test'], active: true });
+    expect(rule).toMatchObject({
+      name: `Renamed ${f.tag}`,
+      exposureGroupId: f.groupId,
+      threshold: 1.5,
+      minCases: 5,
+      recipients: ['watch@kestrelmoor.test'],
+      active: true,
+    });
     const group = (await f.write(f.as.hygienist, 'patch', `/api/groups/${f.groupId}`, { name: 'Renamed group' }).expect(200)).body;
     expect(group).toMatchObject({ name: 'Renamed group', description: 'kept', exposureLevel: 2 });
     const outcome = (await f.write(f.as.hygienist, 'patch', `/api/outcomes/${f.outcomeId}`, { name: 'Renamed outcome' }).expect(200)).body;

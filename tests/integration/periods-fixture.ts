@@ -36,14 +36,39 @@ export interface MonthCohort {
 
 export const ROSTER_HEADER = 'worker_key,site,exposure_group,month,hours,birth_year,sex';
 export const CASES_HEADER = 'case_ref,worker_key,outcome,onset_date,status';
-export const HISTORY_MONTHS = ['2025-11', '2025-12', '2026-01', '2026-02', '2026-03', '2026-04', '2026-05', '2026-06', '2026-07', '2026-08', '2026-09', '2026-10'];
+export const HISTORY_MONTHS = [
+  '2025-11',
+  '2025-12',
+  '2026-01',
+  '2026-02',
+  '2026-03',
+  '2026-04',
+  '2026-05',
+  '2026-06',
+  '2026-07',
+  '2026-08',
+  '2026-09',
+  '2026-10',
+];
 export const NEW_MONTH = '2026-11';
 
 export async function monthCohort(ds: DataSource, app: Express, opts: { historyMonths?: string[]; withCases?: boolean } = {}): Promise<MonthCohort> {
   const tag = randomBytes(3).toString('hex').toUpperCase();
   const codes = { north: `N${tag}`, south: `S${tag}`, ref: `REF${tag}`, exp: `EXP${tag}`, outcome: `NOISE${tag}` };
-  const [north, south] = ((await ds.query(`INSERT INTO sites (code, name) VALUES ($1, $2), ($3, $4) RETURNING id`, [codes.north, `North ${tag}`, codes.south, `South ${tag}`])) as Array<{ id: number }>).map((s) => s.id);
-  const [ref, exp] = ((await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Reference', 'none', 0), ($2, 'Exposed', 'noise', 1) RETURNING id`, [codes.ref, codes.exp])) as Array<{ id: number }>).map((g) => g.id);
+  const [north, south] = (
+    (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, $2), ($3, $4) RETURNING id`, [
+      codes.north,
+      `North ${tag}`,
+      codes.south,
+      `South ${tag}`,
+    ])) as Array<{ id: number }>
+  ).map((s) => s.id);
+  const [ref, exp] = (
+    (await ds.query(
+      `INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, 'Reference', 'none', 0), ($2, 'Exposed', 'noise', 1) RETURNING id`,
+      [codes.ref, codes.exp],
+    )) as Array<{ id: number }>
+  ).map((g) => g.id);
   const [row] = (await ds.query(
     `INSERT INTO outcomes (code, name, case_definition, counting_rule, reference_group_id) VALUES ($1, 'Hearing loss', 'test', 'recurrent', $2) RETURNING id`,
     [codes.outcome, ref],
@@ -54,13 +79,20 @@ export async function monthCohort(ds: DataSource, app: Express, opts: { historyM
   const hygienist = await signIn(app, 'hygienist@demo.ratewarden.test');
 
   const post = async (query: string, body: string, fileName: string) => {
-    const res = await hygienist.agent.post(`/api/intakes?${query}`).set('x-csrf-token', hygienist.csrf).attach('file', Buffer.from(body), { filename: fileName, contentType: 'text/csv' });
+    const res = await hygienist.agent
+      .post(`/api/intakes?${query}`)
+      .set('x-csrf-token', hygienist.csrf)
+      .attach('file', Buffer.from(body), { filename: fileName, contentType: 'text/csv' });
     if (res.status !== 201) throw new Error(`upload ${fileName} answered ${res.status}: ${JSON.stringify(res.body).slice(0, 400)}`);
     return res.body.intake as { id: string; state: string };
   };
   const uploadRoster = (rows: string[], fileName = `roster-${tag}.csv`) => post('kind=roster&mode=apply', `${ROSTER_HEADER}\n${rows.join('\n')}\n`, fileName);
   const uploadCases = (rows: string[], reportsThrough?: string) =>
-    post(`kind=cases&mode=apply${reportsThrough ? `&reportsThrough=${reportsThrough}` : ''}`, `${CASES_HEADER}\n${rows.join('\n')}\n`, `cases-${tag}-${rows.length}.csv`);
+    post(
+      `kind=cases&mode=apply${reportsThrough ? `&reportsThrough=${reportsThrough}` : ''}`,
+      `${CASES_HEADER}\n${rows.join('\n')}\n`,
+      `cases-${tag}-${rows.length}.csv`,
+    );
 
   const workers = (prefix: string, n: number, site: string, group: string, months: string[]) =>
     Array.from({ length: n }, (_, i) => months.map((m) => `${tag}-${prefix}${i},${site},${group},${m},150,${1970 + (i % 30)},${i % 2 ? 'F' : 'M'}`)).flat();
@@ -88,7 +120,9 @@ export async function monthCohort(ds: DataSource, app: Express, opts: { historyM
     hygienist,
     uploadRoster,
     uploadCases,
-    newMonthRoster: () => uploadRoster([...monthRows([NEW_MONTH]), ...workers('NN', 100, codes.north, codes.ref, [NEW_MONTH])], `roster-${tag}-${NEW_MONTH}.csv`),
-    newMonthCases: () => uploadCases([...historyCases, ...Array.from({ length: 5 }, (_, i) => `${tag}-D${i},${tag}-NN${i},${codes.outcome},${NEW_MONTH}-0${i + 1},confirmed`)]),
+    newMonthRoster: () =>
+      uploadRoster([...monthRows([NEW_MONTH]), ...workers('NN', 100, codes.north, codes.ref, [NEW_MONTH])], `roster-${tag}-${NEW_MONTH}.csv`),
+    newMonthCases: () =>
+      uploadCases([...historyCases, ...Array.from({ length: 5 }, (_, i) => `${tag}-D${i},${tag}-NN${i},${codes.outcome},${NEW_MONTH}-0${i + 1},confirmed`)]),
   };
 }

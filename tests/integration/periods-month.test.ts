@@ -26,13 +26,18 @@ describe('the month of issue 12: roster first, case list a minute later', { time
   let app: ReturnType<typeof createApp>;
   let c: MonthCohort;
 
-  const get = (path: string) => c.hygienist.agent.get(path).expect(200).then((r) => r.body as unknown);
+  const get = (path: string) =>
+    c.hygienist.agent
+      .get(path)
+      .expect(200)
+      .then((r) => r.body as unknown);
   const runCount = async () => Number(((await ds.query(`SELECT count(*) AS n FROM runs`)) as Array<{ n: string }>)[0]!.n);
   const flagsAndNotices = async () => ({
-    flags: ((await ds.query(`SELECT to_char(period, 'YYYY-MM') AS period, state FROM flags`)) as Array<{ period: string; state: string }>),
+    flags: (await ds.query(`SELECT to_char(period, 'YYYY-MM') AS period, state FROM flags`)) as Array<{ period: string; state: string }>,
     notices: Number(((await ds.query(`SELECT count(*) AS n FROM notices`)) as Array<{ n: string }>)[0]!.n),
   });
-  const latestRequestAt = async () => ((await ds.query(`SELECT max(requested_at) AS at FROM run_requests WHERE picked_at IS NULL`)) as Array<{ at: Date }>)[0]!.at;
+  const latestRequestAt = async () =>
+    ((await ds.query(`SELECT max(requested_at) AS at FROM run_requests WHERE picked_at IS NULL`)) as Array<{ at: Date }>)[0]!.at;
   /** The company's rolling-12 results of the current run, by "group|period". */
   const companyResults = async (): Promise<Map<string, RunResult>> => {
     const run = runDetailSchema.parse(await get('/api/runs/current'));
@@ -51,13 +56,26 @@ describe('the month of issue 12: roster first, case list a minute later', { time
   beforeEach(async () => {
     await clearCohortData(ds);
     c = await monthCohort(ds, app);
-    const rule = await c.hygienist.agent.post('/api/rules').set('x-csrf-token', c.hygienist.csrf).send({
-      name: `IRR over 1.5 ${c.tag}`, outcomeId: c.outcome, exposureGroupId: c.groups.exp, measure: 'irr', thresholdOn: 'estimate', threshold: 1.5,
-      minCases: 5, window: 'rolling12', fdrControl: false, recipients: ['site-lead@test.invalid'],
-    });
+    const rule = await c.hygienist.agent
+      .post('/api/rules')
+      .set('x-csrf-token', c.hygienist.csrf)
+      .send({
+        name: `IRR over 1.5 ${c.tag}`,
+        outcomeId: c.outcome,
+        exposureGroupId: c.groups.exp,
+        measure: 'irr',
+        thresholdOn: 'estimate',
+        threshold: 1.5,
+        minCases: 5,
+        window: 'rolling12',
+        fdrControl: false,
+        recipients: ['site-lead@test.invalid'],
+      });
     expect(rule.status, JSON.stringify(rule.body)).toBe(201);
     // The history's run: twelve complete months, IRR 1.25, no flag.
-    expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(await latestRequestAt(), QUIET + 1) })).toMatchObject({ status: 'succeeded' });
+    expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(await latestRequestAt(), QUIET + 1) })).toMatchObject({
+      status: 'succeeded',
+    });
     expect(await flagsAndNotices()).toEqual({ flags: [], notices: 0 });
   }, 180_000);
 
@@ -83,18 +101,25 @@ describe('the month of issue 12: roster first, case list a minute later', { time
     expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(casesAt, 10 * QUIET) })).toBeNull();
 
     expect(await runCount()).toBe(2);
-    const [taken] = (await ds.query(`SELECT inputs FROM runs WHERE id = $1`, [run!.status === 'succeeded' ? run!.runId : ''])) as Array<{ inputs: { requestIds: string[] } }>;
+    const [taken] = (await ds.query(`SELECT inputs FROM runs WHERE id = $1`, [run!.status === 'succeeded' ? run!.runId : ''])) as Array<{
+      inputs: { requestIds: string[] };
+    }>;
     expect(taken!.inputs.requestIds).toHaveLength(2);
     expect(pendingRunSchema.parse(await get('/api/runs/pending')).pending).toBeNull();
     // Both in: the new month is complete, the IRR by hand 0.983, and no flag, no notice.
     const results = await companyResults();
     const nov = results.get(`${c.groups.exp}|${NEW_MONTH}`)!;
     expect(nov.completeness).toBe('complete');
-    expect(nov.irr.estimate as number).toBeCloseTo((10 / 54_000) / (13 / 69_000), 10);
+    expect(nov.irr.estimate as number).toBeCloseTo(10 / 54_000 / (13 / 69_000), 10);
     expect(await flagsAndNotices()).toEqual({ flags: [], notices: 0 });
     const detail = runDetailSchema.parse(await get('/api/runs/current'));
     expect(detail.completeThrough).toMatchObject({ company: `${NEW_MONTH}-01` });
-    expect(detail.completeThrough!.sites).toEqual(expect.arrayContaining([{ siteId: c.sites.north, month: `${NEW_MONTH}-01` }, { siteId: c.sites.south, month: `${NEW_MONTH}-01` }]));
+    expect(detail.completeThrough!.sites).toEqual(
+      expect.arrayContaining([
+        { siteId: c.sites.north, month: `${NEW_MONTH}-01` },
+        { siteId: c.sites.south, month: `${NEW_MONTH}-01` },
+      ]),
+    );
   });
 
   it('a run between the two (the run button) marks the month partial, and no rule looks at it', async () => {
@@ -111,7 +136,7 @@ describe('the month of issue 12: roster first, case list a minute later', { time
     expect(nov.completeness).toBe('partial');
     expect(oct.completeness).toBe('complete');
     // The partial window's figures are over the rule (IRR by hand 1.597), the complete one's are not (1.25) ...
-    expect(nov.irr.estimate as number).toBeCloseTo((10 / 54_000) / (8 / 69_000), 10);
+    expect(nov.irr.estimate as number).toBeCloseTo(10 / 54_000 / (8 / 69_000), 10);
     expect(oct.irr.estimate as number).toBeCloseTo(10 / 8, 10);
     // ... and the rule looked at complete periods only: no flag, no notice.
     expect(await flagsAndNotices()).toEqual({ flags: [], notices: 0 });
@@ -119,13 +144,17 @@ describe('the month of issue 12: roster first, case list a minute later', { time
     expect(between.completeThrough).toMatchObject({ company: '2026-10-01' });
 
     await c.newMonthCases();
-    expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(await latestRequestAt(), QUIET + 1) })).toMatchObject({ status: 'succeeded' });
+    expect(await runIfRequested(ds, settings, APP_URL, { quietSeconds: QUIET, now: seconds(await latestRequestAt(), QUIET + 1) })).toMatchObject({
+      status: 'succeeded',
+    });
     expect((await companyResults()).get(`${c.groups.exp}|${NEW_MONTH}`)!.completeness).toBe('complete');
     expect(await flagsAndNotices()).toEqual({ flags: [], notices: 0 });
     // The run between still says what it saw (its own period states, not today's): read by the physician, who reads earlier runs.
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', await allSiteIds(ds));
     const physician = await signIn(app, 'physician@demo.ratewarden.test');
-    const earlier = runResultSchema.array().parse((await physician.agent.get(`/api/runs/${between.id}/results?outcomeId=${c.outcome}&window=rolling12`).expect(200)).body);
+    const earlier = runResultSchema
+      .array()
+      .parse((await physician.agent.get(`/api/runs/${between.id}/results?outcomeId=${c.outcome}&window=rolling12`).expect(200)).body);
     expect(earlier.find((r) => r.exposureGroupId === c.groups.exp && r.period === `${NEW_MONTH}-01`)!.completeness).toBe('partial');
   });
 

@@ -20,12 +20,21 @@ describe('reporting periods through the API', () => {
   let c: MonthCohort;
   const as = {} as Record<'safety' | 'physician' | 'admin' | 'narrow', SignedInAgent>;
 
-  const calendar = async (who: SignedInAgent, query = 'from=2026-08&to=2026-10') => periodCalendarSchema.parse((await who.agent.get(`/api/periods?${query}`).expect(200)).body);
-  const cell = (cal: Awaited<ReturnType<typeof calendar>>, siteId: number, month: string) => cal.periods.find((p) => p.siteId === siteId && p.month === `${month}-01`)!;
-  const post = (who: SignedInAgent, action: 'close' | 'reopen', body: Record<string, unknown>) => who.agent.post(`/api/periods/${action}`).set('x-csrf-token', who.csrf).send(body);
+  const calendar = async (who: SignedInAgent, query = 'from=2026-08&to=2026-10') =>
+    periodCalendarSchema.parse((await who.agent.get(`/api/periods?${query}`).expect(200)).body);
+  const cell = (cal: Awaited<ReturnType<typeof calendar>>, siteId: number, month: string) =>
+    cal.periods.find((p) => p.siteId === siteId && p.month === `${month}-01`)!;
+  const post = (who: SignedInAgent, action: 'close' | 'reopen', body: Record<string, unknown>) =>
+    who.agent.post(`/api/periods/${action}`).set('x-csrf-token', who.csrf).send(body);
   const audit = async (action: string) =>
-    (await ds.query(`SELECT actor_label, target, detail FROM audit_events WHERE action = $1 AND target LIKE $2 ORDER BY id`, [action, `period:%${c.tag}:%`])) as Array<{ actor_label: string; target: string; detail: Record<string, unknown> }>;
-  const requests = async () => ((await ds.query(`SELECT reason FROM run_requests WHERE reason LIKE $1 ORDER BY id`, [`month %${c.tag}%`])) as Array<{ reason: string }>).map((r) => r.reason);
+    (await ds.query(`SELECT actor_label, target, detail FROM audit_events WHERE action = $1 AND target LIKE $2 ORDER BY id`, [
+      action,
+      `period:%${c.tag}:%`,
+    ])) as Array<{ actor_label: string; target: string; detail: Record<string, unknown> }>;
+  const requests = async () =>
+    ((await ds.query(`SELECT reason FROM run_requests WHERE reason LIKE $1 ORDER BY id`, [`month %${c.tag}%`])) as Array<{ reason: string }>).map(
+      (r) => r.reason,
+    );
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -48,7 +57,7 @@ describe('reporting periods through the API', () => {
     await ds?.destroy();
   });
 
-  it('shows every site × month of the reader with its state, and only the reader\'s sites', async () => {
+  it("shows every site × month of the reader with its state, and only the reader's sites", async () => {
     const all = await calendar(c.hygienist);
     expect(all.months).toEqual(['2026-08-01', '2026-09-01', '2026-10-01']);
     expect(all.sites.map((s) => s.id)).toEqual(expect.arrayContaining([c.sites.north, c.sites.south]));
@@ -89,9 +98,17 @@ describe('reporting periods through the API', () => {
     expect(refused.body.message).toMatch(/hours in, cases awaited/);
     expect(refused.body.details).toEqual({ state: 'hours_in' });
     await post(c.hygienist, 'close', { siteId: c.sites.south, month: '2026-10', force: true }).expect(422);
-    const forced = await post(c.hygienist, 'close', { siteId: c.sites.south, month: '2026-10', force: true, reason: 'site shut for the month, no cases will come' }).expect(200);
+    const forced = await post(c.hygienist, 'close', {
+      siteId: c.sites.south,
+      month: '2026-10',
+      force: true,
+      reason: 'site shut for the month, no cases will come',
+    }).expect(200);
     expect(forced.body.state).toBe('closed');
-    expect((await audit('period.close')).at(-1)).toMatchObject({ target: `period:${c.codes.south}:2026-10`, detail: { state: 'hours_in', forced: true, reason: 'site shut for the month, no cases will come' } });
+    expect((await audit('period.close')).at(-1)).toMatchObject({
+      target: `period:${c.codes.south}:2026-10`,
+      detail: { state: 'hours_in', forced: true, reason: 'site shut for the month, no cases will come' },
+    });
     await post(c.hygienist, 'close', { siteId: c.sites.south, month: '2099-01', force: true, reason: 'not yet' }).expect(422);
   });
 
@@ -121,8 +138,10 @@ describe('reporting periods through the API', () => {
     await post(c.hygienist, 'close', { siteId: c.sites.north, month: '2026-09', reason: 'reviewed' }).expect(200);
     expect(cell(await calendar(c.hygienist), c.sites.north, '2026-09').correctedAfterClose).toBe(false);
     // The corrected roster of North, Sep 2026: one worker fewer.
-    const rows = Array.from({ length: 19 }, (_, i) => `${c.tag}-NE${i + 1},${c.codes.north},${c.codes.exp},2026-09,150,${1970 + ((i + 1) % 30)},${(i + 1) % 2 ? 'F' : 'M'}`)
-      .concat(Array.from({ length: 20 }, (_, i) => `${c.tag}-NR${i},${c.codes.north},${c.codes.ref},2026-09,150,${1970 + (i % 30)},${i % 2 ? 'F' : 'M'}`));
+    const rows = Array.from(
+      { length: 19 },
+      (_, i) => `${c.tag}-NE${i + 1},${c.codes.north},${c.codes.exp},2026-09,150,${1970 + ((i + 1) % 30)},${(i + 1) % 2 ? 'F' : 'M'}`,
+    ).concat(Array.from({ length: 20 }, (_, i) => `${c.tag}-NR${i},${c.codes.north},${c.codes.ref},2026-09,150,${1970 + (i % 30)},${i % 2 ? 'F' : 'M'}`));
     await c.uploadRoster(rows, `north-2026-09-corrected-${c.tag}.csv`);
     const cal = await calendar(c.hygienist);
     expect(cell(cal, c.sites.north, '2026-09')).toMatchObject({ state: 'closed', correctedAfterClose: true });

@@ -35,7 +35,9 @@ const PLANTED = { workerKey: 'W-PLANTED-7731', caseRef: 'CASE-PLANTED-7731' };
 async function plantCase(ds: DataSource): Promise<void> {
   await ds.query(`INSERT INTO sites (code, name) VALUES ('PLANT', 'Planted site') ON CONFLICT DO NOTHING`);
   await ds.query(`INSERT INTO exposure_groups (code, name, hazard) VALUES ('PLANT', 'Planted group', 'noise') ON CONFLICT DO NOTHING`);
-  await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ('PLANT', 'Planted outcome', 'test', 'recurrent') ON CONFLICT DO NOTHING`);
+  await ds.query(
+    `INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ('PLANT', 'Planted outcome', 'test', 'recurrent') ON CONFLICT DO NOTHING`,
+  );
   const [intake] = (await ds.query(
     `INSERT INTO intakes (kind, state, file_name, checksum, size_bytes, submitted_by_client) VALUES ('cases', 'applied', 'planted.csv', repeat('a', 64), 0, 'test') RETURNING id`,
   )) as { id: string }[];
@@ -59,7 +61,9 @@ describe('the route × role table, walked on the real app', () => {
 
   beforeAll(async () => {
     ds = await openTestDataSource();
-    await ds.query(`INSERT INTO integration_clients (client_id, name) VALUES ('hr-sync-demo', 'HR sync') ON CONFLICT (client_id) DO UPDATE SET revoked_at = NULL`);
+    await ds.query(
+      `INSERT INTO integration_clients (client_id, name) VALUES ('hr-sync-demo', 'HR sync') ON CONFLICT (client_id) DO UPDATE SET revoked_at = NULL`,
+    );
     await plantCase(ds);
     app = createApp({ dataSource: ds, config: testApiConfig() });
     routes = listRoutes(app).filter((r) => r.path.startsWith('/api/') && !PUBLIC.has(`${r.method} ${r.path}`));
@@ -77,7 +81,7 @@ describe('the route × role table, walked on the real app', () => {
     expect(routes.filter((r) => r.permission === null).map((r) => `${r.method} ${r.path}`)).toEqual([]);
   });
 
-  it('guards the physician\'s workspace and the notices inbox with the permissions they need', () => {
+  it("guards the physician's workspace and the notices inbox with the permissions they need", () => {
     const guard = (method: string, path: string) => routes.find((r) => r.method === method && r.path === path)?.permission;
     expect({
       register: guard('GET', '/api/cases'),
@@ -93,8 +97,18 @@ describe('the route × role table, walked on the real app', () => {
       open: guard('POST', '/api/notices/:id/open'),
       markUnread: guard('POST', '/api/notices/:id/unread'),
     }).toEqual({
-      register: 'cases:read', export: 'cases:read', case: 'cases:read', review: 'cases:review', conflicts: 'cases:read', resolve: 'cases:review',
-      notes: 'cases:read', addNote: 'cases:review', inbox: 'flags:read', unread: 'flags:read', open: 'flags:read', markUnread: 'flags:read',
+      register: 'cases:read',
+      export: 'cases:read',
+      case: 'cases:read',
+      review: 'cases:review',
+      conflicts: 'cases:read',
+      resolve: 'cases:review',
+      notes: 'cases:read',
+      addNote: 'cases:review',
+      inbox: 'flags:read',
+      unread: 'flags:read',
+      open: 'flags:read',
+      markUnread: 'flags:read',
     });
   });
 
@@ -147,7 +161,9 @@ describe('the route × role table, walked on the real app', () => {
     for (const role of roles.filter((r) => r !== 'physician')) {
       for (const route of caseRoutes) {
         for (const query of ['', '?format=csv', '?export=1&include=cases', '?role=physician']) {
-          const res = await send(agents[role].agent, route, concrete(route.path) + query).set('x-csrf-token', agents[role].csrf).send({});
+          const res = await send(agents[role].agent, route, concrete(route.path) + query)
+            .set('x-csrf-token', agents[role].csrf)
+            .send({});
           expect(res.status, `${role} ${route.method} ${route.path}${query}`).toBe(403);
         }
       }

@@ -24,10 +24,11 @@ describe('minimum case counts of watch rules', () => {
 
   beforeAll(async () => {
     ds = await openTestDataSource();
-    outcomeId = ((await ds.query(
-      `INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ($1, 'Min cases outcome', 'test', 'recurrent') RETURNING id`,
-      [`MIN${tag}`],
-    )) as Array<{ id: number }>)[0]!.id;
+    outcomeId = (
+      (await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule) VALUES ($1, 'Min cases outcome', 'test', 'recurrent') RETURNING id`, [
+        `MIN${tag}`,
+      ])) as Array<{ id: number }>
+    )[0]!.id;
     // Company-wide rules: written by someone who reads every site.
     await provisionUser(ds, 'safety@demo.ratewarden.test', 'safety_manager', await allSiteIds(ds));
     safety = await signIn(createApp({ dataSource: ds, config: testApiConfig() }), 'safety@demo.ratewarden.test');
@@ -75,11 +76,25 @@ describe('minimum case counts of watch rules', () => {
         [`Kept ${tag}`, outcomeId],
       )) as Array<{ id: string }>;
       await new WatchRuleMinCases1764634300000().up(runner);
-      const stored = (await runner.query(`SELECT id, min_cases FROM watch_rules WHERE id = ANY($1)`, [[old!.id, kept!.id]])) as Array<{ id: string; min_cases: number }>;
+      const stored = (await runner.query(`SELECT id, min_cases FROM watch_rules WHERE id = ANY($1)`, [[old!.id, kept!.id]])) as Array<{
+        id: string;
+        min_cases: number;
+      }>;
       expect(Object.fromEntries(stored.map((r) => [r.id, r.min_cases]))).toEqual({ [old!.id]: 5, [kept!.id]: 9 });
-      const audits = (await runner.query(`SELECT actor_label, action, target, detail FROM audit_events WHERE target = ANY($1)`, [[`watch_rule:${old!.id}`, `watch_rule:${kept!.id}`]])) as unknown[];
-      expect(audits).toEqual([{ actor_label: 'migration', action: 'rule.update', target: `watch_rule:${old!.id}`, detail: expect.objectContaining({ before: { minCases: 2 }, after: { minCases: 5 } }) }]);
-      const columns = (await runner.query(`SELECT column_default FROM information_schema.columns WHERE table_name = 'watch_rules' AND column_name = 'min_cases'`)) as Array<{ column_default: string }>;
+      const audits = (await runner.query(`SELECT actor_label, action, target, detail FROM audit_events WHERE target = ANY($1)`, [
+        [`watch_rule:${old!.id}`, `watch_rule:${kept!.id}`],
+      ])) as unknown[];
+      expect(audits).toEqual([
+        {
+          actor_label: 'migration',
+          action: 'rule.update',
+          target: `watch_rule:${old!.id}`,
+          detail: expect.objectContaining({ before: { minCases: 2 }, after: { minCases: 5 } }),
+        },
+      ]);
+      const columns = (await runner.query(
+        `SELECT column_default FROM information_schema.columns WHERE table_name = 'watch_rules' AND column_name = 'min_cases'`,
+      )) as Array<{ column_default: string }>;
       expect(columns).toEqual([{ column_default: '5' }]);
     } finally {
       await runner.rollbackTransaction();

@@ -20,13 +20,22 @@ describe('planner statistics before a run', () => {
   });
 
   it('uses the PostgreSQL defaults the unit test assumes (autovacuum_analyze_threshold 50, scale factor 0.1)', async () => {
-    const [row] = (await ds.query(`SELECT current_setting('autovacuum_analyze_threshold') AS t, current_setting('autovacuum_analyze_scale_factor') AS s`)) as Array<{ t: string; s: string }>;
+    const [row] = (await ds.query(
+      `SELECT current_setting('autovacuum_analyze_threshold') AS t, current_setting('autovacuum_analyze_scale_factor') AS s`,
+    )) as Array<{ t: string; s: string }>;
     expect(Number(row!.t)).toBe(50);
     expect(Number(row!.s)).toBe(0.1);
   });
 
   it('analyzes a roster table whose statistics are gone, and says so in the run summary', async () => {
-    const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['OUT', 'recurrent']] });
+    const c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['OUT', 'recurrent']],
+    });
     const w = await c.worker('p1', 1980, 'F');
     await c.roster([[w, '2031-01-01', c.sites[0]!, c.groups.EXP!, 160]]);
     await ds.query(`SELECT pg_stat_reset_single_table_counters('roster_entries'::regclass)`);
@@ -35,7 +44,9 @@ describe('planner statistics before a run', () => {
 
     const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
     expect(outcome.status).toBe('succeeded');
-    const [run] = (await ds.query(`SELECT summary FROM runs WHERE id = $1`, [(outcome as { runId: string }).runId])) as Array<{ summary: { analyzed: string[] } }>;
+    const [run] = (await ds.query(`SELECT summary FROM runs WHERE id = $1`, [(outcome as { runId: string }).runId])) as Array<{
+      summary: { analyzed: string[] };
+    }>;
     expect(run!.summary.analyzed).toContain('roster_entries');
     const after = (await ds.query(`SELECT last_analyze FROM pg_stat_user_tables WHERE relname = 'roster_entries'`)) as Array<{ last_analyze: Date | null }>;
     expect(after[0]!.last_analyze).not.toBeNull();

@@ -29,7 +29,14 @@ describe('run reads: conditional requests per run and reader', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['CAC', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['CAC', 'recurrent']],
+    });
     const rows: Array<[number, string, number, number, number]> = [];
     for (let i = 0; i < 10; i++) {
       rows.push([await c.worker(`e${i}`, 1980, 'M'), '2031-12-01', c.sites[0]!, c.groups.EXP!, 160]);
@@ -85,7 +92,10 @@ describe('run reads: conditional requests per run and reader', () => {
     await run();
     await hygienist.agent.get(url).set('if-none-match', tag).expect(403);
     const current = await hygienist.agent.get('/api/runs/current').expect(200);
-    await hygienist.agent.get('/api/runs/current').set('if-none-match', current.headers.etag as string).expect(304);
+    await hygienist.agent
+      .get('/api/runs/current')
+      .set('if-none-match', current.headers.etag as string)
+      .expect(304);
   });
 
   it('keeps an answer ready to send, gzipped or not as asked, and never serves it once another run is current', async () => {

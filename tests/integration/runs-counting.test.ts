@@ -23,8 +23,24 @@ describe('counting rules and exposure lag', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 2]], reference: 'REF', outcomes: [['HEAR', 'first_event'], ['LAG', 'recurrent', 1]] });
-    const [e1, e2, e3, w1, r1] = [await c.worker('e1', 1980, 'M'), await c.worker('e2', 1980, 'F'), await c.worker('e3', 1970, 'M'), await c.worker('w1', 1990, 'F'), await c.worker('r1', 1985, 'F')];
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 2],
+      ],
+      reference: 'REF',
+      outcomes: [
+        ['HEAR', 'first_event'],
+        ['LAG', 'recurrent', 1],
+      ],
+    });
+    const [e1, e2, e3, w1, r1] = [
+      await c.worker('e1', 1980, 'M'),
+      await c.worker('e2', 1980, 'F'),
+      await c.worker('e3', 1970, 'M'),
+      await c.worker('w1', 1990, 'F'),
+      await c.worker('r1', 1985, 'F'),
+    ];
     const months = ['2031-01-01', '2031-02-01', '2031-03-01', '2031-04-01'];
     const rows: Array<[number, string, number, number, number]> = [];
     for (const m of months) {

@@ -32,13 +32,26 @@ async function intake(ds: DataSource, kind: 'roster' | 'cases', siteIds: number[
 
 export async function makeCohort(
   ds: DataSource,
-  spec: { groups: Array<[name: string, level: number | null]>; reference: string; outcomes: Array<[name: string, rule: 'recurrent' | 'first_event', lag?: number]> },
+  spec: {
+    groups: Array<[name: string, level: number | null]>;
+    reference: string;
+    outcomes: Array<[name: string, rule: 'recurrent' | 'first_event', lag?: number]>;
+  },
 ): Promise<Cohort> {
   const tag = randomBytes(3).toString('hex').toUpperCase();
-  const sites = ((await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Run test site one'), ($2, 'Run test site two') RETURNING id`, [`RA${tag}`, `RB${tag}`])) as Array<{ id: number }>).map((s) => s.id);
+  const sites = (
+    (await ds.query(`INSERT INTO sites (code, name) VALUES ($1, 'Run test site one'), ($2, 'Run test site two') RETURNING id`, [
+      `RA${tag}`,
+      `RB${tag}`,
+    ])) as Array<{ id: number }>
+  ).map((s) => s.id);
   const groups: Record<string, number> = {};
   for (const [name, level] of spec.groups) {
-    const [g] = (await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, $2, 'test', $3) RETURNING id`, [`${name}${tag}`, `Group ${name}`, level])) as Array<{ id: number }>;
+    const [g] = (await ds.query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level) VALUES ($1, $2, 'test', $3) RETURNING id`, [
+      `${name}${tag}`,
+      `Group ${name}`,
+      level,
+    ])) as Array<{ id: number }>;
     groups[name] = g!.id;
   }
   const outcomes: Record<string, number> = {};
@@ -60,7 +73,11 @@ export async function makeCohort(
     rosterIntake,
     casesIntake,
     async worker(key, birthYear, sex) {
-      const [w] = (await ds.query(`INSERT INTO workers (worker_key, birth_year, sex) VALUES ($1, $2, $3) RETURNING id`, [`${tag}-${key}`, birthYear, sex])) as Array<{ id: string }>;
+      const [w] = (await ds.query(`INSERT INTO workers (worker_key, birth_year, sex) VALUES ($1, $2, $3) RETURNING id`, [
+        `${tag}-${key}`,
+        birthYear,
+        sex,
+      ])) as Array<{ id: string }>;
       return Number(w!.id);
     },
     async roster(rows) {
@@ -84,17 +101,26 @@ export async function makeCohort(
     async cases(rows) {
       for (const [worker, outcome, onset, status] of rows) {
         caseNo++;
-        await ds.query(
-          `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) VALUES ($1, $2, $3, $4, $5, $6)`,
-          [casesIntake, `${tag}-C${caseNo}`, worker, outcome, onset, status ?? 'confirmed'],
-        );
+        await ds.query(`INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) VALUES ($1, $2, $3, $4, $5, $6)`, [
+          casesIntake,
+          `${tag}-C${caseNo}`,
+          worker,
+          outcome,
+          onset,
+          status ?? 'confirmed',
+        ]);
       }
     },
   };
 }
 
 /** Stored results of one run for one outcome, keyed "group:window:period": company-wide, or of one site when `siteId` is given. */
-export async function storedResults(ds: DataSource, runId: string, outcomeId: number, siteId: number | null = null): Promise<Map<string, Record<string, unknown>>> {
+export async function storedResults(
+  ds: DataSource,
+  runId: string,
+  outcomeId: number,
+  siteId: number | null = null,
+): Promise<Map<string, Record<string, unknown>>> {
   const rows = (await ds.query(
     `SELECT *, to_char(period, 'YYYY-MM') AS p FROM run_results WHERE run_id = $1 AND outcome_id = $2 AND site_id IS NOT DISTINCT FROM $3::int`,
     [runId, outcomeId, siteId],

@@ -36,7 +36,14 @@ describe('one run at a time across workers', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['LOCK', 'recurrent']] });
+    const c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['LOCK', 'recurrent']],
+    });
     const w = await c.worker('w', 1980, 'F');
     await c.roster([[w, '2031-01-01', c.sites[0]!, c.groups.EXP!, 100]]);
   });
@@ -50,7 +57,10 @@ describe('one run at a time across workers', () => {
   it('two runs started together in one process: one runs, the other is skipped as busy', async () => {
     const other = await openTestDataSource();
     try {
-      const outcomes = await Promise.all([performRun(ds, { trigger: 'cli', settings, appUrl: 'x' }), performRun(other, { trigger: 'cli', settings, appUrl: 'x' })]);
+      const outcomes = await Promise.all([
+        performRun(ds, { trigger: 'cli', settings, appUrl: 'x' }),
+        performRun(other, { trigger: 'cli', settings, appUrl: 'x' }),
+      ]);
       expect(outcomes.map((o) => o.status).sort()).toEqual(['skipped', 'succeeded']);
     } finally {
       await other.destroy();

@@ -16,21 +16,38 @@ import { currentRunId, makeCohort, settings, storedResults, type Cohort, clearCo
  */
 type Row = [worker: string, month: string, site: 0 | 1, group: 'REF' | 'MID' | 'EXP', hours: number];
 const people: Record<string, [number, 'F' | 'M']> = {
-  r1: [1996, 'F'], r2: [1976, 'M'], r3: [1990, 'M'], e1: [1996, 'M'], e2: [1976, 'F'], e3: [1985, 'F'], m1: [1980, 'M'],
+  r1: [1996, 'F'],
+  r2: [1976, 'M'],
+  r3: [1990, 'M'],
+  e1: [1996, 'M'],
+  e2: [1976, 'F'],
+  e3: [1985, 'F'],
+  m1: [1980, 'M'],
 };
 const rosterRows: Row[] = [
-  ['r1', '2031-01-01', 0, 'REF', 160], ['r1', '2031-02-01', 0, 'REF', 160],
-  ['r2', '2031-01-01', 1, 'REF', 150], ['r2', '2031-02-01', 1, 'REF', 150],
+  ['r1', '2031-01-01', 0, 'REF', 160],
+  ['r1', '2031-02-01', 0, 'REF', 160],
+  ['r2', '2031-01-01', 1, 'REF', 150],
+  ['r2', '2031-02-01', 1, 'REF', 150],
   ['r3', '2031-01-01', 0, 'REF', 170],
-  ['e1', '2031-01-01', 0, 'EXP', 160], ['e1', '2031-02-01', 0, 'EXP', 160],
-  ['e2', '2031-01-01', 1, 'EXP', 120], ['e2', '2031-02-01', 1, 'EXP', 120],
+  ['e1', '2031-01-01', 0, 'EXP', 160],
+  ['e1', '2031-02-01', 0, 'EXP', 160],
+  ['e2', '2031-01-01', 1, 'EXP', 120],
+  ['e2', '2031-02-01', 1, 'EXP', 120],
   ['e3', '2031-02-01', 0, 'EXP', 100],
-  ['m1', '2031-01-01', 1, 'MID', 140], ['m1', '2031-02-01', 1, 'MID', 140],
+  ['m1', '2031-01-01', 1, 'MID', 140],
+  ['m1', '2031-02-01', 1, 'MID', 140],
 ];
 const caseRows: Array<[string, string, 'confirmed' | 'suspected' | 'ruled_out']> = [
-  ['e1', '2031-01-05', 'confirmed'], ['e1', '2031-01-20', 'confirmed'], ['e1', '2031-02-11', 'suspected'],
-  ['e2', '2031-02-03', 'confirmed'], ['e3', '2031-02-27', 'confirmed'], ['r1', '2031-01-14', 'confirmed'],
-  ['r2', '2031-02-09', 'confirmed'], ['r3', '2031-01-30', 'ruled_out'], ['m1', '2031-02-15', 'confirmed'],
+  ['e1', '2031-01-05', 'confirmed'],
+  ['e1', '2031-01-20', 'confirmed'],
+  ['e1', '2031-02-11', 'suspected'],
+  ['e2', '2031-02-03', 'confirmed'],
+  ['e3', '2031-02-27', 'confirmed'],
+  ['r1', '2031-01-14', 'confirmed'],
+  ['r2', '2031-02-09', 'confirmed'],
+  ['r3', '2031-01-30', 'ruled_out'],
+  ['m1', '2031-02-15', 'confirmed'],
 ];
 
 const z = normalQuantile(0.975, 0, 1);
@@ -48,7 +65,11 @@ function tally(filter: (r: Row) => boolean, key: (r: Row) => string): Map<string
   }
   return out;
 }
-const total = (group: string, months: string[]) => tally((r) => r[3] === group && months.includes(r[1].slice(0, 7)), () => 'all').get('all') ?? { cases: 0, hours: 0 };
+const total = (group: string, months: string[]) =>
+  tally(
+    (r) => r[3] === group && months.includes(r[1].slice(0, 7)),
+    () => 'all',
+  ).get('all') ?? { cases: 0, hours: 0 };
 
 describe('a run stores rates, IRRs and intervals that match an independent computation', () => {
   let ds: DataSource;
@@ -59,7 +80,15 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['MID', 1], ['EXP', 2]], reference: 'REF', outcomes: [['INJ', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['MID', 1],
+        ['EXP', 2],
+      ],
+      reference: 'REF',
+      outcomes: [['INJ', 'recurrent']],
+    });
     const ids: Record<string, number> = {};
     for (const [k, [by, sex]] of Object.entries(people)) ids[k] = await c.worker(k, by, sex);
     await c.roster(rosterRows.map(([w, m, s, g, h]) => [ids[w]!, m, c.sites[s]!, c.groups[g]!, h]));
@@ -75,7 +104,9 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
 
   it('switches the current pointer to the new run and records its inputs, settings and code version', async () => {
     expect(await currentRunId(ds)).toBe(runId);
-    const [run] = (await ds.query(`SELECT state, inputs, settings, settings_version, code_version FROM runs WHERE id = $1`, [runId])) as Array<Record<string, any>>;
+    const [run] = (await ds.query(`SELECT state, inputs, settings, settings_version, code_version FROM runs WHERE id = $1`, [runId])) as Array<
+      Record<string, any>
+    >;
     expect(run!.state).toBe('succeeded');
     expect(run!.inputs.rosterIntakeIds).toContain(c.rosterIntake);
     expect(run!.inputs.caseIntakeIds).toContain(c.casesIntake);
@@ -145,7 +176,12 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
     const months = (r: Row) => r[1] < '2031-03';
     const ex = tally((r) => r[3] === 'EXP' && months(r), key);
     const re = tally((r) => r[3] === 'REF' && months(r), key);
-    let num = 0, den = 0, varNum = 0, dNum = 0, w = 0, dVar = 0;
+    let num = 0,
+      den = 0,
+      varNum = 0,
+      dNum = 0,
+      w = 0,
+      dVar = 0;
     for (const k of new Set([...ex.keys(), ...re.keys()])) {
       const e = ex.get(k) ?? { cases: 0, hours: 0 };
       const f = re.get(k) ?? { cases: 0, hours: 0 };
@@ -193,7 +229,9 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
     expect(rows.length).toBeGreaterThanOrEqual(3);
     const o = rows.reduce((s, l) => s + l.cases, 0);
     const tt = rows.reduce((s, l) => s + l.pt, 0);
-    let u = 0, sxx = 0, sx = 0;
+    let u = 0,
+      sxx = 0,
+      sx = 0;
     for (const l of rows) {
       const e = (o * l.pt) / tt; // E_j = O T_j / T (Breslow & Day 1987)
       u += l.score * (l.cases - e);
@@ -201,7 +239,10 @@ describe('a run stores rates, IRRs and intervals that match an independent compu
       sx += l.score * e;
     }
     const chi2 = u ** 2 / (sxx - sx ** 2 / o);
-    const [trend] = (await ds.query(`SELECT chi2, u FROM run_trends WHERE run_id = $1 AND site_id IS NULL AND outcome_id = $2 AND window_kind = 'rolling12' AND period = '2031-02-01'`, [runId, c.outcomes.INJ])) as Array<{ chi2: number; u: number }>;
+    const [trend] = (await ds.query(
+      `SELECT chi2, u FROM run_trends WHERE run_id = $1 AND site_id IS NULL AND outcome_id = $2 AND window_kind = 'rolling12' AND period = '2031-02-01'`,
+      [runId, c.outcomes.INJ],
+    )) as Array<{ chi2: number; u: number }>;
     expect(trend!.chi2).toBeCloseTo(chi2, 8);
     expect(trend!.u).toBeCloseTo(u, 8);
   });

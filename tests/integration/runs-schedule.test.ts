@@ -13,7 +13,14 @@ describe('the nightly schedule', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['NIGHT', 'recurrent']] });
+    const c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['NIGHT', 'recurrent']],
+    });
     const w = await c.worker('n1', 1980, 'M');
     await c.roster([[w, '2031-06-01', c.sites[0]!, c.groups.EXP!, 160]]);
   });
@@ -48,7 +55,11 @@ describe('the nightly schedule', () => {
     expect(['busy', 'already ran']).toContain(skipped.reason);
     // A worker whose handler for the same tick comes after the run has finished finds it done.
     expect(await nightlyRun(ds, config, settings, now)).toMatchObject({ status: 'skipped', reason: 'already ran' });
-    const runs = (await ds.query(`SELECT trigger, reason, state FROM runs WHERE trigger = 'schedule'`)) as Array<{ trigger: string; reason: string; state: string }>;
+    const runs = (await ds.query(`SELECT trigger, reason, state FROM runs WHERE trigger = 'schedule'`)) as Array<{
+      trigger: string;
+      reason: string;
+      state: string;
+    }>;
     expect(runs).toEqual([{ trigger: 'schedule', reason: 'nightly schedule', state: 'succeeded' }]);
   });
 });

@@ -33,7 +33,14 @@ describe('run results: site scoping and small-cell suppression', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['SCO', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['SCO', 'recurrent']],
+    });
     [siteA, siteB] = [c.sites[0]!, c.sites[1]!];
     const rows: Array<[number, string, number, number, number]> = [];
     const people: Record<keyof typeof CASES, number[]> = { aExp: [], aRef: [], bExp: [], bRef: [] };

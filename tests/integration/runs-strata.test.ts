@@ -26,7 +26,14 @@ describe('run strata: the stratum table of the adjusted view', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['STR', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['STR', 'recurrent']],
+    });
     const site = c.sites[0]!;
     const rows: Array<[number, string, number, number, number]> = [];
     const cases: Array<[number, number, string]> = [];
@@ -44,7 +51,9 @@ describe('run strata: the stratum table of the adjusted view', () => {
     await people('r40', 10, 1985, c.groups.REF!, ['2031-12-01'], 160, { '2031-12-01': 7 });
     await c.roster(rows);
     // 6 December cases in the 30–39 band, on other workers than November's two: e304 … e309.
-    const e30 = ((await ds.query(`SELECT id FROM workers WHERE worker_key LIKE $1 ORDER BY worker_key`, [`${c.tag}-e30_`])) as Array<{ id: string }>).map((r) => Number(r.id));
+    const e30 = ((await ds.query(`SELECT id FROM workers WHERE worker_key LIKE $1 ORDER BY worker_key`, [`${c.tag}-e30_`])) as Array<{ id: string }>).map((r) =>
+      Number(r.id),
+    );
     for (const w of e30.slice(4)) cases.push([w, c.outcomes.STR!, '2031-12-20']);
     await c.cases(cases);
     const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
@@ -66,7 +75,9 @@ describe('run strata: the stratum table of the adjusted view', () => {
   });
 
   const strata = async (who: SignedInAgent, query: Record<string, string | number>): Promise<RunStrata> => {
-    const res = await who.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age', ...query });
+    const res = await who.agent
+      .get(`/api/runs/${runId}/strata`)
+      .query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age', ...query });
     expect(res.status).toBe(200);
     return runStrataSchema.parse(res.body);
   };
@@ -124,13 +135,23 @@ describe('run strata: the stratum table of the adjusted view', () => {
   });
 
   it('keeps the scope rules of the results, and refuses site strata of one site', async () => {
-    expect((await as.safety.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age' })).status).toBe(403);
+    expect(
+      (
+        await as.safety.agent
+          .get(`/api/runs/${runId}/strata`)
+          .query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age' })
+      ).status,
+    ).toBe(403);
     const own = await strata(as.safety, { siteId: c.sites[0]! });
     expect(own.siteId).toBe(c.sites[0]);
     expect(own.strata.map((x) => x.label)).toEqual(['30–39', '40–49', 'not recorded']);
-    const bySite = await as.hygienist.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'site', siteId: c.sites[0] });
+    const bySite = await as.hygienist.agent
+      .get(`/api/runs/${runId}/strata`)
+      .query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'site', siteId: c.sites[0] });
     expect(bySite.status).toBe(400);
-    const bad = await as.hygienist.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: 'May', by: 'age' });
+    const bad = await as.hygienist.agent
+      .get(`/api/runs/${runId}/strata`)
+      .query({ outcomeId: c.outcomes.STR, exposureGroupId: c.groups.EXP, window: 'month', period: 'May', by: 'age' });
     expect(bad.status).toBe(422);
   });
 });

@@ -27,7 +27,8 @@ describe('session expiry written back at most once a minute', () => {
     // The session id from the signed cookie "rw.sid=s:<sid>.<signature>" of a rolling session's answer.
     const sid = /rw\.sid=s%3A([^.;]+)\./.exec(String(read.headers['set-cookie']))?.[1];
     expect(sid).toBeTruthy();
-    const expiries = async () => ((await ds.query(`SELECT expire FROM user_sessions WHERE sid = $1`, [sid])) as Array<{ expire: Date }>).map((r) => r.expire.getTime());
+    const expiries = async () =>
+      ((await ds.query(`SELECT expire FROM user_sessions WHERE sid = $1`, [sid])) as Array<{ expire: Date }>).map((r) => r.expire.getTime());
     const first = await expiries();
     expect(first).toHaveLength(1);
     for (let i = 0; i < 2; i++) {
@@ -37,4 +38,3 @@ describe('session expiry written back at most once a minute', () => {
     expect(await expiries()).toEqual(first);
   });
 });
-

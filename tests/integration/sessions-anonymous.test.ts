@@ -35,7 +35,7 @@ describe('sessions of anonymous readers', () => {
     expect(await rowCount()).toBe(before);
   });
 
-  it('keeps a signed-in person\'s session and CSRF token, and still refuses their writes without it', async () => {
+  it("keeps a signed-in person's session and CSRF token, and still refuses their writes without it", async () => {
     const before = await rowCount();
     const { agent, csrf } = await signIn(app, 'admin@demo.ratewarden.test');
     expect(await rowCount()).toBe(before + 1);

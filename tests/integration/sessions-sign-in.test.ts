@@ -25,7 +25,9 @@ describe('the session right after sign-in', () => {
     await provisionUser(ds, 'hygienist@demo.ratewarden.test', 'hygienist');
     await ds.query(`CREATE OR REPLACE FUNCTION test_slow_session_write() RETURNS trigger LANGUAGE plpgsql AS $$
       BEGIN PERFORM pg_sleep(0.05); RETURN NEW; END $$`);
-    await ds.query(`CREATE OR REPLACE TRIGGER test_slow_session_write BEFORE INSERT OR UPDATE ON user_sessions FOR EACH ROW EXECUTE FUNCTION test_slow_session_write()`);
+    await ds.query(
+      `CREATE OR REPLACE TRIGGER test_slow_session_write BEFORE INSERT OR UPDATE ON user_sessions FOR EACH ROW EXECUTE FUNCTION test_slow_session_write()`,
+    );
     const app = createApp({ dataSource: ds, config: testApiConfig() });
     server = await new Promise<Server>((resolve) => {
       const s = app.listen(0, '127.0.0.1', () => resolve(s));

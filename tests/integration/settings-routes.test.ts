@@ -21,16 +21,34 @@ describe('analysis settings', () => {
   let as: Record<'hygienist' | 'safety' | 'physician' | 'admin', SignedInAgent>;
 
   const put = (who: SignedInAgent, body: object) => who.agent.put('/api/settings').set('x-csrf-token', who.csrf).send(body);
-  const ninety: SettingsUpdate = { personTimeBasis: 'person_years', per: 1000, confidence: 0.9, countedStatuses: ['confirmed'], ageBandEdges: [18, 25, 35, 45, 55, 65] };
+  const ninety: SettingsUpdate = {
+    personTimeBasis: 'person_years',
+    per: 1000,
+    confidence: 0.9,
+    countedStatuses: ['confirmed'],
+    ageBandEdges: [18, 25, 35, 45, 55, 65],
+  };
 
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['SET', 'recurrent']] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['EXP', 1],
+      ],
+      reference: 'REF',
+      outcomes: [['SET', 'recurrent']],
+    });
     const site = c.sites[0]!;
     const rows: Array<[number, string, number, number, number]> = [];
     const cases: Array<[number, number, string]> = [];
-    for (const [key, birth, group, n] of [['e31', 2000, c.groups.EXP!, 6], ['e41', 1990, c.groups.EXP!, 0], ['e61', 1970, c.groups.EXP!, 0], ['r31', 2000, c.groups.REF!, 2]] as const) {
+    for (const [key, birth, group, n] of [
+      ['e31', 2000, c.groups.EXP!, 6],
+      ['e41', 1990, c.groups.EXP!, 0],
+      ['e61', 1970, c.groups.EXP!, 0],
+      ['r31', 2000, c.groups.REF!, 2],
+    ] as const) {
       for (let i = 0; i < 10; i++) {
         const w = await c.worker(`${key}${i}`, birth, 'M');
         rows.push([w, '2031-12-01', site, group, 160]);
@@ -82,7 +100,10 @@ describe('analysis settings', () => {
     const requestsBefore = Number(((await ds.query(`SELECT count(*) AS n FROM run_requests WHERE picked_at IS NULL`)) as Array<{ n: string }>)[0]!.n);
     const res = settingsUpdateResultSchema.parse((await put(as.admin, ninety).expect(200)).body);
     expect(res).toMatchObject({ changed: true, runRequested: true, current: { version: before.version + 1, createdBy: expect.any(String), settings: ninety } });
-    const [audit] = (await ds.query(`SELECT action, detail FROM audit_events WHERE target = $1`, [`settings:${res.current.version}`])) as Array<{ action: string; detail: { before: { confidence: number }; after: { confidence: number } } }>;
+    const [audit] = (await ds.query(`SELECT action, detail FROM audit_events WHERE target = $1`, [`settings:${res.current.version}`])) as Array<{
+      action: string;
+      detail: { before: { confidence: number }; after: { confidence: number } };
+    }>;
     expect(audit).toMatchObject({ action: 'settings.change', detail: { before: { confidence: before.settings.confidence }, after: { confidence: 0.9 } } });
     const [requests] = (await ds.query(`SELECT count(*) AS n FROM run_requests WHERE picked_at IS NULL`)) as Array<{ n: string }>;
     expect(Number(requests!.n)).toBe(requestsBefore + 1);
@@ -100,19 +121,35 @@ describe('analysis settings', () => {
     const runId = (run as { runId: string }).runId;
     const detail = runDetailSchema.parse((await as.hygienist.agent.get(`/api/runs/${runId}`).expect(200)).body);
     expect(detail.settings).toMatchObject({ confidence: 0.9, ageBandEdges: ninety.ageBandEdges });
-    const results = ((await as.physician.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.SET, exposureGroupId: c.groups.EXP, window: 'month' }).expect(200)).body as unknown[]).map((r) => runResultSchema.parse(r));
+    const results = (
+      (
+        await as.physician.agent
+          .get(`/api/runs/${runId}/results`)
+          .query({ outcomeId: c.outcomes.SET, exposureGroupId: c.groups.EXP, window: 'month' })
+          .expect(200)
+      ).body as unknown[]
+    ).map((r) => runResultSchema.parse(r));
     const dec = results.find((r) => r.siteId === null && r.period === '2031-12-01')!;
     // 6 cases in 30 × 160 h = 2.4 person-years. Exact (Garwood) 90 % limits on the count are
     // χ²(0.05; 12)/2 = 5.226/2 and χ²(0.95; 14)/2 = 23.685/2 (chi-square table, e.g. NIST/SEMATECH
     // e-Handbook of Statistical Methods, 1.3.6.7.4, values from memory, to 3 decimals).
     expect(dec.cases).toBe(6);
     expect(dec.rate.estimate).toBeCloseTo((6 / 2.4) * 1000, 9);
-    expect(Number(dec.rate.lower) / 1000 * 2.4).toBeCloseTo(5.226 / 2, 2);
-    expect(Number(dec.rate.upper) / 1000 * 2.4).toBeCloseTo(23.685 / 2, 2);
+    expect((Number(dec.rate.lower) / 1000) * 2.4).toBeCloseTo(5.226 / 2, 2);
+    expect((Number(dec.rate.upper) / 1000) * 2.4).toBeCloseTo(23.685 / 2, 2);
     const strata = runStrataSchema.parse(
-      (await as.physician.agent.get(`/api/runs/${runId}/strata`).query({ outcomeId: c.outcomes.SET, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age' }).expect(200)).body,
+      (
+        await as.physician.agent
+          .get(`/api/runs/${runId}/strata`)
+          .query({ outcomeId: c.outcomes.SET, exposureGroupId: c.groups.EXP, window: 'month', period: '2031-12-01', by: 'age' })
+          .expect(200)
+      ).body,
     );
     // Ages 31, 41 and 61 in 2031 fall in 25–34, 35–44 and 55–64.
-    expect(strata.strata.map((s) => [s.key, s.label, s.exposed.cases])).toEqual([['25', '25–34', 6], ['35', '35–44', 0], ['55', '55–64', 0]]);
+    expect(strata.strata.map((s) => [s.key, s.label, s.exposed.cases])).toEqual([
+      ['25', '25–34', 6],
+      ['35', '35–44', 0],
+      ['55', '55–64', 0],
+    ]);
   });
 });

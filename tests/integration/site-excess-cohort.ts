@@ -24,7 +24,14 @@ export interface SiteExcessCohort {
 }
 
 export async function siteExcessCohort(ds: DataSource, year: number): Promise<SiteExcessCohort> {
-  const c = await makeCohort(ds, { groups: [['REF', 0], ['EXP', 1]], reference: 'REF', outcomes: [['SKIN', 'recurrent']] });
+  const c = await makeCohort(ds, {
+    groups: [
+      ['REF', 0],
+      ['EXP', 1],
+    ],
+    reference: 'REF',
+    outcomes: [['SKIN', 'recurrent']],
+  });
   const [one, two] = c.sites as [number, number];
   const rows: Array<[number, string, number, number, number]> = [];
   const add = async (key: string, site: number, group: 'REF' | 'EXP') => {
@@ -43,7 +50,13 @@ export async function siteExcessCohort(ds: DataSource, year: number): Promise<Si
   await c.roster(rows);
   const skin = c.outcomes.SKIN!;
   await c.cases([
-    ...exp.flatMap((w) => [[w, skin, `${year}-11-09`], [w, skin, `${year}-12-09`]] as Array<[number, number, string]>),
+    ...exp.flatMap(
+      (w) =>
+        [
+          [w, skin, `${year}-11-09`],
+          [w, skin, `${year}-12-09`],
+        ] as Array<[number, number, string]>,
+    ),
     ...ref.slice(0, 5).map((w) => [w, skin, `${year}-12-04`] as [number, number, string]),
     ...exp2.slice(0, 5).map((w) => [w, skin, `${year}-12-05`] as [number, number, string]),
     ...ref2.slice(0, 5).map((w) => [w, skin, `${year}-12-06`] as [number, number, string]),

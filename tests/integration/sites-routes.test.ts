@@ -14,7 +14,8 @@ describe('site routes', () => {
   let ds: DataSource;
   let as: Record<'hygienist' | 'admin', SignedInAgent>;
   const tag = randomBytes(3).toString('hex').toUpperCase();
-  const write = (who: SignedInAgent, method: 'post' | 'patch', path: string, body: object = {}) => who.agent[method](path).set('x-csrf-token', who.csrf).send(body);
+  const write = (who: SignedInAgent, method: 'post' | 'patch', path: string, body: object = {}) =>
+    who.agent[method](path).set('x-csrf-token', who.csrf).send(body);
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -42,7 +43,10 @@ describe('site routes', () => {
     const renamed = siteSchema.parse((await write(as.admin, 'patch', `/api/sites/${s.id}`, { name: 'New name' }).expect(200)).body);
     expect(renamed).toMatchObject({ code: `R${tag}`, name: 'New name' });
     await write(as.admin, 'patch', `/api/sites/${s.id}`, { code: 'OTHER' }).expect(422);
-    const audit = (await ds.query(`SELECT action, detail FROM audit_events WHERE target = $1 ORDER BY id`, [`site:${s.id}`])) as Array<{ action: string; detail: { before: { name: string } | null; after: { name: string } } }>;
+    const audit = (await ds.query(`SELECT action, detail FROM audit_events WHERE target = $1 ORDER BY id`, [`site:${s.id}`])) as Array<{
+      action: string;
+      detail: { before: { name: string } | null; after: { name: string } };
+    }>;
     expect(audit.map((a) => a.action)).toEqual(['site.create', 'site.rename']);
     expect(audit[1]!.detail).toMatchObject({ before: { name: 'Old name' }, after: { name: 'New name' } });
   });

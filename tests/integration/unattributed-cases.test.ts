@@ -32,7 +32,10 @@ describe('unattributed cases: the roster check that orphans one, the run that co
   let runId: string;
 
   const upload = (kind: 'roster' | 'cases', body: string, mode: 'check' | 'apply') =>
-    as.hygienist.agent.post(`/api/intakes?kind=${kind}&mode=${mode}`).set('x-csrf-token', as.hygienist.csrf).attach('file', Buffer.from(c.fill(body)), { filename: `${kind}.csv`, contentType: 'text/csv' });
+    as.hygienist.agent
+      .post(`/api/intakes?kind=${kind}&mode=${mode}`)
+      .set('x-csrf-token', as.hygienist.csrf)
+      .attach('file', Buffer.from(c.fill(body)), { filename: `${kind}.csv`, contentType: 'text/csv' });
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -40,7 +43,9 @@ describe('unattributed cases: the roster check that orphans one, the run that co
     await clearCohortData(ds);
     c = await makeCorner(ds);
     OC = `OC${c.tag}`;
-    await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, 'Outcome C (lagged)', 'test', 'recurrent', 1)`, [OC]);
+    await ds.query(`INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months) VALUES ($1, 'Outcome C (lagged)', 'test', 'recurrent', 1)`, [
+      OC,
+    ]);
     const ids = (await ds.query(`SELECT code, id FROM outcomes WHERE code = ANY($1)`, [[c.codes.OA, c.codes.OB, OC]])) as Array<{ code: string; id: number }>;
     const id = (code: string) => ids.find((o) => o.code === code)!.id;
     outcomeIds = { OA: id(c.codes.OA), OB: id(c.codes.OB), OC: id(OC) };
@@ -58,13 +63,17 @@ describe('unattributed cases: the roster check that orphans one, the run that co
     const march = ['{W}1,{S1},{GA},2024-03,160,1980,F', '{W}2,{S1},{GB},2024-03,150,1981,M', '{W}3,{S1},{GB},2024-03,140,1982,F'];
     const april = [...march.map((r) => r.replace('2024-03', '2024-04')), ...[4, 5, 6, 7, 8, 9].map((n) => `{W}${n},{S1},{GA},2024-04,100,1990,M`)];
     await upload('roster', rosterCsv([...march, ...april]), 'apply').expect(201);
-    await upload('cases', casesCsv([
-      `{W}R2,{W}2,{OB},2024-03-10,confirmed`,
-      `{W}R3,{W}3,{OB},2024-03-15,confirmed`,
-      ...[4, 5, 6, 7, 8, 9].map((n) => `{W}N${n},{W}${n},${OC},2024-04-05,confirmed`),
-      `{W}L1,{W}1,${OC},2024-03-20,confirmed`,
-      `{W}A1,{W}1,${OC},2024-04-10,confirmed`,
-    ]), 'apply').expect(201);
+    await upload(
+      'cases',
+      casesCsv([
+        `{W}R2,{W}2,{OB},2024-03-10,confirmed`,
+        `{W}R3,{W}3,{OB},2024-03-15,confirmed`,
+        ...[4, 5, 6, 7, 8, 9].map((n) => `{W}N${n},{W}${n},${OC},2024-04-05,confirmed`),
+        `{W}L1,{W}1,${OC},2024-03-20,confirmed`,
+        `{W}A1,{W}1,${OC},2024-04-10,confirmed`,
+      ]),
+      'apply',
+    ).expect(201);
   });
   afterAll(async () => {
     await provisionUser(ds, 'newcomer@demo.ratewarden.test', null);
@@ -73,7 +82,11 @@ describe('unattributed cases: the roster check that orphans one, the run that co
 
   it('the correction check names the worker it removes and says it orphans one case; the case reference is the physician’s only', async () => {
     // March again without W2; W3's hours changed, W1 moved to GB, W10 added.
-    const res = await upload('roster', rosterCsv(['{W}1,{S1},{GB},2024-03,160,1980,F', '{W}3,{S1},{GB},2024-03,141,1982,F', '{W}10,{S1},{GA},2024-03,80,1995,F']), 'check').expect(201);
+    const res = await upload(
+      'roster',
+      rosterCsv(['{W}1,{S1},{GB},2024-03,160,1980,F', '{W}3,{S1},{GB},2024-03,141,1982,F', '{W}10,{S1},{GA},2024-03,80,1995,F']),
+      'check',
+    ).expect(201);
     const { intake } = intakeUploadResponseSchema.parse(res.body);
     correctionId = intake.id;
     expect(intake.state).toBe('checked');
@@ -81,7 +94,14 @@ describe('unattributed cases: the roster check that orphans one, the run that co
     if (d.kind !== 'roster') throw new Error('a roster diff was expected');
     expect(d.slices).toHaveLength(1);
     expect(d.slices[0]).toMatchObject({
-      siteCode: c.codes.S1, month: '2024-03', stored: true, added: 1, removed: 1, moved: 1, hoursChanged: 1, unchanged: 0,
+      siteCode: c.codes.S1,
+      month: '2024-03',
+      stored: true,
+      added: 1,
+      removed: 1,
+      moved: 1,
+      hoursChanged: 1,
+      unchanged: 0,
       workers: { added: [`${c.codes.W}10`], removed: [`${c.codes.W}2`], moved: [`${c.codes.W}1`], hoursChanged: [`${c.codes.W}3`] },
     });
     // One case orphaned: a count of 1 is small, so the hygienist reads "withheld", and no case reference.
@@ -95,9 +115,25 @@ describe('unattributed cases: the roster check that orphans one, the run that co
 
     const phys = await as.physician.agent.get(`/api/intakes/${intake.id}`).expect(200);
     expect(intakeDetailSchema.parse(phys.body).diff).toMatchObject({
-      orphanedCases: { count: 1, withheld: null, cases: [{ caseRef: `${c.codes.W}R2`, workerKey: `${c.codes.W}2`, outcomeCode: c.codes.OB, onsetDate: '2024-03-10', status: 'confirmed', siteCode: c.codes.S1, month: '2024-03' }] },
+      orphanedCases: {
+        count: 1,
+        withheld: null,
+        cases: [
+          {
+            caseRef: `${c.codes.W}R2`,
+            workerKey: `${c.codes.W}2`,
+            outcomeCode: c.codes.OB,
+            onsetDate: '2024-03-10',
+            status: 'confirmed',
+            siteCode: c.codes.S1,
+            month: '2024-03',
+          },
+        ],
+      },
     });
-    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`intake:${intake.id}`])) as Array<{ n: number }>;
+    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [
+      `intake:${intake.id}`,
+    ])) as Array<{ n: number }>;
     expect(audits[0]!.n).toBe(1);
   });
 
@@ -111,7 +147,9 @@ describe('unattributed cases: the roster check that orphans one, the run that co
     const of = (d: typeof phys, outcome: number) => d.unattributed!.find((u) => u.outcomeId === outcome)!;
     // OB: R2 lost its row (removed by the correction); R3 is attributed.
     expect(of(phys, outcomeIds.OB)).toEqual({
-      outcomeId: outcomeIds.OB, count: 1, withheld: null,
+      outcomeId: outcomeIds.OB,
+      count: 1,
+      withheld: null,
       reasons: [
         { reason: 'no_roster_month', count: 0, withheld: null },
         { reason: 'removed_by_correction', count: 1, withheld: null },
@@ -132,7 +170,9 @@ describe('unattributed cases: the roster check that orphans one, the run that co
       const seen = runDetailSchema.parse(res.body);
       // 1 is small: withheld, with every reason (they would give it back).
       expect(of(seen, outcomeIds.OB)).toEqual({
-        outcomeId: outcomeIds.OB, count: null, withheld: 'small',
+        outcomeId: outcomeIds.OB,
+        count: null,
+        withheld: 'small',
         reasons: ['no_roster_month', 'removed_by_correction', 'lag_outside_data'].map((reason) => ({ reason, count: null, withheld: 'total' })),
       });
       // 7 = 6 + 1: the 1 is small; with 7 shown and 6 withheld as its complement (≥ 5), the 1 would still be at
@@ -152,11 +192,20 @@ describe('unattributed cases: the roster check that orphans one, the run that co
     const list = unattributedListSchema.parse(res.body);
     expect(list.runId).toBe(runId);
     const byRef = new Map(list.cases.map((x) => [x.caseRef, x]));
-    expect(byRef.get(`${c.codes.W}R2`)).toEqual({ caseRef: `${c.codes.W}R2`, workerKey: `${c.codes.W}2`, outcomeId: outcomeIds.OB, onsetDate: '2024-03-10', status: 'confirmed', reason: 'removed_by_correction' });
+    expect(byRef.get(`${c.codes.W}R2`)).toEqual({
+      caseRef: `${c.codes.W}R2`,
+      workerKey: `${c.codes.W}2`,
+      outcomeId: outcomeIds.OB,
+      onsetDate: '2024-03-10',
+      status: 'confirmed',
+      reason: 'removed_by_correction',
+    });
     expect(byRef.get(`${c.codes.W}L1`)).toMatchObject({ reason: 'lag_outside_data', outcomeId: outcomeIds.OC });
     for (const n of [4, 5, 6, 7, 8, 9]) expect(byRef.get(`${c.codes.W}N${n}`)).toMatchObject({ reason: 'no_roster_month', workerKey: `${c.codes.W}${n}` });
     expect(list.cases).toHaveLength(8);
-    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [`run:${runId}:unattributed`])) as Array<{ n: number }>;
+    const audits = (await ds.query(`SELECT count(*)::int AS n FROM audit_events WHERE action = 'cases.read' AND target = $1`, [
+      `run:${runId}:unattributed`,
+    ])) as Array<{ n: number }>;
     expect(audits[0]!.n).toBe(1);
 
     for (const who of [as.hygienist, as.safety]) {

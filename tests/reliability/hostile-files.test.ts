@@ -3,7 +3,15 @@ import type { DataSource } from 'typeorm';
 import { provisionUser } from '../support/sign-in';
 import { openTestDataSource } from '../support/test-db';
 import {
-  abortedPost, health, multipartBody, rawPost, signInToProcess, startApiProcess, type ApiProcess, type ProcessSession, type RawAnswer,
+  abortedPost,
+  health,
+  multipartBody,
+  rawPost,
+  signInToProcess,
+  startApiProcess,
+  type ApiProcess,
+  type ProcessSession,
+  type RawAnswer,
 } from '../integration/intake-api-process';
 import { makeCorner, type Corner } from '../integration/intake-support';
 import { hostileCases, validCases, validRoster, type HostileCase } from './hostile-generators';
@@ -44,9 +52,23 @@ describe('hostile intake files', () => {
   let hyg: ProcessSession;
   const checksums = async () =>
     Object.fromEntries(
-      await Promise.all(STORED.map(async (t) => [t, ((await ds.query(`SELECT md5(coalesce(string_agg(x::text, E'\\n' ORDER BY x::text), '')) AS h, count(*)::int AS n FROM ${t} x`)) as Array<{ h: string; n: number }>)[0]!] as const)),
+      await Promise.all(
+        STORED.map(
+          async (t) =>
+            [
+              t,
+              (
+                (await ds.query(`SELECT md5(coalesce(string_agg(x::text, E'\\n' ORDER BY x::text), '')) AS h, count(*)::int AS n FROM ${t} x`)) as Array<{
+                  h: string;
+                  n: number;
+                }>
+              )[0]!,
+            ] as const,
+        ),
+      ),
     );
-  const stagingTables = async () => ((await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging'`)) as Array<{ n: number }>)[0]!.n;
+  const stagingTables = async () =>
+    ((await ds.query(`SELECT count(*)::int AS n FROM pg_tables WHERE schemaname = 'intake_staging'`)) as Array<{ n: number }>)[0]!.n;
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -82,9 +104,13 @@ describe('hostile intake files', () => {
         outcome = { c: hc, status: 'aborted', answer: null };
       } else {
         try {
-          const answer = d.how === 'file'
-            ? await rawPost(api.baseUrl, path, hyg, 'multipart/form-data; boundary=ratewarden-test-boundary', multipartBody(d.file, `${hc.category}.csv`), { chunked: d.chunked, timeoutMs: REQUEST_TIMEOUT_MS })
-            : await rawPost(api.baseUrl, path, hyg, d.contentType, d.body, { timeoutMs: REQUEST_TIMEOUT_MS, announced: d.announced });
+          const answer =
+            d.how === 'file'
+              ? await rawPost(api.baseUrl, path, hyg, 'multipart/form-data; boundary=ratewarden-test-boundary', multipartBody(d.file, `${hc.category}.csv`), {
+                  chunked: d.chunked,
+                  timeoutMs: REQUEST_TIMEOUT_MS,
+                })
+              : await rawPost(api.baseUrl, path, hyg, d.contentType, d.body, { timeoutMs: REQUEST_TIMEOUT_MS, announced: d.announced });
           outcome = { c: hc, status: answer.status, answer };
         } catch (err) {
           // A hang (past the timeout) or a connection the server dropped without answering.
@@ -119,7 +145,8 @@ describe('hostile intake files', () => {
         }
       } else {
         const intake = (body as { intake?: { state: string; problems: unknown[]; problemCount: number } } | null)?.intake;
-        if (!intake || !['checked', 'applied', 'superseded'].includes(intake.state)) failures.push(`${label}: not a check result ${JSON.stringify(body)?.slice(0, 300)}`);
+        if (!intake || !['checked', 'applied', 'superseded'].includes(intake.state))
+          failures.push(`${label}: not a check result ${JSON.stringify(body)?.slice(0, 300)}`);
       }
     }
     expect(failures).toEqual([]);
@@ -127,10 +154,24 @@ describe('hostile intake files', () => {
     // Still serving, nothing stored changed, no transaction left open.
     expect(await health(api.baseUrl)).toBe(200);
     expect(await checksums()).toEqual(before);
-    await expect.poll(async () => ((await ds.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state LIKE 'idle in transaction%'`)) as Array<{ n: number }>)[0]!.n, { timeout: 10_000 }).toBe(0);
+    await expect
+      .poll(
+        async () =>
+          (
+            (await ds.query(
+              `SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state LIKE 'idle in transaction%'`,
+            )) as Array<{ n: number }>
+          )[0]!.n,
+        { timeout: 10_000 },
+      )
+      .toBe(0);
 
     // Staging tables: those of the intakes checked in this run (a roster has three, a case list one), no more.
-    const mine = (await ds.query(`SELECT kind, state, staging_table FROM intakes WHERE created_at >= $1`, [started])) as Array<{ kind: string; state: string; staging_table: string | null }>;
+    const mine = (await ds.query(`SELECT kind, state, staging_table FROM intakes WHERE created_at >= $1`, [started])) as Array<{
+      kind: string;
+      state: string;
+      staging_table: string | null;
+    }>;
     expect(mine.filter((i) => i.state === 'received')).toEqual([]);
     expect(mine.filter((i) => i.state !== 'checked' && i.staging_table !== null)).toEqual([]);
     const expected = mine.filter((i) => i.state === 'checked').reduce((n, i) => n + (i.kind === 'roster' ? 3 : 1), 0);
@@ -142,7 +183,10 @@ describe('hostile intake files', () => {
     const checked = count((o) => o.status === 201);
     console.log(
       `hostile intake files (seed ${SEED}): ${outcomes.length} sent in ${new Set(cases.map((x) => x.category)).size} categories; ` +
-        [...byStatus].sort().map(([s, n]) => `${s}: ${n}`).join(', ') +
+        [...byStatus]
+          .sort()
+          .map(([s, n]) => `${s}: ${n}`)
+          .join(', ') +
         `; checked clean: ${checked}; 5xx: ${count((o) => typeof o.status === 'number' && o.status >= 500)}; slowest answer ${(slowest.ms / 1000).toFixed(2)} s (${slowest.name})`,
     );
   });

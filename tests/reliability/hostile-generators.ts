@@ -61,7 +61,10 @@ export const CASES_HEADER = 'case_ref,worker_key,outcome,onset_date,status';
 export function validRoster(k: Codes, workers = 12, eol = '\n'): string {
   const rows: string[] = [ROSTER_HEADER];
   for (let m = 1; m <= 3; m++) {
-    for (let w = 1; w <= workers; w++) rows.push(`${k.W}${String(w).padStart(3, '0')},${k.S1},${[k.GA, k.GB, k.GC][w % 3]},2024-0${m},${150 + w}.5,${1960 + w},${'FMX'[w % 3]},"Operator, line ${w}"`);
+    for (let w = 1; w <= workers; w++)
+      rows.push(
+        `${k.W}${String(w).padStart(3, '0')},${k.S1},${[k.GA, k.GB, k.GC][w % 3]},2024-0${m},${150 + w}.5,${1960 + w},${'FMX'[w % 3]},"Operator, line ${w}"`,
+      );
   }
   return rows.join(eol) + eol;
 }
@@ -69,7 +72,10 @@ export function validRoster(k: Codes, workers = 12, eol = '\n'): string {
 /** A valid case list for workers of `validRoster`. */
 export function validCases(k: Codes, n = 6, eol = '\n'): string {
   const rows: string[] = [CASES_HEADER];
-  for (let i = 1; i <= n; i++) rows.push(`H${i}${k.W},${k.W}${String(i).padStart(3, '0')},${i % 2 ? k.OA : k.OB},2024-0${(i % 3) + 1}-1${i % 10},${['confirmed', 'suspected', 'ruled_out'][i % 3]}`);
+  for (let i = 1; i <= n; i++)
+    rows.push(
+      `H${i}${k.W},${k.W}${String(i).padStart(3, '0')},${i % 2 ? k.OA : k.OB},2024-0${(i % 3) + 1}-1${i % 10},${['confirmed', 'suspected', 'ruled_out'][i % 3]}`,
+    );
   return rows.join(eol) + eol;
 }
 
@@ -116,8 +122,13 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
     const text = b.toString();
     const header = text.indexOf('\n');
     const points: Array<[string, number]> = [
-      ['nothing left', 0], ['inside the header', Math.floor(header / 2)], ['before the header line end', header], ['after the header', header + 1],
-      ['inside the first row', header + 7], ['before a line end', text.indexOf('\n', header + 1)], ['one byte short', b.length - 1],
+      ['nothing left', 0],
+      ['inside the header', Math.floor(header / 2)],
+      ['before the header line end', header],
+      ['after the header', header + 1],
+      ['inside the first row', header + 7],
+      ['before a line end', text.indexOf('\n', header + 1)],
+      ['one byte short', b.length - 1],
     ];
     const quote = text.indexOf('"');
     if (quote > 0) points.push(['inside a quoted value', quote + 4]);
@@ -134,16 +145,37 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   const accented = rosterWith(k, 7, 'Soudeur \u00e0 l\u2019arc, \u00e9quipe B');
   add('encoding', 'Latin-1 roster', file('roster', Buffer.from(accented.replace('\u2019', "'"), 'latin1')));
   add('encoding', 'Windows-1252 curly quote', file('roster', Buffer.concat([Buffer.from(rosterWith(k, 7, 'x').slice(0, -2)), Buffer.from([0x92, 0x0a])])));
-  for (const [name, kind] of [['roster', 'roster'], ['case list', 'cases']] as const) {
+  for (const [name, kind] of [
+    ['roster', 'roster'],
+    ['case list', 'cases'],
+  ] as const) {
     const t = kind === 'roster' ? accented : validCases(k, 2);
     add('encoding', `UTF-16LE ${name} with BOM`, file(kind, Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(t, 'utf16le')])));
     add('encoding', `UTF-16LE ${name} without BOM`, file(kind, Buffer.from(t, 'utf16le')));
     add('encoding', `UTF-16BE ${name} with BOM`, file(kind, Buffer.concat([Buffer.from([0xfe, 0xff]), Buffer.from(t, 'utf16le').swap16()])));
-    add('encoding', `UTF-32LE ${name}`, file(kind, Buffer.concat([Buffer.from([0xff, 0xfe, 0, 0]), ...[...t].map((ch) => { const x = Buffer.alloc(4); x.writeUInt32LE(ch.codePointAt(0)!); return x; })])));
+    add(
+      'encoding',
+      `UTF-32LE ${name}`,
+      file(
+        kind,
+        Buffer.concat([
+          Buffer.from([0xff, 0xfe, 0, 0]),
+          ...[...t].map((ch) => {
+            const x = Buffer.alloc(4);
+            x.writeUInt32LE(ch.codePointAt(0)!);
+            return x;
+          }),
+        ]),
+      ),
+    );
   }
   const invalidUtf8: Array<[string, number[]]> = [
-    ['a lone continuation byte', [0x80]], ['an overlong slash', [0xc0, 0xaf]], ['a UTF-16 surrogate', [0xed, 0xa0, 0x80]],
-    ['a code point past U+10FFFF', [0xf4, 0x90, 0x80, 0x80]], ['a cut sequence mid-line', [0xe2, 0x82]], ['byte 0xFF', [0xff]],
+    ['a lone continuation byte', [0x80]],
+    ['an overlong slash', [0xc0, 0xaf]],
+    ['a UTF-16 surrogate', [0xed, 0xa0, 0x80]],
+    ['a code point past U+10FFFF', [0xf4, 0x90, 0x80, 0x80]],
+    ['a cut sequence mid-line', [0xe2, 0x82]],
+    ['byte 0xFF', [0xff]],
   ];
   for (const [name, bytes] of invalidUtf8) {
     for (const kind of ['roster', 'cases'] as const) {
@@ -168,7 +200,13 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   // NUL bytes.
   for (const kind of ['roster', 'cases'] as const) {
     const b = base(kind);
-    for (const [name, at] of [['in the header', 5], ['after the header', b.indexOf(0x0a) + 1], ['inside a row', b.indexOf(0x0a) + 9], ['at the end', b.length], ['inside a later row', b.lastIndexOf(0x0a, b.length - 2) + 3]] as const) {
+    for (const [name, at] of [
+      ['in the header', 5],
+      ['after the header', b.indexOf(0x0a) + 1],
+      ['inside a row', b.indexOf(0x0a) + 9],
+      ['at the end', b.length],
+      ['inside a later row', b.lastIndexOf(0x0a, b.length - 2) + 3],
+    ] as const) {
       add('nul', `${kind} with a NUL byte ${name}`, file(kind, Buffer.concat([b.subarray(0, at), Buffer.from([0]), b.subarray(at)])));
     }
     add('nul', `${kind} of NUL bytes`, file(kind, Buffer.alloc(r.int(10, 3000))));
@@ -201,10 +239,14 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   }
   add('copy escapes', 'case list with \\. inside a quoted value', file('cases', `${CASES_HEADER}\n"H1\n\\.\n",${k.W}001,${k.OA},2024-01-11,confirmed\n`));
   add('copy escapes', 'case list ending in \\. without a line end', file('cases', `${validCases(k, 2)}\\.`));
-  add('copy escapes', 'status \\N and empty', file('cases', `${CASES_HEADER}\nH1${k.W},${k.W}001,${k.OA},2024-01-11,\\N\nH2${k.W},${k.W}002,${k.OA},2024-01-12,\n`));
+  add(
+    'copy escapes',
+    'status \\N and empty',
+    file('cases', `${CASES_HEADER}\nH1${k.W},${k.W}001,${k.OA},2024-01-11,\\N\nH2${k.W},${k.W}002,${k.OA},2024-01-12,\n`),
+  );
 
   // Formula cells.
-  for (const f of ['=cmd|\' /C calc\'!A0', '+1+1', '-2+3', '@SUM(A1:A2)', '=HYPERLINK("http://x.invalid")', '\t=1']) {
+  for (const f of ["=cmd|' /C calc'!A0", '+1+1', '-2+3', '@SUM(A1:A2)', '=HYPERLINK("http://x.invalid")', '\t=1']) {
     add('formula', `roster job title ${JSON.stringify(f)}`, file('roster', rosterWith(k, 7, `"${f.replace(/"/g, '""')}"`)));
     add('formula', `worker key ${JSON.stringify(f)}`, file('roster', rosterWith(k, 0, `"${f.replace(/"/g, '""')}"`)));
   }
@@ -225,18 +267,38 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   }
 
   // Oversize: announced (refused before reading), unannounced (chunked), and just over the limit.
-  add('oversize', 'announced, twice the limit', { how: 'raw', kind: 'roster', contentType: `multipart/form-data; boundary=ratewarden-test-boundary`, body: roster, announced: maxBytes * 2 });
-  add('oversize', 'just over the limit', file('roster', Buffer.concat([Buffer.from(ROSTER_HEADER + '\n'), Buffer.alloc(maxBytes - ROSTER_HEADER.length, '\n')])));
+  add('oversize', 'announced, twice the limit', {
+    how: 'raw',
+    kind: 'roster',
+    contentType: `multipart/form-data; boundary=ratewarden-test-boundary`,
+    body: roster,
+    announced: maxBytes * 2,
+  });
+  add(
+    'oversize',
+    'just over the limit',
+    file('roster', Buffer.concat([Buffer.from(ROSTER_HEADER + '\n'), Buffer.alloc(maxBytes - ROSTER_HEADER.length, '\n')])),
+  );
   add('oversize', 'chunked, over the limit', file('cases', Buffer.concat([cases, Buffer.alloc(maxBytes + 4096, 'b')]), true));
-  add('oversize', 'chunked, over the limit in rows', file('roster', Buffer.concat([roster, Buffer.from(`${k.W}001,${k.S1},${k.GA},2024-01,1,1961,M,x\n`.repeat(Math.ceil(maxBytes / 40)))]), true));
+  add(
+    'oversize',
+    'chunked, over the limit in rows',
+    file('roster', Buffer.concat([roster, Buffer.from(`${k.W}001,${k.S1},${k.GA},2024-01,1,1961,M,x\n`.repeat(Math.ceil(maxBytes / 40)))]), true),
+  );
 
   // Broken multipart bodies and other bodies.
   const B = 'ratewarden-test-boundary';
   const mp = `multipart/form-data; boundary=${B}`;
-  const part = (content: Buffer | string, name = 'upload.csv') => Buffer.concat([Buffer.from(`--${B}\r\nContent-Disposition: form-data; name="file"; filename="${name}"\r\nContent-Type: text/csv\r\n\r\n`), Buffer.from(content), Buffer.from('\r\n')]);
+  const part = (content: Buffer | string, name = 'upload.csv') =>
+    Buffer.concat([
+      Buffer.from(`--${B}\r\nContent-Disposition: form-data; name="file"; filename="${name}"\r\nContent-Type: text/csv\r\n\r\n`),
+      Buffer.from(content),
+      Buffer.from('\r\n'),
+    ]);
   const closeB = Buffer.from(`--${B}--\r\n`);
   const whole = Buffer.concat([part(roster), closeB]);
-  const raw = (name: string, body: Buffer, contentType = mp, query?: string) => add('multipart', name, { how: 'raw', kind: 'roster', contentType, body, query });
+  const raw = (name: string, body: Buffer, contentType = mp, query?: string) =>
+    add('multipart', name, { how: 'raw', kind: 'roster', contentType, body, query });
   raw('no closing boundary', whole.subarray(0, whole.length - closeB.length));
   for (let i = 0; i < 6; i++) raw(`cut at random point ${i}`, whole.subarray(0, r.int(1, whole.length - 1)));
   raw('no boundary parameter', whole, 'multipart/form-data');
@@ -248,7 +310,14 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   raw('two files, the second cut', Buffer.concat([part(validRoster(k, 2), 'a.csv'), part(cases, 'b.csv').subarray(0, 40)]));
   raw('a part without headers', Buffer.from(`--${B}\r\n\r\n${validRoster(k, 1)}\r\n--${B}--\r\n`));
   raw('a part header without its end', Buffer.from(`--${B}\r\nContent-Disposition: form-data; name="file"; filename="x.csv"\r\n`));
-  raw('41 fields', Buffer.concat([...Array.from({ length: 41 }, (_, i) => Buffer.from(`--${B}\r\nContent-Disposition: form-data; name="f${i}"\r\n\r\nv\r\n`)), part(roster), closeB]));
+  raw(
+    '41 fields',
+    Buffer.concat([
+      ...Array.from({ length: 41 }, (_, i) => Buffer.from(`--${B}\r\nContent-Disposition: form-data; name="f${i}"\r\n\r\nv\r\n`)),
+      part(roster),
+      closeB,
+    ]),
+  );
   raw('garbage under a multipart type', r.bytes(3000));
   raw('a file name of 2,000 characters', Buffer.concat([part(validRoster(k, 1), 'n'.repeat(2000)), closeB]));
   raw('a CSV body as text/csv', roster, 'text/csv');
@@ -259,7 +328,13 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   raw('an unknown kind', whole, mp, 'kind=payroll&mode=check');
   raw('an unknown mode', whole, mp, 'kind=roster&mode=maybe');
   for (const sent of [0, 30, 200, 2000]) {
-    add('multipart', `connection dropped after ${sent} of ${whole.length + 50_000} bytes`, { how: 'abort', kind: 'roster', contentType: mp, sent: whole.subarray(0, sent), announced: whole.length + 50_000 });
+    add('multipart', `connection dropped after ${sent} of ${whole.length + 50_000} bytes`, {
+      how: 'abort',
+      kind: 'roster',
+      contentType: mp,
+      sent: whole.subarray(0, sent),
+      announced: whole.length + 50_000,
+    });
   }
 
   // Wrong column counts, duplicate and odd headers.
@@ -276,7 +351,11 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
     const h = lines[0]!;
     const first = h.split(',')[0]!;
     add('headers', `${kind}: a column twice`, file(kind, [`${h},${first}`, ...lines.slice(1).map((l) => (l ? `${l},x` : l))].join('\n')));
-    add('headers', `${kind}: a column twice in other case`, file(kind, [`${h},${first.toUpperCase()}`, ...lines.slice(1).map((l) => (l ? `${l},x` : l))].join('\n')));
+    add(
+      'headers',
+      `${kind}: a column twice in other case`,
+      file(kind, [`${h},${first.toUpperCase()}`, ...lines.slice(1).map((l) => (l ? `${l},x` : l))].join('\n')),
+    );
     add('headers', `${kind}: an unknown column`, file(kind, [`${h},shoe_size`, ...lines.slice(1).map((l) => (l ? `${l},42` : l))].join('\n')));
     add('headers', `${kind}: a required column missing`, file(kind, lines.map((l) => l.split(',').slice(1).join(',')).join('\n')));
     add('headers', `${kind}: an empty column name`, file(kind, [`${h},`, ...lines.slice(1).map((l) => (l ? `${l},` : l))].join('\n')));
@@ -295,15 +374,68 @@ export function hostileCases(seed: number, k: Codes, maxBytes: number): HostileC
   add('empty fields', 'spaces only', file('roster', rosterWith(k, 4, '   ')));
 
   // Far past, far future and zero dates.
-  for (const m of ['0000-01', '0001-01', '1000-06', '1949-12', '1950-01', '2099-12', '2100-01', '2999-01', '9999-12', '2024-00', '2024-13', '-2024-01', '20240-01', '2024-1', '２０２４-01']) {
+  for (const m of [
+    '0000-01',
+    '0001-01',
+    '1000-06',
+    '1949-12',
+    '1950-01',
+    '2099-12',
+    '2100-01',
+    '2999-01',
+    '9999-12',
+    '2024-00',
+    '2024-13',
+    '-2024-01',
+    '20240-01',
+    '2024-1',
+    '２０２４-01',
+  ]) {
     add('dates', `roster month ${m}`, file('roster', rosterWith(k, 3, m)));
   }
-  for (const d of ['0000-01-01', '0000-02-29', '0001-01-01', '1899-12-31', '1900-01-01', '2099-12-31', '2100-01-01', '9999-12-31', '2024-02-30', '2023-02-29', '2024-01-00', '2024-01-32', '2024-1-5', '10000-01-01', '2024-06-15T10:00:00']) {
+  for (const d of [
+    '0000-01-01',
+    '0000-02-29',
+    '0001-01-01',
+    '1899-12-31',
+    '1900-01-01',
+    '2099-12-31',
+    '2100-01-01',
+    '9999-12-31',
+    '2024-02-30',
+    '2023-02-29',
+    '2024-01-00',
+    '2024-01-32',
+    '2024-1-5',
+    '10000-01-01',
+    '2024-06-15T10:00:00',
+  ]) {
     add('dates', `onset ${d}`, file('cases', casesWith(k, 3, d)));
   }
 
   // Negative and enormous numbers.
-  for (const h of ['-1', '-0.01', '-0', '744', '744.01', '745', '1e3', '999999999', '9999999999', '99999999999999999999999999', '1.7976931348623157e308', 'NaN', 'Infinity', '0x10', '1.005', '+5', '"1,5"', '1,5', '1 000', '٣']) {
+  for (const h of [
+    '-1',
+    '-0.01',
+    '-0',
+    '744',
+    '744.01',
+    '745',
+    '1e3',
+    '999999999',
+    '9999999999',
+    '99999999999999999999999999',
+    '1.7976931348623157e308',
+    'NaN',
+    'Infinity',
+    '0x10',
+    '1.005',
+    '+5',
+    '"1,5"',
+    '1,5',
+    '1 000',
+    '٣',
+  ]) {
     add('numbers', `hours ${h}`, file('roster', rosterWith(k, 4, h)));
   }
   for (const y of ['-1980', '0', '1899', '2101', '2147483648', '-2147483649', '99999999999999999999', '1980.5', '1e3', '32768']) {

@@ -45,7 +45,10 @@ describe('kill -9 of the API mid-apply', () => {
       APP_BASE_URL: `${base}/`,
       INTAKE_RATE_LIMIT: '10000',
     });
-    await until('the API to listen', async () => api!.output().includes('listening on') || (api!.process.exitCode !== null && Promise.reject(new Error(`the API exited: ${api!.output()}`))));
+    await until(
+      'the API to listen',
+      async () => api!.output().includes('listening on') || (api!.process.exitCode !== null && Promise.reject(new Error(`the API exited: ${api!.output()}`))),
+    );
     return base;
   }
 
@@ -57,7 +60,11 @@ describe('kill -9 of the API mid-apply', () => {
     return post(base, `/api/intakes?kind=roster&mode=${mode}`, form);
   };
   const backends = async () =>
-    (await ds.query(`SELECT state, wait_event_type, query FROM pg_stat_activity WHERE application_name = $1 AND xact_start IS NOT NULL`, [APP_NAME])) as Array<{ state: string; wait_event_type: string | null; query: string }>;
+    (await ds.query(`SELECT state, wait_event_type, query FROM pg_stat_activity WHERE application_name = $1 AND xact_start IS NOT NULL`, [APP_NAME])) as Array<{
+      state: string;
+      wait_event_type: string | null;
+      query: string;
+    }>;
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -98,9 +105,14 @@ describe('kill -9 of the API mid-apply', () => {
       await holder.startTransaction();
       await holder.query(`LOCK TABLE run_requests IN SHARE MODE`);
       if (point.hold) await holder.query(point.hold);
-      const applying = post(base, `/api/intakes/${intakeId}/apply`).then((r) => r.status, () => 'connection lost');
+      const applying = post(base, `/api/intakes/${intakeId}/apply`).then(
+        (r) => r.status,
+        () => 'connection lost',
+      );
       await until(`the apply to reach ${point.name}`, async () =>
-        (await backends()).some((b) => b.query.includes(point.running.replaceAll('%', '')) && (point.waits ? b.wait_event_type === 'Lock' : b.state === 'active')),
+        (await backends()).some(
+          (b) => b.query.includes(point.running.replaceAll('%', '')) && (point.waits ? b.wait_event_type === 'Lock' : b.state === 'active'),
+        ),
       );
       await killHard(api!.process);
       api = null;
@@ -109,7 +121,11 @@ describe('kill -9 of the API mid-apply', () => {
       await holder.rollbackTransaction();
       await holder.release();
       // The killed API's backend finds its client gone and rolls back; nothing commits without the client's COMMIT.
-      await until('the killed API\'s connections to close', async () => ((await ds.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE application_name = $1`, [APP_NAME])) as Array<{ n: number }>)[0]!.n === 0);
+      await until(
+        "the killed API's connections to close",
+        async () =>
+          ((await ds.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE application_name = $1`, [APP_NAME])) as Array<{ n: number }>)[0]!.n === 0,
+      );
       expect(await tableChecksums(ds, cohortTables), `store after the kill ${point.name}`).toEqual(before);
       asBefore++;
     }
@@ -123,6 +139,8 @@ describe('kill -9 of the API mid-apply', () => {
     expect(after.roster_entries).not.toBe(before.roster_entries);
     expect(await currentRosterSum(ds, c.siteIds[0]!)).toBe(md5(v1.content));
     const rows = v1.content.split('\n').length;
-    console.log(`reliability: kill -9 of the API mid-apply of a ${rows.toLocaleString('en')}-row roster: ${kills} kills (${killPoints.map((p) => p.name).join(', ')}), ${asBefore} left the store exactly as before, 0 in between; the next apply stored all ${rows.toLocaleString('en')} rows`);
+    console.log(
+      `reliability: kill -9 of the API mid-apply of a ${rows.toLocaleString('en')}-row roster: ${kills} kills (${killPoints.map((p) => p.name).join(', ')}), ${asBefore} left the store exactly as before, 0 in between; the next apply stored all ${rows.toLocaleString('en')} rows`,
+    );
   });
 });

@@ -21,7 +21,14 @@ describe('kill -9 of the notice sender between send and record', () => {
   let ds: DataSource;
   let fake: MailFake;
   let child: Child | null = null;
-  const env = () => ({ DATABASE_URL: testDatabaseUrl(), SMTP_PORT: String(fake.port), NOTICE_POLL_MS: '100', RUN_POLL_MS: '600000', NOTICE_RETRY_BASE_MS: '100', NOTICE_SENDING_LEASE_MS: String(LEASE_MS) });
+  const env = () => ({
+    DATABASE_URL: testDatabaseUrl(),
+    SMTP_PORT: String(fake.port),
+    NOTICE_POLL_MS: '100',
+    RUN_POLL_MS: '600000',
+    NOTICE_RETRY_BASE_MS: '100',
+    NOTICE_SENDING_LEASE_MS: String(LEASE_MS),
+  });
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -63,7 +70,9 @@ describe('kill -9 of the notice sender between send and record', () => {
       kills++;
 
       // Each kill left a notice `sending` whose mail is already in the mailbox.
-      const sending = (await ds.query(`SELECT n.message_id, (SELECT count(*)::int FROM dev_mailbox d WHERE d.message_id = n.message_id) AS copies FROM notices n WHERE n.state = 'sending'`)) as Array<{ message_id: string; copies: number }>;
+      const sending = (await ds.query(
+        `SELECT n.message_id, (SELECT count(*)::int FROM dev_mailbox d WHERE d.message_id = n.message_id) AS copies FROM notices n WHERE n.state = 'sending'`,
+      )) as Array<{ message_id: string; copies: number }>;
       expect(sending.length).toBeGreaterThanOrEqual(1);
       expect(sending.every((s) => s.copies === 1)).toBe(true);
     }
@@ -86,6 +95,8 @@ describe('kill -9 of the notice sender between send and record', () => {
     const resent = (await ds.query(`SELECT count(*)::int AS n FROM notices WHERE attempts >= 2`)) as Array<{ n: number }>;
     expect(resent[0]!.n).toBeGreaterThanOrEqual(interrupted[0]!.n);
     expect(fake.received).toBeGreaterThan(total);
-    console.log(`reliability: kill -9 of the notice sender between send and record: ${kills} kills (${ROUNDS} before the server's answer, ${ROUNDS} after it), ${total} notices, ${fake.received} deliveries received, ${fake.kept} kept, each notice once`);
+    console.log(
+      `reliability: kill -9 of the notice sender between send and record: ${kills} kills (${ROUNDS} before the server's answer, ${ROUNDS} after it), ${total} notices, ${fake.received} deliveries received, ${fake.kept} kept, each notice once`,
+    );
   });
 });

@@ -34,9 +34,18 @@ describe('kill -9 of the worker mid-run', () => {
   let worker: Child | null = null;
 
   const startWorker = () =>
-    startChild('worker/src/main.ts', { DATABASE_URL: `${testDatabaseUrl()}?application_name=${APP_NAME}`, RUN_POLL_MS: '100', NOTICE_POLL_MS: '600000', SMTP_PORT: '9' });
+    startChild('worker/src/main.ts', {
+      DATABASE_URL: `${testDatabaseUrl()}?application_name=${APP_NAME}`,
+      RUN_POLL_MS: '100',
+      NOTICE_POLL_MS: '600000',
+      SMTP_PORT: '9',
+    });
   const backends = async () =>
-    (await ds.query(`SELECT state, wait_event_type, query FROM pg_stat_activity WHERE application_name = $1`, [APP_NAME])) as Array<{ state: string; wait_event_type: string | null; query: string }>;
+    (await ds.query(`SELECT state, wait_event_type, query FROM pg_stat_activity WHERE application_name = $1`, [APP_NAME])) as Array<{
+      state: string;
+      wait_event_type: string | null;
+      query: string;
+    }>;
   const served = async (runId: string) => {
     const current = await physician.agent.get('/api/runs/current').expect(200);
     const results = await physician.agent.get(`/api/runs/${runId}/results?outcomeId=${c.outcomes.NOISE}&window=month`).expect(200);
@@ -46,7 +55,18 @@ describe('kill -9 of the worker mid-run', () => {
   beforeAll(async () => {
     ds = await openTestDataSource();
     await clearCohortData(ds);
-    c = await makeCohort(ds, { groups: [['REF', 0], ['LOW', 1], ['HIGH', 2]], reference: 'REF', outcomes: [['NOISE', 'recurrent'], ['SKIN', 'first_event', 3]] });
+    c = await makeCohort(ds, {
+      groups: [
+        ['REF', 0],
+        ['LOW', 1],
+        ['HIGH', 2],
+      ],
+      reference: 'REF',
+      outcomes: [
+        ['NOISE', 'recurrent'],
+        ['SKIN', 'first_event', 3],
+      ],
+    });
     // 1,500 workers over 24 months at both sites: 36,000 roster rows, cases rising with the exposure level.
     const groups = [c.groups.REF!, c.groups.LOW!, c.groups.HIGH!];
     const rows: Array<[number, string, number, number, number]> = [];
@@ -63,9 +83,22 @@ describe('kill -9 of the worker mid-run', () => {
     }
     await c.roster(rows);
     await c.cases(cases);
-    await createRule(ds, { kind: 'client', clientId: 'kill-tests' }, watchRuleInputSchema.parse({
-      name: 'Noise rate above 1 per 1,000 person-years', outcomeId: c.outcomes.NOISE, exposureGroupId: c.groups.HIGH, measure: 'rate', thresholdOn: 'estimate', threshold: 1, minCases: 5, window: 'month', fdrControl: false, recipients: [],
-    }));
+    await createRule(
+      ds,
+      { kind: 'client', clientId: 'kill-tests' },
+      watchRuleInputSchema.parse({
+        name: 'Noise rate above 1 per 1,000 person-years',
+        outcomeId: c.outcomes.NOISE,
+        exposureGroupId: c.groups.HIGH,
+        measure: 'rate',
+        thresholdOn: 'estimate',
+        threshold: 1,
+        minCases: 5,
+        window: 'month',
+        fdrControl: false,
+        recipients: [],
+      }),
+    );
     await provisionUser(ds, 'physician@demo.ratewarden.test', 'physician', await allSiteIds(ds));
     physician = await signIn(createApp({ dataSource: ds, config: testApiConfig() }), 'physician@demo.ratewarden.test');
   });
@@ -103,11 +136,17 @@ describe('kill -9 of the worker mid-run', () => {
       await holder.query(`LOCK TABLE run_requests IN SHARE MODE`);
       await holder.query(point.hold);
       worker = startWorker();
-      const runId = await until(`the run to reach ${point.name}`, async () => {
-        const waiting = (await backends()).some((b) => b.wait_event_type === 'Lock' && b.query.includes(point.running));
-        const rows = (await ds.query(`SELECT id FROM runs WHERE state = 'running' AND worker LIKE '%:' || $1`, [String(worker!.process.pid)])) as Array<{ id: string }>;
-        return waiting && rows[0]?.id;
-      }, 30_000).catch(async (err: Error) => {
+      const runId = await until(
+        `the run to reach ${point.name}`,
+        async () => {
+          const waiting = (await backends()).some((b) => b.wait_event_type === 'Lock' && b.query.includes(point.running));
+          const rows = (await ds.query(`SELECT id FROM runs WHERE state = 'running' AND worker LIKE '%:' || $1`, [String(worker!.process.pid)])) as Array<{
+            id: string;
+          }>;
+          return waiting && rows[0]?.id;
+        },
+        30_000,
+      ).catch(async (err: Error) => {
         throw new Error(`${err.message}; the worker's connections: ${JSON.stringify(await backends())}; its output: ${worker!.output()}`);
       });
       await killHard(worker.process);
@@ -116,7 +155,7 @@ describe('kill -9 of the worker mid-run', () => {
       killedRuns.push(runId);
       await holder.rollbackTransaction();
       await holder.release();
-      await until('the killed worker\'s connections to close', async () => (await backends()).length === 0);
+      await until("the killed worker's connections to close", async () => (await backends()).length === 0);
 
       expect(await currentRunId(ds), `current run after the kill ${point.name}`).toBe(previous);
       expect(await tableChecksums(ds, stable), `store after the kill ${point.name}`).toEqual(before);
@@ -127,15 +166,22 @@ describe('kill -9 of the worker mid-run', () => {
     // A worker left alone runs the requests the killed ones picked up, and the new results go live.
     worker = startWorker();
     const next = await until('the next run to succeed', async () => {
-      const rows = (await ds.query(`SELECT id FROM runs WHERE state = 'succeeded' AND worker LIKE '%:' || $1`, [String(worker!.process.pid)])) as Array<{ id: string }>;
+      const rows = (await ds.query(`SELECT id FROM runs WHERE state = 'succeeded' AND worker LIKE '%:' || $1`, [String(worker!.process.pid)])) as Array<{
+        id: string;
+      }>;
       return rows[0]?.id;
     });
     expect(await currentRunId(ds)).toBe(next);
     expect((await served(next)).current).toBe(next);
     expect((await served(next)).results).toBe(servedBefore.results);
-    const stale = (await ds.query(`SELECT DISTINCT state, error FROM runs WHERE id = ANY($1::uuid[])`, [killedRuns])) as Array<{ state: string; error: string }>;
+    const stale = (await ds.query(`SELECT DISTINCT state, error FROM runs WHERE id = ANY($1::uuid[])`, [killedRuns])) as Array<{
+      state: string;
+      error: string;
+    }>;
     expect(stale).toEqual([{ state: 'failed', error: expect.stringMatching(/interrupted/) }]);
     expect((await ds.query(`SELECT count(*)::int AS n FROM run_requests WHERE picked_at IS NULL`)) as unknown).toEqual([{ n: 0 }]);
-    console.log(`reliability: kill -9 of the worker mid-run: ${kills} kills (${killPoints.map((p) => p.name).join(', ')}), ${survived} left the previous run current and served with its store unchanged; the next run succeeded`);
+    console.log(
+      `reliability: kill -9 of the worker mid-run: ${kills} kills (${killPoints.map((p) => p.name).join(', ')}), ${survived} left the previous run current and served with its store unchanged; the next run succeeded`,
+    );
   });
 });

@@ -42,13 +42,24 @@ describe('an SMTP outage while notices are due', () => {
     expect(notices).toHaveLength(6); // the five recipients and the physician
 
     worker = startChild('worker/src/main.ts', {
-      DATABASE_URL: testDatabaseUrl(), SMTP_PORT: String(fake.port), NOTICE_POLL_MS: '100', RUN_POLL_MS: '600000',
-      NOTICE_RETRY_BASE_MS: String(RETRY.retryBaseMs), NOTICE_RETRY_MAX_MS: String(RETRY.retryMaxMs), NOTICE_SENDING_LEASE_MS: '5000',
+      DATABASE_URL: testDatabaseUrl(),
+      SMTP_PORT: String(fake.port),
+      NOTICE_POLL_MS: '100',
+      RUN_POLL_MS: '600000',
+      NOTICE_RETRY_BASE_MS: String(RETRY.retryBaseMs),
+      NOTICE_RETRY_MAX_MS: String(RETRY.retryMaxMs),
+      NOTICE_SENDING_LEASE_MS: '5000',
     });
 
     // Down: nothing listens. Every notice is tried, fails, and is put back with a growing delay.
     const down = await until('every notice to have failed three times', async () => {
-      const rows = (await ds.query(`SELECT state, attempts, last_error, last_attempt_at, next_attempt_at FROM notices`)) as Array<{ state: string; attempts: number; last_error: string | null; last_attempt_at: Date; next_attempt_at: Date }>;
+      const rows = (await ds.query(`SELECT state, attempts, last_error, last_attempt_at, next_attempt_at FROM notices`)) as Array<{
+        state: string;
+        attempts: number;
+        last_error: string | null;
+        last_attempt_at: Date;
+        next_attempt_at: Date;
+      }>;
       return rows.every((r) => r.state === 'pending' && r.attempts >= 3) && rows;
     });
     for (const n of down) {
@@ -80,6 +91,8 @@ describe('an SMTP outage while notices are due', () => {
     expect(fake.kept).toBe(notices.length);
     // Each lost acknowledgement made the sender try again, and the fake dropped the resend.
     expect(fake.received).toBe(notices.length + LOST_ACKNOWLEDGEMENTS);
-    console.log(`reliability: SMTP outage with ${notices.length} notices due: ${failedWhileDown} failed attempts while down (backoff ${RETRY.retryBaseMs} ms doubling to ${RETRY.retryMaxMs} ms), then ${LOST_ACKNOWLEDGEMENTS} acknowledgements lost; ${fake.received} deliveries received, ${fake.kept} kept, each notice once`);
+    console.log(
+      `reliability: SMTP outage with ${notices.length} notices due: ${failedWhileDown} failed attempts while down (backoff ${RETRY.retryBaseMs} ms doubling to ${RETRY.retryMaxMs} ms), then ${LOST_ACKNOWLEDGEMENTS} acknowledgements lost; ${fake.received} deliveries received, ${fake.kept} kept, each notice once`,
+    );
   });
 });

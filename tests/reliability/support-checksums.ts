@@ -7,7 +7,9 @@ import type { DataSource } from 'typeorm';
 export async function tableChecksums(ds: DataSource, tables: readonly string[]): Promise<Record<string, string>> {
   const sums: Record<string, string> = {};
   for (const table of tables) {
-    const [row] = (await ds.query(`SELECT md5(coalesce(string_agg(t::text, E'\\n' ORDER BY t::text), '')) AS sum, count(*)::int AS n FROM ${table} t`)) as Array<{ sum: string; n: number }>;
+    const [row] = (await ds.query(
+      `SELECT md5(coalesce(string_agg(t::text, E'\\n' ORDER BY t::text), '')) AS sum, count(*)::int AS n FROM ${table} t`,
+    )) as Array<{ sum: string; n: number }>;
     sums[table] = `${row!.n}:${row!.sum}`;
   }
   return sums;

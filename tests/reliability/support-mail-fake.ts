@@ -15,7 +15,10 @@ export class MailFake {
   afterKeep: ((m: ReceivedMessage) => Promise<void> | void) | null = null;
   private smtp: FakeSmtp | null = null;
 
-  constructor(private readonly ds: DataSource, readonly port: number) {}
+  constructor(
+    private readonly ds: DataSource,
+    readonly port: number,
+  ) {}
 
   async start(): Promise<void> {
     this.smtp = await startFakeSmtp({
@@ -35,7 +38,10 @@ export class MailFake {
 
   /** Mailbox rows per Message-ID: every one should be 1. */
   async copiesPerMessageId(): Promise<Map<string, number>> {
-    const rows = (await this.ds.query(`SELECT message_id, count(*)::int AS n FROM dev_mailbox GROUP BY message_id`)) as Array<{ message_id: string; n: number }>;
+    const rows = (await this.ds.query(`SELECT message_id, count(*)::int AS n FROM dev_mailbox GROUP BY message_id`)) as Array<{
+      message_id: string;
+      n: number;
+    }>;
     return new Map(rows.map((r) => [r.message_id, r.n]));
   }
 }

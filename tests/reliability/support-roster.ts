@@ -20,7 +20,7 @@ export function largeRoster(opts: { prefix: string; site: string; groups: [strin
   for (let i = 0; i < last; i++) {
     if (version > 0 && i >= workers - 300 && i < workers) continue;
     const key = `${prefix}${String(i).padStart(6, '0')}`;
-    const group = groups[(i % 2 + (version > 0 && i % 7 === 0 ? 1 : 0)) % 2]!;
+    const group = groups[((i % 2) + (version > 0 && i % 7 === 0 ? 1 : 0)) % 2]!;
     const birth = 1960 + (i % 40);
     const sex = i % 2 ? 'F' : 'M';
     for (let m = 1; m <= 12; m++) {

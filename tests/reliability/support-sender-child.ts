@@ -8,8 +8,14 @@ const [port, leaseMs] = process.argv.slice(2).map(Number) as [number, number];
 const ds = createDataSource(undefined, 2);
 await ds.initialize();
 const settings: SenderSettings = {
-  smtpHost: '127.0.0.1', smtpPort: port, smtpSecure: false, from: 'Ratewarden <notices@ratewarden.invalid>',
-  retryBaseMs: 100, retryMaxMs: 500, maxAttempts: 50, sendingLeaseMs: leaseMs,
+  smtpHost: '127.0.0.1',
+  smtpPort: port,
+  smtpSecure: false,
+  from: 'Ratewarden <notices@ratewarden.invalid>',
+  retryBaseMs: 100,
+  retryMaxMs: 500,
+  maxAttempts: 50,
+  sendingLeaseMs: leaseMs,
 };
 const real = createTransport(settings);
 const dying: NoticeTransport = {

@@ -23,7 +23,9 @@ console.log(`analysis settings: version ${seeded.version}`);
 const task = startSchedule(config, async () => {
   console.log(describeOutcome(await nightlyRun(dataSource, config, settings)));
 });
-console.log(`nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}; requested runs after ${config.RUN_QUIET_SECONDS} s without a new request`);
+console.log(
+  `nightly schedule "${config.RUN_SCHEDULE}" in time zone ${config.RUN_TIMEZONE}; requested runs after ${config.RUN_QUIET_SECONDS} s without a new request`,
+);
 
 const requests = startLoop('run request check', config.RUN_POLL_MS, async () => {
   // A long-lived worker keeps its statistics threads warm between runs; process.exit ends them.

@@ -48,7 +48,13 @@ export function authRouter(ds: DataSource, config: ApiConfig): Router {
         req.session.idToken = signedIn.idToken;
         csrfTokenOf(req);
         const user = await loadUser(ds, signedIn.userId);
-        await recordAudit(ds, { actor: user ?? null, action: 'auth.sign_in', target: `user:${signedIn.userId}`, detail: { firstSignIn: signedIn.created }, ip: req.ip });
+        await recordAudit(ds, {
+          actor: user ?? null,
+          action: 'auth.sign_in',
+          target: `user:${signedIn.userId}`,
+          detail: { firstSignIn: signedIn.created },
+          ip: req.ip,
+        });
         // Stored before the redirect goes out: the browser asks for the session as soon as it lands.
         await save(req);
         res.redirect(returnTo);

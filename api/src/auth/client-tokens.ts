@@ -23,7 +23,12 @@ export async function verifyClientToken(ds: DataSource, config: ApiConfig, token
   try {
     ({ payload } = await jwtVerify(token, keys, { issuer: metadata.issuer, audience: config.OIDC_API_AUDIENCE }));
   } catch (err) {
-    const why = err instanceof errors.JWTExpired ? 'it has expired' : err instanceof errors.JWTClaimValidationFailed ? `its ${err.claim} claim is wrong` : 'its signature or format is invalid';
+    const why =
+      err instanceof errors.JWTExpired
+        ? 'it has expired'
+        : err instanceof errors.JWTClaimValidationFailed
+          ? `its ${err.claim} claim is wrong`
+          : 'its signature or format is invalid';
     throw new AppError('unauthenticated', `the access token was refused: ${why}`);
   }
   const clientId = typeof payload.client_id === 'string' ? payload.client_id : undefined;

@@ -59,10 +59,11 @@ export async function accountForSignIn(
       );
     }
     if (!rows.length) {
-      rows = await em.query(
-        `INSERT INTO users (subject, email, name, last_sign_in_at) VALUES ($1, $2, $3, now()) RETURNING id`,
-        [identity.subject, email, identity.name],
-      );
+      rows = await em.query(`INSERT INTO users (subject, email, name, last_sign_in_at) VALUES ($1, $2, $3, now()) RETURNING id`, [
+        identity.subject,
+        email,
+        identity.name,
+      ]);
       created = true;
     }
     const user = await loadUser(em, rows[0]!.id);

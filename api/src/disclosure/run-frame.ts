@@ -39,14 +39,19 @@ export async function runFrame(ds: DataSource, runId: string, principal: Princip
   );
   if (!run) throw new AppError('not_found', 'no such run');
   if (!run.is_current) throw new AppError('forbidden', "the figures of earlier runs are shown to the physician only; read the current run's");
-  if (!run.disclosure_frame) throw new AppError('conflict', 'the figures of this run are shown to the physician only until the next run, which publishes them with the counts protected');
+  if (!run.disclosure_frame)
+    throw new AppError(
+      'conflict',
+      'the figures of this run are shown to the physician only until the next run, which publishes them with the counts protected',
+    );
   // The checks above are per request; the frame itself is the run's and never changes.
   return frames.get(`${runId}|${outcomeId ?? ''}`, async () => {
-    const rows: Array<{ site_id: number | null; outcome_id: number; exposure_group_id: number; window_kind: string; period: string | null; reason: Withheld }> = await ds.query(
-      `SELECT site_id, outcome_id, exposure_group_id, window_kind, to_char(period, 'YYYY-MM-DD') AS period, reason
+    const rows: Array<{ site_id: number | null; outcome_id: number; exposure_group_id: number; window_kind: string; period: string | null; reason: Withheld }> =
+      await ds.query(
+        `SELECT site_id, outcome_id, exposure_group_id, window_kind, to_char(period, 'YYYY-MM-DD') AS period, reason
        FROM run_withheld WHERE run_id = $1 AND ($2::int IS NULL OR outcome_id = $2)`,
-      [runId, outcomeId ?? null],
-    );
+        [runId, outcomeId ?? null],
+      );
     return new Map(rows.map((r) => [frameKey(r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period), r.reason]));
   });
 }
@@ -54,7 +59,14 @@ export async function runFrame(ds: DataSource, runId: string, principal: Princip
 const frames = new RunMemo<RunFrame>(32);
 
 /** Why a reader may not see a count (null: shown). */
-export function withheldIn(frame: RunFrame | null, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string | null): Withheld | null {
+export function withheldIn(
+  frame: RunFrame | null,
+  siteId: number | null,
+  outcomeId: number,
+  groupId: number,
+  window: string,
+  period: string | null,
+): Withheld | null {
   return frame?.get(frameKey(siteId, outcomeId, groupId, window, period)) ?? null;
 }
 
@@ -62,7 +74,16 @@ export function withheldIn(frame: RunFrame | null, siteId: number | null, outcom
  * Why a reader may not see a count of `cases`: as the frame says, and a small count in any case
  * (null frame: the physician, who sees every count).
  */
-export function withheldCount(frame: RunFrame | null, cases: number, threshold: number, siteId: number | null, outcomeId: number, groupId: number, window: string, period: string): Withheld | null {
+export function withheldCount(
+  frame: RunFrame | null,
+  cases: number,
+  threshold: number,
+  siteId: number | null,
+  outcomeId: number,
+  groupId: number,
+  window: string,
+  period: string,
+): Withheld | null {
   if (frame === null) return null;
   return withheldIn(frame, siteId, outcomeId, groupId, window, period) ?? (isSmallCount(cases, threshold) ? 'small' : null);
 }

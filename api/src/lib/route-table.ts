@@ -26,7 +26,8 @@ export function listRoutes(app: Express): RouteEntry[] {
       const raw = Array.isArray(layer.rawPath) ? layer.rawPath : [layer.rawPath ?? ''];
       if (layer.route) {
         const permission = layer.route.stack.map((l) => l.handle.permission).find(Boolean) ?? guard;
-        for (const method of Object.keys(layer.route.methods)) out.push({ method: method.toUpperCase(), path: (prefix + layer.route.path).replace(/(.)\/$/, '$1'), permission: permission ?? null });
+        for (const method of Object.keys(layer.route.methods))
+          out.push({ method: method.toUpperCase(), path: (prefix + layer.route.path).replace(/(.)\/$/, '$1'), permission: permission ?? null });
       } else if (layer.handle.stack) {
         for (const p of raw) walk(layer.handle.stack, prefix + (p === '/' ? '' : p), guard);
       } else if (layer.handle.permission && raw.every((p) => p === '/' || p === '')) {

@@ -27,7 +27,9 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
     status = 422;
     problem = {
       code: 'validation_failed',
-      message: unknown.length ? `the request is not valid: unknown field${unknown.length > 1 ? 's' : ''} ${unknown.map((k) => `"${k}"`).join(', ')}` : 'the request is not valid',
+      message: unknown.length
+        ? `the request is not valid: unknown field${unknown.length > 1 ? 's' : ''} ${unknown.map((k) => `"${k}"`).join(', ')}`
+        : 'the request is not valid',
       details,
     };
   } else if (isPgError(err) && err.code.startsWith('22')) {
@@ -42,9 +44,10 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
   } else if (isHttpError(err)) {
     // body-parser and friends throw errors carrying a status; keep the status, word the message ourselves.
     status = err.status;
-    problem = err.status === 413
-      ? { code: 'payload_too_large', message: 'the request body is too large' }
-      : { code: 'bad_request', message: 'the request could not be read' };
+    problem =
+      err.status === 413
+        ? { code: 'payload_too_large', message: 'the request body is too large' }
+        : { code: 'bad_request', message: 'the request could not be read' };
   } else {
     status = 500;
     problem = { code: 'internal_error', message: 'something went wrong on the server; the error has been logged' };

@@ -8,10 +8,7 @@ export function healthRouter(ds: DataSource): Router {
   router.get('/', async (_req, res) => {
     let db: Health['db'] = 'down';
     try {
-      await Promise.race([
-        ds.query('SELECT 1'),
-        new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 3_000).unref()),
-      ]);
+      await Promise.race([ds.query('SELECT 1'), new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 3_000).unref())]);
       db = 'ok';
     } catch {
       db = 'down';

@@ -22,10 +22,6 @@ export const AnalysisSettingsEntity = new EntitySchema<AnalysisSettingsRow>({
     createdByLabel: { name: 'created_by_label', type: 'text' },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'analysis_settings_version_check', expression: '(version > 0)' },
-  ],
-  foreignKeys: [
-    { name: 'analysis_settings_created_by_fkey', target: 'User', columnNames: ['created_by'], referencedColumnNames: ['id'] },
-  ],
+  checks: [{ name: 'analysis_settings_version_check', expression: '(version > 0)' }],
+  foreignKeys: [{ name: 'analysis_settings_created_by_fkey', target: 'User', columnNames: ['created_by'], referencedColumnNames: ['id'] }],
 });

@@ -30,7 +30,5 @@ export const AuditEventEntity = new EntitySchema<AuditEvent>({
     { name: 'audit_events_action', columns: ['action', 'at'] },
     { name: 'audit_events_at', columns: ['at'] },
   ],
-  foreignKeys: [
-    { name: 'audit_events_actor_id_fkey', target: 'User', columnNames: ['actor_id'], referencedColumnNames: ['id'] },
-  ],
+  foreignKeys: [{ name: 'audit_events_actor_id_fkey', target: 'User', columnNames: ['actor_id'], referencedColumnNames: ['id'] }],
 });

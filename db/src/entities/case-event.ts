@@ -39,7 +39,7 @@ export const CaseEventEntity = new EntitySchema<CaseEvent>({
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
     { name: 'case_events_review_superseded', expression: '((superseded_by_review IS NULL) OR (superseded_by IS NOT NULL))' },
-    { name: 'case_events_status_check', expression: '(status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
+    { name: 'case_events_status_check', expression: "(status = ANY (ARRAY['suspected'::text, 'confirmed'::text, 'ruled_out'::text]))" },
   ],
   indices: [
     { name: 'case_events_current', columns: ['caseRef'], unique: true, where: '(superseded_by IS NULL)' },

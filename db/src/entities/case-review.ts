@@ -28,15 +28,11 @@ export const CaseReviewEntity = new EntitySchema<CaseReview>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'case_reviews_decision_check', expression: '(decision = ANY (ARRAY[\'confirm\'::text, \'rule_out\'::text, \'reopen\'::text]))' },
-    { name: 'case_reviews_from_status_check', expression: '(from_status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
+    { name: 'case_reviews_decision_check', expression: "(decision = ANY (ARRAY['confirm'::text, 'rule_out'::text, 'reopen'::text]))" },
+    { name: 'case_reviews_from_status_check', expression: "(from_status = ANY (ARRAY['suspected'::text, 'confirmed'::text, 'ruled_out'::text]))" },
     { name: 'case_reviews_reason_check', expression: '(length(btrim(reason)) > 0)' },
-    { name: 'case_reviews_to_status_check', expression: '(to_status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
+    { name: 'case_reviews_to_status_check', expression: "(to_status = ANY (ARRAY['suspected'::text, 'confirmed'::text, 'ruled_out'::text]))" },
   ],
-  indices: [
-    { name: 'case_reviews_case', columns: ['caseRef', 'decidedAt'] },
-  ],
-  foreignKeys: [
-    { name: 'case_reviews_decided_by_fkey', target: 'User', columnNames: ['decided_by'], referencedColumnNames: ['id'] },
-  ],
+  indices: [{ name: 'case_reviews_case', columns: ['caseRef', 'decidedAt'] }],
+  foreignKeys: [{ name: 'case_reviews_decided_by_fkey', target: 'User', columnNames: ['decided_by'], referencedColumnNames: ['id'] }],
 });

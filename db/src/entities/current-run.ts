@@ -16,10 +16,6 @@ export const CurrentRunEntity = new EntitySchema<CurrentRun>({
     switchedAt: { name: 'switched_at', type: 'timestamptz', default: () => 'now()' },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'current_run_singleton_check', expression: 'singleton' },
-  ],
-  foreignKeys: [
-    { name: 'current_run_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'] },
-  ],
+  checks: [{ name: 'current_run_singleton_check', expression: 'singleton' }],
+  foreignKeys: [{ name: 'current_run_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'] }],
 });

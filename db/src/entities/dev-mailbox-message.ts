@@ -26,7 +26,5 @@ export const DevMailboxMessageEntity = new EntitySchema<DevMailboxMessage>({
     raw: { type: 'text' },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  indices: [
-    { name: 'dev_mailbox_message_once', columns: ['messageId', 'rcptTo'], unique: true, where: '(message_id IS NOT NULL)' },
-  ],
+  indices: [{ name: 'dev_mailbox_message_once', columns: ['messageId', 'rcptTo'], unique: true, where: '(message_id IS NOT NULL)' }],
 });

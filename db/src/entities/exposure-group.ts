@@ -29,10 +29,8 @@ export const ExposureGroupEntity = new EntitySchema<ExposureGroup>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'exposure_groups_code_check', expression: '(code ~ \'^[A-Za-z0-9_-]{1,32}$\'::text)' },
+    { name: 'exposure_groups_code_check', expression: "(code ~ '^[A-Za-z0-9_-]{1,32}$'::text)" },
     { name: 'exposure_groups_exposure_level_check', expression: '(exposure_level >= 0)' },
   ],
-  indices: [
-    { name: 'exposure_groups_one_reference', columns: [], unique: true, where: 'is_reference', synchronize: false },
-  ],
+  indices: [{ name: 'exposure_groups_one_reference', columns: [], unique: true, where: 'is_reference', synchronize: false }],
 });

@@ -26,11 +26,13 @@ export const FlagEventEntity = new EntitySchema<FlagEventRow>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'flag_events_kind_check', expression: '(kind = ANY (ARRAY[\'raised\'::text, \'updated\'::text, \'escalated\'::text, \'eased\'::text, \'cleared\'::text, \'crossed_again\'::text, \'review_started\'::text, \'closed\'::text]))' },
+    {
+      name: 'flag_events_kind_check',
+      expression:
+        "(kind = ANY (ARRAY['raised'::text, 'updated'::text, 'escalated'::text, 'eased'::text, 'cleared'::text, 'crossed_again'::text, 'review_started'::text, 'closed'::text]))",
+    },
   ],
-  indices: [
-    { name: 'flag_events_flag', columns: ['flagId', 'at'] },
-  ],
+  indices: [{ name: 'flag_events_flag', columns: ['flagId', 'at'] }],
   foreignKeys: [
     { name: 'flag_events_actor_id_fkey', target: 'User', columnNames: ['actor_id'], referencedColumnNames: ['id'] },
     { name: 'flag_events_flag_id_fkey', target: 'Flag', columnNames: ['flag_id'], referencedColumnNames: ['id'] },

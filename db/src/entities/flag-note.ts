@@ -20,12 +20,8 @@ export const FlagNoteEntity = new EntitySchema<FlagNote>({
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'flag_notes_text_check', expression: '(length(btrim(text)) > 0)' },
-  ],
-  indices: [
-    { name: 'flag_notes_flag', columns: ['flagId', 'createdAt'] },
-  ],
+  checks: [{ name: 'flag_notes_text_check', expression: '(length(btrim(text)) > 0)' }],
+  indices: [{ name: 'flag_notes_flag', columns: ['flagId', 'createdAt'] }],
   foreignKeys: [
     { name: 'flag_notes_author_id_fkey', target: 'User', columnNames: ['author_id'], referencedColumnNames: ['id'] },
     { name: 'flag_notes_flag_id_fkey', target: 'Flag', columnNames: ['flag_id'], referencedColumnNames: ['id'] },

@@ -54,12 +54,12 @@ export const FlagEntity = new EntitySchema<FlagRow>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'flags_check', expression: '((state = \'closed\'::text) = (close_reason IS NOT NULL))' },
-    { name: 'flags_close_reason_check', expression: '(close_reason = ANY (ARRAY[\'explained\'::text, \'action_taken\'::text, \'not_substantiated\'::text]))' },
-    { name: 'flags_state_check', expression: '(state = ANY (ARRAY[\'raised\'::text, \'in_review\'::text, \'closed\'::text]))' },
+    { name: 'flags_check', expression: "((state = 'closed'::text) = (close_reason IS NOT NULL))" },
+    { name: 'flags_close_reason_check', expression: "(close_reason = ANY (ARRAY['explained'::text, 'action_taken'::text, 'not_substantiated'::text]))" },
+    { name: 'flags_state_check', expression: "(state = ANY (ARRAY['raised'::text, 'in_review'::text, 'closed'::text]))" },
   ],
   indices: [
-    { name: 'flags_one_open', columns: ['ruleId', 'exposureGroupId', 'outcomeId'], unique: true, where: '(state <> \'closed\'::text)', synchronize: false },
+    { name: 'flags_one_open', columns: ['ruleId', 'exposureGroupId', 'outcomeId'], unique: true, where: "(state <> 'closed'::text)", synchronize: false },
     { name: 'flags_site', columns: ['siteId'], where: '(site_id IS NOT NULL)' },
     { name: 'flags_state', columns: ['state', 'raisedAt'] },
   ],

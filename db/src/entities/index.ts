@@ -30,9 +30,39 @@ import { ReferenceRateTableEntity } from './reference-rate-table';
 import { ReferenceRateEntity } from './reference-rate';
 import { AnalysisSettingsEntity } from './analysis-settings';
 
-export const entities = [SiteEntity, ExposureGroupEntity, OutcomeEntity, UserEntity, UserSiteEntity, AuditEventEntity,
-  IntakeEntity, WorkerEntity, RosterEntryEntity, RosterSliceEntity, CaseEventEntity, IntegrationClientEntity,
-  RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity, RunUnattributedEntity, RunRequestEntity, AudiogramEntity, CaseReviewEntity, FlagNoteEntity, IntakeCaseConflictEntity, ReferenceRateTableEntity, ReferenceRateEntity, AnalysisSettingsEntity];
+export const entities = [
+  SiteEntity,
+  ExposureGroupEntity,
+  OutcomeEntity,
+  UserEntity,
+  UserSiteEntity,
+  AuditEventEntity,
+  IntakeEntity,
+  WorkerEntity,
+  RosterEntryEntity,
+  RosterSliceEntity,
+  CaseEventEntity,
+  IntegrationClientEntity,
+  RunEntity,
+  CurrentRunEntity,
+  RunCellsEntity,
+  WatchRuleEntity,
+  FlagEntity,
+  FlagEventEntity,
+  NoticeEntity,
+  DevMailboxMessageEntity,
+  PeriodClosureEntity,
+  RunPeriodEntity,
+  RunUnattributedEntity,
+  RunRequestEntity,
+  AudiogramEntity,
+  CaseReviewEntity,
+  FlagNoteEntity,
+  IntakeCaseConflictEntity,
+  ReferenceRateTableEntity,
+  ReferenceRateEntity,
+  AnalysisSettingsEntity,
+];
 
 export type { AuditEvent } from './audit-event';
 export type { CaseEvent } from './case-event';
@@ -46,7 +76,20 @@ export type { Outcome } from './outcome';
 export type { Site } from './site';
 export type { User } from './user';
 export type { UserSite } from './user-site';
-export { AuditEventEntity, CaseEventEntity, IntakeEntity, IntegrationClientEntity, RosterEntryEntity, RosterSliceEntity, WorkerEntity, ExposureGroupEntity, OutcomeEntity, SiteEntity, UserEntity, UserSiteEntity };
+export {
+  AuditEventEntity,
+  CaseEventEntity,
+  IntakeEntity,
+  IntegrationClientEntity,
+  RosterEntryEntity,
+  RosterSliceEntity,
+  WorkerEntity,
+  ExposureGroupEntity,
+  OutcomeEntity,
+  SiteEntity,
+  UserEntity,
+  UserSiteEntity,
+};
 export type { Run } from './run';
 export type { CurrentRun } from './current-run';
 export type { RunCells } from './run-cells';
@@ -59,7 +102,18 @@ export type { PeriodClosure } from './period-closure';
 export type { RunPeriod } from './run-period';
 export type { RunRequest } from './run-request';
 export { RunRequestEntity };
-export { RunEntity, CurrentRunEntity, RunCellsEntity, WatchRuleEntity, FlagEntity, FlagEventEntity, NoticeEntity, DevMailboxMessageEntity, PeriodClosureEntity, RunPeriodEntity };
+export {
+  RunEntity,
+  CurrentRunEntity,
+  RunCellsEntity,
+  WatchRuleEntity,
+  FlagEntity,
+  FlagEventEntity,
+  NoticeEntity,
+  DevMailboxMessageEntity,
+  PeriodClosureEntity,
+  RunPeriodEntity,
+};
 export type { RunUnattributed } from './run-unattributed';
 export { RunUnattributedEntity };
 export type { Audiogram } from './audiogram';

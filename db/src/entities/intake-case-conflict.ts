@@ -29,9 +29,12 @@ export const IntakeCaseConflictEntity = new EntitySchema<IntakeCaseConflict>({
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
     { name: 'intake_case_conflicts_check', expression: '((resolution IS NULL) = (resolved_at IS NULL))' },
-    { name: 'intake_case_conflicts_decided_status_check', expression: '(decided_status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
-    { name: 'intake_case_conflicts_list_status_check', expression: '(list_status = ANY (ARRAY[\'suspected\'::text, \'confirmed\'::text, \'ruled_out\'::text]))' },
-    { name: 'intake_case_conflicts_resolution_check', expression: '(resolution = ANY (ARRAY[\'keep\'::text, \'accept\'::text]))' },
+    {
+      name: 'intake_case_conflicts_decided_status_check',
+      expression: "(decided_status = ANY (ARRAY['suspected'::text, 'confirmed'::text, 'ruled_out'::text]))",
+    },
+    { name: 'intake_case_conflicts_list_status_check', expression: "(list_status = ANY (ARRAY['suspected'::text, 'confirmed'::text, 'ruled_out'::text]))" },
+    { name: 'intake_case_conflicts_resolution_check', expression: "(resolution = ANY (ARRAY['keep'::text, 'accept'::text]))" },
   ],
   foreignKeys: [
     { name: 'intake_case_conflicts_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },

@@ -68,20 +68,21 @@ export const IntakeEntity = new EntitySchema<Intake>({
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
     { name: 'intakes_check', expression: '((submitted_by IS NOT NULL) OR (submitted_by_client IS NOT NULL))' },
-    { name: 'intakes_checksum_check', expression: '(checksum ~ \'^[0-9a-f]{64}$\'::text)' },
-    { name: 'intakes_delimiter_check', expression: '(delimiter = ANY (ARRAY[\',\'::text, \';\'::text]))' },
-    { name: 'intakes_kind_check', expression: '(kind = ANY (ARRAY[\'roster\'::text, \'cases\'::text]))' },
+    { name: 'intakes_checksum_check', expression: "(checksum ~ '^[0-9a-f]{64}$'::text)" },
+    { name: 'intakes_delimiter_check', expression: "(delimiter = ANY (ARRAY[','::text, ';'::text]))" },
+    { name: 'intakes_kind_check', expression: "(kind = ANY (ARRAY['roster'::text, 'cases'::text]))" },
     { name: 'intakes_reports_through_check', expression: '(EXTRACT(day FROM reports_through) = (1)::numeric)' },
     { name: 'intakes_size_bytes_check', expression: '(size_bytes >= 0)' },
-    { name: 'intakes_staging_table_check', expression: '(staging_table ~ \'^s_[0-9a-f]{32}$\'::text)' },
-    { name: 'intakes_state_check', expression: '(state = ANY (ARRAY[\'received\'::text, \'checked\'::text, \'applied\'::text, \'rejected\'::text, \'superseded\'::text]))' },
+    { name: 'intakes_staging_table_check', expression: "(staging_table ~ '^s_[0-9a-f]{32}$'::text)" },
+    {
+      name: 'intakes_state_check',
+      expression: "(state = ANY (ARRAY['received'::text, 'checked'::text, 'applied'::text, 'rejected'::text, 'superseded'::text]))",
+    },
   ],
   indices: [
     { name: 'intakes_checksum', columns: ['kind', 'checksum'] },
     { name: 'intakes_created', columns: ['createdAt'] },
     { name: 'intakes_state', columns: ['state', 'createdAt'] },
   ],
-  foreignKeys: [
-    { name: 'intakes_submitted_by_fkey', target: 'User', columnNames: ['submitted_by'], referencedColumnNames: ['id'] },
-  ],
+  foreignKeys: [{ name: 'intakes_submitted_by_fkey', target: 'User', columnNames: ['submitted_by'], referencedColumnNames: ['id'] }],
 });

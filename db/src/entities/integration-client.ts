@@ -22,9 +22,7 @@ export const IntegrationClientEntity = new EntitySchema<IntegrationClient>({
     revokedAt: { name: 'revoked_at', type: 'timestamptz', nullable: true },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'integration_clients_client_id_check', expression: '((length(client_id) >= 3) AND (length(client_id) <= 128))' },
-  ],
+  checks: [{ name: 'integration_clients_client_id_check', expression: '((length(client_id) >= 3) AND (length(client_id) <= 128))' }],
   foreignKeys: [
     { name: 'integration_clients_registered_by_fkey', target: 'User', columnNames: ['registered_by'], referencedColumnNames: ['id'] },
     { name: 'integration_clients_revoked_by_fkey', target: 'User', columnNames: ['revoked_by'], referencedColumnNames: ['id'] },

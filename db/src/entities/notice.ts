@@ -60,16 +60,17 @@ export const NoticeEntity = new EntitySchema<NoticeRow>({
     readAt: { name: 'read_at', type: 'timestamptz', nullable: true },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  uniques: [
-    { name: 'notices_flag_event_id_recipient_key', columns: ['flagEventId', 'recipient'] },
-  ],
+  uniques: [{ name: 'notices_flag_event_id_recipient_key', columns: ['flagEventId', 'recipient'] }],
   checks: [
-    { name: 'notices_completeness_check', expression: '(completeness = ANY (ARRAY[\'complete\'::text, \'partial\'::text]))' },
-    { name: 'notices_kind_check', expression: '(kind = ANY (ARRAY[\'raised\'::text, \'escalated\'::text, \'eased\'::text, \'cleared\'::text, \'crossed_again\'::text]))' },
-    { name: 'notices_state_check', expression: '(state = ANY (ARRAY[\'pending\'::text, \'sending\'::text, \'sent\'::text, \'failed\'::text]))' },
+    { name: 'notices_completeness_check', expression: "(completeness = ANY (ARRAY['complete'::text, 'partial'::text]))" },
+    {
+      name: 'notices_kind_check',
+      expression: "(kind = ANY (ARRAY['raised'::text, 'escalated'::text, 'eased'::text, 'cleared'::text, 'crossed_again'::text]))",
+    },
+    { name: 'notices_state_check', expression: "(state = ANY (ARRAY['pending'::text, 'sending'::text, 'sent'::text, 'failed'::text]))" },
   ],
   indices: [
-    { name: 'notices_due', columns: ['nextAttemptAt'], where: '(state = ANY (ARRAY[\'pending\'::text, \'sending\'::text]))' },
+    { name: 'notices_due', columns: ['nextAttemptAt'], where: "(state = ANY (ARRAY['pending'::text, 'sending'::text]))" },
     { name: 'notices_recipient', columns: ['createdAt'], synchronize: false },
   ],
   foreignKeys: [

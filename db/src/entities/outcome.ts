@@ -30,11 +30,9 @@ export const OutcomeEntity = new EntitySchema<Outcome>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'outcomes_code_check', expression: '(code ~ \'^[A-Za-z0-9_-]{1,32}$\'::text)' },
-    { name: 'outcomes_counting_rule_check', expression: '(counting_rule = ANY (ARRAY[\'recurrent\'::text, \'first_event\'::text]))' },
+    { name: 'outcomes_code_check', expression: "(code ~ '^[A-Za-z0-9_-]{1,32}$'::text)" },
+    { name: 'outcomes_counting_rule_check', expression: "(counting_rule = ANY (ARRAY['recurrent'::text, 'first_event'::text]))" },
     { name: 'outcomes_lag_months_check', expression: '((lag_months >= 0) AND (lag_months <= 240))' },
   ],
-  foreignKeys: [
-    { name: 'outcomes_reference_group_id_fkey', target: 'ExposureGroup', columnNames: ['reference_group_id'], referencedColumnNames: ['id'] },
-  ],
+  foreignKeys: [{ name: 'outcomes_reference_group_id_fkey', target: 'ExposureGroup', columnNames: ['reference_group_id'], referencedColumnNames: ['id'] }],
 });

@@ -25,13 +25,11 @@ export const PeriodClosureEntity = new EntitySchema<PeriodClosure>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'period_closures_action_check', expression: '(action = ANY (ARRAY[\'close\'::text, \'reopen\'::text]))' },
+    { name: 'period_closures_action_check', expression: "(action = ANY (ARRAY['close'::text, 'reopen'::text]))" },
     { name: 'period_closures_month_check', expression: '(EXTRACT(day FROM month) = (1)::numeric)' },
     { name: 'period_closures_reason_check', expression: '(char_length(reason) <= 500)' },
   ],
-  indices: [
-    { name: 'period_closures_latest', columns: ['siteId', 'month', 'id'] },
-  ],
+  indices: [{ name: 'period_closures_latest', columns: ['siteId', 'month', 'id'] }],
   foreignKeys: [
     { name: 'period_closures_person_id_fkey', target: 'User', columnNames: ['person_id'], referencedColumnNames: ['id'] },
     { name: 'period_closures_site_id_fkey', target: 'Site', columnNames: ['site_id'], referencedColumnNames: ['id'] },

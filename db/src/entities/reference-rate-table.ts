@@ -34,13 +34,9 @@ export const ReferenceRateTableEntity = new EntitySchema<ReferenceRateTable>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'reference_rate_tables_checksum_check', expression: '(checksum ~ \'^[0-9a-f]{64}$\'::text)' },
-    { name: 'reference_rate_tables_state_check', expression: '(state = ANY (ARRAY[\'applied\'::text, \'superseded\'::text, \'rejected\'::text]))' },
+    { name: 'reference_rate_tables_checksum_check', expression: "(checksum ~ '^[0-9a-f]{64}$'::text)" },
+    { name: 'reference_rate_tables_state_check', expression: "(state = ANY (ARRAY['applied'::text, 'superseded'::text, 'rejected'::text]))" },
   ],
-  indices: [
-    { name: 'reference_rate_tables_applied', columns: [], unique: true, where: '(state = \'applied\'::text)', synchronize: false },
-  ],
-  foreignKeys: [
-    { name: 'reference_rate_tables_uploaded_by_fkey', target: 'User', columnNames: ['uploaded_by'], referencedColumnNames: ['id'] },
-  ],
+  indices: [{ name: 'reference_rate_tables_applied', columns: [], unique: true, where: "(state = 'applied'::text)", synchronize: false }],
+  foreignKeys: [{ name: 'reference_rate_tables_uploaded_by_fkey', target: 'User', columnNames: ['uploaded_by'], referencedColumnNames: ['id'] }],
 });

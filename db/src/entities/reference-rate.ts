@@ -30,7 +30,7 @@ export const ReferenceRateEntity = new EntitySchema<ReferenceRate>({
     { name: 'reference_rates_age_from_check', expression: '((age_from >= 0) AND (age_from <= 120))' },
     { name: 'reference_rates_check', expression: '(((age_to >= 0) AND (age_to <= 120)) AND (age_to >= age_from))' },
     { name: 'reference_rates_rate_check', expression: '(rate >= (0)::double precision)' },
-    { name: 'reference_rates_sex_check', expression: '(sex = ANY (ARRAY[\'F\'::text, \'M\'::text]))' },
+    { name: 'reference_rates_sex_check', expression: "(sex = ANY (ARRAY['F'::text, 'M'::text]))" },
     { name: 'reference_rates_year_check', expression: '((year >= 1950) AND (year <= 2099))' },
   ],
   foreignKeys: [

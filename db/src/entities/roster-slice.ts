@@ -16,12 +16,8 @@ export const RosterSliceEntity = new EntitySchema<RosterSlice>({
     intakeId: { name: 'intake_id', type: 'uuid' },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'roster_slices_month_check', expression: '(EXTRACT(day FROM month) = (1)::numeric)' },
-  ],
-  indices: [
-    { name: 'roster_slices_intake', columns: ['intakeId'] },
-  ],
+  checks: [{ name: 'roster_slices_month_check', expression: '(EXTRACT(day FROM month) = (1)::numeric)' }],
+  indices: [{ name: 'roster_slices_intake', columns: ['intakeId'] }],
   foreignKeys: [
     { name: 'roster_slices_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'] },
     { name: 'roster_slices_site_id_fkey', target: 'Site', columnNames: ['site_id'], referencedColumnNames: ['id'] },

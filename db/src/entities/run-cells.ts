@@ -35,9 +35,11 @@ export const RunCellsEntity = new EntitySchema<RunCells>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'run_cells_check', expression: '((cardinality(months) = cardinality(site_ids)) AND (cardinality(months) = cardinality(age_bands)) AND (cardinality(months) = cardinality(sexes)) AND (cardinality(months) = cardinality(hours)) AND (cardinality(months) = cardinality(cases)))' },
+    {
+      name: 'run_cells_check',
+      expression:
+        '((cardinality(months) = cardinality(site_ids)) AND (cardinality(months) = cardinality(age_bands)) AND (cardinality(months) = cardinality(sexes)) AND (cardinality(months) = cardinality(hours)) AND (cardinality(months) = cardinality(cases)))',
+    },
   ],
-  foreignKeys: [
-    { name: 'run_cells_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
-  ],
+  foreignKeys: [{ name: 'run_cells_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' }],
 });

@@ -26,9 +26,10 @@ export const RunPeriodEntity = new EntitySchema<RunPeriod>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'run_periods_state_check', expression: '(state = ANY (ARRAY[\'awaiting\'::text, \'hours_in\'::text, \'cases_in\'::text, \'ready\'::text, \'closed\'::text]))' },
+    {
+      name: 'run_periods_state_check',
+      expression: "(state = ANY (ARRAY['awaiting'::text, 'hours_in'::text, 'cases_in'::text, 'ready'::text, 'closed'::text]))",
+    },
   ],
-  foreignKeys: [
-    { name: 'run_periods_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
-  ],
+  foreignKeys: [{ name: 'run_periods_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' }],
 });

@@ -26,10 +26,6 @@ export const RunRequestEntity = new EntitySchema<RunRequest>({
     immediate: { type: 'boolean', default: false },
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  indices: [
-    { name: 'run_requests_pending', columns: ['requestedAt'], where: '(picked_at IS NULL)' },
-  ],
-  foreignKeys: [
-    { name: 'run_requests_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'] },
-  ],
+  indices: [{ name: 'run_requests_pending', columns: ['requestedAt'], where: '(picked_at IS NULL)' }],
+  foreignKeys: [{ name: 'run_requests_intake_id_fkey', target: 'Intake', columnNames: ['intake_id'], referencedColumnNames: ['id'] }],
 });

@@ -19,11 +19,12 @@ export const RunUnattributedEntity = new EntitySchema<RunUnattributed>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'run_unattributed_reason_check', expression: '(reason = ANY (ARRAY[\'no_roster_month\'::text, \'removed_by_correction\'::text, \'lag_outside_data\'::text]))' },
+    {
+      name: 'run_unattributed_reason_check',
+      expression: "(reason = ANY (ARRAY['no_roster_month'::text, 'removed_by_correction'::text, 'lag_outside_data'::text]))",
+    },
   ],
-  indices: [
-    { name: 'run_unattributed_case', columns: ['caseEventId'] },
-  ],
+  indices: [{ name: 'run_unattributed_case', columns: ['caseEventId'] }],
   foreignKeys: [
     { name: 'run_unattributed_case_event_id_fkey', target: 'CaseEvent', columnNames: ['case_event_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },
     { name: 'run_unattributed_run_id_fkey', target: 'Run', columnNames: ['run_id'], referencedColumnNames: ['id'], onDelete: 'CASCADE' },

@@ -45,13 +45,9 @@ export const RunEntity = new EntitySchema<Run>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'runs_state_check', expression: '(state = ANY (ARRAY[\'running\'::text, \'succeeded\'::text, \'failed\'::text]))' },
-    { name: 'runs_trigger_check', expression: '(trigger = ANY (ARRAY[\'schedule\'::text, \'request\'::text, \'cli\'::text, \'bench\'::text]))' },
+    { name: 'runs_state_check', expression: "(state = ANY (ARRAY['running'::text, 'succeeded'::text, 'failed'::text]))" },
+    { name: 'runs_trigger_check', expression: "(trigger = ANY (ARRAY['schedule'::text, 'request'::text, 'cli'::text, 'bench'::text]))" },
   ],
-  indices: [
-    { name: 'runs_started', columns: ['startedAt'] },
-  ],
-  foreignKeys: [
-    { name: 'runs_settings_version_fkey', target: 'AnalysisSettings', columnNames: ['settings_version'], referencedColumnNames: ['version'] },
-  ],
+  indices: [{ name: 'runs_started', columns: ['startedAt'] }],
+  foreignKeys: [{ name: 'runs_settings_version_fkey', target: 'AnalysisSettings', columnNames: ['settings_version'], referencedColumnNames: ['version'] }],
 });

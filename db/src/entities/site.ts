@@ -23,7 +23,5 @@ export const SiteEntity = new EntitySchema<Site>({
     ...timestampColumns,
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
-  checks: [
-    { name: 'sites_code_check', expression: '(code ~ \'^[A-Za-z0-9_-]{1,32}$\'::text)' },
-  ],
+  checks: [{ name: 'sites_code_check', expression: "(code ~ '^[A-Za-z0-9_-]{1,32}$'::text)" }],
 });

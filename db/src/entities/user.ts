@@ -27,9 +27,7 @@ export const UserEntity = new EntitySchema<User>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'users_role_check', expression: '(role = ANY (ARRAY[\'hygienist\'::text, \'safety_manager\'::text, \'physician\'::text, \'administrator\'::text]))' },
+    { name: 'users_role_check', expression: "(role = ANY (ARRAY['hygienist'::text, 'safety_manager'::text, 'physician'::text, 'administrator'::text]))" },
   ],
-  indices: [
-    { name: 'users_email_unbound', columns: [], unique: true, where: '(subject IS NULL)', synchronize: false },
-  ],
+  indices: [{ name: 'users_email_unbound', columns: [], unique: true, where: '(subject IS NULL)', synchronize: false }],
 });

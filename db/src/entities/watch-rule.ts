@@ -52,15 +52,18 @@ export const WatchRuleEntity = new EntitySchema<WatchRuleRow>({
   },
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
-    { name: 'watch_rules_check', expression: '((measure = \'uchart\'::text) OR (threshold IS NOT NULL))' },
+    { name: 'watch_rules_check', expression: "((measure = 'uchart'::text) OR (threshold IS NOT NULL))" },
     { name: 'watch_rules_consecutive_periods_check', expression: '((consecutive_periods >= 1) AND (consecutive_periods <= 24))' },
     { name: 'watch_rules_fdr_level_check', expression: '((fdr_level > (0)::double precision) AND (fdr_level < (1)::double precision))' },
-    { name: 'watch_rules_measure_check', expression: '(measure = ANY (ARRAY[\'irr\'::text, \'ird\'::text, \'rate\'::text, \'uchart\'::text, \'sir\'::text]))' },
+    { name: 'watch_rules_measure_check', expression: "(measure = ANY (ARRAY['irr'::text, 'ird'::text, 'rate'::text, 'uchart'::text, 'sir'::text]))" },
     { name: 'watch_rules_min_cases_check', expression: '(min_cases >= 0)' },
     { name: 'watch_rules_min_expected_check', expression: '(min_expected >= (0)::double precision)' },
-    { name: 'watch_rules_site_ids_check', expression: '((site_ids IS NULL) OR ((cardinality(site_ids) > 0) AND (array_position(site_ids, NULL::integer) IS NULL)))' },
-    { name: 'watch_rules_threshold_on_check', expression: '(threshold_on = ANY (ARRAY[\'estimate\'::text, \'lower_bound\'::text]))' },
-    { name: 'watch_rules_window_kind_check', expression: '(window_kind = ANY (ARRAY[\'month\'::text, \'rolling12\'::text]))' },
+    {
+      name: 'watch_rules_site_ids_check',
+      expression: '((site_ids IS NULL) OR ((cardinality(site_ids) > 0) AND (array_position(site_ids, NULL::integer) IS NULL)))',
+    },
+    { name: 'watch_rules_threshold_on_check', expression: "(threshold_on = ANY (ARRAY['estimate'::text, 'lower_bound'::text]))" },
+    { name: 'watch_rules_window_kind_check', expression: "(window_kind = ANY (ARRAY['month'::text, 'rolling12'::text]))" },
   ],
   foreignKeys: [
     { name: 'watch_rules_created_by_fkey', target: 'User', columnNames: ['created_by'], referencedColumnNames: ['id'] },

@@ -24,9 +24,7 @@ export const WorkerEntity = new EntitySchema<Worker>({
   // Constraints and indexes as the migrations build them (tests/integration/entities-schema.test.ts).
   checks: [
     { name: 'workers_birth_year_check', expression: '((birth_year >= 1900) AND (birth_year <= 2100))' },
-    { name: 'workers_sex_check', expression: '(sex = ANY (ARRAY[\'F\'::text, \'M\'::text, \'X\'::text]))' },
+    { name: 'workers_sex_check', expression: "(sex = ANY (ARRAY['F'::text, 'M'::text, 'X'::text]))" },
   ],
-  foreignKeys: [
-    { name: 'workers_first_intake_id_fkey', target: 'Intake', columnNames: ['first_intake_id'], referencedColumnNames: ['id'] },
-  ],
+  foreignKeys: [{ name: 'workers_first_intake_id_fkey', target: 'Intake', columnNames: ['first_intake_id'], referencedColumnNames: ['id'] }],
 });

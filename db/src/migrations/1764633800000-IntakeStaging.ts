@@ -53,7 +53,9 @@ export class IntakeStaging1764633800000 implements MigrationInterface {
     await q.query(`DROP INDEX case_events_worker`);
     await q.query(`DROP INDEX case_events_intake`);
     await q.query(`DROP INDEX intakes_state`);
-    await q.query(`ALTER TABLE intakes DROP COLUMN discarded_at, DROP COLUMN restored_at, DROP COLUMN delimiter, DROP COLUMN columns, DROP COLUMN staging_table`);
+    await q.query(
+      `ALTER TABLE intakes DROP COLUMN discarded_at, DROP COLUMN restored_at, DROP COLUMN delimiter, DROP COLUMN columns, DROP COLUMN staging_table`,
+    );
     await q.query(`DROP SCHEMA intake_staging CASCADE`);
   }
 }

@@ -14,9 +14,13 @@ export class RunScopes1764634100000 implements MigrationInterface {
 
   async up(q: QueryRunner): Promise<void> {
     const interval = (p: string) => `ADD COLUMN ${p} double precision, ADD COLUMN ${p}_lower double precision, ADD COLUMN ${p}_upper double precision`;
-    await q.query(`ALTER TABLE run_results ADD COLUMN site_id integer REFERENCES sites(id), ${interval('mh_sex_irr')}, ADD COLUMN mh_sex_irr_p double precision, ${interval('mh_sex_ird')}`);
+    await q.query(
+      `ALTER TABLE run_results ADD COLUMN site_id integer REFERENCES sites(id), ${interval('mh_sex_irr')}, ADD COLUMN mh_sex_irr_p double precision, ${interval('mh_sex_ird')}`,
+    );
     await q.query(`ALTER TABLE run_results DROP CONSTRAINT run_results_pkey`);
-    await q.query(`ALTER TABLE run_results ADD CONSTRAINT run_results_key UNIQUE NULLS NOT DISTINCT (run_id, site_id, outcome_id, exposure_group_id, window_kind, period)`);
+    await q.query(
+      `ALTER TABLE run_results ADD CONSTRAINT run_results_key UNIQUE NULLS NOT DISTINCT (run_id, site_id, outcome_id, exposure_group_id, window_kind, period)`,
+    );
     await q.query(`ALTER TABLE run_trends ADD COLUMN site_id integer REFERENCES sites(id)`);
     await q.query(`ALTER TABLE run_trends DROP CONSTRAINT run_trends_pkey`);
     await q.query(`ALTER TABLE run_trends ADD CONSTRAINT run_trends_key UNIQUE NULLS NOT DISTINCT (run_id, site_id, outcome_id, window_kind, period)`);

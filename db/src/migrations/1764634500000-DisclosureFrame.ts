@@ -25,7 +25,9 @@ export class DisclosureFrame1764634500000 implements MigrationInterface {
         reason text NOT NULL CHECK (reason IN ('small', 'complement', 'months', 'strata'))
       )`);
     await q.query(`CREATE INDEX run_withheld_lookup ON run_withheld (run_id, outcome_id, exposure_group_id)`);
-    await q.query(`INSERT INTO run_requests (reason) SELECT 'figures protected against derivation: a new run publishes them' WHERE EXISTS (SELECT 1 FROM runs)`);
+    await q.query(
+      `INSERT INTO run_requests (reason) SELECT 'figures protected against derivation: a new run publishes them' WHERE EXISTS (SELECT 1 FROM runs)`,
+    );
   }
 
   async down(q: QueryRunner): Promise<void> {

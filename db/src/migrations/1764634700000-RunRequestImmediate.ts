@@ -13,7 +13,9 @@ export class RunRequestImmediate1764634700000 implements MigrationInterface {
   async up(q: QueryRunner): Promise<void> {
     await q.query(`ALTER TABLE run_requests ADD COLUMN immediate boolean NOT NULL DEFAULT false`);
     // Runs stored before reporting periods say nothing of which periods were complete: a new one does.
-    await q.query(`INSERT INTO run_requests (reason, immediate) SELECT 'reporting periods: a new run states which periods are complete', true WHERE EXISTS (SELECT 1 FROM runs)`);
+    await q.query(
+      `INSERT INTO run_requests (reason, immediate) SELECT 'reporting periods: a new run states which periods are complete', true WHERE EXISTS (SELECT 1 FROM runs)`,
+    );
   }
 
   async down(q: QueryRunner): Promise<void> {

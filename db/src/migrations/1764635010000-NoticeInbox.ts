@@ -32,6 +32,8 @@ export class NoticeInbox1764635010000 implements MigrationInterface {
 
   async down(q: QueryRunner): Promise<void> {
     await q.query(`DROP INDEX notices_recipient`);
-    await q.query(`ALTER TABLE notices DROP COLUMN mail_subject, DROP COLUMN mail_body, DROP COLUMN kind, DROP COLUMN period, DROP COLUMN completeness, DROP COLUMN read_at`);
+    await q.query(
+      `ALTER TABLE notices DROP COLUMN mail_subject, DROP COLUMN mail_body, DROP COLUMN kind, DROP COLUMN period, DROP COLUMN completeness, DROP COLUMN read_at`,
+    );
   }
 }

@@ -23,4 +23,27 @@ import { IntakeCaseConflicts1764635030000 } from './1764635030000-IntakeCaseConf
 import { ReferenceRates1764635200000 } from './1764635200000-ReferenceRates';
 import { AnalysisSettings1764635100000 } from './1764635100000-AnalysisSettings';
 /** Every migration, oldest first. Listed by hand because the TypeORM CLI cannot glob TypeScript under tsx. */
-export const migrations = [Foundation1764633600000, CohortData1764633700000, IntakeStaging1764633800000, Access1764634000000, Runs1764633900000, RunScopes1764634100000, RunCells1764634200000, WatchRuleMinCases1764634300000, NoticeDelivery1764634400000, DisclosureFrame1764634500000, ReportingPeriods1764634600000, RunRequestImmediate1764634700000, SiteWatchRules1764634750000, RunUnattributed1764634800000, RunPeriodRoster1764634900000, CaseReviews1764635000000, NoticeInbox1764635010000, FlagClinicalNotes1764635020000, IntakeCaseConflicts1764635030000, AnalysisSettings1764635100000, ReferenceRates1764635200000, Audiograms1764635300000];
+export const migrations = [
+  Foundation1764633600000,
+  CohortData1764633700000,
+  IntakeStaging1764633800000,
+  Access1764634000000,
+  Runs1764633900000,
+  RunScopes1764634100000,
+  RunCells1764634200000,
+  WatchRuleMinCases1764634300000,
+  NoticeDelivery1764634400000,
+  DisclosureFrame1764634500000,
+  ReportingPeriods1764634600000,
+  RunRequestImmediate1764634700000,
+  SiteWatchRules1764634750000,
+  RunUnattributed1764634800000,
+  RunPeriodRoster1764634900000,
+  CaseReviews1764635000000,
+  NoticeInbox1764635010000,
+  FlagClinicalNotes1764635020000,
+  IntakeCaseConflicts1764635030000,
+  AnalysisSettings1764635100000,
+  ReferenceRates1764635200000,
+  Audiograms1764635300000,
+];

@@ -17,10 +17,10 @@ export const demoIntegrationClient = { clientId: 'hr-sync-demo', name: 'HR roste
 export async function seedDemoAccess(em: EntityManager): Promise<void> {
   for (const p of demoPeople) {
     const [user] = (await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, $3) RETURNING id`, [p.email, p.name, p.role])) as { id: string }[];
-    await em.query(
-      `INSERT INTO user_sites (user_id, site_id) SELECT $1, id FROM sites WHERE $2::text[] IS NULL OR code = ANY($2::text[])`,
-      [user!.id, p.sites === 'all' ? null : p.sites],
-    );
+    await em.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, id FROM sites WHERE $2::text[] IS NULL OR code = ANY($2::text[])`, [
+      user!.id,
+      p.sites === 'all' ? null : p.sites,
+    ]);
   }
   await em.query(`INSERT INTO integration_clients (client_id, name) VALUES ($1, $2)`, [demoIntegrationClient.clientId, demoIntegrationClient.name]);
 }

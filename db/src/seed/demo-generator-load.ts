@@ -4,7 +4,17 @@ import { pipeline } from 'node:stream/promises';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { EntityManager } from 'typeorm';
-import { caseCsvHeader, caseCsvLine, demoCohortShape, generateCohort, rosterCsvHeader, rosterCsvLine, type CaseRow, type RosterRow, type CohortShape } from './demo-generator';
+import {
+  caseCsvHeader,
+  caseCsvLine,
+  demoCohortShape,
+  generateCohort,
+  rosterCsvHeader,
+  rosterCsvLine,
+  type CaseRow,
+  type RosterRow,
+  type CohortShape,
+} from './demo-generator';
 
 /** COPY text format: tab-separated, \N for null; our generated values hold no tabs or backslashes. */
 const tsv = (values: Array<string | number | null>) => `${values.map((v) => (v === null ? '\\N' : String(v))).join('\t')}\n`;
@@ -32,13 +42,21 @@ async function copyLines(client: PoolClient, sql: string, lines: Iterable<string
  * the CSV file it stands for (so uploading that very file later is recognized as a duplicate),
  * every site × month pointing at its intake, and a run requested. Runs in the caller's transaction.
  */
-export async function loadDemoCohort(em: EntityManager, shape: CohortShape = demoCohortShape(['NFD', 'RVW', 'HLA', 'EYD'])): Promise<{ rosterRows: number; cases: number }> {
+export async function loadDemoCohort(
+  em: EntityManager,
+  shape: CohortShape = demoCohortShape(['NFD', 'RVW', 'HLA', 'EYD']),
+): Promise<{ rosterRows: number; cases: number }> {
   const client = (await em.queryRunner!.connect()) as PoolClient;
   const roster: RosterRow[] = [];
   const cases: CaseRow[] = [];
-  generateCohort(shape, (r) => roster.push(r), (c) => cases.push(c));
+  generateCohort(
+    shape,
+    (r) => roster.push(r),
+    (c) => cases.push(c),
+  );
 
-  const ids = (table: string, key: string) => em.query(`SELECT id, ${key} AS k FROM ${table}`).then((rows: Array<{ id: number | string; k: string }>) => new Map(rows.map((r) => [r.k, r.id])));
+  const ids = (table: string, key: string) =>
+    em.query(`SELECT id, ${key} AS k FROM ${table}`).then((rows: Array<{ id: number | string; k: string }>) => new Map(rows.map((r) => [r.k, r.id])));
   const siteIds = await ids('sites', 'code');
   const groupIds = await ids('exposure_groups', 'code');
   const outcomeIds = await ids('outcomes', 'code');
@@ -59,14 +77,21 @@ export async function loadDemoCohort(em: EntityManager, shape: CohortShape = dem
 
   const firstSite = new Map<string, RosterRow>();
   for (const r of roster) if (!firstSite.has(r.workerKey)) firstSite.set(r.workerKey, r);
-  await copyLines(client, `COPY workers (worker_key, birth_year, sex, first_intake_id) FROM STDIN`,
-    [...firstSite.values()].map((r) => tsv([r.workerKey, r.birthYear, r.sex, intakeOf.get(r.site)!])));
+  await copyLines(
+    client,
+    `COPY workers (worker_key, birth_year, sex, first_intake_id) FROM STDIN`,
+    [...firstSite.values()].map((r) => tsv([r.workerKey, r.birthYear, r.sex, intakeOf.get(r.site)!])),
+  );
   const workerIds = await ids('workers', 'worker_key');
 
-  await copyLines(client, `COPY roster_entries (intake_id, worker_id, month, site_id, exposure_group_id, hours, job_title) FROM STDIN`,
+  await copyLines(
+    client,
+    `COPY roster_entries (intake_id, worker_id, month, site_id, exposure_group_id, hours, job_title) FROM STDIN`,
     (function* () {
-      for (const r of roster) yield tsv([intakeOf.get(r.site)!, workerIds.get(r.workerKey)!, `${r.month}-01`, siteIds.get(r.site)!, groupIds.get(r.group)!, r.hours, r.jobTitle]);
-    })());
+      for (const r of roster)
+        yield tsv([intakeOf.get(r.site)!, workerIds.get(r.workerKey)!, `${r.month}-01`, siteIds.get(r.site)!, groupIds.get(r.group)!, r.hours, r.jobTitle]);
+    })(),
+  );
   await em.query(`INSERT INTO roster_slices (site_id, month, intake_id) SELECT DISTINCT site_id, month, intake_id FROM roster_entries`);
 
   const caseHash = createHash('sha256').update(caseCsvHeader);
@@ -81,8 +106,11 @@ export async function loadDemoCohort(em: EntityManager, shape: CohortShape = dem
     INSERT INTO period_closures (site_id, month, action, reason)
     SELECT site_id, month, 'close', 'demo: month reviewed and closed' FROM roster_slices rs
     WHERE month <= (SELECT max(month) FROM roster_slices x WHERE x.site_id = rs.site_id) - interval '3 months'`);
-  await copyLines(client, `COPY case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) FROM STDIN`,
-    cases.map((c) => tsv([caseIntake, c.caseRef, workerIds.get(c.workerKey)!, outcomeIds.get(c.outcome)!, c.onsetDate, c.status])));
+  await copyLines(
+    client,
+    `COPY case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status) FROM STDIN`,
+    cases.map((c) => tsv([caseIntake, c.caseRef, workerIds.get(c.workerKey)!, outcomeIds.get(c.outcome)!, c.onsetDate, c.status])),
+  );
   // The demo's first figures should not wait for uploads to settle: nothing else is coming.
   await em.query(`INSERT INTO run_requests (reason, intake_id, immediate) VALUES ('demo scenario loaded', $1, true)`, [caseIntake]);
   return { rosterRows: roster.length, cases: cases.length };

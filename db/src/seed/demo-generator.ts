@@ -32,10 +32,21 @@ export interface CohortShape {
 }
 
 export interface RosterRow {
-  workerKey: string; site: string; group: string; month: string; hours: string; birthYear: number; sex: 'F' | 'M' | 'X'; jobTitle: string | null;
+  workerKey: string;
+  site: string;
+  group: string;
+  month: string;
+  hours: string;
+  birthYear: number;
+  sex: 'F' | 'M' | 'X';
+  jobTitle: string | null;
 }
 export interface CaseRow {
-  caseRef: string; workerKey: string; outcome: string; onsetDate: string; status: 'suspected' | 'confirmed' | 'ruled_out';
+  caseRef: string;
+  workerKey: string;
+  outcome: string;
+  onsetDate: string;
+  status: 'suspected' | 'confirmed' | 'ruled_out';
 }
 
 /**
@@ -46,10 +57,18 @@ export interface CaseRow {
  */
 export function demoCohortShape(sites: readonly string[]): CohortShape {
   return {
-    seed: 20240617, workers: 8000, firstMonth: '2020-01', months: 66, sites, workerPrefix: 'KM',
+    seed: 20240617,
+    workers: 8000,
+    firstMonth: '2020-01',
+    months: 66,
+    sites,
+    workerPrefix: 'KM',
     groups: [
-      { code: 'OFFICE', share: 0.22 }, { code: 'ASSEMBLY', share: 0.32 }, { code: 'WELDING', share: 0.18 },
-      { code: 'FETTLING', share: 0.14 }, { code: 'COATING', share: 0.14 },
+      { code: 'OFFICE', share: 0.22 },
+      { code: 'ASSEMBLY', share: 0.32 },
+      { code: 'WELDING', share: 0.18 },
+      { code: 'FETTLING', share: 0.14 },
+      { code: 'COATING', share: 0.14 },
     ],
     outcomes: [
       { code: 'STS', ratePer100py: 2.4, firstEventOnly: true, rateRatio: { FETTLING: 3 } },
@@ -61,8 +80,11 @@ export function demoCohortShape(sites: readonly string[]): CohortShape {
 }
 
 const jobTitles: Record<string, string[]> = {
-  OFFICE: ['Planner', 'Buyer', 'Clerk'], ASSEMBLY: ['Assembler', 'Line lead'], WELDING: ['Welder', 'Welding inspector'],
-  FETTLING: ['Grinder operator', 'Fettler'], COATING: ['Spray painter', 'Coating technician'],
+  OFFICE: ['Planner', 'Buyer', 'Clerk'],
+  ASSEMBLY: ['Assembler', 'Line lead'],
+  WELDING: ['Welder', 'Welding inspector'],
+  FETTLING: ['Grinder operator', 'Fettler'],
+  COATING: ['Spray painter', 'Coating technician'],
 };
 
 function monthLabel(first: string, offset: number): { label: string; year: number; month: number; days: number } {
@@ -118,14 +140,20 @@ export function generateCohort(shape: CohortShape, onRoster: (r: RosterRow) => v
         const rate = (o.ratePer100py / 100) * (o.rateRatio?.[group] ?? 1) * personYears;
         // Poisson draw by inversion; rates are small, so this loops once or twice.
         let k = 0;
-        for (let p = Math.exp(-rate), s = p, u = rnd(); u > s; k++) { p *= rate / (k + 1); s += p; }
+        for (let p = Math.exp(-rate), s = p, u = rnd(); u > s; k++) {
+          p *= rate / (k + 1);
+          s += p;
+        }
         for (let i = 0; i < k && !(o.firstEventOnly && hadFirst.has(o.code)); i++) {
           caseSeq++;
           const day = 1 + Math.floor(rnd() * days);
           const st = rnd();
           onCase({
-            caseRef: `${shape.workerPrefix}C-${year}-${String(caseSeq).padStart(5, '0')}`, workerKey, outcome: o.code,
-            onsetDate: `${label}-${String(day).padStart(2, '0')}`, status: st < 0.82 ? 'confirmed' : st < 0.93 ? 'suspected' : 'ruled_out',
+            caseRef: `${shape.workerPrefix}C-${year}-${String(caseSeq).padStart(5, '0')}`,
+            workerKey,
+            outcome: o.code,
+            onsetDate: `${label}-${String(day).padStart(2, '0')}`,
+            status: st < 0.82 ? 'confirmed' : st < 0.93 ? 'suspected' : 'ruled_out',
           });
           if (o.firstEventOnly && st < 0.93) hadFirst.add(o.code);
         }

@@ -10,9 +10,18 @@ import { demoExposureGroups, demoOutcomes, demoSites } from './demo-scenario';
 export async function seedDemo(ds: DataSource): Promise<boolean> {
   return ds.transaction(async (em) => {
     if ((await em.count(SiteEntity)) > 0) return false;
-    await em.insert(SiteEntity, demoSites.map((s) => ({ ...s })));
-    await em.insert(ExposureGroupEntity, demoExposureGroups.map((g) => ({ ...g, description: null })));
-    await em.insert(OutcomeEntity, demoOutcomes.map((o) => ({ ...o, lagMonths: 0, referenceGroupId: null })));
+    await em.insert(
+      SiteEntity,
+      demoSites.map((s) => ({ ...s })),
+    );
+    await em.insert(
+      ExposureGroupEntity,
+      demoExposureGroups.map((g) => ({ ...g, description: null })),
+    );
+    await em.insert(
+      OutcomeEntity,
+      demoOutcomes.map((o) => ({ ...o, lagMonths: 0, referenceGroupId: null })),
+    );
     await seedDemoAccess(em);
     await seedDemoRules(em);
     // The generated cohort: monthly rosters since 2020 and the cases they produced (demo-generator.ts).

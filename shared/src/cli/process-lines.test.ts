@@ -21,7 +21,13 @@ describe('stats CLI line processing', () => {
   });
 
   it('keeps order, skips blank lines, and reports a bad line without stopping', () => {
-    const out = processLines(['{"kind":"poisson","count":0}', '', 'not json', '{"kind":"sir","observed":-1,"expected":2}', '{"kind":"sir","observed":12,"expected":7.4}']).map((l) => JSON.parse(l));
+    const out = processLines([
+      '{"kind":"poisson","count":0}',
+      '',
+      'not json',
+      '{"kind":"sir","observed":-1,"expected":2}',
+      '{"kind":"sir","observed":12,"expected":7.4}',
+    ]).map((l) => JSON.parse(l));
     expect(out).toHaveLength(4);
     expect(out[0].exact.upper).toBeCloseTo(3.688879454, 9); // Garwood 1936
     expect(out[1]).toMatchObject({ line: 3, error: { type: 'invalid-json' } });

@@ -14,7 +14,10 @@ describe('stats CLI process', () => {
     ].join('\n');
     const run = spawnSync(process.execPath, ['--import', 'tsx', 'shared/src/cli/stats-cli.ts'], { cwd: repoRoot, input, encoding: 'utf8', timeout: 60_000 });
     expect(run.status, run.stderr).toBe(0);
-    const lines = run.stdout.trim().split('\n').map((l) => JSON.parse(l));
+    const lines = run.stdout
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l));
     expect(lines).toHaveLength(4);
     expect(lines[0].exact.lower).toBeCloseTo(4.795388696, 8); // Garwood 1936
     expect(lines[1].confidence).toBe(0.9);

@@ -39,11 +39,7 @@ export function tableValue(sex: 'F' | 'M', age: number, frequency: CorrectionFre
   return tableRow(sex, age)[CORRECTION_FREQUENCIES.indexOf(frequency)] ?? null;
 }
 
-export function ageCorrection234(
-  sex: string | null | undefined,
-  baselineAge: number | null | undefined,
-  recentAge: number | null | undefined,
-): AgeCorrection {
+export function ageCorrection234(sex: string | null | undefined, baselineAge: number | null | undefined, recentAge: number | null | undefined): AgeCorrection {
   if (sex !== 'F' && sex !== 'M') return { ok: false, reason: 'Appendix F has tables for males and females only; sex not recorded as F or M' };
   if (baselineAge == null || recentAge == null || !Number.isFinite(baselineAge) || !Number.isFinite(recentAge)) {
     return { ok: false, reason: 'age unknown (no birth year)' };

@@ -57,7 +57,10 @@ export function readAudiogramHeader(header: string[]): { index: Map<AudiogramCol
   const index = new Map<AudiogramColumn, number>();
   const problems: AudiogramProblem[] = [];
   header.forEach((raw, i) => {
-    const name = raw.trim().toLowerCase().replace(/^\uFEFF/, '');
+    const name = raw
+      .trim()
+      .toLowerCase()
+      .replace(/^\uFEFF/, '');
     if (!(AUDIOGRAM_COLUMNS as readonly string[]).includes(name)) {
       if (name !== '') problems.push({ line: 1, column: raw, value: null, reason: reasons.unknownColumn });
       return;
@@ -98,7 +101,13 @@ export function readAudiogramRow(
   else if (!/^[A-Za-z0-9._-]{1,64}$/.test(workerKey)) bad('worker_key', workerKey, reasons.workerKey);
 
   const testDate = get('test_date');
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(testDate) || !isCalendarDate(testDate) || Number(testDate.slice(5, 7)) < 1 || Number(testDate.slice(5, 7)) > 12 || Number(testDate.slice(8)) < 1) {
+  if (
+    !/^\d{4}-\d{2}-\d{2}$/.test(testDate) ||
+    !isCalendarDate(testDate) ||
+    Number(testDate.slice(5, 7)) < 1 ||
+    Number(testDate.slice(5, 7)) > 12 ||
+    Number(testDate.slice(8)) < 1
+  ) {
     bad('test_date', testDate, testDate === '' ? reasons.empty : reasons.date);
   } else if (testDate < '1950-01-01' || testDate > today) bad('test_date', testDate, reasons.dateRange);
 

@@ -109,17 +109,15 @@ function effectiveTests(tests: EarAudiogram[], steps: HistoryStep[]): EarAudiogr
   return out;
 }
 
-export function earHistory(
-  ear: Ear,
-  tests: EarAudiogram[],
-  person: Person,
-  settings: HearingSettings = DEFAULT_HEARING_SETTINGS,
-): EarHistory {
+export function earHistory(ear: Ear, tests: EarAudiogram[], person: Person, settings: HearingSettings = DEFAULT_HEARING_SETTINGS): EarHistory {
   const steps: HistoryStep[] = [];
   const shifts: ShiftFinding[] = [];
   let baseline: EarAudiogram | null = null;
   let pendingShift = false;
-  for (const t of effectiveTests(tests.filter((x) => x.ear === ear), steps)) {
+  for (const t of effectiveTests(
+    tests.filter((x) => x.ear === ear),
+    steps,
+  )) {
     if (t.testType === 'baseline' || baseline == null) {
       if (t.testType !== 'baseline') {
         steps.push({ kind: 'no-baseline', audiogramId: t.id, testDate: t.testDate });

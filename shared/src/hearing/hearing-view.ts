@@ -23,7 +23,9 @@ export const storedAudiogramSchema = z.object({
 });
 export type StoredAudiogram = z.infer<typeof storedAudiogramSchema>;
 
-const earHistorySchema = z.custom<EarHistory>((v) => typeof v === 'object' && v !== null && Array.isArray((v as EarHistory).steps) && Array.isArray((v as EarHistory).shifts));
+const earHistorySchema = z.custom<EarHistory>(
+  (v) => typeof v === 'object' && v !== null && Array.isArray((v as EarHistory).steps) && Array.isArray((v as EarHistory).shifts),
+);
 
 export const hearingWorkerResponseSchema = z.object({
   workerKey: z.string(),

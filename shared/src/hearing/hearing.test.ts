@@ -117,29 +117,41 @@ describe('cases built from Table F-1 (source: Table F-1 as cited in age-correcti
 describe('baseline revision and retests (29 CFR 1910.95(g)(7)(ii), (g)(9))', () => {
   const person: Person = { sex: null, birthYear: null };
   it('a retest within 30 days replaces the annual result', () => {
-    const h = earHistory('right', [
-      test('b', '2020-01-10', 'baseline', [0, 0, 0, 0, 5, 5]),
-      test('a1', '2021-01-10', 'annual', [0, 0, 10, 10, 20, 5]),
-      test('r1', '2021-02-05', 'retest', [0, 0, 5, 5, 10, 5]),
-    ], person);
+    const h = earHistory(
+      'right',
+      [
+        test('b', '2020-01-10', 'baseline', [0, 0, 0, 0, 5, 5]),
+        test('a1', '2021-01-10', 'annual', [0, 0, 10, 10, 20, 5]),
+        test('r1', '2021-02-05', 'retest', [0, 0, 5, 5, 10, 5]),
+      ],
+      person,
+    );
     expect(h.steps.some((s) => s.kind === 'retest-replaces' && s.replacedId === 'a1')).toBe(true);
     expect(h.shifts).toEqual([]);
   });
   it('a retest after 30 days is not used', () => {
-    const h = earHistory('right', [
-      test('b', '2020-01-10', 'baseline', [0, 0, 0, 0, 5, 5]),
-      test('a1', '2021-01-10', 'annual', [0, 0, 10, 10, 20, 5]),
-      test('r1', '2021-02-15', 'retest', [0, 0, 5, 5, 10, 5]),
-    ], person);
+    const h = earHistory(
+      'right',
+      [
+        test('b', '2020-01-10', 'baseline', [0, 0, 0, 0, 5, 5]),
+        test('a1', '2021-01-10', 'annual', [0, 0, 10, 10, 20, 5]),
+        test('r1', '2021-02-15', 'retest', [0, 0, 5, 5, 10, 5]),
+      ],
+      person,
+    );
     expect(h.steps.some((s) => s.kind === 'retest-unused')).toBe(true);
     expect(h.shifts.map((s) => s.audiogramId)).toEqual(['a1']);
   });
   it('improvement revises the baseline; a later shift is measured from it', () => {
-    const h = earHistory('right', [
-      test('b', '2020-01-10', 'baseline', [10, 10, 20, 20, 20, 20]),
-      test('a1', '2021-01-10', 'annual', [5, 5, 10, 10, 10, 10]),
-      test('a2', '2022-01-10', 'annual', [5, 5, 20, 20, 20, 10]),
-    ], person);
+    const h = earHistory(
+      'right',
+      [
+        test('b', '2020-01-10', 'baseline', [10, 10, 20, 20, 20, 20]),
+        test('a1', '2021-01-10', 'annual', [5, 5, 10, 10, 10, 10]),
+        test('a2', '2022-01-10', 'annual', [5, 5, 20, 20, 20, 10]),
+      ],
+      person,
+    );
     expect(h.steps.some((s) => s.kind === 'baseline-revised' && s.reason === 'improvement' && s.audiogramId === 'a1')).toBe(true);
     expect(h.shifts.map((s) => s.audiogramId)).toEqual(['a2']);
   });

@@ -4,7 +4,16 @@ import { stringifyJson, toJsonValue } from './json-encoding';
 
 describe('JSON encoding of results', () => {
   it('stringifyJson writes what JSON.stringify(toJsonValue(x)) writes (property over nested values with ±∞, NaN and undefined)', () => {
-    const leaf = fc.oneof(fc.double(), fc.constant(Infinity), fc.constant(-Infinity), fc.constant(Number.NaN), fc.string(), fc.boolean(), fc.constant(null), fc.constant(undefined));
+    const leaf = fc.oneof(
+      fc.double(),
+      fc.constant(Infinity),
+      fc.constant(-Infinity),
+      fc.constant(Number.NaN),
+      fc.string(),
+      fc.boolean(),
+      fc.constant(null),
+      fc.constant(undefined),
+    );
     const value = fc.letrec((tie) => ({
       node: fc.oneof({ depthSize: 'small' }, leaf, fc.array(tie('node')), fc.dictionary(fc.string(), tie('node'))),
     })).node;

@@ -30,7 +30,8 @@ export function toJsonValue(value: unknown): JsonValue {
   return null;
 }
 
-const nonFinite = (_key: string, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? (Number.isNaN(v) ? null : v > 0 ? 'Infinity' : '-Infinity') : v);
+const nonFinite = (_key: string, v: unknown) =>
+  typeof v === 'number' && !Number.isFinite(v) ? (Number.isNaN(v) ? null : v > 0 ? 'Infinity' : '-Infinity') : v;
 
 /**
  * JSON.stringify(toJsonValue(value)) in one pass, without building the converted copy (a run

@@ -5,7 +5,10 @@
  * dependency to the browser bundle for no measurable gain on these hit rates).
  * Callers get a copy, so a cached answer cannot be changed through a result.
  */
-export function memoLimits<A extends number[]>(fn: (...args: A) => { lower: number; upper: number }, maxEntries = 20_000): (...args: A) => { lower: number; upper: number } {
+export function memoLimits<A extends number[]>(
+  fn: (...args: A) => { lower: number; upper: number },
+  maxEntries = 20_000,
+): (...args: A) => { lower: number; upper: number } {
   const cache = new Map<string, { lower: number; upper: number }>();
   return (...args: A) => {
     const key = args.join('|');

@@ -40,7 +40,12 @@ describe('properties of the statistics core', () => {
       }),
       { numRuns: 150 },
     );
-    const table = fc.record({ a: fc.integer({ min: 0, max: 60 }), b: fc.integer({ min: 0, max: 60 }), c: fc.integer({ min: 0, max: 60 }), d: fc.integer({ min: 0, max: 60 }) });
+    const table = fc.record({
+      a: fc.integer({ min: 0, max: 60 }),
+      b: fc.integer({ min: 0, max: 60 }),
+      c: fc.integer({ min: 0, max: 60 }),
+      d: fc.integer({ min: 0, max: 60 }),
+    });
     fc.assert(
       fc.property(table, confidence, (t, c) => {
         if (t.a + t.b === 0 || t.c + t.d === 0) return;
@@ -118,7 +123,8 @@ describe('properties of the statistics core', () => {
       fc.property(group, group, fc.constantFrom(12, 365.25, 2000, 1 / 200_000), (e, r, k) => {
         const base = compareRates(e, r, { per: 1000 });
         const scaled = compareRates({ cases: e.cases, personTime: e.personTime * k }, { cases: r.cases, personTime: r.personTime * k }, { per: 1000 * k });
-        const same = (x: number | null, y: number | null, abs = 1e-15) => (x === null || !Number.isFinite(x) ? expect(y).toBe(x) : expectRelClose(y, x, 1e-9, abs));
+        const same = (x: number | null, y: number | null, abs = 1e-15) =>
+          x === null || !Number.isFinite(x) ? expect(y).toBe(x) : expectRelClose(y, x, 1e-9, abs);
         same(base.irr.estimate, scaled.irr.estimate);
         same(base.irr.exact.lower, scaled.irr.exact.lower);
         same(base.irr.midP.upper, scaled.irr.midP.upper);

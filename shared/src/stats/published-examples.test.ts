@@ -38,7 +38,9 @@ interface Example {
   confirmed: boolean;
 }
 
-const fixture = JSON.parse(readFileSync(fileURLToPath(new URL('../../test-fixtures/published-examples.json', import.meta.url)), 'utf8')) as { cases: Example[] };
+const fixture = JSON.parse(readFileSync(fileURLToPath(new URL('../../test-fixtures/published-examples.json', import.meta.url)), 'utf8')) as {
+  cases: Example[];
+};
 
 /** Examples the core deliberately does not reproduce, with the reason: none at present, every method in the fixture is implemented. */
 const SKIPPED_EXAMPLES: Record<string, string> = {};

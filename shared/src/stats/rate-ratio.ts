@@ -81,7 +81,11 @@ export const binomialMidPOddsLimits = memoLimits(function binomialMidPOddsLimits
  * @example
  * clopperPearsonOddsLimits(0, 5, 0.95) // { lower: 0, upper: 1.091279105182546 }
  */
-export const clopperPearsonOddsLimits = memoLimits(function clopperPearsonOddsLimits(x: number, n: number, confidence: number): { lower: number; upper: number } {
+export const clopperPearsonOddsLimits = memoLimits(function clopperPearsonOddsLimits(
+  x: number,
+  n: number,
+  confidence: number,
+): { lower: number; upper: number } {
   const alpha = 1 - confidence;
   const piL = x === 0 ? 0 : betaQuantile(alpha / 2, x, n - x + 1); // Clopper & Pearson 1934
   const piU = x === n ? 1 : betaQuantile(1 - alpha / 2, x + 1, n - x); // Clopper & Pearson 1934
@@ -119,7 +123,20 @@ export function rateRatio(exposed: RateGroup, reference: RateGroup, confidence =
       undefinedBecause(reasons, f, why);
     }
     const i = nullInterval;
-    return { estimate: null, wald: i(), exact: i(), midP: i(), pExact: null, pExactMinLikelihood: null, pMidP: null, pWald: null, pScore: null, confidence, methods, reasons };
+    return {
+      estimate: null,
+      wald: i(),
+      exact: i(),
+      midP: i(),
+      pExact: null,
+      pExactMinLikelihood: null,
+      pMidP: null,
+      pWald: null,
+      pScore: null,
+      confidence,
+      methods,
+      reasons,
+    };
   };
   // Guard clauses: a rate ratio needs person-time in both groups.
   if (t1 === 0) return empty('no person-time in the exposed group');
@@ -129,14 +146,16 @@ export function rateRatio(exposed: RateGroup, reference: RateGroup, confidence =
   const timeRatio = t0 / t1;
   let estimate: number | null;
   if (a === 0 && b === 0) estimate = undefinedBecause(reasons, 'estimate', 'no cases in either group');
-  else if (b === 0) estimate = Infinity; // (a/T1)/(0/T0) with a > 0 (METHODS.md §2)
-  else estimate = (a / t1) / (b / t0); // IRR = (a/T1)/(b/T0)
+  else if (b === 0)
+    estimate = Infinity; // (a/T1)/(0/T0) with a > 0 (METHODS.md §2)
+  else estimate = a / t1 / (b / t0); // IRR = (a/T1)/(b/T0)
 
   // Wald on the log scale: SE(ln IRR) = √(1/a + 1/b) (Rothman & Greenland 1998, ch. 14).
   let wald: Interval = nullInterval();
   let pWald: number | null = null;
   if (a === 0 || b === 0) {
-    const why = a === 0 && b === 0 ? 'no cases in either group' : a === 0 ? 'no cases in the exposed group (log of 0)' : 'no cases in the reference group (log of 0)';
+    const why =
+      a === 0 && b === 0 ? 'no cases in either group' : a === 0 ? 'no cases in the exposed group (log of 0)' : 'no cases in the reference group (log of 0)';
     undefinedBecause(reasons, 'wald', why);
     undefinedBecause(reasons, 'pWald', why);
   } else {

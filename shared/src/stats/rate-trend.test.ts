@@ -19,11 +19,14 @@ describe('score test for trend in rates', () => {
   it('hand-computed three-level example (common practice: the formula worked by hand)', () => {
     // O = 10, 20, 30 in T = 1000 each: E = 20 each; U = Σx(O − E) = 0·(−10) + 1·0 + 2·10 = 20;
     // V = Σx²E − (ΣxE)²/O₊ = 100 − 60²/60 = 40; χ² = 400/40 = 10.
-    const t = rateTrend([
-      { score: 0, cases: 10, personTime: 1000 },
-      { score: 1, cases: 20, personTime: 1000 },
-      { score: 2, cases: 30, personTime: 1000 },
-    ], { per: 1000 });
+    const t = rateTrend(
+      [
+        { score: 0, cases: 10, personTime: 1000 },
+        { score: 1, cases: 20, personTime: 1000 },
+        { score: 2, cases: 30, personTime: 1000 },
+      ],
+      { per: 1000 },
+    );
     expectRelClose(t.chi2, 10, 1e-12);
     expect(t.df).toBe(1);
     expect(t.levels[2]!.rate.estimate).toBe(30);
@@ -41,8 +44,18 @@ describe('score test for trend in rates', () => {
   });
 
   it('no cases or equal scores: undefined with reasons; fewer than two levels is invalid', () => {
-    expect(rateTrend([{ score: 0, cases: 0, personTime: 5 }, { score: 1, cases: 0, personTime: 5 }]).chi2).toBeNull();
-    expect(rateTrend([{ score: 1, cases: 2, personTime: 5 }, { score: 1, cases: 3, personTime: 5 }]).reasons[0]!.reason).toMatch(/same score/);
+    expect(
+      rateTrend([
+        { score: 0, cases: 0, personTime: 5 },
+        { score: 1, cases: 0, personTime: 5 },
+      ]).chi2,
+    ).toBeNull();
+    expect(
+      rateTrend([
+        { score: 1, cases: 2, personTime: 5 },
+        { score: 1, cases: 3, personTime: 5 },
+      ]).reasons[0]!.reason,
+    ).toMatch(/same score/);
     expect(() => rateTrend([{ score: 0, cases: 1, personTime: 1 }])).toThrow(StatsValidationError);
   });
 });

@@ -41,7 +41,7 @@ export function restrictedRiskMle(x1: number, n1: number, x0: number, n0: number
   const c = delta * delta + delta * (2 * p1hat + theta + 1) + p1hat + theta * p0hat;
   const d = -p1hat * delta * (1 + delta);
   const v = b ** 3 / (27 * a ** 3) - (b * c) / (6 * a * a) + d / (2 * a);
-  const s = b * b / (9 * a * a) - c / (3 * a);
+  const s = (b * b) / (9 * a * a) - c / (3 * a);
   const u = (v < 0 ? -1 : 1) * Math.sqrt(Math.max(0, s));
   // u = 0 makes the trigonometric form 0/0; the root is then the inflection point −b/(3a).
   const w = u === 0 ? Math.PI / 2 : (Math.PI + Math.acos(Math.max(-1, Math.min(1, v / u ** 3)))) / 3;
@@ -68,7 +68,7 @@ export function scoreRiskDifferenceInterval(t: TwoByTwo, confidence: number, nur
     const diff = rd - delta;
     if (diff === 0) return 0;
     const { p1, p0 } = restrictedRiskMle(t.a, n1, t.c, n0, delta);
-    const variance = k * (p1 * (1 - p1) / n1 + p0 * (1 - p0) / n0);
+    const variance = k * ((p1 * (1 - p1)) / n1 + (p0 * (1 - p0)) / n0);
     return variance <= 0 ? (diff > 0 ? Infinity : -Infinity) : diff / Math.sqrt(variance);
   };
   // Bisection to full double precision: f(δ) = score(δ) − target is decreasing in δ.

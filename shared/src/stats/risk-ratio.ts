@@ -42,7 +42,7 @@ export function riskRatio(t: TwoByTwo, confidence = 0.95): RiskRatioResult {
   let estimate: number | null;
   if (a === 0 && c === 0) estimate = undefinedBecause(reasons, 'estimate', 'no events in either group');
   else if (c === 0) estimate = Infinity;
-  else estimate = (a / n1) / (c / n0); // RR = p1/p0
+  else estimate = a / n1 / (c / n0); // RR = p1/p0
   if (a === 0 || c === 0) {
     undefinedBecause(reasons, 'katz', a === 0 ? 'no events in the exposed group (log of 0)' : 'no events in the reference group (log of 0)');
     return { estimate, katz: nullInterval(), confidence, methods, reasons };

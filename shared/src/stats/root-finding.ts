@@ -7,13 +7,7 @@
  * @example
  * brentRoot((x) => x * x - 2, 0, 2) // 1.414213562373095
  */
-export function brentRoot(
-  f: (x: number) => number,
-  lo: number,
-  hi: number,
-  tolerance = 1e-14,
-  maxIterations = 300,
-): number {
+export function brentRoot(f: (x: number) => number, lo: number, hi: number, tolerance = 1e-14, maxIterations = 300): number {
   let a = lo;
   let b = hi;
   let fa = f(a);

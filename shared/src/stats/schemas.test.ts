@@ -33,7 +33,13 @@ describe('request schemas and the request runner', () => {
     const requests = [
       { kind: 'rates', exposed: { cases: 41, personTime: 28010 }, reference: { cases: 15, personTime: 19017 } },
       { kind: 'stratified-rates', strata: [{ exposed: { cases: 4, personTime: 10 }, reference: { cases: 2, personTime: 10 } }] },
-      { kind: 'trend', levels: [{ score: 0, cases: 1, personTime: 10 }, { score: 1, cases: 4, personTime: 10 }] },
+      {
+        kind: 'trend',
+        levels: [
+          { score: 0, cases: 1, personTime: 10 },
+          { score: 1, cases: 4, personTime: 10 },
+        ],
+      },
       { kind: 'sir', observed: 12, expected: 7.4 },
       { kind: 'poisson', count: 10 },
       { kind: 'risks', exposed: { cases: 5, total: 56 }, reference: { cases: 0, total: 29 } },
@@ -49,7 +55,10 @@ describe('request schemas and the request runner', () => {
   });
 
   it('JSON encoding writes infinities as strings and never NaN', () => {
-    const res = toJsonValue(runStatsRequest({ kind: 'risks', exposed: { cases: 5, total: 56 }, reference: { cases: 0, total: 29 } })) as Record<string, Record<string, unknown>>;
+    const res = toJsonValue(runStatsRequest({ kind: 'risks', exposed: { cases: 5, total: 56 }, reference: { cases: 0, total: 29 } })) as Record<
+      string,
+      Record<string, unknown>
+    >;
     expect(res.rr!.estimate).toBe('Infinity');
     expect((res.or!.exact as Record<string, unknown>).upper).toBe('Infinity');
     expect(toJsonValue({ x: -Infinity, y: Number.NaN })).toEqual({ x: '-Infinity', y: null });

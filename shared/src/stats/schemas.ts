@@ -20,9 +20,7 @@ export const rateGroupSchema = z
   .strictObject({ cases: countSchema, personTime: nonNegativeSchema })
   .refine((g) => !(g.cases > 0 && g.personTime === 0), { message: 'cases > 0 with zero person-time' });
 
-export const riskGroupSchema = z
-  .strictObject({ cases: countSchema, total: countSchema })
-  .refine((g) => g.cases <= g.total, { message: 'cases exceed total' });
+export const riskGroupSchema = z.strictObject({ cases: countSchema, total: countSchema }).refine((g) => g.cases <= g.total, { message: 'cases exceed total' });
 
 export const ratesRequestSchema = z.strictObject({
   kind: z.literal('rates'),

@@ -69,10 +69,21 @@ function coreValues(c: OracleCase): Record<string, number | null> {
   if (c.kind === 'rates') {
     const r = compareRates({ cases: n('a'), personTime: n('t1') }, { cases: n('b'), personTime: n('t0') }, { confidence: n('conf') });
     return {
-      exactLower: r.irr.exact.lower, exactUpper: r.irr.exact.upper, midPLower: r.irr.midP.lower, midPUpper: r.irr.midP.upper,
-      pExact: r.irr.pExact, pMidP: r.irr.pMidP, pExactMinLikelihood: r.irr.pExactMinLikelihood,
-      estimate: r.irr.estimate, waldLower: r.irr.wald.lower, waldUpper: r.irr.wald.upper, pWald: r.irr.pWald,
-      ird: r.ird.estimate, irdLower: r.ird.wald.lower, irdUpper: r.ird.wald.upper, irdP: r.ird.p,
+      exactLower: r.irr.exact.lower,
+      exactUpper: r.irr.exact.upper,
+      midPLower: r.irr.midP.lower,
+      midPUpper: r.irr.midP.upper,
+      pExact: r.irr.pExact,
+      pMidP: r.irr.pMidP,
+      pExactMinLikelihood: r.irr.pExactMinLikelihood,
+      estimate: r.irr.estimate,
+      waldLower: r.irr.wald.lower,
+      waldUpper: r.irr.wald.upper,
+      pWald: r.irr.pWald,
+      ird: r.ird.estimate,
+      irdLower: r.ird.wald.lower,
+      irdUpper: r.ird.wald.upper,
+      irdP: r.ird.p,
     };
   }
   if (c.kind === 'poisson') {
@@ -86,11 +97,22 @@ function coreValues(c: OracleCase): Record<string, number | null> {
   }
   const r = compareRisks({ cases: n('a'), total: n('a') + n('b') }, { cases: n('c'), total: n('c') + n('d') }, n('conf'));
   return {
-    newcombeLower: r.rd.newcombe.lower, newcombeUpper: r.rd.newcombe.upper,
-    rr: r.rr.estimate, katzLower: r.rr.katz.lower, katzUpper: r.rr.katz.upper,
-    or: r.or.estimate, woolfLower: r.or.woolf.lower, woolfUpper: r.or.woolf.upper,
-    orExact: r.or.exact.estimate, orExactLower: r.or.exact.lower, orExactUpper: r.or.exact.upper,
-    pFisher: r.pFisher, chi2: r.chiSquare.chi2, pChi2: r.pChiSquare, chi2Yates: r.chiSquareYates.chi2, pChi2Yates: r.pChiSquareYates,
+    newcombeLower: r.rd.newcombe.lower,
+    newcombeUpper: r.rd.newcombe.upper,
+    rr: r.rr.estimate,
+    katzLower: r.rr.katz.lower,
+    katzUpper: r.rr.katz.upper,
+    or: r.or.estimate,
+    woolfLower: r.or.woolf.lower,
+    woolfUpper: r.or.woolf.upper,
+    orExact: r.or.exact.estimate,
+    orExactLower: r.or.exact.lower,
+    orExactUpper: r.or.exact.upper,
+    pFisher: r.pFisher,
+    chi2: r.chiSquare.chi2,
+    pChi2: r.pChiSquare,
+    chi2Yates: r.chiSquareYates.chi2,
+    pChi2Yates: r.pChiSquareYates,
   };
 }
 

@@ -27,7 +27,12 @@ describe('standardized incidence ratio', () => {
   });
 
   it('expected count from reference rates × person-time', () => {
-    expect(expectedCount([{ personTime: 1000, referenceRate: 0.002 }, { personTime: 500, referenceRate: 0.01 }])).toBe(7);
+    expect(
+      expectedCount([
+        { personTime: 1000, referenceRate: 0.002 },
+        { personTime: 500, referenceRate: 0.01 },
+      ]),
+    ).toBe(7);
   });
 
   it('minimum-likelihood p: ties and both sides (hand-computed from the Poisson pmf; common practice)', () => {

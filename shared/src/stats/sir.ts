@@ -107,7 +107,19 @@ export function standardizedIncidenceRatio(observed: number, expected: number, c
   const reasons: Reason[] = [];
   if (expected === 0) {
     for (const f of ['sir', 'exact', 'midP', 'byar', 'pExact', 'pExactMinLikelihood']) undefinedBecause(reasons, f, 'expected count is 0');
-    return { observed, expected, sir: null, exact: nullInterval(), midP: nullInterval(), byar: nullInterval(), pExact: null, pExactMinLikelihood: null, confidence, methods, reasons };
+    return {
+      observed,
+      expected,
+      sir: null,
+      exact: nullInterval(),
+      midP: nullInterval(),
+      byar: nullInterval(),
+      pExact: null,
+      pExactMinLikelihood: null,
+      confidence,
+      methods,
+      reasons,
+    };
   }
   const div = (l: { lower: number; upper: number }): Interval => ({ lower: l.lower / expected, upper: l.upper / expected });
   const lower = poissonLowerTail(observed, expected);

@@ -111,7 +111,11 @@ export function mantelHaenszelRates(strata: RateStratum[], options: RateOptions 
     }
     forIrd.push(s);
     if (s.exposed.cases + s.reference.cases === 0) {
-      droppedStrata.push({ index, reason: 'no cases in either arm: contributes nothing to the MH rate ratio, its test or homogeneity', excludedFrom: ['mhIrr', 'homogeneity'] });
+      droppedStrata.push({
+        index,
+        reason: 'no cases in either arm: contributes nothing to the MH rate ratio, its test or homogeneity',
+        excludedFrom: ['mhIrr', 'homogeneity'],
+      });
       return;
     }
     forIrr.push(s);
@@ -145,7 +149,10 @@ function mhRateRatio(strata: RateStratum[], z: number, reasons: Reason[]): Strat
   let varNum = 0;
   let observedMinusExpected = 0;
   let variance = 0;
-  for (const { exposed: { cases: a, personTime: t1 }, reference: { cases: b, personTime: t0 } } of strata) {
+  for (const {
+    exposed: { cases: a, personTime: t1 },
+    reference: { cases: b, personTime: t0 },
+  } of strata) {
     const t = t1 + t0;
     const m = a + b;
     num += (a * t0) / t; // Σ aT0/T (Greenland & Robins 1985)
@@ -180,7 +187,10 @@ function mhRateDifference(strata: RateStratum[], z: number, per: number, reasons
   let num = 0;
   let sumW = 0;
   let varNum = 0;
-  for (const { exposed: { cases: a, personTime: t1 }, reference: { cases: b, personTime: t0 } } of strata) {
+  for (const {
+    exposed: { cases: a, personTime: t1 },
+    reference: { cases: b, personTime: t0 },
+  } of strata) {
     const t = t1 + t0;
     const w = (t1 * t0) / t; // w = T1T0/T (Greenland & Robins 1985)
     num += (a * t0 - b * t1) / t; // Σ (aT0 − bT1)/T
@@ -219,7 +229,10 @@ export function rateHomogeneityScore(strata: RateStratum[], commonIrr: number | 
     return none('the common MH rate ratio is 0, infinite or undefined: expected counts are degenerate');
   }
   let chi2 = 0;
-  for (const { exposed: { cases: a, personTime: t1 }, reference: { cases: b, personTime: t0 } } of strata) {
+  for (const {
+    exposed: { cases: a, personTime: t1 },
+    reference: { cases: b, personTime: t0 },
+  } of strata) {
     const m = a + b;
     const p = (commonIrr * t1) / (commonIrr * t1 + t0); // p̂ = IRR_MH T1/(IRR_MH T1 + T0)
     const e = m * p;

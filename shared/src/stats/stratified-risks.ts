@@ -92,7 +92,11 @@ export function stratifiedRisks(strata: RiskStratum[], confidence = 0.95): Strat
     }
     forRd.push(t);
     if (m1 === 0) {
-      droppedStrata.push({ index, reason: 'no events in either group: contributes only to the MH risk difference', excludedFrom: ['mhRr', 'mhOr', 'homogeneity'] });
+      droppedStrata.push({
+        index,
+        reason: 'no events in either group: contributes only to the MH risk difference',
+        excludedFrom: ['mhRr', 'mhOr', 'homogeneity'],
+      });
       return;
     }
     forRr.push(t);
@@ -110,7 +114,8 @@ export function stratifiedRisks(strata: RiskStratum[], confidence = 0.95): Strat
   const homogeneity = nullTest();
   const homogeneityTarone = nullTest();
   if (forOr.length < 2) undefinedBecause(reasons, 'homogeneity', 'fewer than two strata informative on the odds ratio');
-  else if (mhOr.estimate === null || mhOr.estimate === 0 || mhOr.estimate === Infinity) undefinedBecause(reasons, 'homogeneity', 'the MH odds ratio is 0, infinite or undefined');
+  else if (mhOr.estimate === null || mhOr.estimate === 0 || mhOr.estimate === Infinity)
+    undefinedBecause(reasons, 'homogeneity', 'the MH odds ratio is 0, infinite or undefined');
   else {
     const bd = breslowDay(forOr, mhOr.estimate);
     Object.assign(homogeneity, { chi2: bd.chi2, df: bd.df, p: chiSquareUpperTail(bd.chi2, bd.df) });

@@ -21,7 +21,7 @@ describe('feature boundaries', () => {
       "import { describeRule } from '../rules/describe-rule';",
       "import { z } from 'zod';",
       "// import { nothing } from '../admin/people-page';",
-      "const text = \"from '../admin/people-page'\";",
+      'const text = "from \'../admin/people-page\'";',
     ].join('\n');
     expect(crossFeatureImports(file, source, root)).toEqual([
       '../groups/api/get-groups',

@@ -41,7 +41,12 @@ export const COMPLEMENT_TEXT = 'withheld';
  * count, 'complement' for one withheld so that a small count elsewhere cannot be got back by
  * subtraction (shared/src/small-cells.ts).
  */
-export function showCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | SplitWithheld | null = false): ShownCount {
+export function showCount(
+  count: number | null,
+  role: Role | null | undefined,
+  t: number = threshold,
+  withheld: boolean | Withheld | SplitWithheld | null = false,
+): ShownCount {
   // Only a count withheld for being small says so; every other reason reads "withheld".
   if (withheld && withheld !== true && withheld !== 'small') return { text: COMPLEMENT_TEXT, value: null, suppressed: true };
   if (withheld) return { text: `<${t}`, value: null, suppressed: true };
@@ -51,7 +56,12 @@ export function showCount(count: number | null, role: Role | null | undefined, t
 }
 
 /** For CSV: the count itself, or the "<5" text when suppressed, never the hidden number. */
-export function exportCount(count: number | null, role: Role | null | undefined, t: number = threshold, withheld: boolean | Withheld | SplitWithheld | null = false): string | number | null {
+export function exportCount(
+  count: number | null,
+  role: Role | null | undefined,
+  t: number = threshold,
+  withheld: boolean | Withheld | SplitWithheld | null = false,
+): string | number | null {
   const shown = showCount(count, role, t, withheld);
   return shown.suppressed ? shown.text : shown.value;
 }

@@ -7,7 +7,13 @@ import { ApiError } from './api-error';
  * A multipart upload through XMLHttpRequest, because fetch cannot report upload progress.
  * Same rules as the API client: same-origin credentials, the CSRF header, ApiError on failure.
  */
-export function uploadWithProgress<T>(url: string, form: FormData, schema: ZodType<T>, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<T> {
+export function uploadWithProgress<T>(
+  url: string,
+  form: FormData,
+  schema: ZodType<T>,
+  onProgress: (fraction: number) => void,
+  signal?: AbortSignal,
+): Promise<T> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open('POST', url);

@@ -70,7 +70,10 @@ describe('the disclosure frame of a run (worked out by hand)', () => {
   it('a company total that would narrow its small sites whatever is withheld beside them: with its months shown, the sites go unlabelled', () => {
     // 4 + 4 = 8: each "<5" would have to be 4. The company's month (8) is not small and is shown.
     const frame = disclosureFrame([cell(1, 1, 11, 4), cell(1, 2, 11, 4)], 5);
-    expect(pick(frame, { window: 'rolling12' }).map((w) => [w.siteId, w.reason])).toEqual([[1, 'months'], [2, 'months']]);
+    expect(pick(frame, { window: 'rolling12' }).map((w) => [w.siteId, w.reason])).toEqual([
+      [1, 'months'],
+      [2, 'months'],
+    ]);
     expect(pick(frame, { siteId: null, window: 'rolling12' })).toEqual([]);
     // With a small company month (2 + 2), the company's yearly count is withheld in its own right.
     const small = disclosureFrame([cell(1, 1, 11, 2), cell(1, 2, 11, 2)], 5);

@@ -6,7 +6,15 @@ export async function storeFrame(em: EntityManager, runId: string, frame: Withhe
   await em.query(
     `INSERT INTO run_withheld (run_id, site_id, outcome_id, exposure_group_id, window_kind, period, reason)
      SELECT $1, * FROM unnest($2::int[], $3::int[], $4::int[], $5::text[], $6::date[], $7::text[])`,
-    [runId, frame.map((f) => f.siteId), frame.map((f) => f.outcomeId), frame.map((f) => f.exposureGroupId), frame.map((f) => f.window), frame.map((f) => f.period), frame.map((f) => f.reason)],
+    [
+      runId,
+      frame.map((f) => f.siteId),
+      frame.map((f) => f.outcomeId),
+      frame.map((f) => f.exposureGroupId),
+      frame.map((f) => f.window),
+      frame.map((f) => f.period),
+      frame.map((f) => f.reason),
+    ],
   );
   await em.query(`UPDATE runs SET disclosure_frame = true WHERE id = $1`, [runId]);
 }

@@ -48,10 +48,12 @@ async function audit(em: EntityManager, action: string, flagId: string, detail: 
 }
 
 async function addEvent(em: EntityManager, flagId: string, kind: string, runId: string, detail: Record<string, unknown>): Promise<string> {
-  const rows: Array<{ id: string }> = await em.query(
-    `INSERT INTO flag_events (flag_id, kind, run_id, detail) VALUES ($1, $2, $3, $4) RETURNING id`,
-    [flagId, kind, runId, JSON.stringify(toJsonValue(detail))],
-  );
+  const rows: Array<{ id: string }> = await em.query(`INSERT INTO flag_events (flag_id, kind, run_id, detail) VALUES ($1, $2, $3, $4) RETURNING id`, [
+    flagId,
+    kind,
+    runId,
+    JSON.stringify(toJsonValue(detail)),
+  ]);
   return rows[0]!.id;
 }
 
@@ -104,7 +106,7 @@ export async function applyVerdicts(
 
   const notify = async (kind: NoticeKind, flagId: string, eventId: string, rule: RuleForFlags, v: ScopedVerdict) => {
     const group = groupOf.get(v.exposureGroupId);
-    const site = v.siteId === null ? null : siteOf.get(v.siteId) ?? { code: String(v.siteId), name: `site ${v.siteId}` };
+    const site = v.siteId === null ? null : (siteOf.get(v.siteId) ?? { code: String(v.siteId), name: `site ${v.siteId}` });
     const facts = {
       flagId,
       kind,
@@ -216,7 +218,9 @@ export async function applyVerdicts(
     }
 
     const worse = value > open.worst_value;
-    const events: RunFlagEvent[] = worse ? [] : await em.query(`SELECT kind, detail FROM flag_events WHERE flag_id = $1 AND run_id IS NOT NULL ORDER BY id`, [open.id]);
+    const events: RunFlagEvent[] = worse
+      ? []
+      : await em.query(`SELECT kind, detail FROM flag_events WHERE flag_id = $1 AND run_id IS NOT NULL ORDER BY id`, [open.id]);
     const withdrawal = worse ? null : withdrawnBy(standingEscalations(events), value);
     const worst = withdrawal ? withdrawal.worstBefore : Math.max(open.worst_value, value);
     // The figures are this run's even when they have not changed: readers other than the

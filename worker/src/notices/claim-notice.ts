@@ -35,10 +35,9 @@ export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: numbe
     const n = due[0];
     if (!n) return { kind: 'none' };
     if (n.attempts >= s.maxAttempts) {
-      await em.query(
-        `UPDATE notices SET state = 'failed', last_error = 'the sender stopped during the last allowed attempt; delivery unknown' WHERE id = $1`,
-        [n.id],
-      );
+      await em.query(`UPDATE notices SET state = 'failed', last_error = 'the sender stopped during the last allowed attempt; delivery unknown' WHERE id = $1`, [
+        n.id,
+      ]);
       return { kind: 'exhausted', id: n.id };
     }
     const [row] = await rows<{ recipient: string; subject: string; body: string; attempts: number; message_id: string }>(
@@ -48,6 +47,9 @@ export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: numbe
        WHERE id = $1 RETURNING recipient, coalesce(mail_subject, subject) AS subject, coalesce(mail_body, body) AS body, attempts, message_id`,
       [n.id, noticeMessageId(n.id), s.sendingLeaseMs],
     );
-    return { kind: 'claimed', notice: { id: n.id, recipient: row!.recipient, subject: row!.subject, body: row!.body, attempts: row!.attempts, messageId: row!.message_id } };
+    return {
+      kind: 'claimed',
+      notice: { id: n.id, recipient: row!.recipient, subject: row!.subject, body: row!.body, attempts: row!.attempts, messageId: row!.message_id },
+    };
   });
 }

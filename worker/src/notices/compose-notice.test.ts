@@ -37,7 +37,13 @@ describe('threshold notice text', () => {
   });
 
   it('says when the period was partial, and names the site of a site flag', () => {
-    const { subject, text } = composeNotice({ ...facts, window: 'month', period: '2031-12-01', completeness: 'partial', site: { code: 'NF', name: 'North Foundry' } });
+    const { subject, text } = composeNotice({
+      ...facts,
+      window: 'month',
+      period: '2031-12-01',
+      completeness: 'partial',
+      site: { code: 'NF', name: 'North Foundry' },
+    });
     expect(subject).toBe('Ratewarden: watch rule "Dermatitis rate above 20" raised a flag for Wet work at North Foundry');
     expect(text).toContain('Period: month of Dec 2031, partial (a roster or case list of the period was not in when the run read it)');
     expect(text).toContain("Site: North Foundry (NF), on this site's own results");

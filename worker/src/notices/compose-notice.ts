@@ -118,7 +118,8 @@ export function composeNotice(f: NoticeFacts): { subject: string; text: string }
   const where = f.site ? ` at ${f.site.name}` : '';
   const subject = `Ratewarden: watch rule "${f.ruleName}" ${words.subject} for ${f.groupName}${where}`;
   const pct = Math.round(f.settings.confidence * 100);
-  const compared = f.measure === 'uchart' ? 'the u-chart point over its upper control limit' : f.thresholdOn === 'estimate' ? 'the estimate' : `the lower ${pct}% bound`;
+  const compared =
+    f.measure === 'uchart' ? 'the u-chart point over its upper control limit' : f.thresholdOn === 'estimate' ? 'the estimate' : `the lower ${pct}% bound`;
   const lines = [
     words.opening,
     '',
@@ -129,7 +130,9 @@ export function composeNotice(f: NoticeFacts): { subject: string; text: string }
     `Measure: ${measureWords[f.measure]}; compared: ${compared}`,
     f.measure === 'uchart' ? 'Threshold: the upper control limit' : `Threshold: above ${num(f.threshold)}`,
     ...(f.withholdFigures
-      ? [`Cases in the group: fewer than ${f.withholdFigures.threshold}; the value and the figures computed from it are withheld here, as in the app (the occupational physician sees them)`]
+      ? [
+          `Cases in the group: fewer than ${f.withholdFigures.threshold}; the value and the figures computed from it are withheld here, as in the app (the occupational physician sees them)`,
+        ]
       : [
           f.measure === 'uchart'
             ? `Value: ${num(f.value)} times the upper control limit`

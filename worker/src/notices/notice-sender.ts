@@ -43,10 +43,10 @@ async function deliver(ds: DataSource, transport: NoticeTransport, s: SenderSett
   try {
     const info = await transport.sendMail({ from: s.from, to: n.recipient, subject: n.subject, text: n.body, messageId: n.messageId });
     // Only a notice still `sending` is marked: a sender that took over after the lease may have marked it already.
-    await ds.query(
-      `UPDATE notices SET state = 'sent', sent_at = now(), server_response = $2, last_error = NULL WHERE id = $1 AND state = 'sending'`,
-      [n.id, String((info as { response?: unknown }).response ?? '').slice(0, 500) || null],
-    );
+    await ds.query(`UPDATE notices SET state = 'sent', sent_at = now(), server_response = $2, last_error = NULL WHERE id = $1 AND state = 'sending'`, [
+      n.id,
+      String((info as { response?: unknown }).response ?? '').slice(0, 500) || null,
+    ]);
     return 'sent';
   } catch (err) {
     const message = (err instanceof Error ? err.message : String(err)).slice(0, 500);

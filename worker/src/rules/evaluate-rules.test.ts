@@ -6,20 +6,77 @@ import { evaluateRule, type RuleToEvaluate } from './evaluate-rules';
 function row(siteId: number | null, groupId: number, periodIndex: number, p: number, over: Partial<ResultRow> = {}): ResultRow {
   const period = `2031-${String(periodIndex).padStart(2, '0')}-01`;
   return {
-    site_id: siteId, outcome_id: 7, exposure_group_id: groupId, window_kind: 'rolling12', period, periodIndex, months_covered: 12,
-    is_reference: false, reference_group_id: 1, cases: 12, hours: '0', person_time: 3, rate: 4, rate_lower: 2, rate_upper: 7, expected: 5,
-    irr: 2.4, irr_lower: 1.2, irr_upper: 4.6, irr_p: p, irr_wald_lower: null, irr_wald_upper: null, ird: null, ird_lower: null, ird_upper: null, ird_p: null,
-    mh_age_irr: null, mh_age_irr_lower: null, mh_age_irr_upper: null, mh_age_irr_p: null, mh_age_ird: null, mh_age_ird_lower: null, mh_age_ird_upper: null,
-    mh_site_irr: null, mh_site_irr_lower: null, mh_site_irr_upper: null, mh_site_irr_p: null, mh_site_ird: null, mh_site_ird_lower: null, mh_site_ird_upper: null,
-    mh_sex_irr: null, mh_sex_irr_lower: null, mh_sex_irr_upper: null, mh_sex_irr_p: null, mh_sex_ird: null, mh_sex_ird_lower: null, mh_sex_ird_upper: null,
-    u_centre: null, u_lcl: null, u_ucl: null, u_signal: null, detail: {},
+    site_id: siteId,
+    outcome_id: 7,
+    exposure_group_id: groupId,
+    window_kind: 'rolling12',
+    period,
+    periodIndex,
+    months_covered: 12,
+    is_reference: false,
+    reference_group_id: 1,
+    cases: 12,
+    hours: '0',
+    person_time: 3,
+    rate: 4,
+    rate_lower: 2,
+    rate_upper: 7,
+    expected: 5,
+    irr: 2.4,
+    irr_lower: 1.2,
+    irr_upper: 4.6,
+    irr_p: p,
+    irr_wald_lower: null,
+    irr_wald_upper: null,
+    ird: null,
+    ird_lower: null,
+    ird_upper: null,
+    ird_p: null,
+    mh_age_irr: null,
+    mh_age_irr_lower: null,
+    mh_age_irr_upper: null,
+    mh_age_irr_p: null,
+    mh_age_ird: null,
+    mh_age_ird_lower: null,
+    mh_age_ird_upper: null,
+    mh_site_irr: null,
+    mh_site_irr_lower: null,
+    mh_site_irr_upper: null,
+    mh_site_irr_p: null,
+    mh_site_ird: null,
+    mh_site_ird_lower: null,
+    mh_site_ird_upper: null,
+    mh_sex_irr: null,
+    mh_sex_irr_lower: null,
+    mh_sex_irr_upper: null,
+    mh_sex_irr_p: null,
+    mh_sex_ird: null,
+    mh_sex_ird_lower: null,
+    mh_sex_ird_upper: null,
+    u_centre: null,
+    u_lcl: null,
+    u_ucl: null,
+    u_signal: null,
+    detail: {},
     ...over,
   };
 }
 
 const rule = (over: Partial<RuleToEvaluate> = {}): RuleToEvaluate => ({
-  id: 'rule', outcomeId: 7, exposureGroupId: null, siteIds: null, measure: 'irr', thresholdOn: 'estimate', threshold: 1, minCases: 5, minExpected: 0,
-  windowKind: 'rolling12', consecutivePeriods: 1, fdrControl: false, fdrLevel: 0.05, ...over,
+  id: 'rule',
+  outcomeId: 7,
+  exposureGroupId: null,
+  siteIds: null,
+  measure: 'irr',
+  thresholdOn: 'estimate',
+  threshold: 1,
+  minCases: 5,
+  minExpected: 0,
+  windowKind: 'rolling12',
+  consecutivePeriods: 1,
+  fdrControl: false,
+  fdrLevel: 0.05,
+  ...over,
 });
 
 const byScope = (vs: ReturnType<typeof evaluateRule>) => Object.fromEntries(vs.map((v) => [`${v.siteId ?? 'all'}:${v.exposureGroupId}`, v]));
@@ -51,7 +108,11 @@ describe('watch rules on the company and on chosen sites', () => {
     expect(v['11:3']!.q).toBeCloseTo(0.16 / 3, 12);
     expect(v['12:2']!.q).toBeCloseTo(0.16 / 3, 12);
     expect(v['12:3']!.q).toBeCloseTo(0.2, 12);
-    expect(Object.entries(v).filter(([, x]) => x.crossing).map(([k]) => k)).toEqual(['11:2']);
+    expect(
+      Object.entries(v)
+        .filter(([, x]) => x.crossing)
+        .map(([k]) => k),
+    ).toEqual(['11:2']);
     // The same rule on site 11 alone: its own family of two.
     const alone = byScope(evaluateRule(rule({ siteIds: [11], fdrControl: true, fdrLevel: 0.05 }), rows));
     expect([alone['11:2']!.q, alone['11:3']!.q]).toEqual([0.02, 0.04]);
@@ -60,10 +121,13 @@ describe('watch rules on the company and on chosen sites', () => {
 
   it('consecutive periods and minimum cases hold per group × site; the latest period is the latest of any chosen site', () => {
     const rows = [
-      row(11, 2, 11, 0.01), row(11, 2, 12, 0.01),
-      row(12, 2, 11, 0.01, { irr: 0.8 }), row(12, 2, 12, 0.01), // past the rule in the latest period only
+      row(11, 2, 11, 0.01),
+      row(11, 2, 12, 0.01),
+      row(12, 2, 11, 0.01, { irr: 0.8 }),
+      row(12, 2, 12, 0.01), // past the rule in the latest period only
       row(13, 2, 11, 0.01), // nothing in the latest period (left out as partial, say): no verdict
-      row(14, 2, 11, 0.01), row(14, 2, 12, 0.01, { cases: 4 }),
+      row(14, 2, 11, 0.01),
+      row(14, 2, 12, 0.01, { cases: 4 }),
     ];
     const v = byScope(evaluateRule(rule({ siteIds: [11, 12, 13, 14], consecutivePeriods: 2 }), rows));
     expect(Object.keys(v).sort()).toEqual(['11:2', '12:2', '14:2']);

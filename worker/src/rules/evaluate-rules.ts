@@ -5,7 +5,19 @@ import type { ResultRow } from '../runs/compute-results';
 /** The part of a watch rule that evaluation needs. */
 export type RuleToEvaluate = Pick<
   WatchRuleRow,
-  'id' | 'outcomeId' | 'exposureGroupId' | 'siteIds' | 'measure' | 'thresholdOn' | 'threshold' | 'minCases' | 'minExpected' | 'windowKind' | 'consecutivePeriods' | 'fdrControl' | 'fdrLevel'
+  | 'id'
+  | 'outcomeId'
+  | 'exposureGroupId'
+  | 'siteIds'
+  | 'measure'
+  | 'thresholdOn'
+  | 'threshold'
+  | 'minCases'
+  | 'minExpected'
+  | 'windowKind'
+  | 'consecutivePeriods'
+  | 'fdrControl'
+  | 'fdrLevel'
 >;
 
 /** What a rule says about one exposure group in one scope (the company, or one site) at the latest period of a run. */

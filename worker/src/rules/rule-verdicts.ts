@@ -40,14 +40,17 @@ export interface VerdictOptions {
  */
 export function ruleVerdicts(rules: readonly RuleToEvaluate[], rows: readonly ResultRow[], o: VerdictOptions): ScopedVerdict[] {
   const withheld = frameIndex(o.frame);
-  const shown = (groupId: number | null, r: ResultRow) => groupId === null || !withheld.has(frameKey(r.site_id, r.outcome_id, groupId, r.window_kind, r.period));
+  const shown = (groupId: number | null, r: ResultRow) =>
+    groupId === null || !withheld.has(frameKey(r.site_id, r.outcome_id, groupId, r.window_kind, r.period));
   const scopeOf = (siteId: number | null) => (siteId === null ? null : [siteId]);
   const complete = (r: ResultRow) => o.rulesOnPartialPeriods || o.periods.windowComplete(r.window_kind, r.period, scopeOf(r.site_id));
   const usable = rows.filter((r) => complete(r) && shown(r.exposure_group_id, r) && (r.is_reference || shown(r.reference_group_id, r)));
   const sirRows = sirCarriers(usable, o.sir ?? [], o.hoursPerUnit ?? 2000);
   return rules.flatMap((rule) =>
     evaluateRule(
-      rule.measure === 'sir' ? { ...rule, consecutivePeriods: 1, minCases: Math.max(rule.minCases, o.threshold) } : { ...rule, minCases: Math.max(rule.minCases, o.threshold) },
+      rule.measure === 'sir'
+        ? { ...rule, consecutivePeriods: 1, minCases: Math.max(rule.minCases, o.threshold) }
+        : { ...rule, minCases: Math.max(rule.minCases, o.threshold) },
       rule.measure === 'sir' ? sirRows : usable,
     ).map((v) => ({
       ...v,

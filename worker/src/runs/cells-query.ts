@@ -216,7 +216,11 @@ export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[], a
 }
 
 /** Cases counted per outcome, and how many of them the cells hold (the rest matched no roster row). */
-export async function loadCaseTotals(q: QueryRunner, countedStatuses: CaseStatus[], cells: Cell[]): Promise<Array<{ outcomeId: number; counted: number; attributed: number }>> {
+export async function loadCaseTotals(
+  q: QueryRunner,
+  countedStatuses: CaseStatus[],
+  cells: Cell[],
+): Promise<Array<{ outcomeId: number; counted: number; attributed: number }>> {
   const rows: Array<{ outcome_id: number; counted: number }> = await q.query(COUNTED_CASES_SQL, [countedStatuses]);
   const attributed = new Map<number, number>();
   for (const c of cells) attributed.set(c.outcomeId, (attributed.get(c.outcomeId) ?? 0) + c.cases);

@@ -149,7 +149,13 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
  * they carry everything the company rows do except the adjustment by site (a single site is one
  * stratum, nothing to adjust).
  */
-export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: GroupInfo[], settings: RunSettings, siteId: number | null = null): ComputedResults {
+export function computeResults(
+  cells: Cell[],
+  outcomes: OutcomeInfo[],
+  groups: GroupInfo[],
+  settings: RunSettings,
+  siteId: number | null = null,
+): ComputedResults {
   const series = buildSeries(cells);
   const globalReference = groups.find((g) => g.isReference)?.id ?? null;
   const levelOf = new Map(groups.map((g) => [g.id, g.exposureLevel]));
@@ -186,13 +192,29 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
           }
           const isReference = g === referenceId;
           const compared = ref !== null && !isReference;
-          const mhAge = compared ? mh(strata(t, ref, (x) => x.byAge, settings), settings) : null;
-          const mhSite = compared && siteId === null ? mh(strata(t, ref, (x) => x.bySite, settings), settings) : null;
-          const mhSex = compared ? mh(strata(t, ref, (x) => x.bySex, settings), settings) : null;
+          const mhAge = compared
+            ? mh(
+                strata(t, ref, (x) => x.byAge, settings),
+                settings,
+              )
+            : null;
+          const mhSite =
+            compared && siteId === null
+              ? mh(
+                  strata(t, ref, (x) => x.bySite, settings),
+                  settings,
+                )
+              : null;
+          const mhSex = compared
+            ? mh(
+                strata(t, ref, (x) => x.bySex, settings),
+                settings,
+              )
+            : null;
           // The crude comparison once; the three adjustments add only their Mantel–Haenszel parts.
           const compare = compared ? compareRates(exposed, refGroup!, opts) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
-          const point = w.kind === 'month' ? charts.get(g)!.points.get(p) ?? null : null;
+          const point = w.kind === 'month' ? (charts.get(g)!.points.get(p) ?? null) : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
           results.push({
             site_id: siteId,
@@ -267,7 +289,10 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
 
         if (levelTotals.size >= 2) {
           const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
-          const trend = rateTrend(levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })), opts);
+          const trend = rateTrend(
+            levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })),
+            opts,
+          );
           trends.push({
             site_id: siteId,
             outcome_id: outcome.id,
@@ -276,7 +301,12 @@ export function computeResults(cells: Cell[], outcomes: OutcomeInfo[], groups: G
             chi2: trend.chi2,
             p: trend.p,
             u: trend.u,
-            levels: levels.map(([level, lt], i) => ({ level, cases: lt.cases, personTime: personTimeOf(lt.cents, settings), rate: trend.levels[i]!.rate.estimate })),
+            levels: levels.map(([level, lt], i) => ({
+              level,
+              cases: lt.cases,
+              personTime: personTimeOf(lt.cents, settings),
+              rate: trend.levels[i]!.rate.estimate,
+            })),
           });
         }
       }

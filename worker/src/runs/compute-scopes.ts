@@ -39,7 +39,8 @@ export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[], ruleSites: R
       if (list) list.push(c);
       else bySite.set(c.siteId, [c]);
     }
-    for (const siteId of [...bySite.keys()].sort((a, b) => a - b)) jobs.push({ siteId, outcome, cells: bySite.get(siteId)!, forRules: ruleSites.has(ruleSiteKey(outcome.id, siteId)) });
+    for (const siteId of [...bySite.keys()].sort((a, b) => a - b))
+      jobs.push({ siteId, outcome, cells: bySite.get(siteId)!, forRules: ruleSites.has(ruleSiteKey(outcome.id, siteId)) });
   }
   return jobs;
 }

@@ -62,10 +62,18 @@ export function computeSir(cells: SirCell[], confidence: number, threshold: numb
   for (const sites of byGroup.values()) {
     const first = sites[0]!;
     const company = sites.reduce(
-      (t, c) => ({ observed: t.observed + c.observed, expected: t.expected + c.expected, cents: t.cents + c.cents, uncoveredCents: t.uncoveredCents + c.uncoveredCents }),
+      (t, c) => ({
+        observed: t.observed + c.observed,
+        expected: t.expected + c.expected,
+        cents: t.cents + c.cents,
+        uncoveredCents: t.uncoveredCents + c.uncoveredCents,
+      }),
       { observed: 0, expected: 0, cents: 0, uncoveredCents: 0 },
     );
-    const scopes: Array<{ siteId: number | null; t: typeof company }> = [{ siteId: null, t: company }, ...sites.map((s) => ({ siteId: s.siteId as number | null, t: s }))];
+    const scopes: Array<{ siteId: number | null; t: typeof company }> = [
+      { siteId: null, t: company },
+      ...sites.map((s) => ({ siteId: s.siteId as number | null, t: s })),
+    ];
     const uncovered = (siteId: number | null, observed: number) => (disclosure.totals.get(sirScopeKey(siteId, first.outcomeId, first.groupId)) ?? 0) - observed;
     const protect =
       disclosure.framed.has(`${first.outcomeId}:${first.groupId}`) ||

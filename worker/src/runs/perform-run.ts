@@ -98,7 +98,14 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
     if (requests.length === 0 && options.trigger === 'request') return { status: 'skipped', reason: 'nothing requested' };
   }
   const requestIds = requests.map((r) => r.id);
-  const reason = options.reason ?? (requests.length ? requests.map((r) => r.reason).join('; ').slice(0, 500) : null);
+  const reason =
+    options.reason ??
+    (requests.length
+      ? requests
+          .map((r) => r.reason)
+          .join('; ')
+          .slice(0, 500)
+      : null);
   const started = performance.now();
   const threshold = options.smallCellThreshold ?? DEFAULT_SMALL_CELL_THRESHOLD;
   const { version: settingsVersion, settings } = await currentAnalysisSettings(qr, options.settings);
@@ -108,12 +115,16 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
   );
   const runId = run!.id;
   const markPicked = (em: EntityManager | QueryRunner) =>
-    requestIds.length ? em.query(`UPDATE run_requests SET picked_at = now() WHERE id::text = ANY($1::text[]) AND picked_at IS NULL`, [requestIds]) : Promise.resolve();
+    requestIds.length
+      ? em.query(`UPDATE run_requests SET picked_at = now() WHERE id::text = ANY($1::text[]) AND picked_at IS NULL`, [requestIds])
+      : Promise.resolve();
 
   try {
     warmComputePool();
     // Fresher statistics are a help, not a condition: a run goes on without them.
-    const analyzed = await refreshPlannerStatistics((sql, params) => qr.query(sql, params)).catch((err: unknown) => [`not analyzed: ${err instanceof Error ? err.message : String(err)}`]);
+    const analyzed = await refreshPlannerStatistics((sql, params) => qr.query(sql, params)).catch((err: unknown) => [
+      `not analyzed: ${err instanceof Error ? err.message : String(err)}`,
+    ]);
     const t0 = performance.now();
     const snapshot = await readSnapshot(qr, settings);
     const t1 = performance.now();
@@ -127,7 +138,15 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       // (one COPY each, on the transaction's connection), so storing overlaps computing.
       let writer: Awaited<ReturnType<typeof openResultWriter>> | null = null;
       const early: string[] = [];
-      const computing = computeAll(snapshot.cells, snapshot.outcomes, snapshot.groups, settings, runId, (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)), ruleSites(snapshot.rules));
+      const computing = computeAll(
+        snapshot.cells,
+        snapshot.outcomes,
+        snapshot.groups,
+        settings,
+        runId,
+        (_job, answer) => (writer ? writer.lines(answer.lines) : early.push(answer.lines)),
+        ruleSites(snapshot.rules),
+      );
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
       // The disclosure frame needs the cells only: decided here while the threads compute.
       const frame = disclosureFrame(snapshot.cells, threshold);
@@ -140,7 +159,8 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       await storeFrame(em, runId, frame);
       await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
-      const sir = snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
+      const sir =
+        snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
       if (snapshot.referenceTableId !== null) await storeSir(em, runId, snapshot.referenceTableId, options.settings.confidence, sir);
       const t3 = performance.now();
       resultCount = computed.resultCount;
@@ -161,7 +181,10 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         siteResults: computed.resultCount - computed.companyResults.length,
         trends: computed.trends.length,
         cases: snapshot.caseTotals,
-        unattributed: unattributedSummary(snapshot.outcomes.map((o) => o.id), snapshot.unattributed),
+        unattributed: unattributedSummary(
+          snapshot.outcomes.map((o) => o.id),
+          snapshot.unattributed,
+        ),
         analyzed,
         outcomesWithoutReference: computed.outcomesWithoutReference,
         referenceTableId: snapshot.referenceTableId,
@@ -176,10 +199,10 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       flags = await applyVerdicts(em, runId, settings, options.appUrl, snapshot.ruleInfo, verdicts, threshold);
       await markPicked(em);
       const seconds = (performance.now() - started) / 1000;
-      await em.query(
-        `UPDATE runs SET state = 'succeeded', finished_at = now(), summary = summary || $2::jsonb WHERE id = $1`,
-        [runId, JSON.stringify({ flags, seconds: { ...summary.seconds, total: seconds } })],
-      );
+      await em.query(`UPDATE runs SET state = 'succeeded', finished_at = now(), summary = summary || $2::jsonb WHERE id = $1`, [
+        runId,
+        JSON.stringify({ flags, seconds: { ...summary.seconds, total: seconds } }),
+      ]);
     });
     return { status: 'succeeded', runId, resultCount, flags: flags!, seconds: (performance.now() - started) / 1000 };
   } catch (err) {
@@ -215,7 +238,9 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     await qr.query(`SET TRANSACTION READ ONLY`);
     await applyAggregationSettings(qr);
     const outcomes: Array<{ id: number; reference_group_id: number | null }> = await qr.query(`SELECT id, reference_group_id FROM outcomes ORDER BY id`);
-    const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(`SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`);
+    const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(
+      `SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`,
+    );
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
     const cells = await loadCells(qr, settings.countedStatuses, ageBandEdgesOf(settings));

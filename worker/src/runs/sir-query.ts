@@ -52,8 +52,15 @@ export async function loadReferenceTableId(q: QueryRunner): Promise<number | nul
 
 /** Runs the SIR aggregation against one reference table (SIR_SQL). */
 export async function loadSirCells(q: QueryRunner, countedStatuses: CaseStatus[], tableId: number): Promise<SirCell[]> {
-  const rows: Array<{ outcome_id: number; site_id: number; exposure_group_id: number; hours: string; hours_uncovered: string; observed: number; expected: number }> =
-    await q.query(SIR_SQL, [countedStatuses, tableId]);
+  const rows: Array<{
+    outcome_id: number;
+    site_id: number;
+    exposure_group_id: number;
+    hours: string;
+    hours_uncovered: string;
+    observed: number;
+    expected: number;
+  }> = await q.query(SIR_SQL, [countedStatuses, tableId]);
   return rows.map((r) => ({
     outcomeId: r.outcome_id,
     siteId: r.site_id,

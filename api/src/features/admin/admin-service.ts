@@ -11,9 +11,22 @@ const USERS_SQL = `
          coalesce(array_agg(us.site_id ORDER BY us.site_id) FILTER (WHERE us.site_id IS NOT NULL), '{}') AS site_ids
     FROM users u LEFT JOIN user_sites us ON us.user_id = u.id`;
 
-interface UserRow { id: string; email: string; name: string; role: AdminUser['role']; signed_up: boolean; last_sign_in_at: Date | null; site_ids: number[] }
+interface UserRow {
+  id: string;
+  email: string;
+  name: string;
+  role: AdminUser['role'];
+  signed_up: boolean;
+  last_sign_in_at: Date | null;
+  site_ids: number[];
+}
 const toAdminUser = (r: UserRow): AdminUser => ({
-  id: r.id, email: r.email, name: r.name, role: r.role, siteIds: r.site_ids.map(Number), signedUp: r.signed_up,
+  id: r.id,
+  email: r.email,
+  name: r.name,
+  role: r.role,
+  siteIds: r.site_ids.map(Number),
+  signedUp: r.signed_up,
   lastSignInAt: r.last_sign_in_at?.toISOString() ?? null,
 });
 
@@ -53,7 +66,10 @@ export async function updateUserAccess(ds: DataSource, actor: Principal, userId:
     }
     const after: UserRow[] = await em.query(`${USERS_SQL} WHERE u.id = $1 GROUP BY u.id`, [userId]);
     await recordAudit(em, {
-      actor, action: 'user.access_changed', target: `user:${userId}`, ip,
+      actor,
+      action: 'user.access_changed',
+      target: `user:${userId}`,
+      ip,
       detail: { email: before[0].email, before: { role: before[0].role, siteIds: before[0].site_ids }, after: { role: update.role, siteIds: update.siteIds } },
     });
     return toAdminUser(after[0]!);
@@ -66,17 +82,33 @@ export async function inviteUser(ds: DataSource, actor: Principal, invite: UserI
     const exists: unknown[] = await em.query(`SELECT 1 FROM users WHERE lower(email) = $1`, [invite.email]);
     if (exists.length) throw new AppError('conflict', `${invite.email} already has an account`);
     await assertSitesExist(em, invite.siteIds);
-    const [row] = (await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, $3) RETURNING id`, [invite.email, invite.name, invite.role])) as { id: string }[];
+    const [row] = (await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, $3) RETURNING id`, [invite.email, invite.name, invite.role])) as {
+      id: string;
+    }[];
     if (invite.siteIds.length) await em.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, unnest($2::int[])`, [row!.id, invite.siteIds]);
-    await recordAudit(em, { actor, action: 'user.provisioned', target: `user:${row!.id}`, ip, detail: { email: invite.email, role: invite.role, siteIds: invite.siteIds } });
+    await recordAudit(em, {
+      actor,
+      action: 'user.provisioned',
+      target: `user:${row!.id}`,
+      ip,
+      detail: { email: invite.email, role: invite.role, siteIds: invite.siteIds },
+    });
     const [after] = (await em.query(`${USERS_SQL} WHERE u.id = $1 GROUP BY u.id`, [row!.id])) as UserRow[];
     return toAdminUser(after!);
   });
 }
 
-interface ClientRow { client_id: string; name: string; registered_at: Date; revoked_at: Date | null }
+interface ClientRow {
+  client_id: string;
+  name: string;
+  registered_at: Date;
+  revoked_at: Date | null;
+}
 const toClient = (r: ClientRow): IntegrationClientView => ({
-  clientId: r.client_id, name: r.name, registeredAt: r.registered_at.toISOString(), revokedAt: r.revoked_at?.toISOString() ?? null,
+  clientId: r.client_id,
+  name: r.name,
+  registeredAt: r.registered_at.toISOString(),
+  revokedAt: r.revoked_at?.toISOString() ?? null,
 });
 
 export async function listClients(ds: DataSource): Promise<IntegrationClientView[]> {
@@ -136,9 +168,18 @@ export async function queryAudit(ds: DataSource, q: AuditQuery): Promise<AuditEv
   if (q.before) add(`a.id < ?`, q.before);
   args.push(q.limit);
   // The page first, then each entry's actor and target named from their tables as they are now.
-  const rows: { id: string; at: Date; actor_label: string; actor_name: string | null; action: string; target: string | null; target_name: string | null; detail: Record<string, unknown>; ip: string | null }[] =
-    await ds.query(
-      `WITH page AS (
+  const rows: {
+    id: string;
+    at: Date;
+    actor_label: string;
+    actor_name: string | null;
+    action: string;
+    target: string | null;
+    target_name: string | null;
+    detail: Record<string, unknown>;
+    ip: string | null;
+  }[] = await ds.query(
+    `WITH page AS (
          SELECT a.id, a.at, a.actor_label, au.name AS actor_name, a.action, a.target, a.detail, a.ip,
                 split_part(a.target, ':', 1) AS kind, substr(a.target, length(split_part(a.target, ':', 1)) + 2) AS ref
            FROM audit_events a LEFT JOIN users au ON au.id = a.actor_id
@@ -167,7 +208,17 @@ export async function queryAudit(ds: DataSource, q: AuditQuery): Promise<AuditEv
          LEFT JOIN exposure_groups fg ON fg.id = tf.exposure_group_id
          LEFT JOIN outcomes fo ON fo.id = tf.outcome_id
         ORDER BY p.id DESC`,
-      args,
-    );
-  return rows.map((r) => ({ id: Number(r.id), at: r.at.toISOString(), actor: r.actor_label, actorName: r.actor_name, action: r.action, target: r.target, targetName: r.target_name, detail: withoutFigures(r.detail), ip: r.ip }));
+    args,
+  );
+  return rows.map((r) => ({
+    id: Number(r.id),
+    at: r.at.toISOString(),
+    actor: r.actor_label,
+    actorName: r.actor_name,
+    action: r.action,
+    target: r.target,
+    targetName: r.target_name,
+    detail: withoutFigures(r.detail),
+    ip: r.ip,
+  }));
 }

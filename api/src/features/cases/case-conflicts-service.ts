@@ -35,7 +35,15 @@ export async function listConflicts(ds: DataSource, principal: Principal, intake
     onsetDate: r.onset,
     decidedStatus: r.decided_status,
     listStatus: r.list_status,
-    decision: { id: r.review_id, decision: r.decision, fromStatus: r.from_status, toStatus: r.to_status, reason: r.reason, decidedBy: r.decided_by, decidedAt: new Date(r.decided_at).toISOString() },
+    decision: {
+      id: r.review_id,
+      decision: r.decision,
+      fromStatus: r.from_status,
+      toStatus: r.to_status,
+      reason: r.reason,
+      decidedBy: r.decided_by,
+      decidedAt: new Date(r.decided_at).toISOString(),
+    },
     resolution: r.resolution,
     resolvedBy: r.resolved_by,
     resolvedAt: r.resolved_at ? new Date(r.resolved_at).toISOString() : null,
@@ -46,7 +54,14 @@ export async function listConflicts(ds: DataSource, principal: Principal, intake
  * A physician resolves one conflict: keep the decision (the list's row for the case will not be
  * applied) or accept the list's status (applied with the list). Only while the list is checked.
  */
-export async function resolveConflict(ds: DataSource, principal: Principal, intakeId: string, caseRef: string, resolution: CaseConflictResolution, ip?: string): Promise<CaseConflict[]> {
+export async function resolveConflict(
+  ds: DataSource,
+  principal: Principal,
+  intakeId: string,
+  caseRef: string,
+  resolution: CaseConflictResolution,
+  ip?: string,
+): Promise<CaseConflict[]> {
   const user = userOf({ principal });
   await intakeSites(ds, principal, intakeId);
   await ds.transaction(async (em) => {
@@ -54,10 +69,12 @@ export async function resolveConflict(ds: DataSource, principal: Principal, inta
     if (it!.state !== 'checked') throw new AppError('conflict', `the case list is ${it!.state}; conflicts are decided before it is applied`);
     const [row]: Row[] = await em.query(`SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND case_ref = $2`, [intakeId, caseRef]);
     if (!row) throw new AppError('not_found', 'no such conflict in this case list');
-    await em.query(
-      `UPDATE intake_case_conflicts SET resolution = $3, resolved_by = $4, resolved_at = now() WHERE intake_id = $1 AND case_ref = $2`,
-      [intakeId, caseRef, resolution, user.id],
-    );
+    await em.query(`UPDATE intake_case_conflicts SET resolution = $3, resolved_by = $4, resolved_at = now() WHERE intake_id = $1 AND case_ref = $2`, [
+      intakeId,
+      caseRef,
+      resolution,
+      user.id,
+    ]);
     await recordAudit(em, { actor: principal, action: 'case.conflict_resolve', target: `intake:${intakeId}`, detail: { resolution }, ip });
   });
   return listConflicts(ds, principal, intakeId, ip);

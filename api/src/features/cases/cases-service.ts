@@ -1,5 +1,13 @@
 import type { DataSource } from 'typeorm';
-import { decisionStatus, type CaseDetail, type CaseListQuery, type CaseReviewInput, type CaseReviewResult, type CaseSummary, type CaseVersion } from '@ratewarden/shared/cases';
+import {
+  decisionStatus,
+  type CaseDetail,
+  type CaseListQuery,
+  type CaseReviewInput,
+  type CaseReviewResult,
+  type CaseSummary,
+  type CaseVersion,
+} from '@ratewarden/shared/cases';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { userOf } from '../../auth/authorize';
@@ -28,7 +36,11 @@ export async function exportCases(ds: DataSource, principal: Principal, q: CaseL
 
 /** The filters for the audit entry; a search text may be a worker key or case reference, so the entry says only that there was one. */
 const filtersOf = (q: CaseListQuery) =>
-  Object.fromEntries(Object.entries(q).filter(([k, v]) => v !== undefined && v !== '' && k !== 'limit').map(([k, v]) => (k === 'q' ? ['search', true] : [k, v])));
+  Object.fromEntries(
+    Object.entries(q)
+      .filter(([k, v]) => v !== undefined && v !== '' && k !== 'limit')
+      .map(([k, v]) => (k === 'q' ? ['search', true] : [k, v])),
+  );
 
 async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> {
   const rows: Row[] = await ds.query(
@@ -55,7 +67,15 @@ async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> 
     createdAt: new Date(r.created_at).toISOString(),
     current: r.current,
     review: r.review_id
-      ? { id: r.review_id, decision: r.decision, fromStatus: r.from_status, toStatus: r.to_status, reason: r.reason, decidedBy: r.decided_by, decidedAt: new Date(r.decided_at).toISOString() }
+      ? {
+          id: r.review_id,
+          decision: r.decision,
+          fromStatus: r.from_status,
+          toStatus: r.to_status,
+          reason: r.reason,
+          decidedBy: r.decided_by,
+          decidedAt: new Date(r.decided_at).toISOString(),
+        }
       : null,
   }));
 }
@@ -105,7 +125,13 @@ export async function reviewCase(ds: DataSource, principal: Principal, caseRef: 
     );
     // No case reference in the request: run requests are read by people without case-level access.
     const [req]: Row[] = await em.query(`INSERT INTO run_requests (reason) VALUES ('a physician reviewed a case') RETURNING id::text AS id`);
-    await recordAudit(em, { actor: principal, action: 'case.review', target: `case_event:${cur.id}`, detail: { decision: input.decision, review: review!.id }, ip });
+    await recordAudit(em, {
+      actor: principal,
+      action: 'case.review',
+      target: `case_event:${cur.id}`,
+      detail: { decision: input.decision, review: review!.id },
+      ip,
+    });
     return req!.id as string;
   });
   return { case: await detail(ds, principal, caseRef), runRequestId };

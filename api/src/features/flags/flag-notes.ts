@@ -27,7 +27,11 @@ export async function addFlagNote(ds: DataSource, principal: Principal, flagId: 
   const user = userOf({ principal });
   await getFlag(ds, flagId, await flagScopeOf(ds, principal));
   await ds.transaction(async (em) => {
-    const [row]: Row[] = await em.query(`INSERT INTO flag_notes (flag_id, author_id, text) VALUES ($1, $2, $3) RETURNING id::text AS id`, [flagId, user.id, text]);
+    const [row]: Row[] = await em.query(`INSERT INTO flag_notes (flag_id, author_id, text) VALUES ($1, $2, $3) RETURNING id::text AS id`, [
+      flagId,
+      user.id,
+      text,
+    ]);
     if (!row) throw new AppError('internal_error', 'the note was not stored');
     await recordAudit(em, { actor: principal, action: 'flag.clinical_note', target: `flag:${flagId}`, ip });
   });

@@ -14,7 +14,19 @@ const VALUE_KEYS = new Set(['value', 'previous', 'previousWorst', 'cases', 'expe
 
 /** A flag with its figures withheld (and, for its history, every value the events carry). */
 function withheldFlag<T extends Flag | FlagDetail>(flag: T, why: Withheld): T {
-  const figures = { ...flag.figures, suppressed: true, withheld: why, cases: null, value: null, estimate: null, lower: null, upper: null, expected: null, p: null, q: null };
+  const figures = {
+    ...flag.figures,
+    suppressed: true,
+    withheld: why,
+    cases: null,
+    value: null,
+    estimate: null,
+    lower: null,
+    upper: null,
+    expected: null,
+    p: null,
+    q: null,
+  };
   return { ...withoutEventValues(flag), value: null, worstValue: null, figures } as T;
 }
 
@@ -25,7 +37,10 @@ function withoutEventValues<T extends Flag | FlagDetail>(flag: T): T {
     ...flag,
     events: flag.events.map((e) => ({
       ...e,
-      detail: e.detail && typeof e.detail === 'object' ? Object.fromEntries(Object.entries(e.detail as Record<string, unknown>).filter(([k]) => !VALUE_KEYS.has(k))) : e.detail,
+      detail:
+        e.detail && typeof e.detail === 'object'
+          ? Object.fromEntries(Object.entries(e.detail as Record<string, unknown>).filter(([k]) => !VALUE_KEYS.has(k)))
+          : e.detail,
     })),
   };
 }

@@ -27,10 +27,22 @@ export function flagsRouter({ dataSource: ds, smallCellThreshold }: FlagsRouterD
     res.json((await flagsAsSeenBy(ds, [await getFlag(ds, flagId.parse(req.params.id), await flagScopeOf(ds, req.principal!))], reader(req)))[0]);
   });
   router.post('/:id/review', authorize('flags:review'), async (req, res) => {
-    res.json((await flagsAsSeenBy(ds, [await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip)], reader(req)))[0]);
+    res.json(
+      (
+        await flagsAsSeenBy(
+          ds,
+          [await startReview(ds, req.principal!, flagId.parse(req.params.id), flagReviewInputSchema.parse(req.body ?? {}).comment, req.ip)],
+          reader(req),
+        )
+      )[0],
+    );
   });
   router.post('/:id/close', authorize('flags:review'), async (req, res) => {
-    res.json((await flagsAsSeenBy(ds, [await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip)], reader(req)))[0]);
+    res.json(
+      (
+        await flagsAsSeenBy(ds, [await closeFlag(ds, req.principal!, flagId.parse(req.params.id), flagCloseInputSchema.parse(req.body), req.ip)], reader(req))
+      )[0],
+    );
   });
   router.get('/:id/cases', authorize('cases:read'), async (req, res) => {
     res.json(await flagCases(ds, req.principal!, flagId.parse(req.params.id), req.ip));

@@ -29,7 +29,8 @@ export async function flagScopeOf(ds: DataSource | EntityManager, principal: Pri
 }
 
 /** The SQL condition of a FlagScope on flags `f`, its two parameters at $n and $n+1. */
-const visible = (n: number) => `((f.site_id IS NULL AND $${n + 1}::boolean) OR (f.site_id IS NOT NULL AND ($${n}::int[] IS NULL OR f.site_id = ANY($${n}::int[]))))`;
+const visible = (n: number) =>
+  `((f.site_id IS NULL AND $${n + 1}::boolean) OR (f.site_id IS NOT NULL AND ($${n}::int[] IS NULL OR f.site_id = ANY($${n}::int[]))))`;
 
 function flagOf(r: Row): Flag {
   return {
@@ -55,7 +56,11 @@ function flagOf(r: Row): Flag {
   };
 }
 
-export async function listFlags(ds: DataSource, q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number }, scope: FlagScope = everyFlag): Promise<Flag[]> {
+export async function listFlags(
+  ds: DataSource,
+  q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number },
+  scope: FlagScope = everyFlag,
+): Promise<Flag[]> {
   const rows: Row[] = await ds.query(
     `${flagSelect} WHERE ($1::text IS NULL OR f.state = $1) AND ($2::int IS NULL OR f.outcome_id = $2) AND ($3::int IS NULL OR f.exposure_group_id = $3) AND ${visible(4)}
      ORDER BY (f.state = 'closed'), f.raised_at DESC LIMIT 500`,
@@ -69,11 +74,22 @@ export async function getFlag(ds: DataSource, id: string, scope: FlagScope = eve
   const rows: Row[] = await ds.query(`${flagSelect} WHERE f.id = $1 AND ${visible(2)}`, [id, scope.sites, scope.company]);
   if (!rows[0]) throw new AppError('not_found', 'no such flag');
   const events: Row[] = await ds.query(`SELECT id::text, at, kind, actor_id, run_id, detail FROM flag_events WHERE flag_id = $1 ORDER BY at, id`, [id]);
-  const notices: Row[] = await ds.query(`SELECT id, recipient, state, attempts, last_error, created_at, sent_at FROM notices WHERE flag_id = $1 ORDER BY created_at, recipient`, [id]);
+  const notices: Row[] = await ds.query(
+    `SELECT id, recipient, state, attempts, last_error, created_at, sent_at FROM notices WHERE flag_id = $1 ORDER BY created_at, recipient`,
+    [id],
+  );
   return {
     ...flagOf(rows[0]),
     events: events.map((e) => ({ id: e.id, at: iso(e.at)!, kind: e.kind, actorId: e.actor_id, runId: e.run_id, detail: e.detail })),
-    notices: notices.map((n) => ({ id: n.id, recipient: n.recipient, state: n.state, attempts: n.attempts, lastError: n.last_error, createdAt: iso(n.created_at)!, sentAt: iso(n.sent_at) })),
+    notices: notices.map((n) => ({
+      id: n.id,
+      recipient: n.recipient,
+      state: n.state,
+      attempts: n.attempts,
+      lastError: n.last_error,
+      createdAt: iso(n.created_at)!,
+      sentAt: iso(n.sent_at),
+    })),
   };
 }
 
@@ -93,7 +109,11 @@ export async function startReview(ds: DataSource, principal: Principal, id: stri
     if (!f) throw new AppError('not_found', 'no such flag');
     if (f.state !== 'raised') throw new AppError('conflict', `the flag is ${f.state.replace('_', ' ')}, not raised`);
     await em.query(`UPDATE flags SET state = 'in_review', updated_at = now() WHERE id = $1`, [id]);
-    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'review_started', $2, $3)`, [id, actorId(principal), JSON.stringify({ comment: comment ?? null })]);
+    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'review_started', $2, $3)`, [
+      id,
+      actorId(principal),
+      JSON.stringify({ comment: comment ?? null }),
+    ]);
     await recordAudit(em, { actor: principal, action: 'flag.review', target: `flag:${id}`, detail: { comment: comment ?? null }, ip });
   });
   return getFlag(ds, id, await flagScopeOf(ds, principal));

@@ -1,10 +1,24 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { exposureGroupCreateSchema, exposureGroupUpdateSchema, exposureLevelsSchema, outcomeCreateSchema, outcomeUpdateSchema } from '@ratewarden/shared/groups';
+import {
+  exposureGroupCreateSchema,
+  exposureGroupUpdateSchema,
+  exposureLevelsSchema,
+  outcomeCreateSchema,
+  outcomeUpdateSchema,
+} from '@ratewarden/shared/groups';
 import { authorize } from '../../auth/authorize';
 import {
-  configHistory, createGroup, createOutcome, listGroups, listOutcomes, setExposureLevels, setReferenceGroup, updateGroup, updateOutcome,
+  configHistory,
+  createGroup,
+  createOutcome,
+  listGroups,
+  listOutcomes,
+  setExposureLevels,
+  setReferenceGroup,
+  updateGroup,
+  updateOutcome,
 } from './groups-service';
 
 export interface GroupsRouterDeps {

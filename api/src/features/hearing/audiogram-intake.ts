@@ -58,24 +58,47 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
 
   return ds.transaction(async (em) => {
     const [outcome] = (await em.query(`SELECT id FROM outcomes WHERE upper(code) = upper($1)`, [input.settings.outcomeCode])) as { id: number }[];
-    if (!outcome) throw new AppError('conflict', `there is no outcome ${input.settings.outcomeCode} for the threshold shifts: create it first (HEARING_OUTCOME_CODE)`);
+    if (!outcome)
+      throw new AppError('conflict', `there is no outcome ${input.settings.outcomeCode} for the threshold shifts: create it first (HEARING_OUTCOME_CODE)`);
 
     const keys = [...new Set(rows.map((r) => r.workerKey))];
-    const known = new Map(((await em.query(`SELECT id::text, worker_key FROM workers WHERE worker_key = ANY($1::text[])`, [keys])) as { id: string; worker_key: string }[]).map((w) => [w.worker_key, w.id]));
-    for (const r of rows) if (!known.has(r.workerKey)) problems.push({ line: r.line, column: 'worker_key', value: r.workerKey, reason: 'no worker with this key is known (send a roster with the worker first)' });
-    const stored = new Set(((await em.query(
-      `SELECT w.worker_key || '|' || to_char(a.test_date, 'YYYY-MM-DD') || '|' || a.ear || '|' || a.test_type AS k
-       FROM audiograms a JOIN workers w ON w.id = a.worker_id WHERE w.worker_key = ANY($1::text[])`, [keys])) as { k: string }[]).map((r) => r.k));
+    const known = new Map(
+      ((await em.query(`SELECT id::text, worker_key FROM workers WHERE worker_key = ANY($1::text[])`, [keys])) as { id: string; worker_key: string }[]).map(
+        (w) => [w.worker_key, w.id],
+      ),
+    );
+    for (const r of rows)
+      if (!known.has(r.workerKey))
+        problems.push({
+          line: r.line,
+          column: 'worker_key',
+          value: r.workerKey,
+          reason: 'no worker with this key is known (send a roster with the worker first)',
+        });
+    const stored = new Set(
+      (
+        (await em.query(
+          `SELECT w.worker_key || '|' || to_char(a.test_date, 'YYYY-MM-DD') || '|' || a.ear || '|' || a.test_type AS k
+       FROM audiograms a JOIN workers w ON w.id = a.worker_id WHERE w.worker_key = ANY($1::text[])`,
+          [keys],
+        )) as { k: string }[]
+      ).map((r) => r.k),
+    );
     for (const r of rows) {
-      if (stored.has(`${r.workerKey}|${r.testDate}|${r.ear}|${r.testType}`)) problems.push({ line: r.line, column: 'test_date', value: r.testDate, reason: 'this test (worker, date, ear, type) is already stored' });
+      if (stored.has(`${r.workerKey}|${r.testDate}|${r.ear}|${r.testType}`))
+        problems.push({ line: r.line, column: 'test_date', value: r.testDate, reason: 'this test (worker, date, ear, type) is already stored' });
     }
     if (problems.length) reject(problems);
 
     const workerIds = [...new Set(known.values())];
-    const sites = ((await em.query(
-      `SELECT DISTINCT re.site_id FROM roster_entries re
+    const sites = (
+      (await em.query(
+        `SELECT DISTINCT re.site_id FROM roster_entries re
        JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
-       WHERE re.worker_id = ANY($1::bigint[]) ORDER BY 1`, [workerIds])) as { site_id: number }[]).map((r) => r.site_id);
+       WHERE re.worker_id = ANY($1::bigint[]) ORDER BY 1`,
+        [workerIds],
+      )) as { site_id: number }[]
+    ).map((r) => r.site_id);
     assertSites(input.principal, sites);
 
     const id = randomUUID();
@@ -91,14 +114,31 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
     await em.query(
       `INSERT INTO audiograms (intake_id, worker_id, test_date, ear, test_type, hl_500, hl_1000, hl_2000, hl_3000, hl_4000, hl_6000, hl_8000)
        SELECT $1, * FROM unnest($2::bigint[], $3::date[], $4::text[], $5::text[], $6::int[], $7::int[], $8::int[], $9::int[], $10::int[], $11::int[], $12::int[])`,
-      [id, col((r) => known.get(r.workerKey)), col((r) => r.testDate), col((r) => r.ear), col((r) => r.testType),
-        col((r) => r.thresholds[500]), col((r) => r.thresholds[1000]), col((r) => r.thresholds[2000]), col((r) => r.thresholds[3000]),
-        col((r) => r.thresholds[4000]), col((r) => r.thresholds[6000]), col((r) => r.thresholds[8000] ?? null)],
+      [
+        id,
+        col((r) => known.get(r.workerKey)),
+        col((r) => r.testDate),
+        col((r) => r.ear),
+        col((r) => r.testType),
+        col((r) => r.thresholds[500]),
+        col((r) => r.thresholds[1000]),
+        col((r) => r.thresholds[2000]),
+        col((r) => r.thresholds[3000]),
+        col((r) => r.thresholds[4000]),
+        col((r) => r.thresholds[6000]),
+        col((r) => r.thresholds[8000] ?? null),
+      ],
     );
     await deriveShiftCases(em, id, workerIds, outcome.id, input.settings);
     await em.query(`INSERT INTO run_requests (reason, intake_id) VALUES ('audiograms applied', $1)`, [id]);
     // No count of derived shifts in the entry: the administrator reads the log, and shifts are case-level.
-    await recordAudit(em, { actor: input.principal, action: 'audiograms.apply', target: `intake:${id}`, ip: input.ip, detail: { fileName: input.fileName, rows: rows.length, checksum } });
+    await recordAudit(em, {
+      actor: input.principal,
+      action: 'audiograms.apply',
+      target: `intake:${id}`,
+      ip: input.ip,
+      detail: { fileName: input.fileName, rows: rows.length, checksum },
+    });
     return { intakeId: id, rows: rows.length, workers: workerIds.length };
   });
 }

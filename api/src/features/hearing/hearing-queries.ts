@@ -22,11 +22,18 @@ const scopeParam = (p: Principal) => {
 };
 
 /** The workers with audiograms, with how many shifts they show. Case-level: audited. */
-export async function listHearingWorkers(ds: DataSource, principal: Principal, settings: HearingSettings, ip?: string | null): Promise<HearingWorkerListResponse> {
-  const ids = ((await ds.query(
-    `SELECT w.id::text FROM workers w WHERE EXISTS (SELECT 1 FROM audiograms a WHERE a.worker_id = w.id) AND ${visibleWorker('$1')} ORDER BY w.worker_key LIMIT 5000`,
-    [scopeParam(principal)],
-  )) as { id: string }[]).map((r) => r.id);
+export async function listHearingWorkers(
+  ds: DataSource,
+  principal: Principal,
+  settings: HearingSettings,
+  ip?: string | null,
+): Promise<HearingWorkerListResponse> {
+  const ids = (
+    (await ds.query(
+      `SELECT w.id::text FROM workers w WHERE EXISTS (SELECT 1 FROM audiograms a WHERE a.worker_id = w.id) AND ${visibleWorker('$1')} ORDER BY w.worker_key LIMIT 5000`,
+      [scopeParam(principal)],
+    )) as { id: string }[]
+  ).map((r) => r.id);
   const hearing = await loadWorkerHearing(ds, ids, settings);
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: 'audiograms', ip });
   return {
@@ -34,7 +41,10 @@ export async function listHearingWorkers(ds: DataSource, principal: Principal, s
       .map((h) => ({
         workerKey: h.workerKey,
         tests: new Set(h.audiograms.map((a) => `${a.testDate}|${a.testType}`)).size,
-        lastTestDate: h.audiograms.map((a) => a.testDate).sort().at(-1)!,
+        lastTestDate: h.audiograms
+          .map((a) => a.testDate)
+          .sort()
+          .at(-1)!,
         shifts: h.ears.reduce((n, e) => n + e.shifts.length, 0),
       }))
       .sort((a, b) => a.workerKey.localeCompare(b.workerKey)),
@@ -42,18 +52,31 @@ export async function listHearingWorkers(ds: DataSource, principal: Principal, s
 }
 
 /** One worker's audiograms, baselines and shifts with their computation. Case-level: audited. */
-export async function getHearingWorker(ds: DataSource, principal: Principal, workerKey: string, settings: HearingSettings, ip?: string | null): Promise<HearingWorkerResponse> {
-  const [w] = (await ds.query(`SELECT w.id::text FROM workers w WHERE w.worker_key = $1 AND ${visibleWorker('$2')}`, [workerKey, scopeParam(principal)])) as { id: string }[];
+export async function getHearingWorker(
+  ds: DataSource,
+  principal: Principal,
+  workerKey: string,
+  settings: HearingSettings,
+  ip?: string | null,
+): Promise<HearingWorkerResponse> {
+  const [w] = (await ds.query(`SELECT w.id::text FROM workers w WHERE w.worker_key = $1 AND ${visibleWorker('$2')}`, [workerKey, scopeParam(principal)])) as {
+    id: string;
+  }[];
   const [h] = w ? await loadWorkerHearing(ds, [w.id], settings) : [];
   if (!w || !h) throw new AppError('not_found', 'no audiograms for that worker');
   const cases = (await ds.query(
     `SELECT case_ref AS "caseRef", to_char(onset_date, 'YYYY-MM-DD') AS "onsetDate", status FROM case_events
-     WHERE worker_id = $1 AND superseded_by IS NULL AND case_ref LIKE 'STS-%' ORDER BY onset_date`, [w.id],
+     WHERE worker_id = $1 AND superseded_by IS NULL AND case_ref LIKE 'STS-%' ORDER BY onset_date`,
+    [w.id],
   )) as HearingWorkerResponse['cases'];
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: `audiograms:worker:${w.id}`, ip });
   return {
-    workerKey: h.workerKey, sex: h.sex, birthYear: h.birthYear, settings: { ageCorrection: settings.ageCorrection },
+    workerKey: h.workerKey,
+    sex: h.sex,
+    birthYear: h.birthYear,
+    settings: { ageCorrection: settings.ageCorrection },
     audiograms: h.audiograms.map((a) => ({ id: a.id, testDate: a.testDate, ear: a.ear, testType: a.testType, thresholds: a.thresholds })),
-    ears: h.ears, cases,
+    ears: h.ears,
+    cases,
   };
 }

@@ -11,7 +11,13 @@ import { loadWorkerHearing, shiftCaseRef } from './worker-hearing';
  *
  * @returns how many cases were added (case-level: for the physician and tests, never the uploader).
  */
-export async function deriveShiftCases(em: EntityManager, intakeId: string, workerIds: string[], outcomeId: number, settings: HearingSettings): Promise<number> {
+export async function deriveShiftCases(
+  em: EntityManager,
+  intakeId: string,
+  workerIds: string[],
+  outcomeId: number,
+  settings: HearingSettings,
+): Promise<number> {
   const refs: string[] = [];
   const workers: string[] = [];
   const onsets: string[] = [];

@@ -5,8 +5,21 @@ import { workerHearingHistory, type EarHistory, type HearingSettings } from '@ra
 type Db = DataSource | EntityManager;
 
 interface AudiogramRecord {
-  id: string; worker_id: string; worker_key: string; sex: string | null; birth_year: number | null; test_date: string; ear: 'left' | 'right';
-  test_type: 'baseline' | 'annual' | 'retest'; hl_500: number; hl_1000: number; hl_2000: number; hl_3000: number; hl_4000: number; hl_6000: number; hl_8000: number | null;
+  id: string;
+  worker_id: string;
+  worker_key: string;
+  sex: string | null;
+  birth_year: number | null;
+  test_date: string;
+  ear: 'left' | 'right';
+  test_type: 'baseline' | 'annual' | 'retest';
+  hl_500: number;
+  hl_1000: number;
+  hl_2000: number;
+  hl_3000: number;
+  hl_4000: number;
+  hl_6000: number;
+  hl_8000: number | null;
 }
 
 export interface WorkerHearing {
@@ -33,11 +46,21 @@ export async function loadWorkerHearing(db: Db, workerIds: string[], settings: H
   return [...byWorker.values()].map((rs) => {
     const first = rs[0]!;
     const audiograms: EarAudiogram[] = rs.map((r) => ({
-      id: r.id, testDate: r.test_date, ear: r.ear, testType: r.test_type,
+      id: r.id,
+      testDate: r.test_date,
+      ear: r.ear,
+      testType: r.test_type,
       thresholds: { 500: r.hl_500, 1000: r.hl_1000, 2000: r.hl_2000, 3000: r.hl_3000, 4000: r.hl_4000, 6000: r.hl_6000, 8000: r.hl_8000 },
     }));
     const person = { sex: first.sex, birthYear: first.birth_year };
-    return { workerId: first.worker_id, workerKey: first.worker_key, sex: first.sex, birthYear: first.birth_year, audiograms, ears: workerHearingHistory(audiograms, person, settings) };
+    return {
+      workerId: first.worker_id,
+      workerKey: first.worker_key,
+      sex: first.sex,
+      birthYear: first.birth_year,
+      audiograms,
+      ears: workerHearingHistory(audiograms, person, settings),
+    };
   });
 }
 

@@ -75,7 +75,8 @@ export async function caseScope(client: PoolClient): Promise<{ siteIds: number[]
 }
 
 /** A case of the file that changes its stored version; `t` qualifies the columns of intake_cases. */
-const changedOf = (t = '') => `${t}stored_id IS NOT NULL AND (${t}stored_worker <> ${t}worker_id OR ${t}stored_outcome <> ${t}outcome_id OR ${t}stored_onset <> ${t}onset_date OR ${t}stored_status <> ${t}status)`;
+const changedOf = (t = '') =>
+  `${t}stored_id IS NOT NULL AND (${t}stored_worker <> ${t}worker_id OR ${t}stored_outcome <> ${t}outcome_id OR ${t}stored_onset <> ${t}onset_date OR ${t}stored_status <> ${t}status)`;
 const changedWhere = changedOf();
 
 /**
@@ -120,35 +121,47 @@ export async function caseDiff(client: PoolClient): Promise<IntakeDiff> {
  * marked as superseded by this intake. Unchanged cases are not stored again.
  */
 export async function applyCases(client: PoolClient, intakeId: string): Promise<{ superseded: string[] }> {
-  const { rows: prev } = await client.query<{ intake_id: string }>(`
+  const { rows: prev } = await client.query<{ intake_id: string }>(
+    `
     UPDATE case_events e SET superseded_by = $1 FROM intake_cases c
     WHERE e.id = c.stored_id AND (c.stored_worker <> c.worker_id OR c.stored_outcome <> c.outcome_id OR c.stored_onset <> c.onset_date OR c.stored_status <> c.status)
-    RETURNING e.intake_id`, [intakeId]);
-  await client.query(`
+    RETURNING e.intake_id`,
+    [intakeId],
+  );
+  await client.query(
+    `
     INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status)
     SELECT $1, case_ref, worker_id, outcome_id, onset_date, status FROM intake_cases
-    WHERE stored_id IS NULL OR ${changedWhere}`, [intakeId]);
+    WHERE stored_id IS NULL OR ${changedWhere}`,
+    [intakeId],
+  );
   return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };
 }
 
 /** Applied case intakes among `candidates` with no current event left become superseded. */
 export async function markSupersededCases(client: PoolClient, candidates: string[]): Promise<string[]> {
   if (!candidates.length) return [];
-  const { rows } = await client.query<{ id: string }>(`
+  const { rows } = await client.query<{ id: string }>(
+    `
     UPDATE intakes i SET state = 'superseded', superseded_at = now()
     WHERE i.id = ANY($1::uuid[]) AND i.state = 'applied'
       AND NOT EXISTS (SELECT 1 FROM case_events e WHERE e.intake_id = i.id AND e.superseded_by IS NULL)
-    RETURNING i.id`, [candidates]);
+    RETURNING i.id`,
+    [candidates],
+  );
   return rows.map((r) => r.id);
 }
 
 /** Makes every case version of a superseded case intake current again. */
 export async function restoreCases(client: PoolClient, intakeId: string): Promise<{ superseded: string[] }> {
-  const { rows: prev } = await client.query<{ intake_id: string }>(`
+  const { rows: prev } = await client.query<{ intake_id: string }>(
+    `
     UPDATE case_events cur SET superseded_by = $1
     FROM case_events mine
     WHERE mine.intake_id = $1 AND cur.case_ref = mine.case_ref AND cur.superseded_by IS NULL AND cur.intake_id <> $1
-    RETURNING cur.intake_id`, [intakeId]);
+    RETURNING cur.intake_id`,
+    [intakeId],
+  );
   // Versions a physician's review replaced stay replaced: the review's version is the intake's current one.
   await client.query(`UPDATE case_events SET superseded_by = NULL WHERE intake_id = $1 AND superseded_by_review IS NULL`, [intakeId]);
   return { superseded: await markSupersededCases(client, [...new Set(prev.map((r) => r.intake_id))]) };

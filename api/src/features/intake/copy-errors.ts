@@ -41,7 +41,8 @@ export function translateCopyError(err: unknown): unknown {
       : `the file is not UTF-8 text${at}; save it as CSV UTF-8 and upload it again`;
   } else if (err.code === '22P04' || err.code === '22P02') {
     if (/missing data for column/.test(msg)) reason = `the row has fewer fields than the header${at}; an empty line also counts`;
-    else if (/extra data after last expected column/.test(msg)) reason = `the row has more fields than the header${at}; is a value with a separator not in quotes?`;
+    else if (/extra data after last expected column/.test(msg))
+      reason = `the row has more fields than the header${at}; is a value with a separator not in quotes?`;
     else if (/unterminated CSV quoted field/.test(msg)) reason = `a quoted value is never closed${at}`;
     else if (/carriage return|newline/.test(msg)) reason = `the line endings are mixed${at}; use either CRLF or LF throughout`;
     else reason = `the row cannot be read as CSV${at}`;

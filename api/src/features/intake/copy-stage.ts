@@ -28,7 +28,15 @@ export async function createStagingTable(client: PoolClient, table: string, defs
  * a line that COPY would take for its end-of-data marker; the rows staged must be the rows counted.
  * (Case lists; rosters go through roster-stream.)
  */
-export async function copyRows(client: PoolClient, table: string, columns: string[], delimiter: ',' | ';', head: Buffer, rest: Readable, scan = new CsvRecordScan()): Promise<number> {
+export async function copyRows(
+  client: PoolClient,
+  table: string,
+  columns: string[],
+  delimiter: ',' | ';',
+  head: Buffer,
+  rest: Readable,
+  scan = new CsvRecordScan(),
+): Promise<number> {
   const sql = `COPY ${stagingRef(table)} (${columns.join(', ')}) FROM STDIN WITH (FORMAT csv, DELIMITER '${delimiter}', ENCODING 'UTF8')`;
   const staged = await pumpCopy(client, sql, head, rest, scan);
   assertAllRowsStaged(scan.records, staged);

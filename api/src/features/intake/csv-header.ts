@@ -51,7 +51,13 @@ export function readHead(src: Readable): Promise<FileHead> {
         const lineEnd = all[end] === 0x0a && end > 0 && all[end - 1] === 0x0d ? end - 1 : end;
         finish(decodeHead(all.subarray(0, lineEnd), all.subarray(end + 1), false, all[end] === 0x0a ? '\n' : '\r'));
       } else if (size > MAX_HEADER_BYTES) {
-        finish({ header: null, rest: Buffer.alloc(0), ended: false, eol: '\n', problem: 'the first line is not a header row (no line ending in the first 64 KiB); is this a CSV file?' });
+        finish({
+          header: null,
+          rest: Buffer.alloc(0),
+          ended: false,
+          eol: '\n',
+          problem: 'the first line is not a header row (no line ending in the first 64 KiB); is this a CSV file?',
+        });
       }
     };
     const onEnd = () => {
@@ -124,7 +130,8 @@ export function matchHeader(header: string, delimiter: string, defs: readonly Co
     columns.push(name);
   }
   for (const d of defs) {
-    if (d.required && !seen.has(d.name)) problems.push({ line: 1, column: d.name, value: null, reason: `required column ${d.name} is missing from the header` });
+    if (d.required && !seen.has(d.name))
+      problems.push({ line: 1, column: d.name, value: null, reason: `required column ${d.name} is missing from the header` });
   }
   return { columns, problems };
 }

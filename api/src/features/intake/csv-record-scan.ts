@@ -28,7 +28,10 @@ export class CsvRecordScan extends Transform {
   /** Up to two bytes at a line start, held back until the next chunk shows whether they are `\.` alone. */
   private held: Buffer = NONE;
 
-  constructor(firstLine = 2, private readonly refuseEndMarker = true) {
+  constructor(
+    firstLine = 2,
+    private readonly refuseEndMarker = true,
+  ) {
     super();
     this.line = firstLine;
   }

@@ -32,7 +32,13 @@ export async function lockIntakes(client: PoolClient): Promise<void> {
  * judged here; a roster's were judged while streaming). For a roster, `staged` carries what the upload stream found; at apply it
  * is null and only the checks against the store run again (see checkRoster).
  */
-export async function runChecks(client: PoolClient, kind: IntakeKind, table: string, bounds: CellBounds, staged: RosterStaged | null = null): Promise<CheckOutcome> {
+export async function runChecks(
+  client: PoolClient,
+  kind: IntakeKind,
+  table: string,
+  bounds: CellBounds,
+  staged: RosterStaged | null = null,
+): Promise<CheckOutcome> {
   await openProblemTable(client);
   const st = rosterStage(table);
   // A case list often follows a large roster at once: its checks join the roster tables, whose

@@ -18,7 +18,10 @@ export function expiredProblem(hours: number): IntakeProblem {
  * it expired, and its staging tables are dropped.
  */
 export async function expireIntake(client: PoolClient, em: EntityManager, id: string, table: string | null, hours: number): Promise<void> {
-  await client.query(`UPDATE intakes SET state = 'rejected', discarded_at = now(), problem_count = 1, problems = $2 WHERE id = $1`, [id, JSON.stringify([expiredProblem(hours)])]);
+  await client.query(`UPDATE intakes SET state = 'rejected', discarded_at = now(), problem_count = 1, problems = $2 WHERE id = $1`, [
+    id,
+    JSON.stringify([expiredProblem(hours)]),
+  ]);
   if (table) await dropStaging(client, id, table);
   await recordAudit(em, { actor: null, action: 'intake.expire', target: `intake:${id}`, detail: { hours } });
 }

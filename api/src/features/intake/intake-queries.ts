@@ -9,10 +9,25 @@ import { AppError } from '../../lib/app-error';
 type Db = DataSource | EntityManager | { query: (sql: string, params?: unknown[]) => Promise<unknown> };
 
 interface IntakeRow {
-  id: string; kind: 'roster' | 'cases'; state: IntakeSummary['state']; file_name: string; checksum: string; size_bytes: string;
-  site_ids: number[]; month_from: string | null; month_to: string | null; row_count: number; problem_count: number;
-  submitted_label: string | null; created_at: Date; checked_at: Date | null; applied_at: Date | null; superseded_at: Date | null;
-  staging_table: string | null; problems?: IntakeDetail['problems']; diff?: IntakeDetail['diff'];
+  id: string;
+  kind: 'roster' | 'cases';
+  state: IntakeSummary['state'];
+  file_name: string;
+  checksum: string;
+  size_bytes: string;
+  site_ids: number[];
+  month_from: string | null;
+  month_to: string | null;
+  row_count: number;
+  problem_count: number;
+  submitted_label: string | null;
+  created_at: Date;
+  checked_at: Date | null;
+  applied_at: Date | null;
+  superseded_at: Date | null;
+  staging_table: string | null;
+  problems?: IntakeDetail['problems'];
+  diff?: IntakeDetail['diff'];
 }
 
 const columns = `i.id, i.kind, i.state, i.file_name, i.checksum, i.size_bytes, i.site_ids,
@@ -24,9 +39,22 @@ const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 function summary(r: IntakeRow): IntakeSummary {
   return {
-    id: r.id, kind: r.kind, state: r.state, fileName: r.file_name, checksum: r.checksum, sizeBytes: Number(r.size_bytes), siteIds: r.site_ids,
-    monthFrom: r.month_from, monthTo: r.month_to, rowCount: r.row_count, problemCount: r.problem_count, submittedBy: r.submitted_label,
-    createdAt: iso(r.created_at)!, checkedAt: iso(r.checked_at), appliedAt: iso(r.applied_at), supersededAt: iso(r.superseded_at),
+    id: r.id,
+    kind: r.kind,
+    state: r.state,
+    fileName: r.file_name,
+    checksum: r.checksum,
+    sizeBytes: Number(r.size_bytes),
+    siteIds: r.site_ids,
+    monthFrom: r.month_from,
+    monthTo: r.month_to,
+    rowCount: r.row_count,
+    problemCount: r.problem_count,
+    submittedBy: r.submitted_label,
+    createdAt: iso(r.created_at)!,
+    checkedAt: iso(r.checked_at),
+    appliedAt: iso(r.applied_at),
+    supersededAt: iso(r.superseded_at),
     staged: r.staging_table !== null,
   };
 }
@@ -34,23 +62,31 @@ function summary(r: IntakeRow): IntakeSummary {
 /** The intake with its problems, diff and the run it requested; 404 when absent. */
 export async function loadIntake(db: Db, id: string): Promise<IntakeDetail> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw new AppError('not_found', 'no such intake');
-  const rows = (await db.query(`SELECT ${columns}, i.problems, i.diff FROM intakes i LEFT JOIN users u ON u.id = i.submitted_by WHERE i.id = $1`, [id])) as IntakeRow[];
+  const rows = (await db.query(`SELECT ${columns}, i.problems, i.diff FROM intakes i LEFT JOIN users u ON u.id = i.submitted_by WHERE i.id = $1`, [
+    id,
+  ])) as IntakeRow[];
   const r = rows[0];
   if (!r) throw new AppError('not_found', 'no such intake');
-  const runs = (await db.query(
-    `SELECT id, requested_at, picked_at, reason FROM run_requests WHERE intake_id = $1 ORDER BY requested_at DESC LIMIT 1`, [id],
-  )) as Array<{ id: string; requested_at: Date; picked_at: Date | null; reason: string }>;
+  const runs = (await db.query(`SELECT id, requested_at, picked_at, reason FROM run_requests WHERE intake_id = $1 ORDER BY requested_at DESC LIMIT 1`, [
+    id,
+  ])) as Array<{ id: string; requested_at: Date; picked_at: Date | null; reason: string }>;
   const run = runs[0];
   // The run that consumed the request lists it among its inputs.
   const taken = run
-    ? ((await db.query(
-        `SELECT id, number, state, finished_at FROM runs WHERE inputs->'requestIds' ? $1 ORDER BY started_at DESC LIMIT 1`,
-        [String(run.id)],
-      )) as Array<{ id: string; number: string; state: 'running' | 'succeeded' | 'failed'; finished_at: Date | null }>)[0]
+    ? (
+        (await db.query(`SELECT id, number, state, finished_at FROM runs WHERE inputs->'requestIds' ? $1 ORDER BY started_at DESC LIMIT 1`, [
+          String(run.id),
+        ])) as Array<{ id: string; number: string; state: 'running' | 'succeeded' | 'failed'; finished_at: Date | null }>
+      )[0]
     : undefined;
-  const conflicts = r.kind === 'cases'
-    ? ((await db.query(`SELECT EXISTS (SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND resolution IS NULL) AS pending`, [id])) as Array<{ pending: boolean }>)[0]!.pending
-    : undefined;
+  const conflicts =
+    r.kind === 'cases'
+      ? (
+          (await db.query(`SELECT EXISTS (SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND resolution IS NULL) AS pending`, [id])) as Array<{
+            pending: boolean;
+          }>
+        )[0]!.pending
+      : undefined;
   return {
     ...summary(r),
     ...(conflicts === undefined ? {} : { conflictsPending: conflicts }),
@@ -81,12 +117,19 @@ function scopeFilter(p: Principal, params: unknown[]): string {
 export async function listIntakes(ds: DataSource, p: Principal, q: z.infer<typeof intakeListQuerySchema>): Promise<IntakeListResponse> {
   const params: unknown[] = [];
   const where = [scopeFilter(p, params)];
-  if (q.kind) { params.push(q.kind); where.push(`i.kind = $${params.length}`); }
-  if (q.state) { params.push(q.state); where.push(`i.state = $${params.length}`); }
+  if (q.kind) {
+    params.push(q.kind);
+    where.push(`i.kind = $${params.length}`);
+  }
+  if (q.state) {
+    params.push(q.state);
+    where.push(`i.state = $${params.length}`);
+  }
   const [{ n }] = (await ds.query(`SELECT count(*) AS n FROM intakes i WHERE ${where.join(' AND ')}`, params)) as [{ n: string }];
   const rows = (await ds.query(
     `SELECT ${columns} FROM intakes i LEFT JOIN users u ON u.id = i.submitted_by WHERE ${where.join(' AND ')}
-     ORDER BY i.created_at DESC LIMIT ${q.limit} OFFSET ${q.offset}`, params,
+     ORDER BY i.created_at DESC LIMIT ${q.limit} OFFSET ${q.offset}`,
+    params,
   )) as IntakeRow[];
   return { items: rows.map(summary), total: Number(n) };
 }

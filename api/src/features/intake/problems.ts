@@ -12,10 +12,12 @@ export async function openProblemTable(client: PoolClient): Promise<void> {
 
 export async function addProblems(client: PoolClient, problems: IntakeProblem[]): Promise<void> {
   if (!problems.length) return;
-  await client.query(
-    `INSERT INTO intake_problems (line, col, val, reason) SELECT * FROM unnest($1::bigint[], $2::text[], $3::text[], $4::text[])`,
-    [problems.map((p) => p.line), problems.map((p) => p.column), problems.map((p) => p.value), problems.map((p) => p.reason)],
-  );
+  await client.query(`INSERT INTO intake_problems (line, col, val, reason) SELECT * FROM unnest($1::bigint[], $2::text[], $3::text[], $4::text[])`, [
+    problems.map((p) => p.line),
+    problems.map((p) => p.column),
+    problems.map((p) => p.value),
+    problems.map((p) => p.reason),
+  ]);
 }
 
 export async function collectProblems(client: PoolClient): Promise<{ problems: IntakeProblem[]; count: number }> {

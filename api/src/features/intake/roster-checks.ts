@@ -35,10 +35,13 @@ export async function checkRoster(client: PoolClient, st: RosterStage, staged: R
     WHERE iw.by_min <> iw.by_max OR iw.sex_min <> iw.sex_max
        OR (w.id IS NOT NULL AND ((iw.by_min IS NOT NULL AND w.birth_year IS DISTINCT FROM iw.by_min) OR (iw.sex_min IS NOT NULL AND w.sex IS DISTINCT FROM iw.sex_min)))`);
   if (odd.length) {
-    await client.query(`
+    await client.query(
+      `
       INSERT INTO intake_problems (line, col, val, reason)
       SELECT s.line_no, 'birth_year', coalesce(s.birth_year::text, '') || ' / ' || coalesce(s.sex, ''), ${lit(reasons.workerAttributesDiffer)}
-      FROM ${st.rows} s WHERE s.worker_key = ANY($1::text[])`, [odd.map((r) => r.k)]);
+      FROM ${st.rows} s WHERE s.worker_key = ANY($1::text[])`,
+      [odd.map((r) => r.k)],
+    );
   }
 
   // Stored current rosters of site × months this file does not replace, in the file's months.
@@ -66,7 +69,9 @@ export async function checkRoster(client: PoolClient, st: RosterStage, staged: R
  */
 async function assertCodesStillKnown(client: PoolClient, st: RosterStage, staged: RosterStaged | null): Promise<void> {
   const siteIds = staged ? staged.siteIds : (await client.query<{ id: number }>(`SELECT DISTINCT site_id AS id FROM ${st.slices}`)).rows.map((r) => r.id);
-  const groupIds = staged ? staged.groupIds : (await client.query<{ id: number }>(`SELECT DISTINCT group_id AS id FROM ${st.rows} WHERE group_id IS NOT NULL`)).rows.map((r) => r.id);
+  const groupIds = staged
+    ? staged.groupIds
+    : (await client.query<{ id: number }>(`SELECT DISTINCT group_id AS id FROM ${st.rows} WHERE group_id IS NOT NULL`)).rows.map((r) => r.id);
   const { rows } = await client.query<{ n: number }>(
     `SELECT (SELECT count(*)::int FROM sites WHERE id = ANY($1::int[])) + (SELECT count(*)::int FROM exposure_groups WHERE id = ANY($2::int[])) AS n`,
     [siteIds, groupIds],

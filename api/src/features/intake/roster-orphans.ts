@@ -15,7 +15,16 @@ export const ORPHAN_LIST_CAP = 200;
  * and the first ORPHAN_LIST_CAP cases, by onset.
  */
 export async function orphanedCases(client: PoolClient, st: RosterStage): Promise<{ count: number; cases: OrphanedCase[] }> {
-  const { rows } = await client.query<{ n: string; case_ref: string | null; worker_key: string; outcome_code: string; onset: string; status: OrphanedCase['status']; site_code: string; month: string }>(`
+  const { rows } = await client.query<{
+    n: string;
+    case_ref: string | null;
+    worker_key: string;
+    outcome_code: string;
+    onset: string;
+    status: OrphanedCase['status'];
+    site_code: string;
+    month: string;
+  }>(`
     WITH attributed AS (
       SELECT * FROM (
         SELECT c.case_ref, c.onset_date, c.status, upper(o.code) AS outcome_code, w.worker_key, c.worker_id,
@@ -52,6 +61,14 @@ export async function orphanedCases(client: PoolClient, st: RosterStage): Promis
   const count = Number(rows[0]?.n ?? 0);
   const cases = rows
     .filter((r) => r.case_ref !== null)
-    .map((r) => ({ caseRef: r.case_ref!, workerKey: r.worker_key, outcomeCode: r.outcome_code, onsetDate: r.onset, status: r.status, siteCode: r.site_code, month: r.month }));
+    .map((r) => ({
+      caseRef: r.case_ref!,
+      workerKey: r.worker_key,
+      outcomeCode: r.outcome_code,
+      onsetDate: r.onset,
+      status: r.status,
+      siteCode: r.site_code,
+      month: r.month,
+    }));
   return { count, cases };
 }

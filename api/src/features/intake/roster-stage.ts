@@ -78,28 +78,48 @@ export async function stageRoster(
   await client.query(`CREATE UNLOGGED TABLE ${st.rows} (line_no bigint NOT NULL, worker_key text, site_id integer, group_id integer, month date,
     hours numeric(7, 2), birth_year smallint, sex text, job_title text)`);
   await client.query(`CREATE UNLOGGED TABLE ${st.workers} (k text NOT NULL, by_min integer, by_max integer, sex_min text, sex_max text)`);
-  await client.query(`CREATE UNLOGGED TABLE ${st.slices} (site_id integer NOT NULL, site_code text NOT NULL, m text NOT NULL, month date NOT NULL, n bigint NOT NULL, hours numeric NOT NULL)`);
-  const stream = new RosterStream(columns, delimiter, eol, { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') }, 2, limits, bounds);
+  await client.query(
+    `CREATE UNLOGGED TABLE ${st.slices} (site_id integer NOT NULL, site_code text NOT NULL, m text NOT NULL, month date NOT NULL, n bigint NOT NULL, hours numeric NOT NULL)`,
+  );
+  const stream = new RosterStream(
+    columns,
+    delimiter,
+    eol,
+    { site: await codeMap(client, 'sites'), exposure_group: await codeMap(client, 'exposure_groups') },
+    2,
+    limits,
+    bounds,
+  );
   if (rest) {
     const staged = await pumpCopy(client, `COPY ${st.rows} (${ROSTER_STAGE_COLUMNS.join(', ')}) FROM STDIN`, head, rest, stream);
     assertAllRowsStaged(stream.rows, staged);
   }
 
   if (stream.overflow) {
-    await client.query(`INSERT INTO ${st.workers} SELECT worker_key, min(birth_year), max(birth_year), min(sex), max(sex) FROM ${st.rows} WHERE worker_key IS NOT NULL GROUP BY 1`);
+    await client.query(
+      `INSERT INTO ${st.workers} SELECT worker_key, min(birth_year), max(birth_year), min(sex), max(sex) FROM ${st.rows} WHERE worker_key IS NOT NULL GROUP BY 1`,
+    );
     await client.query(`
       INSERT INTO ${st.slices} SELECT s.site_id, upper(si.code), to_char(s.month, 'YYYY-MM'), s.month, count(*), coalesce(sum(s.hours), 0)
       FROM ${st.rows} s JOIN sites si ON si.id = s.site_id WHERE s.month IS NOT NULL GROUP BY s.site_id, si.code, s.month`);
   } else {
     if (stream.workers.size) {
-      await copyLines(client, `COPY ${st.workers} FROM STDIN`, (function* () {
-        for (const [k, t] of stream.workers) yield `${k}\t${nul(t.byMin)}\t${nul(t.byMax)}\t${nul(t.sexMin)}\t${nul(t.sexMax)}\n`;
-      })());
+      await copyLines(
+        client,
+        `COPY ${st.workers} FROM STDIN`,
+        (function* () {
+          for (const [k, t] of stream.workers) yield `${k}\t${nul(t.byMin)}\t${nul(t.byMax)}\t${nul(t.sexMin)}\t${nul(t.sexMax)}\n`;
+        })(),
+      );
     }
     if (stream.slices.size) {
-      await copyLines(client, `COPY ${st.slices} FROM STDIN`, (function* () {
-        for (const t of stream.slices.values()) yield `${t.siteId}\t${t.siteCode}\t${t.month}\t${t.month}-01\t${t.n}\t${(t.cents / 100).toFixed(2)}\n`;
-      })());
+      await copyLines(
+        client,
+        `COPY ${st.slices} FROM STDIN`,
+        (function* () {
+          for (const t of stream.slices.values()) yield `${t.siteId}\t${t.siteCode}\t${t.month}\t${t.month}-01\t${t.n}\t${(t.cents / 100).toFixed(2)}\n`;
+        })(),
+      );
     }
   }
   // The staged tables are new: without statistics the planner would guess their sizes.

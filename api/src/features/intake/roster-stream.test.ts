@@ -5,7 +5,10 @@ import { RosterStream, type CodeMap } from './roster-stream';
 
 const codes = {
   site: new Map([['NFD', { id: 7, code: 'NFD' }]]) as CodeMap,
-  exposure_group: new Map([['FETTLING', { id: 3, code: 'FETTLING' }], ['OFFICE', { id: 4, code: 'office' }]]) as CodeMap,
+  exposure_group: new Map([
+    ['FETTLING', { id: 3, code: 'FETTLING' }],
+    ['OFFICE', { id: 4, code: 'office' }],
+  ]) as CodeMap,
 };
 const header = ['worker_key', 'site', 'exposure_group', 'month', 'hours', 'birth_year', 'sex', 'job_title'];
 
@@ -23,20 +26,22 @@ async function run(body: string | Buffer, size = 1 << 20, opts: { delimiter?: ',
 }
 
 describe('RosterStream (the roster upload hot path)', () => {
-  const rows = [
-    'W1,NFD,FETTLING,2024-01,151.5,1980,F,Grinder',
-    'W1,nfd,fettling,2024-02,"151,25",1980,f,"Fettler, ""senior"""',
-    'W2,NFD,OFFICE,2024-01,0,1975,M,"two',
-    'lines"',
-    'W3,NFD,OFFICE,2024-01,744,1990,X,Schweißer\\tab',
-  ].join('\n') + '\n';
+  const rows =
+    [
+      'W1,NFD,FETTLING,2024-01,151.5,1980,F,Grinder',
+      'W1,nfd,fettling,2024-02,"151,25",1980,f,"Fettler, ""senior"""',
+      'W2,NFD,OFFICE,2024-01,0,1975,M,"two',
+      'lines"',
+      'W3,NFD,OFFICE,2024-01,744,1990,X,Schweißer\\tab',
+    ].join('\n') + '\n';
   // Expected COPY text written by hand from RFC 4180 quoting and PostgreSQL's COPY text escapes.
-  const expected = [
-    '2\tW1\t7\t3\t2024-01-01\t151.5\t1980\tF\tGrinder',
-    '3\tW1\t7\t3\t2024-02-01\t151.25\t1980\tF\tFettler, "senior"',
-    '4\tW2\t7\t4\t2024-01-01\t0\t1975\tM\ttwo\\nlines',
-    '6\tW3\t7\t4\t2024-01-01\t744\t1990\tX\tSchweißer\\\\tab',
-  ].join('\n') + '\n';
+  const expected =
+    [
+      '2\tW1\t7\t3\t2024-01-01\t151.5\t1980\tF\tGrinder',
+      '3\tW1\t7\t3\t2024-02-01\t151.25\t1980\tF\tFettler, "senior"',
+      '4\tW2\t7\t4\t2024-01-01\t0\t1975\tM\ttwo\\nlines',
+      '6\tW3\t7\t4\t2024-01-01\t744\t1990\tX\tSchweißer\\\\tab',
+    ].join('\n') + '\n';
 
   it('splits quoted fields (separators, doubled quotes, line breaks) into typed COPY rows', async () => {
     const { text, s } = await run(rows);
@@ -65,7 +70,12 @@ describe('RosterStream (the roster upload hot path)', () => {
       return r.success ? [] : r.error.issues.map((i) => i.message);
     };
     // The zod schema does not know stored codes; the unknown-code reasons are the shared wording.
-    expect(s.problems.filter((p) => p.line === 2).map((p) => p.reason).sort()).toEqual(zodReasons(bad[0]!).sort());
+    expect(
+      s.problems
+        .filter((p) => p.line === 2)
+        .map((p) => p.reason)
+        .sort(),
+    ).toEqual(zodReasons(bad[0]!).sort());
     expect(s.problems.filter((p) => p.line === 3)).toEqual([
       { line: 3, column: 'site', value: 'XXX', reason: reasons.unknownCode('site', 'site') },
       { line: 3, column: 'exposure_group', value: 'NOPE', reason: reasons.unknownCode('exposure_group', 'exposure_group') },
@@ -78,7 +88,10 @@ describe('RosterStream (the roster upload hot path)', () => {
     expect(s.monthsIncrease).toBe(true);
     expect(s.workers.get('W1')).toMatchObject({ byMin: 1980, byMax: 1981, sexMin: 'F', sexMax: 'F' });
     // Hours in hundredths by hand: January 1025; February 2000 + 500.
-    expect([...s.slices.values()].map((x) => [x.month, x.n, x.cents])).toEqual([['2024-01', 1, 1025], ['2024-02', 2, 2500]]);
+    expect([...s.slices.values()].map((x) => [x.month, x.n, x.cents])).toEqual([
+      ['2024-01', 1, 1025],
+      ['2024-02', 2, 2500],
+    ]);
     const again = await run('W1,NFD,OFFICE,2024-02,1,1980,F,\nW1,NFD,OFFICE,2024-01,1,1980,F,\n');
     expect(again.s.monthsIncrease).toBe(false);
   });
@@ -87,7 +100,9 @@ describe('RosterStream (the roster upload hot path)', () => {
     await expect(run('W1,NFD,OFFICE,2024-01,1,1980,F,\n\nW2,NFD,OFFICE,2024-01,1,1980,F,\n')).rejects.toThrow(/fewer fields than the header \(line 3\)/);
     await expect(run('W1,NFD,OFFICE,2024-01,1,1980,F,,\n')).rejects.toThrow(/more fields than the header \(line 2\)/);
     await expect(run('W1,NFD,OFFICE,2024-01,1,1980,F,"open\n')).rejects.toThrow(/quoted value is never closed \(line 2\)/);
-    await expect(run(Buffer.from('W1,NFD,OFFICE,2024-01,1,1980,F,\nW2,NFD,OFFICE,2024-01,1,1980,F,Caf\xe9\n', 'latin1'), 5)).rejects.toThrow(/not UTF-8 text \(line 3\)/);
+    await expect(run(Buffer.from('W1,NFD,OFFICE,2024-01,1,1980,F,\nW2,NFD,OFFICE,2024-01,1,1980,F,Caf\xe9\n', 'latin1'), 5)).rejects.toThrow(
+      /not UTF-8 text \(line 3\)/,
+    );
     await expect(run(Buffer.from('W1,NFD,OFFICE,2024-01,1,1980,F,\0\n', 'latin1'))).rejects.toThrow(/zero byte\) \(line 2\)/);
   });
 });

@@ -12,8 +12,20 @@ export const ROSTER_STAGE_COLUMNS = ['line_no', 'worker_key', 'site_id', 'group_
 /** Known codes, upper case, with their ids and stored spelling. */
 export type CodeMap = Map<string, { id: number; code: string }>;
 
-export interface WorkerTally { byMin: number; byMax: number; sexMin: string; sexMax: string; last: number }
-export interface SliceTally { siteId: number; siteCode: string; month: string; n: number; cents: number }
+export interface WorkerTally {
+  byMin: number;
+  byMax: number;
+  sexMin: string;
+  sexMax: string;
+  last: number;
+}
+export interface SliceTally {
+  siteId: number;
+  siteCode: string;
+  month: string;
+  n: number;
+  cents: number;
+}
 
 /**
  * Beyond these many distinct workers (or site × months) the stream stops keeping its tallies and
@@ -377,7 +389,16 @@ export class RosterStream extends Transform {
     const sex = this.byteJudged(a.sex!, b);
     const job = a.job_title!.pos < 0 ? null : this.byteJudged(a.job_title!, b);
     if (key.j.reason || site.j.reason || group.j.reason || month.j.reason || hours.j.reason || by.j.reason || sex.j.reason || job?.j.reason) {
-      const all: Array<[string, Entry | null]> = [['worker_key', key], ['site', site], ['exposure_group', group], ['month', month], ['hours', hours], ['birth_year', by], ['sex', sex], ['job_title', job]];
+      const all: Array<[string, Entry | null]> = [
+        ['worker_key', key],
+        ['site', site],
+        ['exposure_group', group],
+        ['month', month],
+        ['hours', hours],
+        ['birth_year', by],
+        ['sex', sex],
+        ['job_title', job],
+      ];
       for (const [column, x] of all) if (x?.j.reason) this.problemAt(line, column, x.text, x.j.reason);
     }
     if (!this.overflow) {
@@ -425,7 +446,11 @@ export class RosterStream extends Transform {
     if (!this.overflow) this.tally(key, j.site!, j.month!, j.hours!, j.birth_year!, j.sex!);
     if (!Number.isNaN(j.site!.num)) this.siteIds.add(j.site!.num);
     if (!Number.isNaN(j.exposure_group!.num)) this.groupIds.add(j.exposure_group!.num);
-    this.putStr(`${line}\t${ROSTER_STAGE_COLUMNS.slice(1).map((c) => j[c === 'site_id' ? 'site' : c === 'group_id' ? 'exposure_group' : c]!.cell).join('\t')}\n`);
+    this.putStr(
+      `${line}\t${ROSTER_STAGE_COLUMNS.slice(1)
+        .map((c) => j[c === 'site_id' ? 'site' : c === 'group_id' ? 'exposure_group' : c]!.cell)
+        .join('\t')}\n`,
+    );
   }
 
   /** One record with quoted fields, starting at `pos`; null when it does not end within `s`. */
@@ -516,7 +541,13 @@ export class RosterStream extends Transform {
     } else if (this.slices.size >= this.limits.slices) {
       this.giveUpTallies();
     } else {
-      this.slices.set(k, { siteId: site.num, siteCode: this.sitesById.get(site.num)!, month: month.cell.slice(0, 7), n: 1, cents: Number.isNaN(hours.num) ? 0 : hours.num });
+      this.slices.set(k, {
+        siteId: site.num,
+        siteCode: this.sitesById.get(site.num)!,
+        month: month.cell.slice(0, 7),
+        n: 1,
+        cents: Number.isNaN(hours.num) ? 0 : hours.num,
+      });
     }
   }
 

@@ -62,7 +62,8 @@ export function cellCheckSql(alias: string, def: ColumnDef, codes: CodeParams, b
       branches.push(`WHEN ${v} NOT BETWEEN ${lit(rule.min)} AND ${lit(rule.max)} THEN ${lit(reasons.range(def.name, rule.min, rule.max))}`);
       // Day of month against the month's length, the same rule as isCalendarDate.
       if (rule.type === 'date') branches.push(`WHEN NOT (${dayFitsSql(v)}) THEN ${lit(reasons.noSuchDay(def.name))}`);
-      if (bounds.latestMonth !== null) branches.push(`WHEN substr(${v}, 1, 7) > ${lit(bounds.latestMonth)} THEN ${lit(reasons.future(def.name, bounds.latestMonth))}`);
+      if (bounds.latestMonth !== null)
+        branches.push(`WHEN substr(${v}, 1, 7) > ${lit(bounds.latestMonth)} THEN ${lit(reasons.future(def.name, bounds.latestMonth))}`);
       break;
     case 'choice':
       branches.push(`WHEN ${nv} NOT IN (${rule.values.map(lit).join(', ')}) THEN ${lit(reasons.shape(def.name, rule))}`);
@@ -90,10 +91,12 @@ export function cellCheckSql(alias: string, def: ColumnDef, codes: CodeParams, b
  * values that fail, which for a clean file is none (the hash join then skips its scan).
  */
 export function cellChecksInsertSql(table: string, defs: readonly ColumnDef[], codes: CodeParams, bounds: CellBounds): string[] {
-  return defs.map((d) => `
+  return defs.map(
+    (d) => `
     INSERT INTO intake_problems (line, col, val, reason)
     SELECT s.line_no + 1, ${lit(d.name)}, left(s.${d.name}, 200), b.reason
     FROM (SELECT v, reason FROM (SELECT d.${d.name} AS v, ${cellCheckSql('d', d, codes, bounds)} AS reason FROM (SELECT DISTINCT ${d.name} FROM ${table}) d) x
           WHERE reason IS NOT NULL) b
-    JOIN ${table} s ON coalesce(s.${d.name}, '') = coalesce(b.v, '')`);
+    JOIN ${table} s ON coalesce(s.${d.name}, '') = coalesce(b.v, '')`,
+  );
 }

@@ -17,7 +17,9 @@ export interface MailboxRouterDeps {
  */
 export function mailboxRouter({ dataSource: ds, config }: MailboxRouterDeps): Router {
   const router = Router();
-  router.use((_req, _res, next) => next(config.NODE_ENV === 'production' ? new AppError('not_found', 'the development mailbox is not available in production') : undefined));
+  router.use((_req, _res, next) =>
+    next(config.NODE_ENV === 'production' ? new AppError('not_found', 'the development mailbox is not available in production') : undefined),
+  );
   router.get('/', authorize('mailbox:read'), async (_req, res) => {
     res.json(await listMailbox(ds));
   });

@@ -59,7 +59,10 @@ export async function openNotice(ds: DataSource, principal: Principal, id: strin
 /** Marks one of the reader's notices new again. */
 export async function markUnread(ds: DataSource, principal: Principal, id: string): Promise<NoticeSummary> {
   const user = userOf({ principal });
-  const [r] = await rows<Row>(ds, `UPDATE notices n SET read_at = NULL WHERE n.id = $1 AND lower(n.recipient) = lower($2) RETURNING ${COLUMNS}`, [id, user.email]);
+  const [r] = await rows<Row>(ds, `UPDATE notices n SET read_at = NULL WHERE n.id = $1 AND lower(n.recipient) = lower($2) RETURNING ${COLUMNS}`, [
+    id,
+    user.email,
+  ]);
   if (!r) throw new AppError('not_found', 'no such notice in your inbox');
   return summaryOf(r);
 }

@@ -17,7 +17,15 @@ const scopeIds = (p: Principal): number[] | null => {
   return scope === 'all' ? null : scope;
 };
 
-const awaiting = (siteId: number, month: string): SitePeriod => ({ siteId, month, state: 'awaiting', roster: false, correctedAfterClose: false, closedAt: null, closedBy: null });
+const awaiting = (siteId: number, month: string): SitePeriod => ({
+  siteId,
+  month,
+  state: 'awaiting',
+  roster: false,
+  correctedAfterClose: false,
+  closedAt: null,
+  closedBy: null,
+});
 
 /**
  * The calendar of the reader's sites × months: every cell's state (shared/src/periods.ts decides
@@ -26,10 +34,9 @@ const awaiting = (siteId: number, month: string): SitePeriod => ({ siteId, month
  */
 export async function periodCalendar(ds: DataSource, principal: Principal, q: PeriodCalendarQuery, now = new Date()): Promise<PeriodCalendar> {
   const siteIds = scopeIds(principal);
-  const sites: PeriodCalendar['sites'] = await ds.query(
-    `SELECT id, code, name FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY name, id`,
-    [siteIds],
-  );
+  const sites: PeriodCalendar['sites'] = await ds.query(`SELECT id, code, name FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY name, id`, [
+    siteIds,
+  ]);
   const received = await readSitePeriods(ds, { siteIds });
   const latest = received.filter((p) => p.state !== 'awaiting').reduce<string | null>((m, p) => (m === null || p.month > m ? p.month : m), null);
   const to = q.to ?? latest ?? currentMonth(now);
@@ -80,11 +87,17 @@ interface ChangeInput {
  * month, say). A month still to come cannot be closed. Audited; requests a run, because the
  * periods' completeness changes what the results and the watch rules read.
  */
-export async function closePeriod(ds: DataSource, principal: Principal, body: ChangeInput & { force: boolean }, opts: { ip?: string; allowFutureMonths?: boolean; now?: Date } = {}): Promise<SitePeriod> {
+export async function closePeriod(
+  ds: DataSource,
+  principal: Principal,
+  body: ChangeInput & { force: boolean },
+  opts: { ip?: string; allowFutureMonths?: boolean; now?: Date } = {},
+): Promise<SitePeriod> {
   const person = userOf({ principal });
   return ds.transaction(async (em) => {
     const site = await siteOf(em, principal, body.siteId);
-    if (!opts.allowFutureMonths && body.month > currentMonth(opts.now ?? new Date())) throw new AppError('validation_failed', 'a month still to come cannot be closed');
+    if (!opts.allowFutureMonths && body.month > currentMonth(opts.now ?? new Date()))
+      throw new AppError('validation_failed', 'a month still to come cannot be closed');
     await lockPeriod(em, site.id, body.month);
     const before = await periodOf(em, site.id, body.month);
     if (!before) throw new AppError('validation_failed', `nothing has been received for any site up to ${monthText(body.month)}: there is no month to close`);
@@ -96,7 +109,12 @@ export async function closePeriod(ds: DataSource, principal: Principal, body: Ch
         { state: before.state },
       );
     }
-    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'close', $3, $4)`, [site.id, body.month, body.reason ?? null, person.id]);
+    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'close', $3, $4)`, [
+      site.id,
+      body.month,
+      body.reason ?? null,
+      person.id,
+    ]);
     await recordAudit(em, {
       actor: principal,
       action: 'period.close',
@@ -110,17 +128,32 @@ export async function closePeriod(ds: DataSource, principal: Principal, body: Ch
 }
 
 /** The hygienist reopens a closed month, with a reason; audited, and a run is requested. */
-export async function reopenPeriod(ds: DataSource, principal: Principal, body: ChangeInput & { reason: string }, opts: { ip?: string } = {}): Promise<SitePeriod> {
+export async function reopenPeriod(
+  ds: DataSource,
+  principal: Principal,
+  body: ChangeInput & { reason: string },
+  opts: { ip?: string } = {},
+): Promise<SitePeriod> {
   const person = userOf({ principal });
   return ds.transaction(async (em) => {
     const site = await siteOf(em, principal, body.siteId);
     await lockPeriod(em, site.id, body.month);
     const before = await periodOf(em, site.id, body.month);
     if (before?.state !== 'closed') throw new AppError('conflict', `${site.name}, ${monthText(body.month)} is not closed`);
-    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'reopen', $3, $4)`, [site.id, body.month, body.reason, person.id]);
-    await recordAudit(em, { actor: principal, action: 'period.reopen', target: `period:${site.code}:${monthText(body.month)}`, detail: { reason: body.reason }, ip: opts.ip });
+    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'reopen', $3, $4)`, [
+      site.id,
+      body.month,
+      body.reason,
+      person.id,
+    ]);
+    await recordAudit(em, {
+      actor: principal,
+      action: 'period.reopen',
+      target: `period:${site.code}:${monthText(body.month)}`,
+      detail: { reason: body.reason },
+      ip: opts.ip,
+    });
     await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`month reopened: ${site.code} ${monthText(body.month)}`]);
     return (await periodOf(em, site.id, body.month))!;
   });
 }
-

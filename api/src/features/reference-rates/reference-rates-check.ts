@@ -31,7 +31,10 @@ export function checkReferenceFile(text: string, outcomeIds: ReadonlyMap<string,
   const problems: IntakeProblem[] = [];
   let records: Array<{ record: string[]; info: { lines: number } }>;
   try {
-    records = parse(text, { bom: true, skip_empty_lines: true, relax_column_count: true, info: true, trim: false }) as unknown as Array<{ record: string[]; info: { lines: number } }>;
+    records = parse(text, { bom: true, skip_empty_lines: true, relax_column_count: true, info: true, trim: false }) as unknown as Array<{
+      record: string[];
+      info: { lines: number };
+    }>;
   } catch (err) {
     const line = (err as { lines?: number }).lines ?? null;
     return { rows: [], problems: [{ line, column: null, value: null, reason: `the file is not readable CSV: ${(err as Error).message}` }] };
@@ -41,7 +44,8 @@ export function checkReferenceFile(text: string, outcomeIds: ReadonlyMap<string,
   const header = head.record.map((h) => h.trim().toLowerCase());
   const index = new Map<string, number>();
   header.forEach((h, i) => {
-    if (!referenceRateColumns.some((c) => c.name === h)) problems.push({ line: 1, column: h, value: null, reason: `unknown column ${h}; the columns are ${referenceRateColumns.map((c) => c.name).join(', ')}` });
+    if (!referenceRateColumns.some((c) => c.name === h))
+      problems.push({ line: 1, column: h, value: null, reason: `unknown column ${h}; the columns are ${referenceRateColumns.map((c) => c.name).join(', ')}` });
     else if (index.has(h)) problems.push({ line: 1, column: h, value: null, reason: `column ${h} appears twice` });
     else index.set(h, i);
   });
@@ -74,7 +78,16 @@ export function checkReferenceFile(text: string, outcomeIds: ReadonlyMap<string,
       problems.push({ line, column: 'age_to', value: String(v.age_to), reason: referenceReasons.bandReversed });
       continue;
     }
-    rows.push({ line, outcomeId, sex: v.sex as 'F' | 'M', ageFrom: v.age_from as number, ageTo: v.age_to as number, year: v.year as number, rate: v.rate_per_person_year as number, source: String(v.source) });
+    rows.push({
+      line,
+      outcomeId,
+      sex: v.sex as 'F' | 'M',
+      ageFrom: v.age_from as number,
+      ageTo: v.age_to as number,
+      year: v.year as number,
+      rate: v.rate_per_person_year as number,
+      source: String(v.source),
+    });
   }
   problems.push(...overlaps(rows));
   problems.sort((a, b) => (a.line ?? 0) - (b.line ?? 0));

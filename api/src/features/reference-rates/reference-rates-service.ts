@@ -68,7 +68,13 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
         `INSERT INTO reference_rate_tables (state, file_name, checksum, problem_count, problems, uploaded_by) VALUES ('rejected', $1, $2, $3, $4, $5) RETURNING id`,
         [up.fileName, checksum, checked.problems.length, JSON.stringify(checked.problems.slice(0, 1000)), uploadedBy],
       );
-      await recordAudit(em, { actor: up.principal, action: 'reference.reject', target: `reference_rates:${row!.id}`, detail: { fileName: up.fileName, problems: checked.problems.length }, ip: up.ip });
+      await recordAudit(em, {
+        actor: up.principal,
+        action: 'reference.reject',
+        target: `reference_rates:${row!.id}`,
+        detail: { fileName: up.fileName, problems: checked.problems.length },
+        ip: up.ip,
+      });
       return row!.id as number;
     });
     const table = await tableById(ds, id);
@@ -90,9 +96,24 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
     await em.query(
       `INSERT INTO reference_rates (table_id, outcome_id, sex, age_from, age_to, year, rate, source)
        SELECT $1, * FROM unnest($2::int[], $3::text[], $4::int[], $5::int[], $6::int[], $7::float8[], $8::text[])`,
-      [tableId, rows.map((r) => r.outcomeId), rows.map((r) => r.sex), rows.map((r) => r.ageFrom), rows.map((r) => r.ageTo), rows.map((r) => r.year), rows.map((r) => r.rate), rows.map((r) => r.source)],
+      [
+        tableId,
+        rows.map((r) => r.outcomeId),
+        rows.map((r) => r.sex),
+        rows.map((r) => r.ageFrom),
+        rows.map((r) => r.ageTo),
+        rows.map((r) => r.year),
+        rows.map((r) => r.rate),
+        rows.map((r) => r.source),
+      ],
     );
-    await recordAudit(em, { actor: up.principal, action: 'reference.apply', target: `reference_rates:${tableId}`, detail: { fileName: up.fileName, rows: rows.length, sources }, ip: up.ip });
+    await recordAudit(em, {
+      actor: up.principal,
+      action: 'reference.apply',
+      target: `reference_rates:${tableId}`,
+      detail: { fileName: up.fileName, rows: rows.length, sources },
+      ip: up.ip,
+    });
     await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`reference rates version ${tableId} uploaded`]);
     return tableId;
   });
@@ -119,5 +140,8 @@ export async function referenceRatesOf(ds: DataSource, version: number | undefin
      WHERE r.table_id = $1 ORDER BY o.code, r.year, r.sex, r.age_from`,
     [id],
   );
-  return { table, rates: rows.map((r) => ({ outcomeCode: r.code, sex: r.sex, ageFrom: r.age_from, ageTo: r.age_to, year: r.year, rate: r.rate, source: r.source })) };
+  return {
+    table,
+    rates: rows.map((r) => ({ outcomeCode: r.code, sex: r.sex, ageFrom: r.age_from, ageTo: r.age_to, year: r.year, rate: r.rate, source: r.source })),
+  };
 }

@@ -38,9 +38,12 @@ export const getRule = (ds: DataSource, id: string) => ruleById(ds, id);
 async function assertTargets(em: EntityManager, outcomeId: number, groupId: number | null, siteIds: number[] | null): Promise<void> {
   const problems: Array<{ path: string; message: string }> = [];
   if (!(await em.query(`SELECT 1 FROM outcomes WHERE id = $1`, [outcomeId])).length) problems.push({ path: 'outcomeId', message: 'no such outcome' });
-  if (groupId !== null && !(await em.query(`SELECT 1 FROM exposure_groups WHERE id = $1`, [groupId])).length) problems.push({ path: 'exposureGroupId', message: 'no such exposure group' });
+  if (groupId !== null && !(await em.query(`SELECT 1 FROM exposure_groups WHERE id = $1`, [groupId])).length)
+    problems.push({ path: 'exposureGroupId', message: 'no such exposure group' });
   if (siteIds !== null) {
-    const missing: Array<{ id: number }> = await em.query(`SELECT x AS id FROM unnest($1::int[]) x WHERE NOT EXISTS (SELECT 1 FROM sites s WHERE s.id = x)`, [siteIds]);
+    const missing: Array<{ id: number }> = await em.query(`SELECT x AS id FROM unnest($1::int[]) x WHERE NOT EXISTS (SELECT 1 FROM sites s WHERE s.id = x)`, [
+      siteIds,
+    ]);
     if (missing.length) problems.push({ path: 'siteIds', message: `no such site: ${missing.map((m) => m.id).join(', ')}` });
   }
   if (problems.length) throw new AppError('validation_failed', 'the watch rule is not valid', problems);
@@ -52,7 +55,8 @@ async function assertTargets(em: EntityManager, outcomeId: number, groupId: numb
  */
 export async function assertRuleScope(db: DataSource | EntityManager, principal: Principal, siteIds: number[] | null): Promise<void> {
   if (siteIds === null) {
-    if (!(await readsEverySite(db, principal))) throw new AppError('forbidden', 'a company-wide watch rule needs access to every site; choose among your sites instead');
+    if (!(await readsEverySite(db, principal)))
+      throw new AppError('forbidden', 'a company-wide watch rule needs access to every site; choose among your sites instead');
     return;
   }
   const scope = siteScope(principal);
@@ -61,7 +65,12 @@ export async function assertRuleScope(db: DataSource | EntityManager, principal:
   if (outside.length) throw new AppError('forbidden', `you have no access to site ${outside.join(', ')}`);
 }
 
-export async function createRule(ds: DataSource, principal: Principal, input: WatchRuleInput, { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {}): Promise<WatchRule> {
+export async function createRule(
+  ds: DataSource,
+  principal: Principal,
+  input: WatchRuleInput,
+  { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {},
+): Promise<WatchRule> {
   const r = watchRuleSchemas(smallCellThreshold).input.parse(input);
   return ds.transaction(async (em) => {
     await assertRuleScope(em, principal, r.siteIds);
@@ -70,8 +79,24 @@ export async function createRule(ds: DataSource, principal: Principal, input: Wa
       `INSERT INTO watch_rules (name, outcome_id, exposure_group_id, site_ids, measure, threshold_on, threshold, min_cases, min_expected, window_kind,
          consecutive_periods, fdr_control, fdr_level, recipients, active, created_by)
        VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16) RETURNING id`,
-      [r.name, r.outcomeId, r.exposureGroupId, r.siteIds, r.measure, r.thresholdOn, r.threshold, r.minCases, r.minExpected, r.window,
-        r.consecutivePeriods, r.fdrControl, r.fdrLevel, r.recipients, r.active, principal.kind === 'user' ? principal.id : null],
+      [
+        r.name,
+        r.outcomeId,
+        r.exposureGroupId,
+        r.siteIds,
+        r.measure,
+        r.thresholdOn,
+        r.threshold,
+        r.minCases,
+        r.minExpected,
+        r.window,
+        r.consecutivePeriods,
+        r.fdrControl,
+        r.fdrLevel,
+        r.recipients,
+        r.active,
+        principal.kind === 'user' ? principal.id : null,
+      ],
     );
     const rule = await ruleById(em, row!.id);
     await recordAudit(em, { actor: principal, action: 'rule.create', target: `watch_rule:${rule.id}`, detail: { rule }, ip });
@@ -80,9 +105,21 @@ export async function createRule(ds: DataSource, principal: Principal, input: Wa
 }
 
 const columnOf: Record<keyof WatchRulePatch, string> = {
-  name: 'name', outcomeId: 'outcome_id', exposureGroupId: 'exposure_group_id', siteIds: 'site_ids', measure: 'measure', thresholdOn: 'threshold_on',
-  threshold: 'threshold', minCases: 'min_cases', minExpected: 'min_expected', window: 'window_kind', consecutivePeriods: 'consecutive_periods',
-  fdrControl: 'fdr_control', fdrLevel: 'fdr_level', recipients: 'recipients', active: 'active',
+  name: 'name',
+  outcomeId: 'outcome_id',
+  exposureGroupId: 'exposure_group_id',
+  siteIds: 'site_ids',
+  measure: 'measure',
+  thresholdOn: 'threshold_on',
+  threshold: 'threshold',
+  minCases: 'min_cases',
+  minExpected: 'min_expected',
+  window: 'window_kind',
+  consecutivePeriods: 'consecutive_periods',
+  fdrControl: 'fdr_control',
+  fdrLevel: 'fdr_level',
+  recipients: 'recipients',
+  active: 'active',
 };
 
 /**
@@ -90,7 +127,13 @@ const columnOf: Record<keyof WatchRulePatch, string> = {
  * that changes nothing is neither written nor audited: the rule comes back as it was. The person
  * must be allowed the rule's scope both before and after the change.
  */
-export async function updateRule(ds: DataSource, principal: Principal, id: string, input: WatchRulePatch, { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {}): Promise<WatchRule> {
+export async function updateRule(
+  ds: DataSource,
+  principal: Principal,
+  id: string,
+  input: WatchRulePatch,
+  { ip, smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD }: RuleWriteOptions = {},
+): Promise<WatchRule> {
   const patch = watchRuleSchemas(smallCellThreshold).patch.parse(input);
   return ds.transaction(async (em) => {
     const before = await ruleById(em, id, true);
@@ -101,10 +144,10 @@ export async function updateRule(ds: DataSource, principal: Principal, id: strin
     watchRuleCompleteSchema.parse(merged);
     if (keys.includes('siteIds')) await assertRuleScope(em, principal, merged.siteIds);
     await assertTargets(em, merged.outcomeId, merged.exposureGroupId, merged.siteIds);
-    await em.query(
-      `UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`,
-      [id, ...keys.map((k) => patch[k])],
-    );
+    await em.query(`UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`, [
+      id,
+      ...keys.map((k) => patch[k]),
+    ]);
     const after = await ruleById(em, id);
     await recordAudit(em, { actor: principal, action: 'rule.update', target: `watch_rule:${id}`, detail: { before, after }, ip });
     return after;

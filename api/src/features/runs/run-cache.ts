@@ -28,7 +28,10 @@ export class RunAnswers {
     const [current] = (await this.ds.query(`SELECT run_id::text AS id FROM current_run`)) as Array<{ id: string }>;
     const p = req.principal!;
     const who = p.kind === 'user' ? `${p.id}|${p.role ?? ''}|${p.siteIds.join(',')}` : `client|${p.clientId}`;
-    const tag = `"run-${createHash('sha256').update([current?.id ?? 'none', who, this.smallCellThreshold, req.originalUrl].join('\n')).digest('base64url').slice(0, 27)}"`;
+    const tag = `"run-${createHash('sha256')
+      .update([current?.id ?? 'none', who, this.smallCellThreshold, req.originalUrl].join('\n'))
+      .digest('base64url')
+      .slice(0, 27)}"`;
     res.set('etag', tag);
     res.set('cache-control', 'private, no-cache');
     res.vary('cookie');

@@ -46,7 +46,9 @@ export function completenessOf(book: PeriodBook): (window: 'month' | 'rolling12'
 export async function completeThroughFor(ds: DataSource, runId: string, principal: Principal): Promise<CompleteThrough> {
   const book = await runPeriodBook(ds, runId);
   const scope = siteScope(principal);
-  const sites: Array<{ id: number }> = await ds.query(`SELECT id FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY id`, [scope === 'all' ? null : scope]);
+  const sites: Array<{ id: number }> = await ds.query(`SELECT id FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY id`, [
+    scope === 'all' ? null : scope,
+  ]);
   return {
     company: (await readsEverySite(ds, principal)) ? book.latestComplete() : null,
     sites: sites.map((s) => ({ siteId: s.id, month: book.latestComplete([s.id]) })),

@@ -35,7 +35,8 @@ interface Arm {
 export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery, reader: ResultReader): Promise<RunStrata> {
   const run = await getRun(ds, runId);
   const siteId = await resultScope(ds, reader.principal, q.siteId);
-  if (q.by === 'site' && siteId !== null) throw new AppError('bad_request', 'one site is a single site stratum: stratify by age band or sex, or read the whole company');
+  if (q.by === 'site' && siteId !== null)
+    throw new AppError('bad_request', 'one site is a single site stratum: stratify by age band or sex, or read the whole company');
   const [row]: Array<{ cases: number; reference_group_id: number | null; is_reference: boolean }> = await ds.query(
     `SELECT cases, reference_group_id, is_reference FROM run_results
      WHERE run_id = $1 AND site_id IS NOT DISTINCT FROM $2::int AND outcome_id = $3 AND exposure_group_id = $4 AND window_kind = $5 AND period = $6`,
@@ -58,8 +59,18 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     m.set(c.group_id, { cases: c.cases, hours: c.hours });
     arms.set(k, m);
   }
-  const siteNames = q.by === 'site' ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name])) : null;
-  const label = (k: string) => (k === '' ? 'not recorded' : q.by === 'age' ? ageBandLabel(Number(k), ageBandEdgesOf(run.settings as RunSettings)) : q.by === 'site' ? (siteNames!.get(k) ?? `site ${k}`) : (sexLabels[k] ?? k));
+  const siteNames =
+    q.by === 'site'
+      ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name]))
+      : null;
+  const label = (k: string) =>
+    k === ''
+      ? 'not recorded'
+      : q.by === 'age'
+        ? ageBandLabel(Number(k), ageBandEdgesOf(run.settings as RunSettings))
+        : q.by === 'site'
+          ? (siteNames!.get(k) ?? `site ${k}`)
+          : (sexLabels[k] ?? k);
   const keys = [...arms.keys()].sort((a, b) => {
     if (a === '' || b === '') return a === '' ? 1 : -1; // unknown last
     return q.by === 'age' ? Number(a) - Number(b) : label(a).localeCompare(label(b));
@@ -82,7 +93,11 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     const reference = referenceId === null ? null : shown(referenceId);
     const comparable = reference !== null && exposed.withheld === null && reference.withheld === null;
     const c = comparable
-      ? compareRates({ cases: arm(q.exposureGroupId).cases, personTime: exposed.personTime }, { cases: arm(referenceId!).cases, personTime: reference.personTime }, { confidence, per })
+      ? compareRates(
+          { cases: arm(q.exposureGroupId).cases, personTime: exposed.personTime },
+          { cases: arm(referenceId!).cases, personTime: reference.personTime },
+          { confidence, per },
+        )
       : null;
     return {
       key: k === '' ? null : k,
@@ -93,7 +108,14 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
       ird: c ? { estimate: n(c.ird.estimate), lower: n(c.ird.wald.lower), upper: n(c.ird.wald.upper) } : null,
     };
   });
-  return { by: q.by, siteId, exposureGroupId: q.exposureGroupId, referenceGroupId: referenceId, strata, methods: { irr: METHODS.irrExact, ird: METHODS.irdWald } };
+  return {
+    by: q.by,
+    siteId,
+    exposureGroupId: q.exposureGroupId,
+    referenceGroupId: referenceId,
+    strata,
+    methods: { irr: METHODS.irrExact, ird: METHODS.irdWald },
+  };
 }
 
 /**
@@ -126,7 +148,8 @@ function armWithholding(
         if (w || (row && counts[i]! > 0)) m.set(k, w ?? row!);
       });
     } else {
-      const tableShown = row === null && siteId === null && q.window === 'rolling12' && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
+      const tableShown =
+        row === null && siteId === null && q.window === 'rolling12' && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
       // One label for a withheld table's every entry: each stratum's own would say which are small.
       if (!tableShown) keys.forEach((k) => m.set(k, 'strata'));
     }

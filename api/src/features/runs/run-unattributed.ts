@@ -55,7 +55,14 @@ export async function listUnattributed(ds: DataSource, principal: Principal, ip?
   const scope = (await readsEverySite(ds, principal)) ? null : siteScope(principal);
   const [run]: Array<{ id: string; number: string }> = await ds.query(`SELECT r.id, r.number FROM current_run c JOIN runs r ON r.id = c.run_id`);
   if (!run) throw new AppError('not_found', 'no run has succeeded yet');
-  const rows: Array<{ case_ref: string; worker_key: string; outcome_id: number; onset: string; status: 'suspected' | 'confirmed' | 'ruled_out'; reason: UnattributedReason }> = await ds.query(
+  const rows: Array<{
+    case_ref: string;
+    worker_key: string;
+    outcome_id: number;
+    onset: string;
+    status: 'suspected' | 'confirmed' | 'ruled_out';
+    reason: UnattributedReason;
+  }> = await ds.query(
     `SELECT c.case_ref, w.worker_key, u.outcome_id, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, c.status, u.reason
      FROM run_unattributed u
      JOIN case_events c ON c.id = u.case_event_id

@@ -52,7 +52,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
     res.json(await listUnattributed(ds, req.principal!, req.ip));
   });
   router.get('/:id', authorize('runs:read'), async (req, res) => {
-    await answers.send(req, res, async () => await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!));
+    await answers.send(
+      req,
+      res,
+      async () => await withCompleteThrough(ds, await runAsSeenBy(ds, await getRun(ds, runId.parse(req.params.id)), reader(req)), req.principal!),
+    );
   });
   /**
    * Results of a run. Site scoping: a run stores company-wide rows and, for every site, rows

@@ -28,14 +28,25 @@ export async function analysisSettings(db: DataSource | EntityManager): Promise<
 
 /** The settings compared as a run reads them (the order of statuses does not matter; no edges are ten-year bands). */
 const canonical = (s: RunSettings) =>
-  JSON.stringify({ personTimeBasis: s.personTimeBasis, per: s.per, confidence: s.confidence, countedStatuses: [...s.countedStatuses].sort(), ageBandEdges: ageBandEdgesOf(s) });
+  JSON.stringify({
+    personTimeBasis: s.personTimeBasis,
+    per: s.per,
+    confidence: s.confidence,
+    countedStatuses: [...s.countedStatuses].sort(),
+    ageBandEdges: ageBandEdgesOf(s),
+  });
 
 /**
  * A change of the analysis settings: the next version, who and when, an audit line with before
  * and after, and a run request (the current results were computed with the old version). A body
  * equal to the current version writes nothing.
  */
-export async function changeAnalysisSettings(ds: DataSource, p: Extract<Principal, { kind: 'user' }>, body: SettingsUpdate, ip?: string | null): Promise<SettingsUpdateResult> {
+export async function changeAnalysisSettings(
+  ds: DataSource,
+  p: Extract<Principal, { kind: 'user' }>,
+  body: SettingsUpdate,
+  ip?: string | null,
+): Promise<SettingsUpdateResult> {
   return ds.transaction(async (em) => {
     // One writer at a time: versions are numbered without gaps, and readers are not blocked.
     await em.query(`LOCK TABLE analysis_settings IN EXCLUSIVE MODE`);
@@ -50,7 +61,13 @@ export async function changeAnalysisSettings(ds: DataSource, p: Extract<Principa
        RETURNING version, settings, created_at, created_by_label`,
       [version, JSON.stringify(next), p.id, p.name],
     );
-    await recordAudit(em, { actor: p, action: 'settings.change', target: `settings:${version}`, ip, detail: { before: current?.settings ?? null, after: next } });
+    await recordAudit(em, {
+      actor: p,
+      action: 'settings.change',
+      target: `settings:${version}`,
+      ip,
+      detail: { before: current?.settings ?? null, after: next },
+    });
     await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`analysis settings changed to version ${version} by ${p.name}`]);
     return { current: versionOf(row!), changed: true, runRequested: true };
   });

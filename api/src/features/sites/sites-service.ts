@@ -23,10 +23,12 @@ async function siteById(em: EntityManager, id: number, lock = false): Promise<Si
 
 export async function createSite(ds: DataSource, p: Principal, body: SiteCreate, ip?: string | null): Promise<SiteDto> {
   return ds.transaction(async (em) => {
-    const [{ id }] = await em.query(`INSERT INTO sites (code, name, region) VALUES ($1, $2, $3) RETURNING id`, [body.code, body.name, body.region]).catch((e: unknown) => {
-      if ((e as { code?: string }).code === '23505') throw new AppError('conflict', `a site with code ${body.code} already exists`);
-      throw e;
-    });
+    const [{ id }] = await em
+      .query(`INSERT INTO sites (code, name, region) VALUES ($1, $2, $3) RETURNING id`, [body.code, body.name, body.region])
+      .catch((e: unknown) => {
+        if ((e as { code?: string }).code === '23505') throw new AppError('conflict', `a site with code ${body.code} already exists`);
+        throw e;
+      });
     const after = await siteById(em, id);
     await recordAudit(em, { actor: p, action: 'site.create', target: `site:${id}`, ip, detail: { before: null, after } });
     return after;

@@ -23,7 +23,9 @@ export function createIdentityProviderApp(config: IdpConfig, provider: Provider)
         return;
       }
       // Consent: Ratewarden is the organisation's own application, so the grant is given at once.
-      const grant = details.grantId ? await provider.Grant.find(details.grantId) : new provider.Grant({ accountId: details.session!.accountId, clientId: String(details.params.client_id) });
+      const grant = details.grantId
+        ? await provider.Grant.find(details.grantId)
+        : new provider.Grant({ accountId: details.session!.accountId, clientId: String(details.params.client_id) });
       const missing = details.prompt.details as { missingOIDCScope?: string[]; missingOIDCClaims?: string[] };
       if (missing.missingOIDCScope) grant!.addOIDCScope(missing.missingOIDCScope.join(' '));
       if (missing.missingOIDCClaims) grant!.addOIDCClaims(missing.missingOIDCClaims);
@@ -41,7 +43,10 @@ export function createIdentityProviderApp(config: IdpConfig, provider: Provider)
       const account = checkCredentials(email, String(req.body?.password ?? ''));
       if (!account) {
         const client = await provider.Client.find(String(details.params.client_id));
-        res.status(401).type('html').send(signInPage(details.uid, client?.clientName ?? 'Ratewarden', 'That e-mail and password do not match an account.', email));
+        res
+          .status(401)
+          .type('html')
+          .send(signInPage(details.uid, client?.clientName ?? 'Ratewarden', 'That e-mail and password do not match an account.', email));
         return;
       }
       await provider.interactionFinished(req, res, { login: { accountId: account.sub } }, { mergeWithLastSubmission: false });

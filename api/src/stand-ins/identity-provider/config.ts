@@ -1,6 +1,11 @@
 import { z } from 'zod';
 
-const list = z.string().transform((s) => s.split(',').map((x) => x.trim()).filter(Boolean));
+const list = z.string().transform((s) =>
+  s
+    .split(',')
+    .map((x) => x.trim())
+    .filter(Boolean),
+);
 
 /** Settings of the stand-in identity provider; defaults fit `npm start` on loopback. */
 const schema = z.object({

@@ -42,9 +42,12 @@ export function tooManyAttemptsPage(what: string, minutes: number): string {
 
 /** RP-initiated logout: the provider's confirmation form, submitted at once (the user already chose to sign out). */
 export function signOutPage(form: string): string {
-  return frame('Signing out', `<h1>Signing out…</h1><p>You are being signed out of the identity service.</p>${form}
+  return frame(
+    'Signing out',
+    `<h1>Signing out…</h1><p>You are being signed out of the identity service.</p>${form}
 <noscript><button form="op.logoutForm" type="submit" name="logout" value="yes">Sign out</button></noscript>
-<script>document.forms[0].insertAdjacentHTML('beforeend','<input type="hidden" name="logout" value="yes">');document.forms[0].submit();</script>`);
+<script>document.forms[0].insertAdjacentHTML('beforeend','<input type="hidden" name="logout" value="yes">');document.forms[0].submit();</script>`,
+  );
 }
 
 export function signedOutPage(): string {

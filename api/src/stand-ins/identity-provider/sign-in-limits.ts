@@ -8,7 +8,9 @@ import { tooManyAttemptsPage } from './pages';
  * does: past the limit, the account (or the address) is locked out for the rest of the window and
  * every attempt, the right password included, gets a 429 page. Successful sign-ins do not count.
  */
-export function signInAttemptLimits(config: Pick<IdpConfig, 'IDP_FAILED_SIGN_INS_PER_ACCOUNT' | 'IDP_FAILED_SIGN_INS_PER_ADDRESS' | 'IDP_LOCKOUT_MINUTES'>): RequestHandler[] {
+export function signInAttemptLimits(
+  config: Pick<IdpConfig, 'IDP_FAILED_SIGN_INS_PER_ACCOUNT' | 'IDP_FAILED_SIGN_INS_PER_ADDRESS' | 'IDP_LOCKOUT_MINUTES'>,
+): RequestHandler[] {
   const windowMs = config.IDP_LOCKOUT_MINUTES * 60_000;
   const limiter = (limit: number, keyGenerator: (req: Request) => string, what: string) =>
     rateLimit({
@@ -24,6 +26,13 @@ export function signInAttemptLimits(config: Pick<IdpConfig, 'IDP_FAILED_SIGN_INS
     });
   return [
     limiter(config.IDP_FAILED_SIGN_INS_PER_ADDRESS, (req) => `address:${ipKeyGenerator(req.ip ?? '')}`, 'from this address'),
-    limiter(config.IDP_FAILED_SIGN_INS_PER_ACCOUNT, (req) => `account:${String(req.body?.email ?? '').trim().toLowerCase()}`, 'for this account'),
+    limiter(
+      config.IDP_FAILED_SIGN_INS_PER_ACCOUNT,
+      (req) =>
+        `account:${String(req.body?.email ?? '')
+          .trim()
+          .toLowerCase()}`,
+      'for this account',
+    ),
   ];
 }

@@ -7,7 +7,14 @@ import { RequirePermission } from '../../features/access/require-permission';
 import { prefetchFor } from './prefetch';
 
 export function loader({ request }: LoaderFunctionArgs) {
-  return prefetchFor('flags:read', outcomesQueryOptions(), flagsQueryOptions({ state: flagStateSchema.safeParse(new URL(request.url).searchParams.get('state')).data, outcomeId: Number(new URL(request.url).searchParams.get('outcome')) || undefined }));
+  return prefetchFor(
+    'flags:read',
+    outcomesQueryOptions(),
+    flagsQueryOptions({
+      state: flagStateSchema.safeParse(new URL(request.url).searchParams.get('state')).data,
+      outcomeId: Number(new URL(request.url).searchParams.get('outcome')) || undefined,
+    }),
+  );
 }
 
 export function Component() {

@@ -5,7 +5,19 @@ import { ExportButton, type CsvExport } from '../table/export-button';
  * The frame every chart sits in: its title, a "show as a table" switch (charts always have a
  * table alternative), the chart's own controls (a scale), the CSV export of the table behind it, then the chart and, on demand, the table.
  */
-export function ChartFigure({ title, csv, chart, table, controls }: { title: string; csv?: CsvExport; chart: ReactNode; table: ReactNode; controls?: ReactNode }) {
+export function ChartFigure({
+  title,
+  csv,
+  chart,
+  table,
+  controls,
+}: {
+  title: string;
+  csv?: CsvExport;
+  chart: ReactNode;
+  table: ReactNode;
+  controls?: ReactNode;
+}) {
   const [showTable, setShowTable] = useState(false);
   return (
     <figure className="mt-4 card p-3">

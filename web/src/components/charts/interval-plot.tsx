@@ -23,7 +23,17 @@ export interface IntervalItem {
 
 const finite = (x: number | null): x is number => x !== null && Number.isFinite(x) && x > 0;
 
-export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale)', csv }: { title: string; items: IntervalItem[]; valueLabel?: string; csv?: CsvExport }) {
+export function IntervalPlot({
+  title,
+  items,
+  valueLabel = 'Rate ratio (log scale)',
+  csv,
+}: {
+  title: string;
+  items: IntervalItem[];
+  valueLabel?: string;
+  csv?: CsvExport;
+}) {
   const option = useMemo<EChartsOption>(() => {
     const values = items.flatMap((i) => [i.estimate, i.lower, i.upper]).filter(finite);
     const min = Math.min(1, ...values);
@@ -39,10 +49,22 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
     const accent = tokenColour('accent', '#3a44a6');
     const labels = items.map((i) => i.label);
     return {
-      aria: { enabled: true, description: `${title}. ${items.map((i) => `${i.label}: ${formatEstimate(i.estimate)} (${formatEstimate(i.lower)} to ${formatEstimate(i.upper)})`).join('; ')}.` },
+      aria: {
+        enabled: true,
+        description: `${title}. ${items.map((i) => `${i.label}: ${formatEstimate(i.estimate)} (${formatEstimate(i.lower)} to ${formatEstimate(i.upper)})`).join('; ')}.`,
+      },
       animation: false,
       grid: { left: 8, right: 24, top: 16, bottom: 40, containLabel: true },
-      xAxis: { type: 'log', logBase: base, min: lo, max: hi, name: valueLabel, nameLocation: 'middle', nameGap: 26, axisLabel: { formatter: (v: number) => formatEstimate(v) } },
+      xAxis: {
+        type: 'log',
+        logBase: base,
+        min: lo,
+        max: hi,
+        name: valueLabel,
+        nameLocation: 'middle',
+        nameGap: 26,
+        axisLabel: { formatter: (v: number) => formatEstimate(v) },
+      },
       yAxis: { type: 'category', data: labels, inverse: true, axisTick: { show: false } },
       tooltip: {
         trigger: 'item',
@@ -82,8 +104,20 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
           data: items.map((i, idx) => (finite(i.estimate) ? { value: [i.estimate, idx], symbol: i.reference ? 'diamond' : 'rect' } : { value: [null, idx] })),
           symbolSize: 11,
           itemStyle: { color: accent, borderColor: ink, borderWidth: 1 },
-          label: { show: true, position: 'top', formatter: (p: unknown) => formatEstimate(((p as { value: [number, number] }).value)[0]), color: ink, fontSize: 11 },
-          markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: ink }, label: { formatter: 'no difference', position: 'start', color: ink }, data: [{ xAxis: 1 }] },
+          label: {
+            show: true,
+            position: 'top',
+            formatter: (p: unknown) => formatEstimate((p as { value: [number, number] }).value[0]),
+            color: ink,
+            fontSize: 11,
+          },
+          markLine: {
+            silent: true,
+            symbol: 'none',
+            lineStyle: { type: 'dashed', color: ink },
+            label: { formatter: 'no difference', position: 'start', color: ink },
+            data: [{ xAxis: 1 }],
+          },
           z: 2,
         },
       ],
@@ -96,23 +130,39 @@ export function IntervalPlot({ title, items, valueLabel = 'Rate ratio (log scale
       csv={csv}
       chart={
         <div>
-          <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: Math.max(140, 48 * items.length + 70), width: '100%' }} opts={{ renderer: 'svg' }} />
+          <ReactEChartsCore
+            echarts={echarts}
+            option={option}
+            notMerge
+            style={{ height: Math.max(140, 48 * items.length + 70), width: '100%' }}
+            opts={{ renderer: 'svg' }}
+          />
         </div>
       }
       table={
         <>
           <thead>
             <tr className="border-b border-ink text-left">
-              <th scope="col" className="px-2 py-1">Item</th>
-              <th scope="col" className="px-2 py-1">Estimate</th>
-              <th scope="col" className="px-2 py-1">Lower</th>
-              <th scope="col" className="px-2 py-1">Upper</th>
+              <th scope="col" className="px-2 py-1">
+                Item
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Estimate
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Lower
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Upper
+              </th>
             </tr>
           </thead>
           <tbody>
             {items.map((i) => (
               <tr key={i.label} className="border-b border-line">
-                <th scope="row" className="px-2 py-1 text-left font-medium">{i.label}</th>
+                <th scope="row" className="px-2 py-1 text-left font-medium">
+                  {i.label}
+                </th>
                 <td className="px-2 py-1 tabular-nums">{formatEstimate(i.estimate)}</td>
                 <td className="px-2 py-1 tabular-nums">{formatEstimate(i.lower)}</td>
                 <td className="px-2 py-1 tabular-nums">{formatEstimate(i.upper)}</td>

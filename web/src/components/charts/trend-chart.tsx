@@ -51,7 +51,21 @@ const symbols = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'arrow'];
 const hollow = (symbol: string) => `empty${symbol[0]!.toUpperCase()}${symbol.slice(1)}`;
 const finite = (x: number | null | undefined): x is number => x !== null && x !== undefined && Number.isFinite(x);
 
-export function TrendChart({ title, periods, series, limits, unit, csv }: { title: string; periods: string[]; series: TrendSeries[]; limits?: UChartLimits; unit: string; csv?: CsvExport }) {
+export function TrendChart({
+  title,
+  periods,
+  series,
+  limits,
+  unit,
+  csv,
+}: {
+  title: string;
+  periods: string[];
+  series: TrendSeries[];
+  limits?: UChartLimits;
+  unit: string;
+  csv?: CsvExport;
+}) {
   const [scale, setScale] = useState<RateScale>('linear');
   const scaleId = useId();
   const withheldAt = withheldPeriods(periods, series);
@@ -61,7 +75,10 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
     const muted = tokenColour('muted', '#5f6775');
     const byPeriod = (s: TrendSeries) => periods.map((p) => s.points.find((pt) => pt.period === p) ?? null);
     const shown = series.flatMap((s) => s.points.filter((p) => !p.withheld));
-    const values = [...shown.flatMap((p) => [p.rate, p.upper, ...(scale === 'log' ? [p.lower] : [])]), ...(limits ? [limits.centre, ...limits.ucl] : [])].filter(finite);
+    const values = [
+      ...shown.flatMap((p) => [p.rate, p.upper, ...(scale === 'log' ? [p.lower] : [])]),
+      ...(limits ? [limits.centre, ...limits.ucl] : []),
+    ].filter(finite);
     const lin = linearAxis(values);
     const logBounds = logAxis(values);
     const top = scale === 'log' ? logBounds.max : lin.max;
@@ -85,7 +102,17 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
       const lower = pts.map((p) => (p ? drawn(p.lower ?? bottom) : null));
       const upper = pts.map((p) => (p ? drawn(p.upper) : null));
       // The band is drawn as an invisible lower line with the interval width stacked on top of it.
-      out.push({ type: 'line', name: `${s.name} lower`, stack, data: lower, lineStyle: { opacity: 0 }, symbol: 'none', silent: true, tooltip: { show: false }, connectNulls: false });
+      out.push({
+        type: 'line',
+        name: `${s.name} lower`,
+        stack,
+        data: lower,
+        lineStyle: { opacity: 0 },
+        symbol: 'none',
+        silent: true,
+        tooltip: { show: false },
+        connectNulls: false,
+      });
       out.push({
         type: 'line',
         name: `${s.name} interval`,
@@ -105,7 +132,12 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
           if (!p || !finite(p.rate)) return null;
           if (p.rate > top) {
             clipped = true;
-            return { value: top, symbol: 'triangle', symbolSize: 12, label: { show: true, position: 'right', formatter: formatEstimate(p.rate), color: ink, fontSize: 11 } };
+            return {
+              value: top,
+              symbol: 'triangle',
+              symbolSize: 12,
+              label: { show: true, position: 'right', formatter: formatEstimate(p.rate), color: ink, fontSize: 11 },
+            };
           }
           const v = drawn(p.rate);
           return p.partial ? { value: v, symbol: hollow(symbol), symbolSize: 9 } : v;
@@ -125,15 +157,43 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
         symbol: 'emptyCircle',
         symbolSize: 8,
         itemStyle: { color: muted, borderColor: muted, borderWidth: 1.5 },
-        tooltip: { formatter: (p: unknown) => { const m = withheldMarks[(p as { dataIndex: number }).dataIndex]; return m ? `${m.value[0]}: withheld for ${m.groups.join(', ')} (a small count, or one it would reveal)` : ''; } },
+        tooltip: {
+          formatter: (p: unknown) => {
+            const m = withheldMarks[(p as { dataIndex: number }).dataIndex];
+            return m ? `${m.value[0]}: withheld for ${m.groups.join(', ')} (a small count, or one it would reveal)` : '';
+          },
+        },
         z: 3,
       });
     }
     if (clipped) out.push({ type: 'scatter', name: ABOVE_AXIS_LEGEND, data: [], symbol: 'triangle', itemStyle: { color: ink } });
     if (limits) {
-      out.push({ type: 'line', name: 'u-chart centre', data: periods.map(() => drawn(limits.centre)), symbol: 'none', itemStyle: { color: ink }, lineStyle: { color: ink, type: 'solid', width: 1 } });
-      out.push({ type: 'line', name: 'upper limit (3σ)', data: limits.ucl.map(drawn), symbol: 'none', itemStyle: { color: ink }, step: 'middle', lineStyle: { color: ink, type: 'dashed', width: 1.5 } });
-      out.push({ type: 'line', name: 'lower limit (3σ)', data: limits.lcl.map(drawn), symbol: 'none', itemStyle: { color: ink }, step: 'middle', lineStyle: { color: ink, type: 'dotted', width: 1.5 } });
+      out.push({
+        type: 'line',
+        name: 'u-chart centre',
+        data: periods.map(() => drawn(limits.centre)),
+        symbol: 'none',
+        itemStyle: { color: ink },
+        lineStyle: { color: ink, type: 'solid', width: 1 },
+      });
+      out.push({
+        type: 'line',
+        name: 'upper limit (3σ)',
+        data: limits.ucl.map(drawn),
+        symbol: 'none',
+        itemStyle: { color: ink },
+        step: 'middle',
+        lineStyle: { color: ink, type: 'dashed', width: 1.5 },
+      });
+      out.push({
+        type: 'line',
+        name: 'lower limit (3σ)',
+        data: limits.lcl.map(drawn),
+        symbol: 'none',
+        itemStyle: { color: ink },
+        step: 'middle',
+        lineStyle: { color: ink, type: 'dotted', width: 1.5 },
+      });
     }
     const legend = [
       ...series.map((s) => s.name),
@@ -144,7 +204,14 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
     return {
       aria: {
         enabled: true,
-        description: `${title}: ${series.map((s) => s.name).join(', ')} over ${periods.length} periods, ${unit}, ${scale === 'log' ? 'logarithmic' : 'linear'} scale.${withheldMarks.length ? ` Figures withheld: ${withheldWords(withheldMarks.map((m) => ({ period: m.value[0], groups: m.groups })), periods.length)}.` : ''}`,
+        description: `${title}: ${series.map((s) => s.name).join(', ')} over ${periods.length} periods, ${unit}, ${scale === 'log' ? 'logarithmic' : 'linear'} scale.${
+          withheldMarks.length
+            ? ` Figures withheld: ${withheldWords(
+                withheldMarks.map((m) => ({ period: m.value[0], groups: m.groups })),
+                periods.length,
+              )}.`
+            : ''
+        }`,
       },
       animation: false,
       textStyle: { fontFamily: 'Noto Sans, system-ui, sans-serif', color: ink },
@@ -192,7 +259,8 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
           <ReactEChartsCore echarts={echarts} option={option} notMerge style={{ height: 360, width: '100%' }} opts={{ renderer: 'svg' }} />
           {withheldAt.length > 0 && (
             <p className="mt-1 text-xs text-ink-soft">
-              Gaps with a hollow marker on the axis are periods whose figures are withheld from you (a count too small to show, or one that would reveal it): {withheldWords(withheldAt, periods.length)}.
+              Gaps with a hollow marker on the axis are periods whose figures are withheld from you (a count too small to show, or one that would reveal it):{' '}
+              {withheldWords(withheldAt, periods.length)}.
             </p>
           )}
         </>
@@ -201,8 +269,20 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
         <>
           <thead>
             <tr className="border-b border-ink text-left">
-              {['Group', 'Period', 'Cases', 'Person-time', `Rate ${unit}`, 'Lower', 'Upper', ...(limits ? ['Upper limit (3σ)', 'Signal'] : []), 'Completeness'].map((c) => (
-                <th key={c} scope="col" className="px-2 py-1">{c}</th>
+              {[
+                'Group',
+                'Period',
+                'Cases',
+                'Person-time',
+                `Rate ${unit}`,
+                'Lower',
+                'Upper',
+                ...(limits ? ['Upper limit (3σ)', 'Signal'] : []),
+                'Completeness',
+              ].map((c) => (
+                <th key={c} scope="col" className="px-2 py-1">
+                  {c}
+                </th>
               ))}
             </tr>
           </thead>
@@ -213,7 +293,9 @@ export function TrendChart({ title, periods, series, limits, unit, csv }: { titl
                 const ucl = limits?.ucl[idx] ?? null;
                 return (
                   <tr key={`${s.name}-${pt.period}`} className="border-b border-line">
-                    <th scope="row" className="px-2 py-1 text-left font-medium">{s.name}</th>
+                    <th scope="row" className="px-2 py-1 text-left font-medium">
+                      {s.name}
+                    </th>
                     <td className="px-2 py-1">{pt.period}</td>
                     <td className="px-2 py-1 tabular-nums">{pt.cases}</td>
                     <td className="px-2 py-1 tabular-nums">{formatAmount(pt.personTime)}</td>

@@ -27,8 +27,13 @@ export function UnattributedNote({ run, outcomes, role, outcomeId }: { run: RunD
           const reasons = u.reasons.filter((r) => r.count !== 0);
           return (
             <li key={u.outcomeId}>
-              <strong>{u.withheld && u.withheld !== 'small' ? 'Cases not attributed (count withheld)' : `${countText(u, role)} ${u.count === 1 ? 'case' : 'cases'} not attributed`}</strong>
-              {outcomeId === undefined && <> ({name(u.outcomeId)})</>}: counted by run #{run.number}, but no roster row attributes {u.count === 1 ? 'it' : 'them'} to an exposure group, so no group's figures include {u.count === 1 ? 'it' : 'them'}.{' '}
+              <strong>
+                {u.withheld && u.withheld !== 'small'
+                  ? 'Cases not attributed (count withheld)'
+                  : `${countText(u, role)} ${u.count === 1 ? 'case' : 'cases'} not attributed`}
+              </strong>
+              {outcomeId === undefined && <> ({name(u.outcomeId)})</>}: counted by run #{run.number}, but no roster row attributes{' '}
+              {u.count === 1 ? 'it' : 'them'} to an exposure group, so no group's figures include {u.count === 1 ? 'it' : 'them'}.{' '}
               {reasons.some((r) => r.withheld === 'total') ? (
                 'Their reasons are withheld with the count.'
               ) : (

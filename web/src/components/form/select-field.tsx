@@ -1,6 +1,10 @@
 import { useId, type SelectHTMLAttributes } from 'react';
 
-export function SelectField({ label, options, ...select }: { label: string; options: { value: string; label: string }[] } & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({
+  label,
+  options,
+  ...select
+}: { label: string; options: { value: string; label: string }[] } & SelectHTMLAttributes<HTMLSelectElement>) {
   const id = useId();
   return (
     <div className="flex flex-col gap-1">

@@ -16,13 +16,7 @@ export function TextField({ label, hint, error, ...input }: { label: string; hin
           {hint}
         </span>
       )}
-      <input
-        id={id}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={describedBy}
-        className="field px-2 py-1.5 font-mono tabular-nums"
-        {...input}
-      />
+      <input id={id} aria-invalid={error ? true : undefined} aria-describedby={describedBy} className="field px-2 py-1.5 font-mono tabular-nums" {...input} />
       {error && (
         <span id={errorId} className="text-sm text-alarm">
           <span aria-hidden="true">⚠ </span>

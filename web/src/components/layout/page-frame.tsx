@@ -64,7 +64,11 @@ export function PageFrame() {
       </header>
       <div className="mx-auto flex w-full max-w-7xl flex-1 flex-col lg:flex-row lg:gap-6 lg:px-4">
         {visible.length > 0 && (
-          <nav id="main-nav" aria-label="Main" className={`no-print ${menuOpen ? 'block' : 'hidden'} border-b border-line bg-surface px-4 py-3 lg:block lg:w-56 lg:shrink-0 lg:border-0 lg:bg-transparent lg:px-0 lg:py-6`}>
+          <nav
+            id="main-nav"
+            aria-label="Main"
+            className={`no-print ${menuOpen ? 'block' : 'hidden'} border-b border-line bg-surface px-4 py-3 lg:block lg:w-56 lg:shrink-0 lg:border-0 lg:bg-transparent lg:px-0 lg:py-6`}
+          >
             <ul className="grid grid-cols-2 gap-1 text-sm sm:grid-cols-3 lg:grid-cols-1">
               {visible.map((item) => (
                 <li key={item.to}>
@@ -95,8 +99,8 @@ export function PageFrame() {
           <footer className="flex items-start gap-2 border-t border-line px-4 py-4 text-xs text-ink-soft lg:px-0">
             <BrandMark className="mt-0.5 h-4 w-4 shrink-0" />
             <p>
-              Surveillance figures show associations, not causes. Flags are prompts for review by qualified people; medical
-              decisions belong to a licensed occupational physician under local regulations.
+              Surveillance figures show associations, not causes. Flags are prompts for review by qualified people; medical decisions belong to a licensed
+              occupational physician under local regulations.
             </p>
           </footer>
         </div>

@@ -10,11 +10,7 @@ export function SignOutButton() {
   const [busy, setBusy] = useState(false);
   const session = useSession();
   return (
-    <form
-      method="post"
-      action={paths.signOut}
-      onSubmit={() => setBusy(true)}
-    >
+    <form method="post" action={paths.signOut} onSubmit={() => setBusy(true)}>
       <input type="hidden" name="_csrf" value={session.data?.csrfToken ?? ''} />
       <button type="submit" disabled={busy} className="btn btn-quiet px-3 py-1 text-sm">
         {busy ? 'Signing out …' : 'Sign out'}

@@ -10,11 +10,7 @@ export interface CsvExport {
 
 export function ExportButton({ csv, label }: { csv: CsvExport; label: string }) {
   return (
-    <button
-      type="button"
-      onClick={() => downloadCsv(`${csv.name}.csv`, toCsv(csv.header, csv.rows))}
-      className="btn btn-quiet no-print btn-small"
-    >
+    <button type="button" onClick={() => downloadCsv(`${csv.name}.csv`, toCsv(csv.header, csv.rows))} className="btn btn-quiet no-print btn-small">
       Export CSV<span className="sr-only">: {label}</span>
     </button>
   );

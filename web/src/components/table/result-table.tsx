@@ -14,7 +14,19 @@ export interface ResultRow {
   csv: CsvCell[];
 }
 
-export function ResultTable({ caption, columns, rows, exportName, csvColumns }: { caption: string; columns: string[]; rows: ResultRow[]; exportName?: string; csvColumns?: string[] }) {
+export function ResultTable({
+  caption,
+  columns,
+  rows,
+  exportName,
+  csvColumns,
+}: {
+  caption: string;
+  columns: string[];
+  rows: ResultRow[];
+  exportName?: string;
+  csvColumns?: string[];
+}) {
   return (
     <ScrollRegion label={caption}>
       <table className="w-full border-collapse bg-surface text-sm">
@@ -25,7 +37,15 @@ export function ResultTable({ caption, columns, rows, exportName, csvColumns }: 
               <button
                 type="button"
                 className="btn btn-quiet no-print btn-small"
-                onClick={() => downloadCsv(`${exportName}.csv`, toCsv(csvColumns ?? columns, rows.map((r) => r.csv)))}
+                onClick={() =>
+                  downloadCsv(
+                    `${exportName}.csv`,
+                    toCsv(
+                      csvColumns ?? columns,
+                      rows.map((r) => r.csv),
+                    ),
+                  )
+                }
               >
                 Export CSV<span className="sr-only">: {caption}</span>
               </button>

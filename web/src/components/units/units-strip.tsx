@@ -18,7 +18,9 @@ export function UnitsStrip({ settings }: { settings: UnitsSettings }) {
     ['Rates', settings.multiplier],
     ['Confidence level', `${formatConfidence(settings.confidence)}`],
     ['Intervals', settings.intervalMethod],
-    ...(settings.settingsVersion === undefined ? [] : [['Analysis settings', settings.settingsVersion === null ? 'before versions' : `version ${settings.settingsVersion}`] as [string, string]]),
+    ...(settings.settingsVersion === undefined
+      ? []
+      : [['Analysis settings', settings.settingsVersion === null ? 'before versions' : `version ${settings.settingsVersion}`] as [string, string]]),
   ];
   return (
     <dl aria-label="Units and settings" className="units-strip flex flex-wrap gap-x-6 gap-y-1 border-y border-line bg-surface px-3 py-2 text-sm">

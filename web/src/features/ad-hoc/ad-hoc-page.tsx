@@ -26,16 +26,26 @@ export function AdHocPage() {
 
   const units: UnitsSettings =
     mode === 'rates'
-      ? { basis: basisLabels[settings.basis], multiplier: perLabel(settings), confidence: settings.confidence, intervalMethod: `${ratioMethodLabels[settings.ratioMethod]} leads; the other methods are compared in the fold below` }
-      : { basis: 'people followed for the same period (a fixed cohort)', multiplier: 'risks as proportions', confidence: settings.confidence, intervalMethod: `${differenceMethodLabels[settings.differenceMethod]} leads for the risk difference; Katz for the risk ratio; Woolf and exact for the odds ratio; the other methods are compared in the fold below` };
+      ? {
+          basis: basisLabels[settings.basis],
+          multiplier: perLabel(settings),
+          confidence: settings.confidence,
+          intervalMethod: `${ratioMethodLabels[settings.ratioMethod]} leads; the other methods are compared in the fold below`,
+        }
+      : {
+          basis: 'people followed for the same period (a fixed cohort)',
+          multiplier: 'risks as proportions',
+          confidence: settings.confidence,
+          intervalMethod: `${differenceMethodLabels[settings.differenceMethod]} leads for the risk difference; Katz for the risk ratio; Woolf and exact for the odds ratio; the other methods are compared in the fold below`,
+        };
   const computed = mode === 'rates' ? rates : risks;
 
   return (
     <section>
       <h1 className="text-3xl font-bold tracking-tight">Ad hoc comparison</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        Compare an exposed group with a reference group from your own counts. Everything is computed in this browser by
-        Ratewarden's statistics core; nothing you type leaves the page.
+        Compare an exposed group with a reference group from your own counts. Everything is computed in this browser by Ratewarden's statistics core; nothing
+        you type leaves the page.
       </p>
 
       <fieldset className="no-print mt-6 flex flex-wrap gap-x-6 gap-y-2">
@@ -45,8 +55,8 @@ export function AdHocPage() {
           Cases and person-time for two groups (rates)
         </label>
         <label className="flex items-center gap-2">
-          <input type="radio" name="mode" value="table" checked={mode === 'table'} onChange={() => setMode('table')} />
-          A 2×2 table of counts for a fixed cohort (risks)
+          <input type="radio" name="mode" value="table" checked={mode === 'table'} onChange={() => setMode('table')} />A 2×2 table of counts for a fixed cohort
+          (risks)
         </label>
       </fieldset>
 

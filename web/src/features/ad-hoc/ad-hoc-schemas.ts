@@ -24,7 +24,12 @@ const count = (what: string) =>
   );
 
 const personTime = (what: string) =>
-  numberText(what).pipe(z.number().min(0, `${capital(what)} cannot be negative.`).max(1e12, `${capital(what)} is implausibly large.`));
+  numberText(what).pipe(
+    z
+      .number()
+      .min(0, `${capital(what)} cannot be negative.`)
+      .max(1e12, `${capital(what)} is implausibly large.`),
+  );
 
 function capital(s: string): string {
   return s[0]!.toUpperCase() + s.slice(1);
@@ -48,8 +53,10 @@ export const tableInputSchema = z
     unexposedWithout: count('the number not exposed, without the outcome'),
   })
   .superRefine((t, ctx) => {
-    if (t.exposedWith + t.exposedWithout === 0) ctx.addIssue({ code: 'custom', path: ['exposedWithout'], message: 'The exposed group is empty: enter at least one person.' });
-    if (t.unexposedWith + t.unexposedWithout === 0) ctx.addIssue({ code: 'custom', path: ['unexposedWithout'], message: 'The group not exposed is empty: enter at least one person.' });
+    if (t.exposedWith + t.exposedWithout === 0)
+      ctx.addIssue({ code: 'custom', path: ['exposedWithout'], message: 'The exposed group is empty: enter at least one person.' });
+    if (t.unexposedWith + t.unexposedWithout === 0)
+      ctx.addIssue({ code: 'custom', path: ['unexposedWithout'], message: 'The group not exposed is empty: enter at least one person.' });
   });
 export type TableInputText = z.input<typeof tableInputSchema>;
 export type TableInput = z.output<typeof tableInputSchema>;

@@ -18,5 +18,11 @@ export function computeRates(input: RateInput, confidence: number, per: number):
 }
 
 export function computeRisks(t: TableInput, confidence: number): Computed<RiskComparisonResult> {
-  return guarded(() => compareRisks({ cases: t.exposedWith, total: t.exposedWith + t.exposedWithout }, { cases: t.unexposedWith, total: t.unexposedWith + t.unexposedWithout }, confidence));
+  return guarded(() =>
+    compareRisks(
+      { cases: t.exposedWith, total: t.exposedWith + t.exposedWithout },
+      { cases: t.unexposedWith, total: t.unexposedWith + t.unexposedWithout },
+      confidence,
+    ),
+  );
 }

@@ -13,7 +13,19 @@ const pad = { left: 16, right: 16, top: 18, bottom: 34 };
 
 const points = (x: number) => `${formatEstimate(x * 100)} points`;
 
-export function DifferencePlot({ title, label, estimate, lower, upper }: { title: string; label: string; estimate: number | null; lower: number | null; upper: number | null }) {
+export function DifferencePlot({
+  title,
+  label,
+  estimate,
+  lower,
+  upper,
+}: {
+  title: string;
+  label: string;
+  estimate: number | null;
+  lower: number | null;
+  upper: number | null;
+}) {
   const values = [estimate, lower, upper].filter((v): v is number => v !== null && Number.isFinite(v)).map((v) => v * 100);
   const axis = linearAxis(values);
   const x = (v: number) => pad.left + ((v - axis.min) / (axis.max - axis.min)) * (width - pad.left - pad.right);
@@ -29,7 +41,9 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
       chart={
         <svg viewBox={`0 0 ${width} ${height}`} role="img" aria-label={description} className="mt-2 w-full max-w-xl text-ink">
           <line x1={x(0)} x2={x(0)} y1={pad.top - 6} y2={height - pad.bottom} stroke="currentColor" strokeDasharray="4 3" />
-          <text x={x(0)} y={pad.top - 8} textAnchor={zeroAnchor} fontSize="11" fill="currentColor">no difference</text>
+          <text x={x(0)} y={pad.top - 8} textAnchor={zeroAnchor} fontSize="11" fill="currentColor">
+            no difference
+          </text>
           {has(lower) && has(upper) && (
             <g stroke="currentColor" strokeWidth="2">
               <line x1={x(lower * 100)} x2={x(upper * 100)} y1={y} y2={y} />
@@ -42,25 +56,39 @@ export function DifferencePlot({ title, label, estimate, lower, upper }: { title
           {axis.ticks.map((t) => (
             <g key={t}>
               <line x1={x(t)} x2={x(t)} y1={height - pad.bottom} y2={height - pad.bottom + 4} stroke="currentColor" />
-              <text x={x(t)} y={height - pad.bottom + 16} textAnchor="middle" fontSize="11" fill="currentColor">{t}</text>
+              <text x={x(t)} y={height - pad.bottom + 16} textAnchor="middle" fontSize="11" fill="currentColor">
+                {t}
+              </text>
             </g>
           ))}
-          <text x={width / 2} y={height - 2} textAnchor="middle" fontSize="11" fill="currentColor">Difference in risk, percentage points (exposed minus not exposed)</text>
+          <text x={width / 2} y={height - 2} textAnchor="middle" fontSize="11" fill="currentColor">
+            Difference in risk, percentage points (exposed minus not exposed)
+          </text>
         </svg>
       }
       table={
         <>
           <thead>
             <tr className="border-b border-ink text-left">
-              <th scope="col" className="px-2 py-1">Item</th>
-              <th scope="col" className="px-2 py-1">Estimate</th>
-              <th scope="col" className="px-2 py-1">Lower</th>
-              <th scope="col" className="px-2 py-1">Upper</th>
+              <th scope="col" className="px-2 py-1">
+                Item
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Estimate
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Lower
+              </th>
+              <th scope="col" className="px-2 py-1">
+                Upper
+              </th>
             </tr>
           </thead>
           <tbody>
             <tr className="border-b border-line">
-              <th scope="row" className="px-2 py-1 text-left font-medium">{label}</th>
+              <th scope="row" className="px-2 py-1 text-left font-medium">
+                {label}
+              </th>
               <td className="px-2 py-1 tabular-nums">{estimate === null ? 'not defined' : points(estimate)}</td>
               <td className="px-2 py-1 tabular-nums">{lower === null ? 'not defined' : points(lower)}</td>
               <td className="px-2 py-1 tabular-nums">{upper === null ? 'not defined' : points(upper)}</td>

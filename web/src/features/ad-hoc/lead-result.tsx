@@ -33,15 +33,21 @@ export function LeadResult({
       </h2>
       <p className="mt-3 flex flex-wrap items-baseline gap-x-4 gap-y-1">
         <span>
-          <span className="text-4xl font-bold tabular-nums" data-testid="lead-estimate">{estimate}</span>
+          <span className="text-4xl font-bold tabular-nums" data-testid="lead-estimate">
+            {estimate}
+          </span>
           {unit && <span className="ml-1.5 text-lg font-semibold">{unit}</span>}
         </span>
-        <span className="tabular-nums" data-testid="lead-interval">{interval}</span>
+        <span className="tabular-nums" data-testid="lead-interval">
+          {interval}
+        </span>
       </p>
       {detail && <p className="mt-1 text-sm text-ink-soft">{detail}</p>}
       {plot}
       <section aria-labelledby={`${id}-reading`} className="mt-4">
-        <h3 id={`${id}-reading`} className="font-semibold">What the numbers say</h3>
+        <h3 id={`${id}-reading`} className="font-semibold">
+          What the numbers say
+        </h3>
         <ul className="mt-1 list-disc space-y-1 pl-5">
           {reading.map((t) => (
             <li key={t}>{t}</li>

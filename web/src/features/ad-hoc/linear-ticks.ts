@@ -17,7 +17,7 @@ export function linearAxis(values: number[]): LinearAxis {
   const range = hi - lo;
   const rough = range / 4;
   const power = 10 ** Math.floor(Math.log10(rough));
-  const step = ([1, 2, 5, 10].map((m) => m * power).find((s) => s >= rough) ?? 10 * power);
+  const step = [1, 2, 5, 10].map((m) => m * power).find((s) => s >= rough) ?? 10 * power;
   const min = Math.floor(lo / step) * step;
   const max = Math.ceil(hi / step) * step;
   const ticks: number[] = [];

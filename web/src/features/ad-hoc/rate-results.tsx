@@ -55,17 +55,28 @@ export function RateResults({ input, result: r, settings }: { input: RateInput; 
       const name = `${ratioMethodLabels[m]}${m === method ? ' (preferred)' : ''}`;
       const pm = r.irr[ratioPFor[m]];
       const how = `${r.irr.methods[m]}; p ${r.irr.methods[ratioPFor[m]]}`;
-      return { key: m, cells: [name, formatEstimate(r.irr.estimate), formatEstimate(r.irr[m].lower), formatEstimate(r.irr[m].upper), formatP(pm), how], csv: [name, r.irr.estimate, r.irr[m].lower, r.irr[m].upper, pm, how] };
+      return {
+        key: m,
+        cells: [name, formatEstimate(r.irr.estimate), formatEstimate(r.irr[m].lower), formatEstimate(r.irr[m].upper), formatP(pm), how],
+        csv: [name, r.irr.estimate, r.irr[m].lower, r.irr[m].upper, pm, how],
+      };
     }),
-    ...([
-      ['p-exact-ml', 'exact, minimum-likelihood rule (test only)', r.irr.pExactMinLikelihood, r.irr.methods.pExactMinLikelihood],
-      ['p-score', 'score (test only)', r.irr.pScore, r.irr.methods.pScore],
-    ] as const).map(([key, name, pm, how]) => ({ key, cells: [name, '—', '—', '—', formatP(pm), how], csv: [name, null, null, null, pm, how] })),
+    ...(
+      [
+        ['p-exact-ml', 'exact, minimum-likelihood rule (test only)', r.irr.pExactMinLikelihood, r.irr.methods.pExactMinLikelihood],
+        ['p-score', 'score (test only)', r.irr.pScore, r.irr.methods.pScore],
+      ] as const
+    ).map(([key, name, pm, how]) => ({ key, cells: [name, '—', '—', '—', formatP(pm), how], csv: [name, null, null, null, pm, how] })),
   ];
   const rateMethodRows: ResultRow[] = groups.flatMap(([name, , rate]) =>
     (['exact', 'midP', 'byar'] as const).map((m) => ({
       key: `${name}-${m}`,
-      cells: [`${name}, ${rate.methods[m]}${m === rateMethod ? ' (preferred)' : ''}`, formatEstimate(rate.estimate), formatEstimate(rate[m].lower), formatEstimate(rate[m].upper)],
+      cells: [
+        `${name}, ${rate.methods[m]}${m === rateMethod ? ' (preferred)' : ''}`,
+        formatEstimate(rate.estimate),
+        formatEstimate(rate[m].lower),
+        formatEstimate(rate[m].upper),
+      ],
       csv: [`${name}, ${rate.methods[m]}`, rate.estimate, rate[m].lower, rate[m].upper],
     })),
   );
@@ -79,7 +90,9 @@ export function RateResults({ input, result: r, settings }: { input: RateInput; 
         estimate={formatEstimate(r.irr.estimate)}
         interval={`${conf} CI ${formatInterval(interval)}`}
         detail={p === null ? undefined : `p = ${formatP(p)} for no difference in rates (${r.irr.methods[ratioPFor[method]]})`}
-        plot={<IntervalPlot title={`Rate ratio with its ${conf} interval`} items={[{ label: ratioMethodLabels[method], estimate: r.irr.estimate, ...interval }]} />}
+        plot={
+          <IntervalPlot title={`Rate ratio with its ${conf} interval`} items={[{ label: ratioMethodLabels[method], estimate: r.irr.estimate, ...interval }]} />
+        }
         reading={rateReading(r, method, unit)}
       />
       <ResultTable
@@ -88,15 +101,40 @@ export function RateResults({ input, result: r, settings }: { input: RateInput; 
         rows={groupRows}
         exportName="ad-hoc-rates"
       />
-      <ResultTable caption="Other measures of the comparison" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'p', 'Method']} rows={otherRows} exportName="ad-hoc-rate-measures" />
+      <ResultTable
+        caption="Other measures of the comparison"
+        columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'p', 'Method']}
+        rows={otherRows}
+        exportName="ad-hoc-rate-measures"
+      />
       <ReasonsList reasons={r.reasons} />
-      <MethodsFold summary="Other interval methods, compared" notes={[ratioMethodsNote, agreementSentence(ratioMethods.map((m) => r.irr[m]), 'ratio', fewest)]}>
+      <MethodsFold
+        summary="Other interval methods, compared"
+        notes={[
+          ratioMethodsNote,
+          agreementSentence(
+            ratioMethods.map((m) => r.irr[m]),
+            'ratio',
+            fewest,
+          ),
+        ]}
+      >
         <IntervalPlot
           title={`Rate ratio by each method, ${conf} intervals`}
           items={ratioMethods.map((m) => ({ label: ratioMethodLabels[m], estimate: r.irr.estimate, ...r.irr[m] }))}
         />
-        <ResultTable caption="Rate ratio by each method" columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'p, no difference', 'How']} rows={methodRows} exportName="ad-hoc-rate-ratio-methods" />
-        <ResultTable caption={`Each group's rate by each method, ${unit}`} columns={['Group and method', 'Rate', `${conf} lower`, `${conf} upper`]} rows={rateMethodRows} exportName="ad-hoc-rate-methods" />
+        <ResultTable
+          caption="Rate ratio by each method"
+          columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'p, no difference', 'How']}
+          rows={methodRows}
+          exportName="ad-hoc-rate-ratio-methods"
+        />
+        <ResultTable
+          caption={`Each group's rate by each method, ${unit}`}
+          columns={['Group and method', 'Rate', `${conf} lower`, `${conf} upper`]}
+          rows={rateMethodRows}
+          exportName="ad-hoc-rate-methods"
+        />
       </MethodsFold>
     </div>
   );

@@ -25,7 +25,14 @@ export function rateReading(r: RateComparisonResult, method: RatioMethod, unit: 
     out.push(`The rate ratio cannot be computed: ${reasonFor(r.reasons, 'irr')}.`);
   } else {
     const interval = r.irr[method];
-    const direction = irr === Infinity ? 'there are cases only in the exposed group, so the ratio is infinite' : irr < 1 ? 'lower, not higher' : irr > 1 ? 'higher' : 'the same';
+    const direction =
+      irr === Infinity
+        ? 'there are cases only in the exposed group, so the ratio is infinite'
+        : irr < 1
+          ? 'lower, not higher'
+          : irr > 1
+            ? 'higher'
+            : 'the same';
     out.push(
       `The rate in the exposed group is ${formatEstimate(irr)} times the rate in the reference group (${direction}; ${conf} CI ${formatInterval(interval)}, ${ratioMethodLabels[method]}).` +
         compatibility(interval.lower, interval.upper, 1, 'rates'),

@@ -31,14 +31,22 @@ export function RiskResults({ result: r, method }: { result: RiskComparisonResul
   const { a, b, c, d } = r.table;
   const conf = formatConfidence(r.confidence);
   const interval = r.rd[method];
-  const nntMethod = r.nnt.throughInfinity ? `${r.methods.nnt}; the interval runs through infinity (harm from the lower limit, benefit beyond the upper)` : r.methods.nnt;
+  const nntMethod = r.nnt.throughInfinity
+    ? `${r.methods.nnt}; the interval runs through infinity (harm from the lower limit, benefit beyond the upper)`
+    : r.methods.nnt;
   const otherRows: ResultRow[] = [
     row('rr', 'Risk ratio', r.rr.estimate, r.rr.katz, r.rr.methods.katz),
     row('or-woolf', 'Odds ratio', r.or.estimate, r.or.woolf, r.or.methods.woolf),
     row('or-exact', 'Odds ratio (conditional maximum likelihood)', r.or.exact.estimate, r.or.exact, r.or.methods.exact),
     row('nnt', r.nnt.direction === 'benefit' ? 'Number needed to benefit (negative)' : 'Number needed to harm', r.nnt.estimate, r.nnt, nntMethod),
     row('af-exposed', 'Attributable fraction among the exposed', r.attributable.afExposed.estimate, r.attributable.afExposed, r.attributable.methods.afExposed),
-    row('af-population', 'Attributable fraction in the population', r.attributable.afPopulation.estimate, r.attributable.afPopulation, r.attributable.methods.afPopulation),
+    row(
+      'af-population',
+      'Attributable fraction in the population',
+      r.attributable.afPopulation.estimate,
+      r.attributable.afPopulation,
+      r.attributable.methods.afPopulation,
+    ),
   ];
   const methodRows: ResultRow[] = differenceMethods.map((m) =>
     row(m, `${differenceMethodLabels[m]}${m === method ? ' (preferred)' : ''}`, r.rd.estimate, r.rd[m], r.rd.methods[m]),
@@ -60,7 +68,9 @@ export function RiskResults({ result: r, method }: { result: RiskComparisonResul
         estimate={points(r.rd.estimate)}
         unit="percentage points"
         interval={`${conf} CI ${points(interval.lower)} to ${points(interval.upper)} percentage points`}
-        plot={<DifferencePlot title={`Risk difference with its ${conf} interval`} label={differenceMethodLabels[method]} estimate={r.rd.estimate} {...interval} />}
+        plot={
+          <DifferencePlot title={`Risk difference with its ${conf} interval`} label={differenceMethodLabels[method]} estimate={r.rd.estimate} {...interval} />
+        }
         reading={riskReading(r, method)}
       />
       <ResultTable
@@ -68,7 +78,11 @@ export function RiskResults({ result: r, method }: { result: RiskComparisonResul
         columns={['Group', 'With the outcome', 'Without', 'People', 'Risk']}
         rows={groups.map(([name, cases, non]) => {
           const n = cases + non;
-          return { key: name, cells: [name, formatCount(cases), formatCount(non), formatCount(n), n === 0 ? 'not defined' : formatPercent(cases / n)], csv: [name, cases, non, n, n === 0 ? null : cases / n] };
+          return {
+            key: name,
+            cells: [name, formatCount(cases), formatCount(non), formatCount(n), n === 0 ? 'not defined' : formatPercent(cases / n)],
+            csv: [name, cases, non, n, n === 0 ? null : cases / n],
+          };
         })}
         exportName="ad-hoc-risks"
       />
@@ -81,14 +95,39 @@ export function RiskResults({ result: r, method }: { result: RiskComparisonResul
           { label: 'odds ratio (exact)', ...r.or.exact },
         ]}
       />
-      <ResultTable caption="Other measures of the comparison" columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'Method']} rows={otherRows} exportName="ad-hoc-risk-measures" />
+      <ResultTable
+        caption="Other measures of the comparison"
+        columns={['Measure', 'Estimate', `${conf} lower`, `${conf} upper`, 'Method']}
+        rows={otherRows}
+        exportName="ad-hoc-risk-measures"
+      />
       <ReasonsList reasons={r.reasons} />
-      <MethodsFold summary="Other interval methods and tests, compared" notes={[differenceMethodsNote, agreementSentence(differenceMethods.map((m) => r.rd[m]), 'difference', Math.min(a, b, c, d)), tableTestsNote]}>
-        <ResultTable caption="Risk difference by each method" columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'How']} rows={methodRows} exportName="ad-hoc-risk-difference-methods" />
+      <MethodsFold
+        summary="Other interval methods and tests, compared"
+        notes={[
+          differenceMethodsNote,
+          agreementSentence(
+            differenceMethods.map((m) => r.rd[m]),
+            'difference',
+            Math.min(a, b, c, d),
+          ),
+          tableTestsNote,
+        ]}
+      >
+        <ResultTable
+          caption="Risk difference by each method"
+          columns={['Method', 'Estimate', `${conf} lower`, `${conf} upper`, 'How']}
+          rows={methodRows}
+          exportName="ad-hoc-risk-difference-methods"
+        />
         <ResultTable
           caption="Tests of equal risks"
           columns={['Test', 'Statistic', 'p', 'How']}
-          rows={tests.map(([key, name, p, m, stat]) => ({ key, cells: [name, stat === null ? '—' : `χ² = ${formatEstimate(stat)}`, formatP(p), m], csv: [name, stat, p, m] }))}
+          rows={tests.map(([key, name, p, m, stat]) => ({
+            key,
+            cells: [name, stat === null ? '—' : `χ² = ${formatEstimate(stat)}`, formatP(p), m],
+            csv: [name, stat, p, m],
+          }))}
           exportName="ad-hoc-risk-tests"
         />
       </MethodsFold>

@@ -1,6 +1,14 @@
 import { SelectField } from '../../components/form/select-field';
 import { confidenceChoices } from './ad-hoc-schemas';
-import { differenceMethodLabels, perChoices, ratioMethodLabels, type AdHocSettings, type Basis, type DifferenceMethod, type RatioMethod } from './ad-hoc-settings';
+import {
+  differenceMethodLabels,
+  perChoices,
+  ratioMethodLabels,
+  type AdHocSettings,
+  type Basis,
+  type DifferenceMethod,
+  type RatioMethod,
+} from './ad-hoc-settings';
 
 export function SettingsControls({ mode, settings, onChange }: { mode: 'rates' | 'table'; settings: AdHocSettings; onChange: (s: AdHocSettings) => void }) {
   return (

@@ -16,7 +16,11 @@ const cells = [
  * the fields sit as the table; on a phone they stack, each still saying whom it counts.
  */
 export function TableForm({ onSubmit }: { onSubmit: (v: TableInput) => void }) {
-  const { register, handleSubmit, formState: { errors } } = useForm<TableInputText, unknown, TableInput>({
+  const {
+    register,
+    handleSubmit,
+    formState: { errors },
+  } = useForm<TableInputText, unknown, TableInput>({
     resolver: zodResolver(tableInputSchema),
     defaultValues: { exposedWith: '', exposedWithout: '', unexposedWith: '', unexposedWithout: '' },
   });
@@ -25,7 +29,15 @@ export function TableForm({ onSubmit }: { onSubmit: (v: TableInput) => void }) {
       <fieldset className="card grid max-w-2xl gap-4 p-4 sm:grid-cols-2">
         <legend className="px-1 font-semibold">People followed for the same period, by exposure and outcome</legend>
         {cells.map((c) => (
-          <TextField key={c.name} label={c.label} hint="number of people" inputMode="numeric" autoComplete="off" error={errors[c.name]?.message} {...register(c.name)} />
+          <TextField
+            key={c.name}
+            label={c.label}
+            hint="number of people"
+            inputMode="numeric"
+            autoComplete="off"
+            error={errors[c.name]?.message}
+            {...register(c.name)}
+          />
         ))}
       </fieldset>
       <div>

@@ -11,7 +11,12 @@ export function AdminTabs() {
   return (
     <nav aria-label="Administration" className="no-print mt-4 flex gap-1 border-b border-line">
       {tabs.map((t) => (
-        <NavLink key={t.to} to={t.to} end={t.end} className={({ isActive }) => `border-b-3 px-3 py-2 text-sm ${isActive ? 'border-ink font-semibold' : 'border-transparent hover:border-line'}`}>
+        <NavLink
+          key={t.to}
+          to={t.to}
+          end={t.end}
+          className={({ isActive }) => `border-b-3 px-3 py-2 text-sm ${isActive ? 'border-ink font-semibold' : 'border-transparent hover:border-line'}`}
+        >
           {t.label}
         </NavLink>
       ))}

@@ -22,7 +22,11 @@ const empty: Draft = { person: '', action: '', when: 'any', from: '', to: '' };
 const today = () => new Date().toISOString().slice(0, 10);
 
 function toFilters(d: Draft): AuditFilters {
-  return { ...(d.person.trim() ? { actor: d.person.trim() } : {}), ...(d.action ? { action: d.action } : {}), ...auditRange(d.when, today(), { from: d.from || undefined, to: d.to || undefined }) };
+  return {
+    ...(d.person.trim() ? { actor: d.person.trim() } : {}),
+    ...(d.action ? { action: d.action } : {}),
+    ...auditRange(d.when, today(), { from: d.from || undefined, to: d.to || undefined }),
+  };
 }
 
 function sentence(d: Draft): string {
@@ -45,7 +49,12 @@ export function AuditPage() {
   const [applied, setApplied] = useState<Draft>(empty);
   const [before, setBefore] = useState<number | undefined>(undefined);
   const audit = useAudit({ ...toFilters(applied), ...(before ? { before } : {}) });
-  const actionOptions = [{ value: '', label: 'Any action' }, ...Object.entries(auditActionLabels).map(([value, label]) => ({ value, label })).sort((a, b) => a.label.localeCompare(b.label))];
+  const actionOptions = [
+    { value: '', label: 'Any action' },
+    ...Object.entries(auditActionLabels)
+      .map(([value, label]) => ({ value, label }))
+      .sort((a, b) => a.label.localeCompare(b.label)),
+  ];
   return (
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Administration</h1>
@@ -59,7 +68,12 @@ export function AuditPage() {
           setApplied({ ...draft });
         }}
       >
-        <TextField label="Person" hint="part of a name, e-mail or client" value={draft.person} onChange={(e) => setDraft({ ...draft, person: e.target.value })} />
+        <TextField
+          label="Person"
+          hint="part of a name, e-mail or client"
+          value={draft.person}
+          onChange={(e) => setDraft({ ...draft, person: e.target.value })}
+        />
         <SelectField label="Action" value={draft.action} onChange={(e) => setDraft({ ...draft, action: e.target.value })} options={actionOptions} />
         <SelectField label="When" value={draft.when} onChange={(e) => setDraft({ ...draft, when: e.target.value as AuditWhen })} options={auditWhenOptions} />
         {draft.when === 'chosen' && (
@@ -68,9 +82,13 @@ export function AuditPage() {
             <TextField label="Up to the day" type="date" value={draft.to} onChange={(e) => setDraft({ ...draft, to: e.target.value })} />
           </>
         )}
-        <button type="submit" className="btn btn-primary px-4 py-2">Show</button>
+        <button type="submit" className="btn btn-primary px-4 py-2">
+          Show
+        </button>
       </form>
-      <p className="mt-3 text-sm text-ink-soft" role="status">{sentence(applied)}</p>
+      <p className="mt-3 text-sm text-ink-soft" role="status">
+        {sentence(applied)}
+      </p>
       <QueryState query={audit} label="audit log">
         {(events) => (
           <>

@@ -21,7 +21,10 @@ export function ClientsPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Administration</h1>
       <AdminTabs />
-      <p className="mt-4 max-w-3xl text-ink-soft">An integration client may only push intakes. The identity provider issues its credentials; registering it here lets Ratewarden accept its tokens, revoking it stops them at once.</p>
+      <p className="mt-4 max-w-3xl text-ink-soft">
+        An integration client may only push intakes. The identity provider issues its credentials; registering it here lets Ratewarden accept its tokens,
+        revoking it stops them at once.
+      </p>
       {revoke.isError && <ProblemNotice title="Not revoked" problem={problemOf(revoke.error).problem} />}
       <ResultTable
         caption={`Integration clients (${clients.length})`}
@@ -34,8 +37,15 @@ export function ClientsPage() {
             c.name,
             formatWhen(c.registeredAt),
             c.revokedAt ? <StateTag text={`revoked ${formatWhen(c.revokedAt)}`} tone="muted" /> : <StateTag text="active" tone="good" />,
-            c.revokedAt ? '—' : (
-              <button type="button" disabled={revoke.isPending} className="text-alarm underline" onClick={() => window.confirm(`Revoke ${c.clientId}? Its tokens stop working at once.`) && revoke.mutate(c.clientId)}>
+            c.revokedAt ? (
+              '—'
+            ) : (
+              <button
+                type="button"
+                disabled={revoke.isPending}
+                className="text-alarm underline"
+                onClick={() => window.confirm(`Revoke ${c.clientId}? Its tokens stop working at once.`) && revoke.mutate(c.clientId)}
+              >
                 Revoke<span className="sr-only"> {c.clientId}</span>
               </button>
             ),
@@ -54,14 +64,33 @@ export function ClientsPage() {
             return;
           }
           setErrors({});
-          register.mutate(parsed.data, { onSuccess: () => { setClientId(''); setName(''); } });
+          register.mutate(parsed.data, {
+            onSuccess: () => {
+              setClientId('');
+              setName('');
+            },
+          });
         }}
       >
         <h2 className="text-xl font-semibold sm:col-span-2">Register a client</h2>
-        <TextField label="Client ID" value={clientId} onChange={(e) => setClientId(e.target.value)} error={errors.clientId} hint="as the identity provider knows it" />
+        <TextField
+          label="Client ID"
+          value={clientId}
+          onChange={(e) => setClientId(e.target.value)}
+          error={errors.clientId}
+          hint="as the identity provider knows it"
+        />
         <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
-        {register.isError && <div className="sm:col-span-2"><ProblemNotice title="Not registered" problem={problemOf(register.error).problem} /></div>}
-        <div><button type="submit" disabled={register.isPending} className="btn btn-primary px-4 py-2">Register</button></div>
+        {register.isError && (
+          <div className="sm:col-span-2">
+            <ProblemNotice title="Not registered" problem={problemOf(register.error).problem} />
+          </div>
+        )}
+        <div>
+          <button type="submit" disabled={register.isPending} className="btn btn-primary px-4 py-2">
+            Register
+          </button>
+        </div>
       </form>
     </section>
   );

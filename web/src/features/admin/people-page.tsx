@@ -28,8 +28,12 @@ function EditAccess({ user, onDone }: { user: AdminUser; onDone: () => void }) {
       <UserAccessFields value={access} onChange={setAccess} sites={sites} legend={`Role and sites of ${user.email}`} />
       {update.isError && <ProblemNotice title="Not saved" problem={problemOf(update.error).problem} />}
       <div className="mt-3 flex gap-3">
-        <button type="submit" disabled={update.isPending} className="btn btn-primary px-3 py-1.5 text-sm">Save access</button>
-        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={update.isPending} className="btn btn-primary px-3 py-1.5 text-sm">
+          Save access
+        </button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">
+          Cancel
+        </button>
       </div>
     </form>
   );
@@ -54,7 +58,13 @@ function InviteForm() {
           return;
         }
         setErrors({});
-        invite.mutate(parsed.data, { onSuccess: () => { setEmail(''); setName(''); setAccess({ role: null, siteIds: [] }); } });
+        invite.mutate(parsed.data, {
+          onSuccess: () => {
+            setEmail('');
+            setName('');
+            setAccess({ role: null, siteIds: [] });
+          },
+        });
       }}
     >
       <h2 className="text-xl font-semibold">Add a person</h2>
@@ -63,9 +73,17 @@ function InviteForm() {
         <TextField label="Work e-mail" type="email" value={email} onChange={(e) => setEmail(e.target.value)} error={errors.email} />
         <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       </div>
-      <div className="mt-3"><UserAccessFields value={access} onChange={setAccess} sites={sites} legend="Role and sites of the new person" /></div>
-      {invite.isError && <div className="mt-3"><ProblemNotice title="The person was not added" problem={problemOf(invite.error).problem} /></div>}
-      <button type="submit" disabled={invite.isPending} className="btn btn-primary mt-4 px-4 py-2">Add the person</button>
+      <div className="mt-3">
+        <UserAccessFields value={access} onChange={setAccess} sites={sites} legend="Role and sites of the new person" />
+      </div>
+      {invite.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The person was not added" problem={problemOf(invite.error).problem} />
+        </div>
+      )}
+      <button type="submit" disabled={invite.isPending} className="btn btn-primary mt-4 px-4 py-2">
+        Add the person
+      </button>
     </form>
   );
 }
@@ -86,7 +104,10 @@ export function PeoplePage() {
         rows={users.map((u) => ({
           key: u.id,
           cells: [
-            <><span className="font-medium">{u.name}</span><span className="block text-xs text-ink-soft">{u.email}</span></>,
+            <>
+              <span className="font-medium">{u.name}</span>
+              <span className="block text-xs text-ink-soft">{u.email}</span>
+            </>,
             u.role ? roleLabels[u.role] : 'no role',
             siteNames(u.siteIds),
             u.signedUp ? formatWhen(u.lastSignInAt) : 'not signed in yet',

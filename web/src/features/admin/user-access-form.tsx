@@ -36,4 +36,3 @@ export function UserAccessFields({ value, onChange, sites, legend }: { value: Ac
     </fieldset>
   );
 }
-

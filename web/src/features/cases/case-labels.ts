@@ -3,7 +3,11 @@ import type { CaseStatus } from '@ratewarden/shared/intake';
 
 export const caseStatusLabels: Record<CaseStatus, string> = { suspected: 'Suspected', confirmed: 'Confirmed', ruled_out: 'Ruled out' };
 
-export const caseDecisionLabels: Record<CaseDecision, string> = { confirm: 'Confirm the case', rule_out: 'Rule the case out', reopen: 'Reopen (back to suspected)' };
+export const caseDecisionLabels: Record<CaseDecision, string> = {
+  confirm: 'Confirm the case',
+  rule_out: 'Rule the case out',
+  reopen: 'Reopen (back to suspected)',
+};
 
 export const attributionLabels: Record<CaseAttribution['state'], string> = {
   attributed: 'Counted in a group',

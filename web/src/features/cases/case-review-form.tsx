@@ -21,10 +21,25 @@ export function CaseReviewForm({ detail }: { detail: CaseDetail }) {
   const missing = tried && (decision === null || reason.trim().length < 3);
   return (
     <section aria-labelledby="review-heading" className="no-print mt-8 card p-4">
-      <h2 id="review-heading" className="text-xl font-semibold">Your decision</h2>
-      <p className="mt-1 text-sm text-ink-soft">Now {caseStatusLabels[detail.status].toLowerCase()}. A decision is kept as a new version of the case, with your name, the time and your reason; a run is requested so the figures follow it.</p>
-      <div aria-live="polite">{done && <p role="status" className="mt-3 note note-ok px-4 py-2">{done}</p>}</div>
-      {review.isError && <div className="mt-3"><ProblemNotice title="The decision was not saved" problem={problemOf(review.error).problem} /></div>}
+      <h2 id="review-heading" className="text-xl font-semibold">
+        Your decision
+      </h2>
+      <p className="mt-1 text-sm text-ink-soft">
+        Now {caseStatusLabels[detail.status].toLowerCase()}. A decision is kept as a new version of the case, with your name, the time and your reason; a run is
+        requested so the figures follow it.
+      </p>
+      <div aria-live="polite">
+        {done && (
+          <p role="status" className="mt-3 note note-ok px-4 py-2">
+            {done}
+          </p>
+        )}
+      </div>
+      {review.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The decision was not saved" problem={problemOf(review.error).problem} />
+        </div>
+      )}
       <form
         className="mt-3"
         onSubmit={(e) => {
@@ -56,9 +71,19 @@ export function CaseReviewForm({ detail }: { detail: CaseDetail }) {
           </div>
         </fieldset>
         <div className="mt-3 flex flex-col gap-1">
-          <label htmlFor={reasonId} className="text-sm font-medium">Reason (kept with the case, seen by physicians only)</label>
-          <textarea id={reasonId} value={reason} onChange={(e) => setReason(e.target.value)} rows={3} maxLength={2000}
-            aria-invalid={missing ? true : undefined} aria-describedby={missing ? errorId : undefined} className="field px-2 py-1.5" />
+          <label htmlFor={reasonId} className="text-sm font-medium">
+            Reason (kept with the case, seen by physicians only)
+          </label>
+          <textarea
+            id={reasonId}
+            value={reason}
+            onChange={(e) => setReason(e.target.value)}
+            rows={3}
+            maxLength={2000}
+            aria-invalid={missing ? true : undefined}
+            aria-describedby={missing ? errorId : undefined}
+            className="field px-2 py-1.5"
+          />
         </div>
         {missing && (
           <p id={errorId} role="alert" className="mt-2 text-sm text-alarm">

@@ -9,7 +9,14 @@ import { useFlagCases } from './api/get-flag-cases';
 
 const col = createColumnHelper<FlagCase & { site: string }>();
 const columns = [
-  col.accessor('caseRef', { header: 'Case', cell: (c) => <Link to={paths.case(c.getValue())} className="text-accent underline">{c.getValue()}</Link> }),
+  col.accessor('caseRef', {
+    header: 'Case',
+    cell: (c) => (
+      <Link to={paths.case(c.getValue())} className="text-accent underline">
+        {c.getValue()}
+      </Link>
+    ),
+  }),
   col.accessor('workerKey', { header: 'Worker (pseudonym)' }),
   col.accessor('onsetDate', { header: 'Onset' }),
   col.accessor('status', { header: 'Status' }),
@@ -22,8 +29,12 @@ export function FlagCases({ flagId }: { flagId: string }) {
   const { data: sites } = useSites();
   return (
     <section aria-labelledby="cases-heading" className="mt-8 note note-alarm p-4">
-      <h2 id="cases-heading" className="text-xl font-semibold">Cases behind this flag</h2>
-      <p className="mt-1 text-sm text-ink-soft">Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.</p>
+      <h2 id="cases-heading" className="text-xl font-semibold">
+        Cases behind this flag
+      </h2>
+      <p className="mt-1 text-sm text-ink-soft">
+        Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.
+      </p>
       <QueryState query={cases} label="cases">
         {(data) => (
           <DataTable

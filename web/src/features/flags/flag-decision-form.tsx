@@ -21,15 +21,28 @@ export function FlagDecisionForm({ flag }: { flag: FlagDetail }) {
   const missing = tried && (reason === null || comment.trim() === '');
   return (
     <section aria-labelledby="decide-heading" className="no-print mt-8 card p-4">
-      <h2 id="decide-heading" className="text-xl font-semibold">Review and close</h2>
-      {decide.isError && <div className="mt-3"><ProblemNotice title="The decision was not saved" problem={problemOf(decide.error).problem} /></div>}
+      <h2 id="decide-heading" className="text-xl font-semibold">
+        Review and close
+      </h2>
+      {decide.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The decision was not saved" problem={problemOf(decide.error).problem} />
+        </div>
+      )}
       {flag.state === 'raised' && (
         <div className="mt-3 flex flex-wrap items-end gap-3">
           <div className="flex min-w-72 flex-1 flex-col gap-1">
-            <label htmlFor={noteId} className="text-sm font-medium">Note for the review (optional)</label>
+            <label htmlFor={noteId} className="text-sm font-medium">
+              Note for the review (optional)
+            </label>
             <input id={noteId} value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} className="field px-2 py-1.5" />
           </div>
-          <button type="button" disabled={decide.isPending} onClick={() => decide.mutate({ kind: 'review', comment: note.trim() || undefined })} className="btn btn-primary px-4 py-2">
+          <button
+            type="button"
+            disabled={decide.isPending}
+            onClick={() => decide.mutate({ kind: 'review', comment: note.trim() || undefined })}
+            className="btn btn-primary px-4 py-2"
+          >
             Start the review
           </button>
         </div>
@@ -58,8 +71,18 @@ export function FlagDecisionForm({ flag }: { flag: FlagDetail }) {
           </div>
         </fieldset>
         <div className="mt-3 flex flex-col gap-1">
-          <label htmlFor={commentId} className="text-sm font-medium">Comment (what was found or done)</label>
-          <textarea id={commentId} value={comment} onChange={(e) => setComment(e.target.value)} rows={3} maxLength={4000} aria-invalid={missing && comment.trim() === '' ? true : undefined} className="field px-2 py-1.5" />
+          <label htmlFor={commentId} className="text-sm font-medium">
+            Comment (what was found or done)
+          </label>
+          <textarea
+            id={commentId}
+            value={comment}
+            onChange={(e) => setComment(e.target.value)}
+            rows={3}
+            maxLength={4000}
+            aria-invalid={missing && comment.trim() === '' ? true : undefined}
+            className="field px-2 py-1.5"
+          />
         </div>
         {missing && (
           <p role="alert" className="mt-2 text-sm text-alarm">

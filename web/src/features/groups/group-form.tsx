@@ -20,7 +20,13 @@ export function GroupForm({ group, onDone }: { group: ExposureGroupDto | null; o
       className="mt-3 grid gap-3 form-panel p-3 sm:grid-cols-2"
       onSubmit={(e) => {
         e.preventDefault();
-        const parsed = exposureGroupCreateSchema.safeParse({ code: group?.code ?? code, name, hazard, exposureLevel: level.trim() === '' ? null : Number(level), description: description.trim() || null });
+        const parsed = exposureGroupCreateSchema.safeParse({
+          code: group?.code ?? code,
+          name,
+          hazard,
+          exposureLevel: level.trim() === '' ? null : Number(level),
+          description: description.trim() || null,
+        });
         if (!parsed.success) {
           setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
           return;
@@ -33,12 +39,29 @@ export function GroupForm({ group, onDone }: { group: ExposureGroupDto | null; o
       {!group && <TextField label="Code" hint="as it appears in roster files" value={code} onChange={(e) => setCode(e.target.value)} error={errors.code} />}
       <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       <TextField label="Hazard" value={hazard} onChange={(e) => setHazard(e.target.value)} error={errors.hazard} />
-      <TextField label="Exposure level" hint="0 unexposed, higher is more exposed; empty leaves the group out of trend tests" inputMode="numeric" value={level} onChange={(e) => setLevel(e.target.value)} error={errors.exposureLevel} />
-      <div className="sm:col-span-2"><TextField label="Description" value={description} onChange={(e) => setDescription(e.target.value)} error={errors.description} /></div>
-      {save.isError && <div className="sm:col-span-2"><ProblemNotice title="Not saved" problem={problemOf(save.error).problem} /></div>}
+      <TextField
+        label="Exposure level"
+        hint="0 unexposed, higher is more exposed; empty leaves the group out of trend tests"
+        inputMode="numeric"
+        value={level}
+        onChange={(e) => setLevel(e.target.value)}
+        error={errors.exposureLevel}
+      />
+      <div className="sm:col-span-2">
+        <TextField label="Description" value={description} onChange={(e) => setDescription(e.target.value)} error={errors.description} />
+      </div>
+      {save.isError && (
+        <div className="sm:col-span-2">
+          <ProblemNotice title="Not saved" problem={problemOf(save.error).problem} />
+        </div>
+      )}
       <div className="flex gap-3 sm:col-span-2">
-        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">{group ? 'Save the group' : 'Create the group'}</button>
-        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">
+          {group ? 'Save the group' : 'Create the group'}
+        </button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">
+          Cancel
+        </button>
       </div>
     </form>
   );

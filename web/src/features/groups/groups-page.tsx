@@ -38,20 +38,35 @@ export function GroupsPage({ user }: { user: SessionUser }) {
             <code className="font-mono">{g.code}</code>,
             g.hazard,
             g.exposureLevel === null ? 'not ordered' : String(g.exposureLevel),
-            g.isReference ? <StateTag text="reference" tone="good" /> : canWrite ? (
+            g.isReference ? (
+              <StateTag text="reference" tone="good" />
+            ) : canWrite ? (
               <button type="button" disabled={setReference.isPending} className="text-sm text-accent underline" onClick={() => setReference.mutate(g.id)}>
                 Make reference<span className="sr-only"> group: {g.name}</span>
               </button>
-            ) : '—',
+            ) : (
+              '—'
+            ),
             formatWhen(g.updatedAt),
-            ...(canWrite ? [<button type="button" className="text-accent underline" onClick={() => setEditing(g.id)}>Edit<span className="sr-only"> {g.name}</span></button>] : []),
+            ...(canWrite
+              ? [
+                  <button type="button" className="text-accent underline" onClick={() => setEditing(g.id)}>
+                    Edit<span className="sr-only"> {g.name}</span>
+                  </button>,
+                ]
+              : []),
           ],
           csv: [g.name, g.code, g.hazard, g.exposureLevel, g.isReference ? 'reference' : '', g.updatedAt, ...(canWrite ? [''] : [])],
         }))}
       />
-      {canWrite && (editing === 'new' ? <GroupForm group={null} onDone={() => setEditing(null)} /> : (
-        <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>New exposure group</button>
-      ))}
+      {canWrite &&
+        (editing === 'new' ? (
+          <GroupForm group={null} onDone={() => setEditing(null)} />
+        ) : (
+          <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>
+            New exposure group
+          </button>
+        ))}
     </section>
   );
 }

@@ -16,7 +16,9 @@ export function OutcomesPage({ user }: { user: SessionUser }) {
   return (
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Outcomes</h1>
-      <p className="mt-2 max-w-3xl text-ink-soft">What counts as a case of each outcome, whether a worker can count more than once, and which group it is compared with.</p>
+      <p className="mt-2 max-w-3xl text-ink-soft">
+        What counts as a case of each outcome, whether a worker can count more than once, and which group it is compared with.
+      </p>
       <ResultTable
         caption={`Outcomes (${outcomes.length})`}
         columns={['Outcome', 'Case definition', 'Counting', 'Lag', 'Reference group', ...(canWrite ? ['Change'] : [])]}
@@ -34,15 +36,26 @@ export function OutcomesPage({ user }: { user: SessionUser }) {
               o.countingRule === 'first_event' ? 'first event only' : 'recurrent',
               `${o.lagMonths} months`,
               ref,
-              ...(canWrite ? [<button type="button" className="text-accent underline" onClick={() => setEditing(o.id)}>Edit<span className="sr-only"> {o.name}</span></button>] : []),
+              ...(canWrite
+                ? [
+                    <button type="button" className="text-accent underline" onClick={() => setEditing(o.id)}>
+                      Edit<span className="sr-only"> {o.name}</span>
+                    </button>,
+                  ]
+                : []),
             ],
             csv: [o.name, o.caseDefinition, o.countingRule, o.lagMonths, ref, ...(canWrite ? [''] : [])],
           };
         })}
       />
-      {canWrite && (editing === 'new' ? <OutcomeForm outcome={null} groups={groups} onDone={() => setEditing(null)} /> : (
-        <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>New outcome</button>
-      ))}
+      {canWrite &&
+        (editing === 'new' ? (
+          <OutcomeForm outcome={null} groups={groups} onDone={() => setEditing(null)} />
+        ) : (
+          <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>
+            New outcome
+          </button>
+        ))}
     </section>
   );
 }

@@ -50,18 +50,27 @@ export function AudiogramChart({ ear, tests, baselineId }: { ear: Ear; tests: St
         <>
           <thead>
             <tr>
-              <th scope="col" className="text-left">Test</th>
+              <th scope="col" className="text-left">
+                Test
+              </th>
               {AUDIOGRAM_FREQUENCIES.map((f) => (
-                <th key={f} scope="col" className="text-right">{f} Hz</th>
+                <th key={f} scope="col" className="text-right">
+                  {f} Hz
+                </th>
               ))}
             </tr>
           </thead>
           <tbody>
             {tests.map((t) => (
               <tr key={t.id}>
-                <th scope="row" className="text-left font-normal">{testLabel(t)}{t.id === baselineId ? ' (baseline in use)' : ''}</th>
+                <th scope="row" className="text-left font-normal">
+                  {testLabel(t)}
+                  {t.id === baselineId ? ' (baseline in use)' : ''}
+                </th>
                 {AUDIOGRAM_FREQUENCIES.map((f) => (
-                  <td key={f} className="text-right tabular-nums">{t.thresholds[f] ?? '—'}</td>
+                  <td key={f} className="text-right tabular-nums">
+                    {t.thresholds[f] ?? '—'}
+                  </td>
                 ))}
               </tr>
             ))}

@@ -27,11 +27,17 @@ export function AudiogramUploadPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Audiogram upload</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        One row per test and ear. Columns: <code>{AUDIOGRAM_COLUMNS.join(', ')}</code>. Dates as YYYY-MM-DD; ear left or right; test type baseline, annual or retest
-        (a retest within 30 days replaces the annual result); hearing levels in dB HL from −10 to 120 in steps of 5, 8000 Hz may be left empty. Workers must be known from a roster.{' '}
-        <a className="text-accent underline" href="/api/audiograms/template.csv">Download a template</a>.
+        One row per test and ear. Columns: <code>{AUDIOGRAM_COLUMNS.join(', ')}</code>. Dates as YYYY-MM-DD; ear left or right; test type baseline, annual or
+        retest (a retest within 30 days replaces the annual result); hearing levels in dB HL from −10 to 120 in steps of 5, 8000 Hz may be left empty. Workers
+        must be known from a roster.{' '}
+        <a className="text-accent underline" href="/api/audiograms/template.csv">
+          Download a template
+        </a>
+        .
       </p>
-      <p className="mt-1 max-w-3xl text-sm text-ink-soft">Standard threshold shifts are derived on upload and go to the occupational physician as suspected cases; they are not shown here.</p>
+      <p className="mt-1 max-w-3xl text-sm text-ink-soft">
+        Standard threshold shifts are derived on upload and go to the occupational physician as suspected cases; they are not shown here.
+      </p>
       <form
         className="card mt-4 p-4"
         onSubmit={(e) => {
@@ -41,7 +47,9 @@ export function AudiogramUploadPage() {
           upload.mutate({ file, onProgress: setProgress });
         }}
       >
-        <label htmlFor={`${ids}-file`} className="block text-sm font-medium">Audiogram file (.csv or .xlsx)</label>
+        <label htmlFor={`${ids}-file`} className="block text-sm font-medium">
+          Audiogram file (.csv or .xlsx)
+        </label>
         <input
           id={`${ids}-file`}
           type="file"
@@ -73,10 +81,18 @@ export function AudiogramUploadPage() {
                 <caption className="text-left">Problems ({formatCount(rejected.data.problemCount)}), by line and column</caption>
                 <thead>
                   <tr>
-                    <th scope="col" className="pr-4 text-left">Line</th>
-                    <th scope="col" className="pr-4 text-left">Column</th>
-                    <th scope="col" className="pr-4 text-left">Value</th>
-                    <th scope="col" className="text-left">Problem</th>
+                    <th scope="col" className="pr-4 text-left">
+                      Line
+                    </th>
+                    <th scope="col" className="pr-4 text-left">
+                      Column
+                    </th>
+                    <th scope="col" className="pr-4 text-left">
+                      Value
+                    </th>
+                    <th scope="col" className="text-left">
+                      Problem
+                    </th>
                   </tr>
                 </thead>
                 <tbody>

@@ -29,10 +29,19 @@ export function HearingWorkersPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Audiograms</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        Workers with audiograms, and how many standard threshold shifts their tests show against the baseline in use (29 CFR 1910.95(g)(10)). Each shift became a suspected case of the hearing outcome for your review.
+        Workers with audiograms, and how many standard threshold shifts their tests show against the baseline in use (29 CFR 1910.95(g)(10)). Each shift became
+        a suspected case of the hearing outcome for your review.
       </p>
-      <p className="mt-1 max-w-3xl text-sm text-ink-soft">Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.</p>
-      <DataTable caption={`Workers with audiograms (${data.workers.length})`} columns={columns} data={data.workers} exportName="audiogram-workers" rowHeader="workerKey" />
+      <p className="mt-1 max-w-3xl text-sm text-ink-soft">
+        Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.
+      </p>
+      <DataTable
+        caption={`Workers with audiograms (${data.workers.length})`}
+        columns={columns}
+        data={data.workers}
+        exportName="audiogram-workers"
+        rowHeader="workerKey"
+      />
       <Cautions extra={hearingCautions} />
     </section>
   );

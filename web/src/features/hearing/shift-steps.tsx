@@ -14,7 +14,11 @@ const outcomeWords = {
 function Step({ step }: { step: HistoryStep }) {
   switch (step.kind) {
     case 'baseline':
-      return <p>{step.testDate}: baseline test, taken as the baseline ({step.reason}).</p>;
+      return (
+        <p>
+          {step.testDate}: baseline test, taken as the baseline ({step.reason}).
+        </p>
+      );
     case 'no-baseline':
       return <p>{step.testDate}: no baseline test before it; not compared.</p>;
     case 'retest-replaces':
@@ -22,7 +26,11 @@ function Step({ step }: { step: HistoryStep }) {
     case 'retest-unused':
       return <p>{step.testDate}: retest with no annual test in the 30 days before it; not used.</p>;
     case 'baseline-revised':
-      return <p>{step.testDate}: baseline revised to this test ({step.reason}).</p>;
+      return (
+        <p>
+          {step.testDate}: baseline revised to this test ({step.reason}).
+        </p>
+      );
     case 'compared': {
       const c = step.computation;
       return (
@@ -31,20 +39,34 @@ function Step({ step }: { step: HistoryStep }) {
             {step.testDate} against the baseline of {step.baselineDate}: {outcomeWords[step.outcome]}
           </p>
           <table className="mt-1 text-sm">
-            <caption className="sr-only">Computation of {step.testDate} against {step.baselineDate}</caption>
+            <caption className="sr-only">
+              Computation of {step.testDate} against {step.baselineDate}
+            </caption>
             <thead>
               <tr>
-                <th scope="col" className="pr-4 text-left">Hz</th>
-                <th scope="col" className="pr-4 text-right">Baseline</th>
-                <th scope="col" className="pr-4 text-right">This test</th>
-                <th scope="col" className="pr-4 text-right">Age correction</th>
-                <th scope="col" className="text-right">Change</th>
+                <th scope="col" className="pr-4 text-left">
+                  Hz
+                </th>
+                <th scope="col" className="pr-4 text-right">
+                  Baseline
+                </th>
+                <th scope="col" className="pr-4 text-right">
+                  This test
+                </th>
+                <th scope="col" className="pr-4 text-right">
+                  Age correction
+                </th>
+                <th scope="col" className="text-right">
+                  Change
+                </th>
               </tr>
             </thead>
             <tbody>
               {STS_FREQUENCIES.map((f) => (
                 <tr key={f}>
-                  <th scope="row" className="pr-4 text-left font-normal">{f}</th>
+                  <th scope="row" className="pr-4 text-left font-normal">
+                    {f}
+                  </th>
                   <td className="pr-4 text-right tabular-nums">{c.baseline[f]}</td>
                   <td className="pr-4 text-right tabular-nums">{c.recent[f]}</td>
                   <td className="pr-4 text-right tabular-nums">{c.correction[f]}</td>
@@ -55,7 +77,13 @@ function Step({ step }: { step: HistoryStep }) {
           </table>
           <p className="text-sm">
             Average change {dB(c.averageChange)} (a shift at {STS_AVERAGE_CHANGE_DB} dB or more). Average hearing level of this test, as measured,{' '}
-            {dB(c.recentAverage)}: {c.recordable ? `recordable (${RECORDABLE_HEARING_LEVEL_DB} dB or more in the same ear, 29 CFR 1904.10)` : c.shift ? `below ${RECORDABLE_HEARING_LEVEL_DB} dB: not recordable under 1904.10` : 'no shift'}.
+            {dB(c.recentAverage)}:{' '}
+            {c.recordable
+              ? `recordable (${RECORDABLE_HEARING_LEVEL_DB} dB or more in the same ear, 29 CFR 1904.10)`
+              : c.shift
+                ? `below ${RECORDABLE_HEARING_LEVEL_DB} dB: not recordable under 1904.10`
+                : 'no shift'}
+            .
           </p>
           <p className="text-sm text-ink-soft">
             {step.ageCorrection.applied

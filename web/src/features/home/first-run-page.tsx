@@ -25,8 +25,22 @@ export function FirstRunPage() {
   const { data: outcomes } = useOutcomes();
   const { data: settings } = useAnalysisSettings();
   const steps: Step[] = [
-    { title: 'Create the sites', done: sites.some((s) => s.retiredAt === null), who: 'administrator', text: 'Every workplace that sends rosters and case lists, with the code its files use.', to: paths.sites, link: 'Sites' },
-    { title: 'Invite the people', done: false, who: 'administrator', text: 'The hygienist, safety managers (with their sites) and the occupational physician; each signs in with the e-mail you enter.', to: paths.admin, link: 'People' },
+    {
+      title: 'Create the sites',
+      done: sites.some((s) => s.retiredAt === null),
+      who: 'administrator',
+      text: 'Every workplace that sends rosters and case lists, with the code its files use.',
+      to: paths.sites,
+      link: 'Sites',
+    },
+    {
+      title: 'Invite the people',
+      done: false,
+      who: 'administrator',
+      text: 'The hygienist, safety managers (with their sites) and the occupational physician; each signs in with the e-mail you enter.',
+      to: paths.admin,
+      link: 'People',
+    },
     {
       title: 'Check the analysis settings',
       done: settings.current !== null,
@@ -35,9 +49,30 @@ export function FirstRunPage() {
       to: paths.settings,
       link: 'Analysis settings',
     },
-    { title: 'Describe the exposure groups and the reference group', done: groups.some((g) => g.isReference), who: 'hygienist', text: 'The groups of the rosters, their ordinal exposure levels, and the group every other is compared with.', to: paths.groups, link: 'Exposure groups' },
-    { title: 'Define the outcomes', done: outcomes.length > 0, who: 'hygienist', text: 'Each outcome with its case definition, counting rule and exposure lag.', to: paths.outcomes, link: 'Outcomes' },
-    { title: 'Upload the first roster and case list', done: false, who: 'hygienist', text: 'From the templates on the intake page; each file is checked before it is applied, and a run follows.', to: paths.intakes, link: 'Intakes' },
+    {
+      title: 'Describe the exposure groups and the reference group',
+      done: groups.some((g) => g.isReference),
+      who: 'hygienist',
+      text: 'The groups of the rosters, their ordinal exposure levels, and the group every other is compared with.',
+      to: paths.groups,
+      link: 'Exposure groups',
+    },
+    {
+      title: 'Define the outcomes',
+      done: outcomes.length > 0,
+      who: 'hygienist',
+      text: 'Each outcome with its case definition, counting rule and exposure lag.',
+      to: paths.outcomes,
+      link: 'Outcomes',
+    },
+    {
+      title: 'Upload the first roster and case list',
+      done: false,
+      who: 'hygienist',
+      text: 'From the templates on the intake page; each file is checked before it is applied, and a run follows.',
+      to: paths.intakes,
+      link: 'Intakes',
+    },
   ];
   return (
     <section className="max-w-3xl">
@@ -47,12 +82,17 @@ export function FirstRunPage() {
         {steps.map((s, i) => (
           <li key={s.title} className="note note-plain px-4 py-3">
             <div className="flex flex-wrap items-center gap-3">
-              <h2 className="text-lg font-semibold">{i + 1}. {s.title}</h2>
+              <h2 className="text-lg font-semibold">
+                {i + 1}. {s.title}
+              </h2>
               {s.done ? <StateTag text="done" tone="good" /> : <StateTag text="to do" tone="attention" />}
             </div>
             <p className="mt-1">{s.text}</p>
             <p className="mt-1 text-sm text-ink-soft">
-              By the {s.who}: <Link className="text-accent underline" to={s.to}>{s.link}</Link>
+              By the {s.who}:{' '}
+              <Link className="text-accent underline" to={s.to}>
+                {s.link}
+              </Link>
             </p>
           </li>
         ))}

@@ -26,8 +26,8 @@ export function HomePage() {
       <p className="mt-2 text-lg text-ink-soft">Occupational-health surveillance for workplace exposure cohorts.</p>
       <div className="mt-8 note note-ok px-5 py-4">
         <p>
-          Monthly rosters and case lists become person-time incidence rates for every exposure group, compared with the
-          reference group, adjusted for age band and site, and watched night after night.
+          Monthly rosters and case lists become person-time incidence rates for every exposure group, compared with the reference group, adjusted for age band
+          and site, and watched night after night.
         </p>
         <a href={paths.signIn} className="btn btn-primary mt-4 inline-block px-4 py-2">
           Sign in to continue

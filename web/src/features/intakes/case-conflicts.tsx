@@ -19,9 +19,18 @@ export function CaseConflicts({ intake }: { intake: IntakeDetail }) {
   const open = intake.state === 'checked';
   return (
     <section aria-labelledby="conflicts-heading" className="mt-8 note note-alarm p-4">
-      <h2 id="conflicts-heading" className="text-xl font-semibold">Conflicts with physicians' decisions</h2>
-      <p className="mt-1 text-sm text-ink-soft">Cases this list gives another status than a physician decided. Nothing is overwritten until you decide each one. Confidential: shown to physicians only, and recorded.</p>
-      {resolve.isError && <div className="mt-3"><ProblemNotice title="The choice was not saved" problem={problemOf(resolve.error).problem} /></div>}
+      <h2 id="conflicts-heading" className="text-xl font-semibold">
+        Conflicts with physicians' decisions
+      </h2>
+      <p className="mt-1 text-sm text-ink-soft">
+        Cases this list gives another status than a physician decided. Nothing is overwritten until you decide each one. Confidential: shown to physicians only,
+        and recorded.
+      </p>
+      {resolve.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The choice was not saved" problem={problemOf(resolve.error).problem} />
+        </div>
+      )}
       <QueryState query={conflicts} label="conflicts">
         {(list) =>
           list.length === 0 ? (
@@ -32,29 +41,54 @@ export function CaseConflicts({ intake }: { intake: IntakeDetail }) {
                 <caption className="pb-2 text-left text-base font-semibold">Conflicts ({list.length})</caption>
                 <thead>
                   <tr className="border-b-2 border-ink text-left">
-                    <th scope="col" className="px-2 py-1.5">Case</th>
-                    <th scope="col" className="px-2 py-1.5">Decision</th>
-                    <th scope="col" className="px-2 py-1.5">The list says</th>
-                    <th scope="col" className="px-2 py-1.5">Your choice</th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Case
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Decision
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      The list says
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Your choice
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {list.map((k) => (
                     <tr key={k.caseRef} className="border-b border-line align-top">
-                      <th scope="row" className="px-2 py-1.5 text-left font-medium">{k.caseRef}<span className="block text-xs font-normal text-ink-soft">{k.workerKey}, onset {k.onsetDate}</span></th>
+                      <th scope="row" className="px-2 py-1.5 text-left font-medium">
+                        {k.caseRef}
+                        <span className="block text-xs font-normal text-ink-soft">
+                          {k.workerKey}, onset {k.onsetDate}
+                        </span>
+                      </th>
                       <td className="px-2 py-1.5">
                         {statusWords[k.decidedStatus]}
-                        <span className="block text-xs text-ink-soft">{k.decision.decidedBy}, {formatWhen(k.decision.decidedAt)}: {k.decision.reason}</span>
+                        <span className="block text-xs text-ink-soft">
+                          {k.decision.decidedBy}, {formatWhen(k.decision.decidedAt)}: {k.decision.reason}
+                        </span>
                       </td>
                       <td className="px-2 py-1.5">{statusWords[k.listStatus]}</td>
                       <td className="px-2 py-1.5">
                         {k.resolution && <p className="font-medium">{k.resolution === 'keep' ? 'Decision kept' : "List's status accepted"}</p>}
                         {open && (
                           <span className="no-print mt-1 flex flex-wrap gap-2">
-                            <button type="button" disabled={resolve.isPending || k.resolution === 'keep'} onClick={() => resolve.mutate({ caseRef: k.caseRef, resolution: 'keep' })} className="btn btn-primary btn-small">
+                            <button
+                              type="button"
+                              disabled={resolve.isPending || k.resolution === 'keep'}
+                              onClick={() => resolve.mutate({ caseRef: k.caseRef, resolution: 'keep' })}
+                              className="btn btn-primary btn-small"
+                            >
                               Keep the decision<span className="sr-only"> on {k.caseRef}</span>
                             </button>
-                            <button type="button" disabled={resolve.isPending || k.resolution === 'accept'} onClick={() => resolve.mutate({ caseRef: k.caseRef, resolution: 'accept' })} className="btn btn-quiet btn-small">
+                            <button
+                              type="button"
+                              disabled={resolve.isPending || k.resolution === 'accept'}
+                              onClick={() => resolve.mutate({ caseRef: k.caseRef, resolution: 'accept' })}
+                              className="btn btn-quiet btn-small"
+                            >
                               Accept the list<span className="sr-only"> on {k.caseRef}</span>
                             </button>
                           </span>

@@ -50,17 +50,25 @@ export function CaseDiffView({ diff, role, intakeId }: { diff: CaseDiff; role: R
         <ul className="mt-1 text-sm">
           {diff.byOutcome.map((o) => (
             <li key={o.outcomeCode}>
-              {o.outcomeCode}: {showCount(o.new, role, undefined, o.newWithheld ?? null).text} new, {showCount(o.changed, role, undefined, o.changedWithheld ?? null).text} changed
+              {o.outcomeCode}: {showCount(o.new, role, undefined, o.newWithheld ?? null).text} new,{' '}
+              {showCount(o.changed, role, undefined, o.changedWithheld ?? null).text} changed
             </li>
           ))}
         </ul>
       )}
       {rows.length > 0 && (
-        <DataTable caption="New and changed cases by outcome, status and exposure group" columns={columnsFor(role)} data={rows} exportName={`intake-${intakeId}-case-changes`} rowHeader="outcomeCode" />
+        <DataTable
+          caption="New and changed cases by outcome, status and exposure group"
+          columns={columnsFor(role)}
+          data={rows}
+          exportName={`intake-${intakeId}-case-changes`}
+          rowHeader="outcomeCode"
+        />
       )}
       {withheld && (
         <p className="mt-2 text-xs text-ink-soft">
-          Counts from 1 to {smallCellThreshold() - 1} are shown as “&lt;{smallCellThreshold()}”, and “withheld” marks a count kept back because with the totals beside it it would give a small one back; only the occupational physician sees them.
+          Counts from 1 to {smallCellThreshold() - 1} are shown as “&lt;{smallCellThreshold()}”, and “withheld” marks a count kept back because with the totals
+          beside it it would give a small one back; only the occupational physician sees them.
         </p>
       )}
     </section>

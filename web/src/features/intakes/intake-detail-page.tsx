@@ -20,7 +20,12 @@ const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB'
 
 const pcol = createColumnHelper<IntakeProblem>();
 const problemColumns = [
-  pcol.accessor((p) => p.line ?? 0, { id: 'line', header: 'Line', cell: (c) => (c.row.original.line === null ? 'whole file' : formatCount(c.row.original.line)), meta: { numeric: true, csv: (p) => p.line } }),
+  pcol.accessor((p) => p.line ?? 0, {
+    id: 'line',
+    header: 'Line',
+    cell: (c) => (c.row.original.line === null ? 'whole file' : formatCount(c.row.original.line)),
+    meta: { numeric: true, csv: (p) => p.line },
+  }),
   pcol.accessor((p) => p.column ?? '', { id: 'column', header: 'Column' }),
   pcol.accessor((p) => p.value ?? '', { id: 'value', header: 'Value' }),
   pcol.accessor('reason', { header: 'Problem' }),
@@ -40,7 +45,9 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
   return (
     <section>
       <p className="text-sm">
-        <Link to={paths.intakes} className="text-accent underline">← All intakes</Link>
+        <Link to={paths.intakes} className="text-accent underline">
+          ← All intakes
+        </Link>
       </p>
       <h1 className="mt-2 flex flex-wrap items-center gap-3 text-2xl font-bold tracking-tight">
         {intake.fileName} <IntakeStateBadge state={intake.state} />
@@ -71,7 +78,9 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
             `run ${intake.runRequest.run.number} is computing now.`
           ) : (
             <>
-              <Link className="text-accent underline" to={paths.runs}>run {intake.runRequest.run.number}</Link>{' '}
+              <Link className="text-accent underline" to={paths.runs}>
+                run {intake.runRequest.run.number}
+              </Link>{' '}
               {intake.runRequest.run.state === 'succeeded' ? 'finished' : 'failed'} {when(intake.runRequest.run.finishedAt)}
               {intake.runRequest.run.state === 'succeeded' ? ', and its figures are the ones shown now.' : '; the previous figures stay current.'}
             </>
@@ -81,7 +90,8 @@ export function IntakeDetailPage({ id, user }: { id: string; user: SessionUser }
       {intake.runRequest && !intake.runRequest.pickedAt && <IntakeRunWait />}
       {intake.conflictsPending && (
         <p role="status" className="mt-4 note note-alarm px-4 py-2">
-          Some cases of this list contradict a physician's decision. The list can be applied once a physician has decided each of them (keep the decision or accept the list).
+          Some cases of this list contradict a physician's decision. The list can be applied once a physician has decided each of them (keep the decision or
+          accept the list).
         </p>
       )}
       {intake.kind === 'cases' && intake.state !== 'rejected' && roleMay(user.role, 'cases:review') && <CaseConflicts intake={intake} />}

@@ -38,10 +38,11 @@ export function IntakeFormats() {
   const formats = useIntakeFormats();
   return (
     <section aria-labelledby="intake-formats" className="mt-8">
-      <h2 id="intake-formats" className="text-xl font-semibold">Templates and format rules</h2>
+      <h2 id="intake-formats" className="text-xl font-semibold">
+        Templates and format rules
+      </h2>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        CSV files with a header row, one row per worker × month (roster) or per case (case list); headers in any case and order.
-        Download a template:{' '}
+        CSV files with a header row, one row per worker × month (roster) or per case (case list); headers in any case and order. Download a template:{' '}
         {kinds.map((k, i) => (
           <span key={k.kind}>
             {i > 0 && ' or '}
@@ -63,7 +64,13 @@ export function IntakeFormats() {
                   exportName={`${k.kind}-format`}
                   rows={data[k.kind].map((c) => ({
                     key: c.name,
-                    cells: [<code className="font-mono">{c.name}</code>, c.required ? 'required' : 'optional', ruleText(c), c.description, <code className="font-mono">{c.example}</code>],
+                    cells: [
+                      <code className="font-mono">{c.name}</code>,
+                      c.required ? 'required' : 'optional',
+                      ruleText(c),
+                      c.description,
+                      <code className="font-mono">{c.example}</code>,
+                    ],
                     csv: [c.name, c.required ? 'required' : 'optional', ruleText(c), c.description, c.example],
                   }))}
                 />

@@ -74,7 +74,9 @@ function Orphans({ diff, role, intakeId }: { diff: RosterDiff; role: Role | null
         Applying this roster leaves {n} stored {o.count === 1 ? 'case' : 'cases'} without a roster row
       </p>
       <p className="mt-1 text-sm">
-        The roster row each case is attributed to (its worker's row in the onset month, moved back by the outcome's exposure lag) is not in the new version, and no other site's roster has one. Runs will count {o.count === 1 ? 'it' : 'them'} as not attributed, removed by a correction, until a roster gives {o.count === 1 ? 'it' : 'them'} a row again.
+        The roster row each case is attributed to (its worker's row in the onset month, moved back by the outcome's exposure lag) is not in the new version, and
+        no other site's roster has one. Runs will count {o.count === 1 ? 'it' : 'them'} as not attributed, removed by a correction, until a roster gives{' '}
+        {o.count === 1 ? 'it' : 'them'} a row again.
       </p>
       {o.cases && o.cases.length > 0 && (
         <DataTable
@@ -95,7 +97,8 @@ export function RosterDiffView({ diff, role, intakeId }: { diff: RosterDiff; rol
     <section className="mt-6">
       <h2 className="text-lg font-semibold">What applying changes</h2>
       <p className="mt-1">
-        {formatCount(diff.totals.newSlices)} new and {formatCount(diff.totals.replacedSlices)} replaced site-months; {formatCount(diff.newWorkers)} workers not seen before.
+        {formatCount(diff.totals.newSlices)} new and {formatCount(diff.totals.replacedSlices)} replaced site-months; {formatCount(diff.newWorkers)} workers not
+        seen before.
       </p>
       <Orphans diff={diff} role={role} intakeId={intakeId} />
       <DataTable caption="Changes by site and month" columns={sliceColumns} data={diff.slices} exportName={`intake-${intakeId}-changes`} rowHeader="slice" />
@@ -103,9 +106,11 @@ export function RosterDiffView({ diff, role, intakeId }: { diff: RosterDiff; rol
         <section className="mt-4">
           <h3 className="text-base font-semibold">Workers changed in the replaced site-months</h3>
           <p className="text-sm text-ink-soft">Pseudonymous worker keys, as in the file. A new site-month adds every worker in it.</p>
-          {diff.slices.filter((s) => s.stored).map((s) => (
-            <SliceWorkers key={`${s.siteCode} ${s.month}`} slice={s} />
-          ))}
+          {diff.slices
+            .filter((s) => s.stored)
+            .map((s) => (
+              <SliceWorkers key={`${s.siteCode} ${s.month}`} slice={s} />
+            ))}
         </section>
       )}
     </section>

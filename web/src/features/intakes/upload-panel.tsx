@@ -46,7 +46,9 @@ export function UploadPanel() {
   const rejected = upload.error && isApiError(upload.error) ? rejectedDetails.safeParse(upload.error.problem.details) : null;
   return (
     <section aria-labelledby={`${ids}-h`} className="card p-4">
-      <h2 id={`${ids}-h`} className="text-lg font-semibold">New intake</h2>
+      <h2 id={`${ids}-h`} className="text-lg font-semibold">
+        New intake
+      </h2>
       <div className="mt-3 flex flex-wrap gap-6">
         <fieldset>
           <legend className="text-sm font-medium">File holds</legend>
@@ -70,10 +72,20 @@ export function UploadPanel() {
         </fieldset>
         {kind === 'cases' && (
           <div className="flex max-w-md flex-col gap-1">
-            <label htmlFor={`${ids}-through`} className="text-sm font-medium">Reports cases through (month)</label>
-            <input id={`${ids}-through`} type="month" value={reportsThrough} onChange={(e) => setReportsThrough(e.target.value)} aria-describedby={`${ids}-through-hint`} className="w-48 field px-2 py-1" />
+            <label htmlFor={`${ids}-through`} className="text-sm font-medium">
+              Reports cases through (month)
+            </label>
+            <input
+              id={`${ids}-through`}
+              type="month"
+              value={reportsThrough}
+              onChange={(e) => setReportsThrough(e.target.value)}
+              aria-describedby={`${ids}-through-hint`}
+              className="w-48 field px-2 py-1"
+            />
             <p id={`${ids}-through-hint`} className="text-xs text-ink-soft">
-              Every case of your sites up to the end of this month is in the list. Left empty: the later of the list's last onset month and the latest month with hours in for your sites
+              Every case of your sites up to the end of this month is in the list. Left empty: the later of the list's last onset month and the latest month
+              with hours in for your sites
               {latestRostered ? ` (now ${formatMonth(latestRostered)})` : ''}.
             </p>
           </div>
@@ -88,7 +100,15 @@ export function UploadPanel() {
         onDrop={onDrop}
         className={`mt-4 border-2 border-dashed px-4 py-6 text-center ${dragging ? 'border-ok bg-accent-soft' : 'border-line'}`}
       >
-        <p>{file ? <>Selected: <strong>{file.name}</strong> ({formatCount(file.size)} bytes)</> : 'Drop a CSV file here, or'}</p>
+        <p>
+          {file ? (
+            <>
+              Selected: <strong>{file.name}</strong> ({formatCount(file.size)} bytes)
+            </>
+          ) : (
+            'Drop a CSV file here, or'
+          )}
+        </p>
         <label className="mt-2 inline-block cursor-pointer text-accent underline">
           {file ? 'choose another file' : 'choose a file'}
           <input ref={input} type="file" accept=".csv,text/csv" className="sr-only" onChange={(e) => choose(e.target.files?.[0])} />
@@ -109,7 +129,8 @@ export function UploadPanel() {
         {upload.data && (
           <p role="status" className="mt-4 note note-ok px-4 py-3">
             {upload.data.duplicate ? 'This file was taken in before; nothing changed. ' : ''}
-            Intake <strong>{upload.data.intake.fileName}</strong> is <strong>{upload.data.intake.state}</strong> ({formatCount(upload.data.intake.rowCount)} rows).{' '}
+            Intake <strong>{upload.data.intake.fileName}</strong> is <strong>{upload.data.intake.state}</strong> ({formatCount(upload.data.intake.rowCount)}{' '}
+            rows).{' '}
             <Link className="text-accent underline" to={paths.intake(upload.data.intake.id)}>
               Open the intake
             </Link>

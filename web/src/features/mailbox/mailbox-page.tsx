@@ -12,8 +12,8 @@ export function MailboxPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Development mailbox</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        The local mail server keeps every message the worker sends, so delivery can be checked without a real mail system. It shows who was written to, when and about what; the
-        text of a threshold notice is for its recipient only. It does not exist in production.
+        The local mail server keeps every message the worker sends, so delivery can be checked without a real mail system. It shows who was written to, when and
+        about what; the text of a threshold notice is for its recipient only. It does not exist in production.
       </p>
       <ResultTable
         caption={`Messages (${messages.length}, newest first)`}

@@ -12,7 +12,9 @@ export function NoticePage({ id }: { id: string }) {
   return (
     <section>
       <p className="text-sm">
-        <Link to={paths.notices} className="text-accent underline">← Notices</Link>
+        <Link to={paths.notices} className="text-accent underline">
+          ← Notices
+        </Link>
       </p>
       <QueryState query={notice} label="notice">
         {(n) => (
@@ -28,7 +30,9 @@ export function NoticePage({ id }: { id: string }) {
             </dl>
             <pre className="mt-4 max-w-3xl whitespace-pre-wrap card p-4 font-sans">{n.text}</pre>
             <div className="no-print mt-4 flex flex-wrap gap-3">
-              <Link to={paths.flag(n.flagId)} className="btn btn-primary px-4 py-2">Open the flag</Link>
+              <Link to={paths.flag(n.flagId)} className="btn btn-primary px-4 py-2">
+                Open the flag
+              </Link>
               <button type="button" className="btn btn-quiet px-4 py-2" disabled={unread.isPending || unread.isSuccess} onClick={() => unread.mutate()}>
                 {unread.isSuccess ? 'Marked as new' : 'Mark as new'}
               </button>

@@ -29,11 +29,26 @@ export function NoticesPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Notices</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        The threshold notices addressed to you: a watch rule crossed, a flag worsened, and the follow-ups. The e-mail you receive only links here. A flag is a prompt for review by qualified people, not a diagnosis or proof of cause.
+        The threshold notices addressed to you: a watch rule crossed, a flag worsened, and the follow-ups. The e-mail you receive only links here. A flag is a
+        prompt for review by qualified people, not a diagnosis or proof of cause.
       </p>
       <div className="no-print mt-4 flex flex-wrap gap-4">
-        <SelectField label="Show" value={state ?? ''} onChange={(e) => setFilter('state', e.target.value)} options={[{ value: '', label: 'All notices' }, { value: 'new', label: 'New only' }, { value: 'read', label: 'Read only' }]} />
-        <SelectField label="Kind" value={kind ?? ''} onChange={(e) => setFilter('kind', e.target.value)} options={[{ value: '', label: 'Every kind' }, ...noticeKindSchema.options.map((k) => ({ value: k, label: noticeKindLabels[k] }))]} />
+        <SelectField
+          label="Show"
+          value={state ?? ''}
+          onChange={(e) => setFilter('state', e.target.value)}
+          options={[
+            { value: '', label: 'All notices' },
+            { value: 'new', label: 'New only' },
+            { value: 'read', label: 'Read only' },
+          ]}
+        />
+        <SelectField
+          label="Kind"
+          value={kind ?? ''}
+          onChange={(e) => setFilter('kind', e.target.value)}
+          options={[{ value: '', label: 'Every kind' }, ...noticeKindSchema.options.map((k) => ({ value: k, label: noticeKindLabels[k] }))]}
+        />
       </div>
       <QueryState query={notices} label="notices">
         {(list) =>
@@ -45,25 +60,43 @@ export function NoticesPage() {
                 <caption className="pb-2 text-left text-base font-semibold">Your notices, newest first ({list.length})</caption>
                 <thead>
                   <tr className="border-b-2 border-ink text-left">
-                    <th scope="col" className="px-2 py-1.5">Notice</th>
-                    <th scope="col" className="px-2 py-1.5">Kind</th>
-                    <th scope="col" className="px-2 py-1.5">Period</th>
-                    <th scope="col" className="px-2 py-1.5">Received</th>
-                    <th scope="col" className="px-2 py-1.5">State</th>
-                    <th scope="col" className="px-2 py-1.5">Flag</th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Notice
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Kind
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Period
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Received
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      State
+                    </th>
+                    <th scope="col" className="px-2 py-1.5">
+                      Flag
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {list.map((n) => (
                     <tr key={n.id} className={`border-b border-line align-top ${n.state === 'new' ? 'font-semibold' : ''}`}>
                       <th scope="row" className="px-2 py-1.5 text-left">
-                        <Link to={paths.notice(n.id)} className="text-accent underline">{n.subject}</Link>
+                        <Link to={paths.notice(n.id)} className="text-accent underline">
+                          {n.subject}
+                        </Link>
                       </th>
                       <td className="px-2 py-1.5">{n.kind ? noticeKindLabels[n.kind] : '—'}</td>
                       <td className="px-2 py-1.5">{periodWords(n.period, n.completeness)}</td>
                       <td className="px-2 py-1.5">{formatWhen(n.createdAt)}</td>
                       <td className="px-2 py-1.5">{n.state === 'new' ? 'New' : 'Read'}</td>
-                      <td className="px-2 py-1.5"><Link to={paths.flag(n.flagId)} className="text-accent underline">Open the flag<span className="sr-only">: {n.subject}</span></Link></td>
+                      <td className="px-2 py-1.5">
+                        <Link to={paths.flag(n.flagId)} className="text-accent underline">
+                          Open the flag<span className="sr-only">: {n.subject}</span>
+                        </Link>
+                      </td>
                     </tr>
                   ))}
                 </tbody>

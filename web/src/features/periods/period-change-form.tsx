@@ -11,7 +11,17 @@ import { useReopenPeriod } from './api/reopen-period';
  * roster or case list missing says nothing more will come for it, so it needs a reason (the
  * server refuses it otherwise); reopening always does. Escape or Cancel leaves it unchanged.
  */
-export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { period: SitePeriod; siteName: string; onDone: (message: string) => void; onCancel: () => void }) {
+export function PeriodChangeForm({
+  period,
+  siteName,
+  onDone,
+  onCancel,
+}: {
+  period: SitePeriod;
+  siteName: string;
+  onDone: (message: string) => void;
+  onCancel: () => void;
+}) {
   const closing = period.state !== 'closed';
   const forced = closing && !isCompleteState(period.state);
   const reasonNeeded = !closing || forced;
@@ -51,17 +61,25 @@ export function PeriodChangeForm({ period, siteName, onDone, onCancel }: { perio
         {closing ? 'Close' : 'Reopen'} {what}
       </h2>
       <p className="mt-1 text-sm">Now: {periodStateLabels[period.state]}.</p>
-      {closing && !forced && <p className="mt-2 text-sm">Roster and case list are both in. A closed month still takes corrections, and the calendar marks them.</p>}
+      {closing && !forced && (
+        <p className="mt-2 text-sm">Roster and case list are both in. A closed month still takes corrections, and the calendar marks them.</p>
+      )}
       {forced && (
         <p className="mt-2 note note-watch px-3 py-2 text-sm">
           <span aria-hidden="true">⚠ </span>
-          {period.state === 'hours_in' ? 'No case list reports this month yet.' : period.state === 'cases_in' ? 'The roster of this month is not in.' : 'Nothing has been received for this month.'} Closing it
-          says nothing more will come: the month then counts as complete in the results and the watch rules. Say why.
+          {period.state === 'hours_in'
+            ? 'No case list reports this month yet.'
+            : period.state === 'cases_in'
+              ? 'The roster of this month is not in.'
+              : 'Nothing has been received for this month.'}{' '}
+          Closing it says nothing more will come: the month then counts as complete in the results and the watch rules. Say why.
         </p>
       )}
       {!closing && <p className="mt-2 text-sm">The month goes back to what has been received; say why it is reopened.</p>}
       <div className="mt-3 flex flex-col gap-1">
-        <label htmlFor={`${ids}-reason`} className="text-sm font-medium">Reason{reasonNeeded ? '' : ' (optional)'}</label>
+        <label htmlFor={`${ids}-reason`} className="text-sm font-medium">
+          Reason{reasonNeeded ? '' : ' (optional)'}
+        </label>
         <textarea
           id={`${ids}-reason`}
           value={reason}

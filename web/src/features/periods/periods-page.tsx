@@ -25,7 +25,9 @@ function Legend() {
         </li>
       ))}
       <li>
-        <span aria-hidden="true" className="mr-1">{CORRECTED_SHAPE}</span>
+        <span aria-hidden="true" className="mr-1">
+          {CORRECTED_SHAPE}
+        </span>
         {CORRECTED_TEXT}
       </li>
     </ul>
@@ -44,7 +46,10 @@ function Cell({ period, siteName, mayClose, onChange }: { period: SitePeriod; si
         {mayClose && (
           <button type="button" onClick={onChange} className="no-print text-xs font-medium text-accent underline">
             {period.state === 'closed' ? 'Reopen…' : 'Close…'}
-            <span className="sr-only"> {siteName}, {formatMonth(period.month)}</span>
+            <span className="sr-only">
+              {' '}
+              {siteName}, {formatMonth(period.month)}
+            </span>
           </button>
         )}
       </span>
@@ -90,8 +95,9 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Reporting periods</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        Each month of each site, from nothing received to roster and case list both in. A month counts as complete when both are in, or when the hygienist has closed it;
-        results mark the periods that are not, and watch rules look at complete periods only.{mayClose ? ' Close a month once nothing more is expected for it; a closed month still takes corrections, and they are marked.' : ''}
+        Each month of each site, from nothing received to roster and case list both in. A month counts as complete when both are in, or when the hygienist has
+        closed it; results mark the periods that are not, and watch rules look at complete periods only.
+        {mayClose ? ' Close a month once nothing more is expected for it; a closed month still takes corrections, and they are marked.' : ''}
       </p>
       <Legend />
       <PendingRunNote pending={pending.data?.pending} />
@@ -138,16 +144,22 @@ export function PeriodsPage({ user }: { user: SessionUser }) {
                     </caption>
                     <thead>
                       <tr className="border-b-2 border-ink text-left">
-                        <th scope="col" className="px-2 py-1.5">Month</th>
+                        <th scope="col" className="px-2 py-1.5">
+                          Month
+                        </th>
                         {data.sites.map((s) => (
-                          <th key={s.id} scope="col" className="px-2 py-1.5">{s.name}</th>
+                          <th key={s.id} scope="col" className="px-2 py-1.5">
+                            {s.name}
+                          </th>
                         ))}
                       </tr>
                     </thead>
                     <tbody>
                       {[...data.months].reverse().map((m) => (
                         <tr key={m} className="border-b border-line">
-                          <th scope="row" className="whitespace-nowrap px-2 py-1.5 text-left font-medium">{formatMonth(m)}</th>
+                          <th scope="row" className="whitespace-nowrap px-2 py-1.5 text-left font-medium">
+                            {formatMonth(m)}
+                          </th>
                           {data.sites.map((s) => (
                             <Cell
                               key={s.id}

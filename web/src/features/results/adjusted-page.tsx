@@ -52,7 +52,15 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
       hidden: h,
       ownHidden: s.hidden,
       crude: { irr: s.irr, lo: s.irrLower, hi: s.irrUpper, ird: s.ird, irdLo: s.irdLower, irdHi: s.irdUpper },
-      mh: { irr: v(mh.irr.estimate), lo: v(mh.irr.lower), hi: v(mh.irr.upper), p: h ? null : mh.irr.p, ird: v(mh.ird.estimate), irdLo: v(mh.ird.lower), irdHi: v(mh.ird.upper) },
+      mh: {
+        irr: v(mh.irr.estimate),
+        lo: v(mh.irr.lower),
+        hi: v(mh.irr.upper),
+        p: h ? null : mh.irr.p,
+        ird: v(mh.ird.estimate),
+        irdLo: v(mh.ird.lower),
+        irdHi: v(mh.ird.upper),
+      },
       hom: h ? { chi2: null, df: null, p: null } : hom,
       used,
     };
@@ -68,21 +76,48 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
   return (
     <>
       <p className="mt-4 text-sm">
-        Crude figures compare each group with the reference group as a whole; adjusted figures pool the comparisons within each {st.label} (Mantel–Haenszel), {when}.
+        Crude figures compare each group with the reference group as a whole; adjusted figures pool the comparisons within each {st.label} (Mantel–Haenszel),{' '}
+        {when}.
       </p>
       <IntervalPlot
         title={`${outcome.name}: crude and ${st.label}-adjusted IRR with ${pct}% intervals`}
         items={items}
-        csv={{ name: `adjusted-irr-${outcome.code}-${filters.stratify}-${period}`, header: ['Comparison', 'IRR', 'Lower limit', 'Upper limit', 'Period'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper, completeness]) }}
+        csv={{
+          name: `adjusted-irr-${outcome.code}-${filters.stratify}-${period}`,
+          header: ['Comparison', 'IRR', 'Lower limit', 'Upper limit', 'Period'],
+          rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper, completeness]),
+        }}
       />
       <ResultTable
         caption={`Crude and Mantel–Haenszel adjusted comparisons, stratified by ${st.label} (${pct}% intervals, IRD ${unit})`}
-        columns={['Exposure group', 'Crude IRR', `Adjusted IRR (${st.label})`, 'p (MH, IRR = 1)', 'Crude IRD', `Adjusted IRD (${st.label})`, 'Homogeneity χ² (df)', 'Homogeneity p', 'Strata used', 'Period']}
+        columns={[
+          'Exposure group',
+          'Crude IRR',
+          `Adjusted IRR (${st.label})`,
+          'p (MH, IRR = 1)',
+          'Crude IRD',
+          `Adjusted IRD (${st.label})`,
+          'Homogeneity χ² (df)',
+          'Homogeneity p',
+          'Strata used',
+          'Period',
+        ]}
         exportName={`adjusted-${outcome.code}-${filters.stratify}-${period}`}
         rows={rows.map((r) => ({
           key: r.name,
           cells: r.hidden
-            ? [r.name, r.ownHidden ? 'not shown (small count)' : "not shown (the reference group's count is small)", '—', '—', '—', '—', '—', '—', '—', completeness]
+            ? [
+                r.name,
+                r.ownHidden ? 'not shown (small count)' : "not shown (the reference group's count is small)",
+                '—',
+                '—',
+                '—',
+                '—',
+                '—',
+                '—',
+                '—',
+                completeness,
+              ]
             : [
                 r.name,
                 ci(r.crude.irr, r.crude.lo, r.crude.hi),
@@ -99,7 +134,8 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
         }))}
       />
       <p className="mt-2 text-xs text-ink-soft">
-        Methods: {METHODS.mhIrr}; {METHODS.mhRateTest}; {METHODS.mhIrd}; homogeneity: {METHODS.rateHomogeneity}. A small homogeneity p says the ratio differs between strata, and one pooled figure hides that.
+        Methods: {METHODS.mhIrr}; {METHODS.mhRateTest}; {METHODS.mhIrd}; homogeneity: {METHODS.rateHomogeneity}. A small homogeneity p says the ratio differs
+        between strata, and one pooled figure hides that.
       </p>
       <StratumTable ctx={ctx} comparedIds={compared.map((r) => r.exposureGroupId)} label={st.label} />
 
@@ -108,7 +144,12 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
         <>
           <p className="mt-2" role="status">
             Score test for trend: χ² = <strong>{formatEstimate(trend.chi2)}</strong> (1 df), p = <strong>{formatP(trend.p)}</strong>.{' '}
-            {trendReading({ u: trend.u, p: trend.p, alpha: 1 - run.settings.confidence, levels: levels.map((l, i) => ({ label: `level ${l.level}`, rate: trend.levels[i]?.rate.estimate ?? null })) })}
+            {trendReading({
+              u: trend.u,
+              p: trend.p,
+              alpha: 1 - run.settings.confidence,
+              levels: levels.map((l, i) => ({ label: `level ${l.level}`, rate: trend.levels[i]?.rate.estimate ?? null })),
+            })}
           </p>
           <ResultTable
             caption={`Cases, person-time and rate by ordinal exposure level, ${when}`}
@@ -119,7 +160,14 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
               const rate = c.suppressed ? null : (trend.levels[i]?.rate.estimate ?? null);
               return {
                 key: String(l.level),
-                cells: [String(l.level), l.groups.join(', '), c.text, formatAmount(l.personTime), c.suppressed ? 'not shown' : formatEstimate(rate), completeness],
+                cells: [
+                  String(l.level),
+                  l.groups.join(', '),
+                  c.text,
+                  formatAmount(l.personTime),
+                  c.suppressed ? 'not shown' : formatEstimate(rate),
+                  completeness,
+                ],
                 csv: [l.level, l.groups.join('; '), exportCount(l.cases, user.role), l.personTime, rate, completeness],
               };
             })}

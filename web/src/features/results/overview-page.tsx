@@ -27,14 +27,56 @@ interface Row {
 function columns(unit: string, ptUnit: string) {
   const col = createColumnHelper<Row>();
   return [
-    col.accessor('group', { header: 'Exposure group', cell: (c) => <>{c.getValue()}{c.row.original.reference && <span className="ml-2"><StateTag text="reference" tone="good" /></span>}</> }),
-    col.accessor((r) => r.shown.cases.value ?? -1, { id: 'cases', header: 'Cases', cell: (c) => c.row.original.shown.cases.text, meta: { numeric: true, csv: (r) => (r.shown.cases.suppressed ? r.shown.cases.text : r.shown.cases.value) } }),
+    col.accessor('group', {
+      header: 'Exposure group',
+      cell: (c) => (
+        <>
+          {c.getValue()}
+          {c.row.original.reference && (
+            <span className="ml-2">
+              <StateTag text="reference" tone="good" />
+            </span>
+          )}
+        </>
+      ),
+    }),
+    col.accessor((r) => r.shown.cases.value ?? -1, {
+      id: 'cases',
+      header: 'Cases',
+      cell: (c) => c.row.original.shown.cases.text,
+      meta: { numeric: true, csv: (r) => (r.shown.cases.suppressed ? r.shown.cases.text : r.shown.cases.value) },
+    }),
     col.accessor((r) => r.shown.personTime, { id: 'pt', header: `Person-time (${ptUnit})`, cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
-    col.accessor((r) => r.shown.rate ?? -1, { id: 'rate', header: `Rate ${unit}`, cell: (c) => (c.row.original.shown.hidden ? 'not shown' : formatEstimate(c.row.original.shown.rate)), meta: { numeric: true, csv: (r) => r.shown.rate } }),
-    col.accessor((r) => r.shown.rateLower ?? -1, { id: 'lower', header: 'Lower limit', cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateLower)), meta: { numeric: true, csv: (r) => r.shown.rateLower } }),
-    col.accessor((r) => r.shown.rateUpper ?? -1, { id: 'upper', header: 'Upper limit', cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateUpper)), meta: { numeric: true, csv: (r) => r.shown.rateUpper } }),
+    col.accessor((r) => r.shown.rate ?? -1, {
+      id: 'rate',
+      header: `Rate ${unit}`,
+      cell: (c) => (c.row.original.shown.hidden ? 'not shown' : formatEstimate(c.row.original.shown.rate)),
+      meta: { numeric: true, csv: (r) => r.shown.rate },
+    }),
+    col.accessor((r) => r.shown.rateLower ?? -1, {
+      id: 'lower',
+      header: 'Lower limit',
+      cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateLower)),
+      meta: { numeric: true, csv: (r) => r.shown.rateLower },
+    }),
+    col.accessor((r) => r.shown.rateUpper ?? -1, {
+      id: 'upper',
+      header: 'Upper limit',
+      cell: (c) => (c.row.original.shown.hidden ? '—' : formatEstimate(c.row.original.shown.rateUpper)),
+      meta: { numeric: true, csv: (r) => r.shown.rateUpper },
+    }),
     col.accessor('months', { header: 'Months with data', meta: { numeric: true } }),
-    col.accessor('completeness', { header: 'Period', cell: (c) => (c.getValue() === 'partial' ? <><span aria-hidden="true">{PARTIAL_SHAPE} </span>partial</> : 'complete') }),
+    col.accessor('completeness', {
+      header: 'Period',
+      cell: (c) =>
+        c.getValue() === 'partial' ? (
+          <>
+            <span aria-hidden="true">{PARTIAL_SHAPE} </span>partial
+          </>
+        ) : (
+          'complete'
+        ),
+    }),
   ];
 }
 
@@ -43,7 +85,13 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
   const flags = useQuery(flagsQueryOptions({ outcomeId: outcome.id }));
   const rows: Row[] = results
     .filter((r) => r.window === 'rolling12' && r.period === period)
-    .map((r) => ({ group: groupName(r.exposureGroupId), reference: r.isReference, shown: shownResult(r, user.role), months: r.monthsCovered, completeness: r.completeness }));
+    .map((r) => ({
+      group: groupName(r.exposureGroupId),
+      reference: r.isReference,
+      shown: shownResult(r, user.role),
+      months: r.monthsCovered,
+      completeness: r.completeness,
+    }));
   const raised = flags.data?.filter((f) => f.state === 'raised').length;
   const inReview = flags.data?.filter((f) => f.state === 'in_review').length;
   const unit = rateUnit(run.settings);
@@ -52,14 +100,22 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
       <dl className="mt-6 grid gap-4 sm:grid-cols-3">
         <SummaryCard
           title={`Flags raised (${outcome.name})`}
-          summary={{ count: raised, failed: flags.isError, none: 'No flags waiting for review', some: (n) => `${n} ${n === 1 ? 'flag' : 'flags'} waiting for review`, tone: 'alarm' }}
+          summary={{
+            count: raised,
+            failed: flags.isError,
+            none: 'No flags waiting for review',
+            some: (n) => `${n} ${n === 1 ? 'flag' : 'flags'} waiting for review`,
+            tone: 'alarm',
+          }}
         />
         <SummaryCard
           title="Flags in review"
           summary={{ count: inReview, failed: flags.isError, none: 'None in review', some: (n) => `${n} in review`, tone: 'attention' }}
         >
           <dd className="mt-1 text-sm">
-            <Link className="text-accent underline" to={`${paths.flags}?outcome=${outcome.id}`}>Open the flags</Link>
+            <Link className="text-accent underline" to={`${paths.flags}?outcome=${outcome.id}`}>
+              Open the flags
+            </Link>
           </dd>
         </SummaryCard>
         <div className="card px-4 py-3">
@@ -68,7 +124,13 @@ function OverviewBody({ ctx }: { ctx: ResultsContext }) {
           <dd className="mt-1 text-sm">
             Run {run.number} over {formatCount(run.inputs.rosterIntakeIds.length)} roster and {formatCount(run.inputs.caseIntakeIds.length)} case-list intakes
             {roleMay(user.role, 'intake:read') && (
-              <> · <Link className="text-accent underline" to={paths.intakes}>intakes</Link></>
+              <>
+                {' '}
+                ·{' '}
+                <Link className="text-accent underline" to={paths.intakes}>
+                  intakes
+                </Link>
+              </>
             )}
           </dd>
         </div>

@@ -16,9 +16,12 @@ export function PartialPeriodNote({ period, window, latestComplete }: { period: 
   const what = window === 'month' ? formatMonth(period) : `The twelve months ending ${formatMonth(period)}`;
   return (
     <p role="note" className="mt-4 max-w-3xl note note-watch note-dashed px-4 py-2 text-sm">
-      <span aria-hidden="true" className="mr-1 font-bold">{PARTIAL_SHAPE}</span>
-      <strong>Partial period.</strong> {what} {window === 'month' ? 'was' : 'were'} not complete when this run read the data: a roster or a case list of some site was not in yet, so these
-      figures may still change. {latestComplete ? `The latest complete period is ${formatMonth(latestComplete)}.` : 'No period was complete yet.'}
+      <span aria-hidden="true" className="mr-1 font-bold">
+        {PARTIAL_SHAPE}
+      </span>
+      <strong>Partial period.</strong> {what} {window === 'month' ? 'was' : 'were'} not complete when this run read the data: a roster or a case list of some
+      site was not in yet, so these figures may still change.{' '}
+      {latestComplete ? `The latest complete period is ${formatMonth(latestComplete)}.` : 'No period was complete yet.'}
     </p>
   );
 }

@@ -18,9 +18,12 @@ export interface ResultsFilters {
 
 const STRATIFICATIONS = ['age', 'site', 'sex'] as const;
 /** An address may carry anything: only a known stratification is taken. */
-const asStratify = (v: string | null): ResultsFilters['stratify'] | null => (STRATIFICATIONS as readonly string[]).includes(v ?? '') ? (v as ResultsFilters['stratify']) : null;
+const asStratify = (v: string | null): ResultsFilters['stratify'] | null =>
+  (STRATIFICATIONS as readonly string[]).includes(v ?? '') ? (v as ResultsFilters['stratify']) : null;
 
-export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [ResultsFilters, (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) => void] {
+export function useResultsFilters(
+  defaults: Partial<ResultsFilters> = {},
+): [ResultsFilters, (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) => void] {
   const [params, setParams] = useSearchParams();
   const num = (k: string) => (params.get(k) ? Number(params.get(k)) : null);
   const filters: ResultsFilters = {
@@ -32,7 +35,15 @@ export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [Resu
     span: num('span') ?? defaults.span ?? 36,
     siteId: num('site') ?? defaults.siteId ?? null,
   };
-  const names: Record<keyof ResultsFilters, string> = { outcomeId: 'outcome', window: 'window', period: 'period', stratify: 'stratify', groupId: 'group', span: 'span', siteId: 'site' };
+  const names: Record<keyof ResultsFilters, string> = {
+    outcomeId: 'outcome',
+    window: 'window',
+    period: 'period',
+    stratify: 'stratify',
+    groupId: 'group',
+    span: 'span',
+    siteId: 'site',
+  };
   const set = (patch: Partial<Record<keyof ResultsFilters, string | number | null>>) =>
     setParams(
       (prev) => {
@@ -48,4 +59,3 @@ export function useResultsFilters(defaults: Partial<ResultsFilters> = {}): [Resu
     );
   return [filters, set];
 }
-

@@ -48,7 +48,15 @@ export interface ResultsContext {
  * The frame of every results page: the outcome, window and period choices, the settings of the
  * live run beside the figures, loading and error states for the results, and the cautions.
  */
-export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = true, extraControls, children }: {
+export function ResultsFrame({
+  title,
+  intro,
+  user,
+  fixedWindow,
+  periodChoice = true,
+  extraControls,
+  children,
+}: {
   title: string;
   intro: string;
   user: SessionUser;
@@ -81,13 +89,12 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
   const period = filters.period && periods.some((p) => p.period === filters.period) ? filters.period : defaultPeriod(periods);
   const results = useRunResults(
     run?.id ?? '',
-    periodChoice ? { outcomeId: outcome?.id, window: filters.window, ...(period ? { from: period, to: period } : {}), ...scope } : { outcomeId: outcome?.id, ...scope },
+    periodChoice
+      ? { outcomeId: outcome?.id, window: filters.window, ...(period ? { from: period, to: period } : {}), ...scope }
+      : { outcomeId: outcome?.id, ...scope },
     !periodChoice || (index.isSuccess && period !== null),
   );
-  const siteOptions = [
-    ...(seesAllSites ? [{ value: '', label: 'All sites together' }] : []),
-    ...ownSites.map((s) => ({ value: String(s.id), label: s.name })),
-  ];
+  const siteOptions = [...(seesAllSites ? [{ value: '', label: 'All sites together' }] : []), ...ownSites.map((s) => ({ value: String(s.id), label: s.name }))];
   const chosenSite = sites.find((s) => s.id === siteId);
 
   if (!run || !outcome) {
@@ -98,7 +105,13 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
           <p className="font-semibold">{!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no figures to show.'}</p>
           <p className="mt-1">
             {roleMay(user.role, 'runs:trigger') ? (
-              <>Apply a roster and a case list, then start a run from the <Link className="text-accent underline" to={paths.runs}>run history</Link>.</>
+              <>
+                Apply a roster and a case list, then start a run from the{' '}
+                <Link className="text-accent underline" to={paths.runs}>
+                  run history
+                </Link>
+                .
+              </>
             ) : (
               'Figures appear here after the hygienist has applied the first roster and case list and a run has finished.'
             )}
@@ -128,7 +141,12 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
           options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))}
         />
         {siteOptions.length > 1 && (
-          <SelectField label="Sites" value={siteId === null ? '' : String(siteId)} onChange={(e) => setFilters({ siteId: e.target.value, period: null })} options={siteOptions} />
+          <SelectField
+            label="Sites"
+            value={siteId === null ? '' : String(siteId)}
+            onChange={(e) => setFilters({ siteId: e.target.value, period: null })}
+            options={siteOptions}
+          />
         )}
         {!fixedWindow && (
           <SelectField label="Window" value={filters.window} onChange={(e) => setFilters({ window: e.target.value, period: null })} options={windowOptions} />
@@ -146,8 +164,10 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
       <div className="mt-3">
         <UnitsStrip settings={unitsOf(run.settings, run.settingsVersion)} />
         <p className="mt-1 text-xs text-ink-soft">
-          Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} · {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
-          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} · {chosenSite ? `site: ${chosenSite.name} (its own figures)` : sitesTogether(sites.map((s) => s.name))}
+          Run {run.number}, finished {formatWhen(run.finishedAt)} · cases counted: {run.settings.countedStatuses.join(', ')} ·{' '}
+          {outcome.countingRule === 'first_event' ? 'first event only' : 'recurrent events'}
+          {outcome.lagMonths ? ` · exposure lag ${outcome.lagMonths} months` : ''} ·{' '}
+          {chosenSite ? `site: ${chosenSite.name} (its own figures)` : sitesTogether(sites.map((s) => s.name))}
         </p>
         <UnattributedNote run={run} outcomes={outcomes} role={user.role} outcomeId={outcome.id} />
       </div>
@@ -156,13 +176,17 @@ export function ResultsFrame({ title, intro, user, fixedWindow, periodChoice = t
           {() => null}
         </QueryState>
       ) : periodChoice && index.isSuccess && period === null ? (
-        <p role="status" className="mt-6 text-ink-soft">The current run has no figures of this outcome for this window{chosenSite ? ` at ${chosenSite.name}` : ''}.</p>
+        <p role="status" className="mt-6 text-ink-soft">
+          The current run has no figures of this outcome for this window{chosenSite ? ` at ${chosenSite.name}` : ''}.
+        </p>
       ) : (
         <QueryState query={results} label="results">
           {(data) => {
             return (
               <>
-                {periodChoice && isPartialPeriod(periods, period) && <PartialPeriodNote period={period!} window={filters.window} latestComplete={latestCompletePeriod(periods)} />}
+                {periodChoice && isPartialPeriod(periods, period) && (
+                  <PartialPeriodNote period={period!} window={filters.window} latestComplete={latestCompletePeriod(periods)} />
+                )}
                 {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
                 <SuppressionNote results={data} />
               </>
@@ -189,8 +213,10 @@ function SuppressionNote({ results }: { results: RunResult[] }) {
   if (!small && !complement && !months) return null;
   return (
     <p className="mt-3 text-xs text-ink-soft">
-      {small && `Counts from 1 to ${smallCellThreshold() - 1} are shown as “<${smallCellThreshold()}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
-      {complement && `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction. `}
+      {small &&
+        `Counts from 1 to ${smallCellThreshold() - 1} are shown as “<${smallCellThreshold()}”, with the figures computed from them, so that nobody can be picked out; only the occupational physician sees them. `}
+      {complement &&
+        `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction. `}
       {months &&
         `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown by calendar year, in the rolling twelve-month windows that end in December; the year in progress is the physician's.`}
     </p>

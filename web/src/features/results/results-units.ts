@@ -17,7 +17,10 @@ export function personTimeUnit(s: Pick<RunSettings, 'personTimeBasis'>): string 
 export function unitsOf(s: RunSettings, settingsVersion: number | null): UnitsSettings {
   return {
     settingsVersion,
-    basis: s.personTimeBasis === 'person_years' ? 'person-years (2,000 h worked = 1 person-year)' : 'hours worked, in units of 200,000 h (100 full-time workers for a year)',
+    basis:
+      s.personTimeBasis === 'person_years'
+        ? 'person-years (2,000 h worked = 1 person-year)'
+        : 'hours worked, in units of 200,000 h (100 full-time workers for a year)',
     multiplier: rateUnit(s),
     confidence: s.confidence,
     intervalMethod: `rates ${METHODS.rateExact}; IRR ${METHODS.irrExact.split(' (')[0]}; IRD ${METHODS.irdWald}`,

@@ -26,7 +26,14 @@ export function StratumTable({ ctx, comparedIds, label }: { ctx: ResultsContext;
   const query =
     groupId === null || period === null || oneSiteBySite
       ? null
-      : { outcomeId: outcome.id, exposureGroupId: groupId, window: filters.window, period, by: filters.stratify, ...(filters.siteId === null ? {} : { siteId: filters.siteId }) };
+      : {
+          outcomeId: outcome.id,
+          exposureGroupId: groupId,
+          window: filters.window,
+          period,
+          by: filters.stratify,
+          ...(filters.siteId === null ? {} : { siteId: filters.siteId }),
+        };
   const strata = useRunStrata(run.id, query);
   const pct = Math.round(run.settings.confidence * 100);
   const unit = rateUnit(run.settings);
@@ -41,8 +48,17 @@ export function StratumTable({ ctx, comparedIds, label }: { ctx: ResultsContext;
         <p className="mt-2">One site is a single site stratum; choose all sites together, or stratify by age band or sex.</p>
       ) : (
         <>
-          <form className="no-print mt-2 flex flex-wrap items-end gap-4" onSubmit={(e) => e.preventDefault()} aria-label="Choose the group of the stratum table">
-            <SelectField label="Group" value={String(groupId)} onChange={(e) => setFilters({ groupId: e.target.value })} options={comparedIds.map((id) => ({ value: String(id), label: groupName(id) }))} />
+          <form
+            className="no-print mt-2 flex flex-wrap items-end gap-4"
+            onSubmit={(e) => e.preventDefault()}
+            aria-label="Choose the group of the stratum table"
+          >
+            <SelectField
+              label="Group"
+              value={String(groupId)}
+              onChange={(e) => setFilters({ groupId: e.target.value })}
+              options={comparedIds.map((id) => ({ value: String(id), label: groupName(id) }))}
+            />
           </form>
           <QueryState query={strata} label="strata">
             {(data) => {
@@ -52,7 +68,17 @@ export function StratumTable({ ctx, comparedIds, label }: { ctx: ResultsContext;
                 <>
                   <ResultTable
                     caption={`${me} against ${ref}, by ${label} (${pct}% intervals; rates and IRD ${unit})`}
-                    columns={[label[0]!.toUpperCase() + label.slice(1), `${me}: cases`, `${me}: person-time (${pt})`, `${me}: rate`, `${ref}: cases`, `${ref}: person-time (${pt})`, `${ref}: rate`, 'IRR (interval)', 'IRD (interval)']}
+                    columns={[
+                      label[0]!.toUpperCase() + label.slice(1),
+                      `${me}: cases`,
+                      `${me}: person-time (${pt})`,
+                      `${me}: rate`,
+                      `${ref}: cases`,
+                      `${ref}: person-time (${pt})`,
+                      `${ref}: rate`,
+                      'IRR (interval)',
+                      'IRD (interval)',
+                    ]}
                     exportName={`strata-${outcome.code}-${filters.stratify}-${period}`}
                     rows={data.strata.map((s) => {
                       const a = showCount(s.exposed.cases, user.role, undefined, s.exposed.withheld);
@@ -60,7 +86,17 @@ export function StratumTable({ ctx, comparedIds, label }: { ctx: ResultsContext;
                       const hidden = a.suppressed || (b?.suppressed ?? false);
                       return {
                         key: s.key ?? 'unknown',
-                        cells: [s.label, a.text, formatAmount(s.exposed.personTime), rateText(s.exposed), b?.text ?? '—', s.reference ? formatAmount(s.reference.personTime) : '—', rateText(s.reference), ci(s.irr, hidden), ci(s.ird, hidden)],
+                        cells: [
+                          s.label,
+                          a.text,
+                          formatAmount(s.exposed.personTime),
+                          rateText(s.exposed),
+                          b?.text ?? '—',
+                          s.reference ? formatAmount(s.reference.personTime) : '—',
+                          rateText(s.reference),
+                          ci(s.irr, hidden),
+                          ci(s.ird, hidden),
+                        ],
                         csv: [
                           s.label,
                           exportCount(s.exposed.cases, user.role, undefined, s.exposed.withheld),
@@ -76,7 +112,8 @@ export function StratumTable({ ctx, comparedIds, label }: { ctx: ResultsContext;
                     })}
                   />
                   <p className="mt-2 text-xs text-ink-soft">
-                    Each stratum's IRR: {data.methods.irr}; IRD: {data.methods.ird}. A stratum with few cases gives a wide interval; the adjusted figure above pools them.
+                    Each stratum's IRR: {data.methods.irr}; IRD: {data.methods.ird}. A stratum with few cases gives a wide interval; the adjusted figure above
+                    pools them.
                   </p>
                 </>
               );

@@ -32,8 +32,7 @@ export function SummaryCard({ title, summary, children }: { title: string; summa
         <StatusShape shape={toneShape[w.tone]} tone={w.tone} className="h-3.5 w-3.5" />
         {w.big ? (
           <span>
-            <span className="text-2xl font-bold tabular-nums">{summary.count}</span>{' '}
-            <span className="font-semibold">{w.text.replace(/^\d+\s*/, '')}</span>
+            <span className="text-2xl font-bold tabular-nums">{summary.count}</span> <span className="font-semibold">{w.text.replace(/^\d+\s*/, '')}</span>
           </span>
         ) : (
           <span className="text-lg font-semibold">{w.text}</span>

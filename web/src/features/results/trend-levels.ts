@@ -34,5 +34,8 @@ export function levelRows(results: RunResult[], groups: ExposureGroupDto[]): Lev
 /** Null with fewer than two levels, or when a level's count was withheld (a partial sum would give a wrong test). */
 export function trendOf(levels: LevelRow[], options: { confidence: number; per: number }): RateTrendResult | null {
   if (levels.length < 2 || levels.some((l) => l.withheld)) return null;
-  return rateTrend(levels.map((l) => ({ score: l.level, cases: l.cases, personTime: l.personTime })), options);
+  return rateTrend(
+    levels.map((l) => ({ score: l.level, cases: l.cases, personTime: l.personTime })),
+    options,
+  );
 }

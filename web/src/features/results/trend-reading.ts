@@ -38,13 +38,16 @@ function steps(levels: TrendReadingInput['levels'], rising: boolean): { against:
  */
 export function trendReading({ u, p, alpha, levels }: TrendReadingInput): string {
   if (u === null || p === null) return `The score test for ${TESTED} is not defined here (no cases, or fewer than two levels with person-time).`;
-  if (p >= alpha) return `The score test finds no clear linear trend in the rates across the level scores (at the ${formatLevel(alpha)} level); the level rates are in the table.`;
+  if (p >= alpha)
+    return `The score test finds no clear linear trend in the rates across the level scores (at the ${formatLevel(alpha)} level); the level rates are in the table.`;
   if (u === 0) return `The score test finds ${TESTED}, without a direction.`;
   const rising = u > 0;
   const { against, flat } = steps(levels, rising);
   const found = `The score test finds ${TESTED}, ${rising ? 'upward' : 'downward'}`;
   if (against.length === 0) {
-    return flat ? `${found}, and the rates never ${rising ? 'fall' : 'rise'} from one level to the next.` : `${found}, and the rates ${rising ? 'rise' : 'fall'} at every level.`;
+    return flat
+      ? `${found}, and the rates never ${rising ? 'fall' : 'rise'} from one level to the next.`
+      : `${found}, and the rates ${rising ? 'rise' : 'fall'} at every level.`;
   }
   return `${found}, but the rates do not ${rising ? 'rise' : 'fall'} at every level: they ${rising ? 'fall' : 'rise'} ${joinWords(against)}.`;
 }

@@ -18,13 +18,33 @@ function seriesOf(results: RunResult[], periods: string[], name: string, ctx: Re
       .filter((r) => inRange.has(r.period))
       .map((r) => {
         const s = shownResult(r, ctx.user.role);
-        return { period: month(r.period), rate: s.rate, lower: s.rateLower, upper: s.rateUpper, cases: s.cases.text, personTime: r.personTime, partial: r.completeness === 'partial', withheld: s.hidden };
+        return {
+          period: month(r.period),
+          rate: s.rate,
+          lower: s.rateLower,
+          upper: s.rateUpper,
+          cases: s.cases.text,
+          personTime: r.personTime,
+          partial: r.completeness === 'partial',
+          withheld: s.hidden,
+        };
       }),
   };
 }
 
 function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits: boolean) {
-  const header = ['Exposure group', 'Period', 'Window', 'Cases', `Person-time (${personTimeUnit(ctx.run.settings)})`, `Rate ${rateUnit(ctx.run.settings)}`, 'Lower limit', 'Upper limit', ...(withLimits ? ['u-chart centre', 'Upper control limit', 'Lower control limit', 'Signal'] : []), 'Completeness'];
+  const header = [
+    'Exposure group',
+    'Period',
+    'Window',
+    'Cases',
+    `Person-time (${personTimeUnit(ctx.run.settings)})`,
+    `Rate ${rateUnit(ctx.run.settings)}`,
+    'Lower limit',
+    'Upper limit',
+    ...(withLimits ? ['u-chart centre', 'Upper control limit', 'Lower control limit', 'Signal'] : []),
+    'Completeness',
+  ];
   return {
     name,
     header,
@@ -32,7 +52,18 @@ function csvOf(name: string, ctx: ResultsContext, rows: RunResult[], withLimits:
       const s = shownResult(r, ctx.user.role);
       const per = ctx.run.settings.per;
       const x = (v: number | null) => (v === null ? null : v * per);
-      return [ctx.groupName(r.exposureGroupId), month(r.period), r.window, exportCount(r.cases, ctx.user.role, undefined, r.withheld ?? r.suppressed), r.personTime, s.rate, s.rateLower, s.rateUpper, ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : []), r.completeness];
+      return [
+        ctx.groupName(r.exposureGroupId),
+        month(r.period),
+        r.window,
+        exportCount(r.cases, ctx.user.role, undefined, r.withheld ?? r.suppressed),
+        r.personTime,
+        s.rate,
+        s.rateLower,
+        s.rateUpper,
+        ...(withLimits ? [x(r.uChart.centre), s.hidden ? null : x(r.uChart.ucl), s.hidden ? null : x(r.uChart.lcl), s.hidden ? null : r.uChart.signal] : []),
+        r.completeness,
+      ];
     }),
   };
 }
@@ -45,13 +76,21 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
   const inRange = new Set(periods);
   const groupIds = [...new Set(results.map((r) => r.exposureGroupId))];
   const windowRows = results.filter((r) => r.window === filters.window && inRange.has(r.period));
-  const series = groupIds.map((g) => seriesOf(windowRows.filter((r) => r.exposureGroupId === g), periods, ctx.groupName(g), ctx));
+  const series = groupIds.map((g) =>
+    seriesOf(
+      windowRows.filter((r) => r.exposureGroupId === g),
+      periods,
+      ctx.groupName(g),
+      ctx,
+    ),
+  );
   const windowLabel = filters.window === 'month' ? 'per month' : 'over rolling 12 months';
 
   const monthsAll = [...new Set(results.filter((r) => r.window === 'month').map((r) => r.period))].sort();
   const months = filters.span > 0 ? monthsAll.slice(-filters.span) : monthsAll;
   // Without a choice, the control chart opens on the compared group with the most cases in the months shown.
-  const casesOf = (g: number) => results.filter((r) => r.window === 'month' && r.exposureGroupId === g && months.includes(r.period)).reduce((n, r) => n + (r.cases ?? 0), 0);
+  const casesOf = (g: number) =>
+    results.filter((r) => r.window === 'month' && r.exposureGroupId === g && months.includes(r.period)).reduce((n, r) => n + (r.cases ?? 0), 0);
   const compared = groupIds.filter((g) => !groups.find((x) => x.id === g)?.isReference);
   const busiest = [...compared].sort((a, b) => casesOf(b) - casesOf(a))[0];
   const chartGroup = groupIds.includes(filters.groupId ?? -1) ? filters.groupId! : (busiest ?? groupIds[0]);
@@ -107,7 +146,8 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
       <p className="mt-2 text-sm" role="status">
         {partialMonths.length > 0 && (
           <>
-            <span aria-hidden="true">{PARTIAL_SHAPE} </span>Hollow markers are partial periods (a roster or case list of some site was not in when the run read the data): {partialMonths.join(', ')}.{' '}
+            <span aria-hidden="true">{PARTIAL_SHAPE} </span>Hollow markers are partial periods (a roster or case list of some site was not in when the run read
+            the data): {partialMonths.join(', ')}.{' '}
           </>
         )}
         {above.length ? `Months above the upper limit: ${above.join(', ')}.` : 'No month is above the upper limit in the period shown.'}

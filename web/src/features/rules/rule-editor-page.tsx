@@ -33,7 +33,13 @@ interface Draft extends RuleScope {
   active: boolean;
 }
 
-const measureOptions = { irr: 'Rate ratio (IRR) against the reference', ird: 'Rate difference (IRD) against the reference', rate: "The group's own rate", uchart: 'u-chart: a month above the upper limit', sir: 'SIR against the reference rates (exact lower limit or estimate)' } as const;
+const measureOptions = {
+  irr: 'Rate ratio (IRR) against the reference',
+  ird: 'Rate difference (IRD) against the reference',
+  rate: "The group's own rate",
+  uchart: 'u-chart: a month above the upper limit',
+  sir: 'SIR against the reference rates (exact lower limit or estimate)',
+} as const;
 
 /** A new rule watches the company for a reader of every site, else every site of the person's. */
 function draftOf(r: WatchRule | null, outcomeId: number | undefined, everySite: boolean, mySiteIds: number[]): Draft {
@@ -111,56 +117,132 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
 
   return (
     <section className="max-w-4xl">
-      <p className="text-sm"><Link className="text-accent underline" to={paths.rules}>← All watch rules</Link></p>
+      <p className="text-sm">
+        <Link className="text-accent underline" to={paths.rules}>
+          ← All watch rules
+        </Link>
+      </p>
       <h1 className="mt-2 text-2xl font-bold tracking-tight">{rule ? rule.name : 'New watch rule'}</h1>
       {parsed.success && (
         <p className="mt-2 note note-ok px-3 py-2" aria-live="polite">
           Raises a flag for {d.exposureGroupId ? groups.find((g) => String(g.id) === d.exposureGroupId)?.name : 'any group but the reference'}
-          {d.scope === 'company' ? ' in the whole company' : ` at ${d.siteIds.length === 1 ? 'a site' : 'any chosen site'}, on that site's own results,`} when {describeRule(parsed.data)}.
+          {d.scope === 'company'
+            ? ' in the whole company'
+            : ` at ${d.siteIds.length === 1 ? 'a site' : 'any chosen site'}, on that site's own results,`} when {describeRule(parsed.data)}.
         </p>
       )}
-      {save.isError && <div className="mt-3"><ProblemNotice title="The rule was not saved" problem={problemOf(save.error).problem} /></div>}
+      {save.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The rule was not saved" problem={problemOf(save.error).problem} />
+        </div>
+      )}
       <form onSubmit={submit} className="mt-5 grid gap-4 card p-4 sm:grid-cols-2" aria-label="Watch rule">
         <fieldset disabled={!canWrite} className="contents">
           <TextField label="Name" value={d.name} onChange={(e) => set('name', e.target.value)} error={errors.name} />
-          <SelectField label="Outcome" value={d.outcomeId} onChange={(e) => set('outcomeId', e.target.value)} options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))} />
+          <SelectField
+            label="Outcome"
+            value={d.outcomeId}
+            onChange={(e) => set('outcomeId', e.target.value)}
+            options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))}
+          />
           <SelectField
             label="Exposure group"
             value={d.exposureGroupId}
             onChange={(e) => set('exposureGroupId', e.target.value)}
-            options={[{ value: '', label: 'Every group but the reference' }, ...groups.filter((g) => !g.isReference).map((g) => ({ value: String(g.id), label: g.name }))]}
+            options={[
+              { value: '', label: 'Every group but the reference' },
+              ...groups.filter((g) => !g.isReference).map((g) => ({ value: String(g.id), label: g.name })),
+            ]}
           />
           <RuleScopeField value={d} onChange={(v) => setD((x) => ({ ...x, ...v }))} sites={sites} mySiteIds={user.siteIds} error={errors.siteIds} />
-          <SelectField label="Measure" value={d.measure} onChange={(e) => set('measure', e.target.value as Draft['measure'])} options={ruleMeasureSchema.options.map((m) => ({ value: m, label: measureOptions[m] }))} />
+          <SelectField
+            label="Measure"
+            value={d.measure}
+            onChange={(e) => set('measure', e.target.value as Draft['measure'])}
+            options={ruleMeasureSchema.options.map((m) => ({ value: m, label: measureOptions[m] }))}
+          />
           {d.measure !== 'uchart' && (
             <>
-              <SelectField label="Compare" value={d.thresholdOn} onChange={(e) => set('thresholdOn', e.target.value as Draft['thresholdOn'])} options={thresholdOnSchema.options.map((t) => ({ value: t, label: t === 'lower_bound' ? 'The lower bound of the interval' : 'The estimate' }))} />
-              <TextField label="Threshold" hint={d.measure === 'irr' || d.measure === 'sir' ? 'a ratio, e.g. 1 or 1.5' : "in the run's rate units"} inputMode="decimal" value={d.threshold} onChange={(e) => set('threshold', e.target.value)} error={errors.threshold} />
-              <SelectField label="Window" value={d.window} onChange={(e) => set('window', e.target.value as Draft['window'])} options={[{ value: 'rolling12', label: 'Rolling 12 months' }, { value: 'month', label: 'Single month' }]} />
+              <SelectField
+                label="Compare"
+                value={d.thresholdOn}
+                onChange={(e) => set('thresholdOn', e.target.value as Draft['thresholdOn'])}
+                options={thresholdOnSchema.options.map((t) => ({ value: t, label: t === 'lower_bound' ? 'The lower bound of the interval' : 'The estimate' }))}
+              />
+              <TextField
+                label="Threshold"
+                hint={d.measure === 'irr' || d.measure === 'sir' ? 'a ratio, e.g. 1 or 1.5' : "in the run's rate units"}
+                inputMode="decimal"
+                value={d.threshold}
+                onChange={(e) => set('threshold', e.target.value)}
+                error={errors.threshold}
+              />
+              <SelectField
+                label="Window"
+                value={d.window}
+                onChange={(e) => set('window', e.target.value as Draft['window'])}
+                options={[
+                  { value: 'rolling12', label: 'Rolling 12 months' },
+                  { value: 'month', label: 'Single month' },
+                ]}
+              />
             </>
           )}
           <TextField label="Minimum cases" inputMode="numeric" value={d.minCases} onChange={(e) => set('minCases', e.target.value)} error={errors.minCases} />
-          <TextField label="Minimum expected cases" inputMode="decimal" value={d.minExpected} onChange={(e) => set('minExpected', e.target.value)} error={errors.minExpected} />
-          <TextField label="Consecutive periods" inputMode="numeric" value={d.consecutivePeriods} onChange={(e) => set('consecutivePeriods', e.target.value)} error={errors.consecutivePeriods} />
+          <TextField
+            label="Minimum expected cases"
+            inputMode="decimal"
+            value={d.minExpected}
+            onChange={(e) => set('minExpected', e.target.value)}
+            error={errors.minExpected}
+          />
+          <TextField
+            label="Consecutive periods"
+            inputMode="numeric"
+            value={d.consecutivePeriods}
+            onChange={(e) => set('consecutivePeriods', e.target.value)}
+            error={errors.consecutivePeriods}
+          />
           {d.measure !== 'uchart' && (
             <>
               <label className="flex items-center gap-2 self-end">
                 <input type="checkbox" checked={d.fdrControl} onChange={(e) => set('fdrControl', e.target.checked)} />
                 <span className="text-sm font-medium">Control the false discovery rate across groups (Benjamini–Hochberg)</span>
               </label>
-              <TextField label="False discovery rate" inputMode="decimal" value={d.fdrLevel} onChange={(e) => set('fdrLevel', e.target.value)} error={errors.fdrLevel} disabled={!d.fdrControl} />
+              <TextField
+                label="False discovery rate"
+                inputMode="decimal"
+                value={d.fdrLevel}
+                onChange={(e) => set('fdrLevel', e.target.value)}
+                error={errors.fdrLevel}
+                disabled={!d.fdrControl}
+              />
               <p className="text-sm text-ink-soft sm:col-span-2">{fdrFamilySentence(d.scope === 'company' ? null : d.siteIds)}</p>
             </>
           )}
           <div className="sm:col-span-2">
-            <TextField label="Recipients of threshold notices" hint="e-mail addresses, separated by commas; the physician is always told" value={d.recipients} onChange={(e) => set('recipients', e.target.value)} error={errors.recipients} />
+            <TextField
+              label="Recipients of threshold notices"
+              hint="e-mail addresses, separated by commas; the physician is always told"
+              value={d.recipients}
+              onChange={(e) => set('recipients', e.target.value)}
+              error={errors.recipients}
+            />
           </div>
           <label className="flex items-center gap-2">
             <input type="checkbox" checked={d.active} onChange={(e) => set('active', e.target.checked)} />
             <span className="text-sm font-medium">Active (checked after every run)</span>
           </label>
-          {errors.root && <p role="alert" className="text-sm text-alarm sm:col-span-2">{errors.root}</p>}
-          {errors.window && <p role="alert" className="text-sm text-alarm sm:col-span-2">{errors.window}</p>}
+          {errors.root && (
+            <p role="alert" className="text-sm text-alarm sm:col-span-2">
+              {errors.root}
+            </p>
+          )}
+          {errors.window && (
+            <p role="alert" className="text-sm text-alarm sm:col-span-2">
+              {errors.window}
+            </p>
+          )}
           {canWrite && (
             <div className="flex flex-wrap gap-3 sm:col-span-2">
               <button type="submit" disabled={save.isPending} className="btn btn-primary px-4 py-2">
@@ -171,7 +253,8 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
                   type="button"
                   disabled={remove.isPending}
                   onClick={() => {
-                    if (window.confirm(`Delete the watch rule "${rule.name}"? Its flags keep their history.`)) remove.mutate(rule.id, { onSuccess: () => navigate(paths.rules) });
+                    if (window.confirm(`Delete the watch rule "${rule.name}"? Its flags keep their history.`))
+                      remove.mutate(rule.id, { onSuccess: () => navigate(paths.rules) });
                   }}
                   className="btn btn-danger px-4 py-2"
                 >
@@ -182,10 +265,19 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
           )}
         </fieldset>
       </form>
-      {remove.isError && <div className="mt-3"><ProblemNotice title="The rule was not deleted" problem={problemOf(remove.error).problem} /></div>}
-      {!roleMay(user.role, 'rules:write') && <p className="mt-3 text-sm text-ink-soft">Your role may read watch rules; the hygienist and the safety manager change them.</p>}
+      {remove.isError && (
+        <div className="mt-3">
+          <ProblemNotice title="The rule was not deleted" problem={problemOf(remove.error).problem} />
+        </div>
+      )}
+      {!roleMay(user.role, 'rules:write') && (
+        <p className="mt-3 text-sm text-ink-soft">Your role may read watch rules; the hygienist and the safety manager change them.</p>
+      )}
       {roleMay(user.role, 'rules:write') && !mayScope && (
-        <p className="mt-3 text-sm text-ink-soft">This rule watches {rule?.siteIds === null ? 'the whole company' : 'sites'} beyond your access; a person with access to {rule?.siteIds === null ? 'every site' : 'each of its sites'} changes it.</p>
+        <p className="mt-3 text-sm text-ink-soft">
+          This rule watches {rule?.siteIds === null ? 'the whole company' : 'sites'} beyond your access; a person with access to{' '}
+          {rule?.siteIds === null ? 'every site' : 'each of its sites'} changes it.
+        </p>
       )}
     </section>
   );

@@ -11,7 +11,19 @@ export interface RuleScope {
  * company's figures hold every site's workers) or chosen sites, among the person's own. Sites of
  * a stored rule the person does not have stay listed, checked and fixed.
  */
-export function RuleScopeField({ value, onChange, sites, mySiteIds, error }: { value: RuleScope; onChange: (v: RuleScope) => void; sites: SiteDto[]; mySiteIds: number[]; error?: string }) {
+export function RuleScopeField({
+  value,
+  onChange,
+  sites,
+  mySiteIds,
+  error,
+}: {
+  value: RuleScope;
+  onChange: (v: RuleScope) => void;
+  sites: SiteDto[];
+  mySiteIds: number[];
+  error?: string;
+}) {
   const everySite = sites.every((s) => mySiteIds.includes(s.id));
   const listed = sites.filter((s) => mySiteIds.includes(s.id) || value.siteIds.includes(s.id));
   const errorId = 'rule-scope-error';
@@ -20,7 +32,14 @@ export function RuleScopeField({ value, onChange, sites, mySiteIds, error }: { v
       <legend className="text-sm font-medium">Watches</legend>
       <div className="mt-1 flex flex-col gap-1">
         <label className="flex items-center gap-2 text-sm">
-          <input type="radio" name="rule-scope" value="company" checked={value.scope === 'company'} disabled={!everySite} onChange={() => onChange({ ...value, scope: 'company' })} />
+          <input
+            type="radio"
+            name="rule-scope"
+            value="company"
+            checked={value.scope === 'company'}
+            disabled={!everySite}
+            onChange={() => onChange({ ...value, scope: 'company' })}
+          />
           The whole company, on the company's results
           {!everySite && <span className="text-ink-soft">(needs access to every site)</span>}
         </label>
@@ -47,7 +66,11 @@ export function RuleScopeField({ value, onChange, sites, mySiteIds, error }: { v
           </div>
         </fieldset>
       )}
-      {error && <p id={errorId} role="alert" className="mt-1 text-sm text-alarm">{error}</p>}
+      {error && (
+        <p id={errorId} role="alert" className="mt-1 text-sm text-alarm">
+          {error}
+        </p>
+      )}
     </fieldset>
   );
 }

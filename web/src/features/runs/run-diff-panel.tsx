@@ -17,7 +17,8 @@ function side(s: RunDiff['rows'][number]['before'], role: Role | null): string {
   if (!s) return '—';
   const c = showCount(s.cases, role);
   // The server withheld the count (small-cell suppression, or the complement of a small count elsewhere): only the hours are known.
-  if (s.suppressed || s.cases === null) return `${s.withheld === 'earlier' ? 'earlier run: physician only' : s.withheld === 'small' ? 'suppressed' : 'withheld'} cases, ${formatEstimate(Number(s.hours))} h`;
+  if (s.suppressed || s.cases === null)
+    return `${s.withheld === 'earlier' ? 'earlier run: physician only' : s.withheld === 'small' ? 'suppressed' : 'withheld'} cases, ${formatEstimate(Number(s.hours))} h`;
   if (c.suppressed) return `${c.text} cases, ${formatEstimate(Number(s.hours))} h`;
   return `${formatCount(s.cases)} cases, ${formatEstimate(Number(s.hours))} h, rate ${formatEstimate(toNumber(s.rate))}, IRR ${formatEstimate(toNumber(s.irr))}`;
 }
@@ -36,7 +37,9 @@ export function RunDiffPanel({ runs, role }: { runs: RunSummary[]; role: Role | 
   const options = runs.map((r) => ({ value: r.id, label: `#${r.number} (${new Date(r.startedAt).toLocaleDateString('en-GB')})` }));
   return (
     <section aria-labelledby="diff-heading" className="mt-10">
-      <h2 id="diff-heading" className="text-xl font-semibold">Difference between two runs</h2>
+      <h2 id="diff-heading" className="text-xl font-semibold">
+        Difference between two runs
+      </h2>
       <div className="no-print mt-3 flex flex-wrap gap-4">
         <SelectField label="Earlier run" value={from} onChange={(e) => setFrom(e.target.value)} options={options} />
         <SelectField label="Later run" value={to} onChange={(e) => setTo(e.target.value)} options={options} />
@@ -55,7 +58,12 @@ export function RunDiffPanel({ runs, role }: { runs: RunSummary[]; role: Role | 
                 exportName={`run-diff-${d.from.number}-${d.to.number}`}
                 rows={d.rows.slice(0, 500).map((r) => ({
                   key: `${r.outcomeId}-${r.exposureGroupId}-${r.window}-${r.period}`,
-                  cells: [`${oName(r.outcomeId)}, ${gName(r.exposureGroupId)}, ${r.window === 'month' ? 'month' : '12 months to'} ${formatMonth(r.period)}`, r.change, side(r.before, role), side(r.after, role)],
+                  cells: [
+                    `${oName(r.outcomeId)}, ${gName(r.exposureGroupId)}, ${r.window === 'month' ? 'month' : '12 months to'} ${formatMonth(r.period)}`,
+                    r.change,
+                    side(r.before, role),
+                    side(r.after, role),
+                  ],
                   csv: [`${oName(r.outcomeId)} / ${gName(r.exposureGroupId)} / ${r.window} / ${r.period}`, r.change, side(r.before, role), side(r.after, role)],
                 }))}
               />

@@ -27,20 +27,50 @@ const triggerLabels: Record<RunSummary['trigger'], string> = { schedule: 'nightl
 type Row = RunSummary & { detail: RunDetail | undefined };
 const col = createColumnHelper<Row>();
 const columns = [
-  col.accessor('number', { header: 'Run', cell: (c) => <>#{c.getValue()}{c.row.original.isCurrent && <span className="ml-2"><StateTag text="live" tone="good" /></span>}</>, meta: { numeric: true } }),
+  col.accessor('number', {
+    header: 'Run',
+    cell: (c) => (
+      <>
+        #{c.getValue()}
+        {c.row.original.isCurrent && (
+          <span className="ml-2">
+            <StateTag text="live" tone="good" />
+          </span>
+        )}
+      </>
+    ),
+    meta: { numeric: true },
+  }),
   col.accessor('startedAt', { header: 'Started', cell: (c) => formatWhen(c.getValue()) }),
   col.accessor('trigger', { header: 'Trigger', cell: (c) => triggerLabels[c.getValue()], meta: { csv: (r) => r.trigger } }),
   col.accessor((r) => (r.detail ? r.detail.inputs.rosterIntakeIds.length + r.detail.inputs.caseIntakeIds.length : -1), {
     id: 'intakes',
     header: 'Intakes included',
-    cell: (c) => (c.row.original.detail ? `${formatCount(c.row.original.detail.inputs.rosterIntakeIds.length)} roster, ${formatCount(c.row.original.detail.inputs.caseIntakeIds.length)} case list` : '…'),
+    cell: (c) =>
+      c.row.original.detail
+        ? `${formatCount(c.row.original.detail.inputs.rosterIntakeIds.length)} roster, ${formatCount(c.row.original.detail.inputs.caseIntakeIds.length)} case list`
+        : '…',
     meta: { csv: (r) => (r.detail ? `${r.detail.inputs.rosterIntakeIds.length} roster; ${r.detail.inputs.caseIntakeIds.length} case list` : null) },
   }),
-  col.accessor((r) => (r.finishedAt ? new Date(r.finishedAt).getTime() - new Date(r.startedAt).getTime() : -1), { id: 'duration', header: 'Duration', cell: (c) => formatDuration(c.row.original.startedAt, c.row.original.finishedAt), meta: { numeric: true, csv: (r) => formatDuration(r.startedAt, r.finishedAt) } }),
+  col.accessor((r) => (r.finishedAt ? new Date(r.finishedAt).getTime() - new Date(r.startedAt).getTime() : -1), {
+    id: 'duration',
+    header: 'Duration',
+    cell: (c) => formatDuration(c.row.original.startedAt, c.row.original.finishedAt),
+    meta: { numeric: true, csv: (r) => formatDuration(r.startedAt, r.finishedAt) },
+  }),
   col.accessor('state', { header: 'Outcome', cell: (c) => <StateTag text={c.getValue()} tone={stateTone[c.getValue()]} />, meta: { csv: (r) => r.state } }),
-  col.accessor((r) => r.settingsVersion ?? -1, { id: 'settings', header: 'Analysis settings', cell: (c) => (c.row.original.settingsVersion === null ? '—' : `version ${c.row.original.settingsVersion}`), meta: { numeric: true, csv: (r) => r.settingsVersion } }),
+  col.accessor((r) => r.settingsVersion ?? -1, {
+    id: 'settings',
+    header: 'Analysis settings',
+    cell: (c) => (c.row.original.settingsVersion === null ? '—' : `version ${c.row.original.settingsVersion}`),
+    meta: { numeric: true, csv: (r) => r.settingsVersion },
+  }),
   col.accessor('resultCount', { header: 'Results', cell: (c) => (c.getValue() === null ? '—' : formatCount(c.getValue()!)), meta: { numeric: true } }),
-  col.accessor((r) => r.error ?? r.reason ?? '', { id: 'note', header: 'Reason or error', cell: (c) => <span className={c.row.original.error ? 'text-alarm' : ''}>{c.getValue() || '—'}</span> }),
+  col.accessor((r) => r.error ?? r.reason ?? '', {
+    id: 'note',
+    header: 'Reason or error',
+    cell: (c) => <span className={c.row.original.error ? 'text-alarm' : ''}>{c.getValue() || '—'}</span>,
+  }),
 ];
 
 /** The run button: after a request, the list polls until the worker has picked it up and finished. */
@@ -48,7 +78,12 @@ function RunNow({ onRequested }: { onRequested: (at: string) => void }) {
   const request = useRequestRun();
   return (
     <div className="mt-4 flex flex-wrap items-center gap-3">
-      <button type="button" disabled={request.isPending} onClick={() => request.mutate(undefined, { onSuccess: (r) => onRequested(r.requestedAt) })} className="btn btn-primary px-4 py-2">
+      <button
+        type="button"
+        disabled={request.isPending}
+        onClick={() => request.mutate(undefined, { onSuccess: (r) => onRequested(r.requestedAt) })}
+        className="btn btn-primary px-4 py-2"
+      >
         {request.isPending ? 'Asking …' : 'Run now'}
       </button>
       <span className="text-sm text-ink-soft">The worker picks the request up within seconds; the figures switch when the run has succeeded.</span>
@@ -67,8 +102,19 @@ function CompleteThrough({ run }: { run: RunDetail | null }) {
   return (
     <p className="mt-3 text-sm">
       Run #{run.number} (live) read complete months
-      {ct.company !== null && <> through <strong>{month(ct.company)}</strong> for all sites together</>}
-      {ct.sites.length > 0 && <>{ct.company !== null ? '; by site: ' : ': '}{ct.sites.map((s) => `${name(s.siteId)} ${month(s.month)}`).join(', ')}</>}. Later months are partial: their roster or case list was not in.
+      {ct.company !== null && (
+        <>
+          {' '}
+          through <strong>{month(ct.company)}</strong> for all sites together
+        </>
+      )}
+      {ct.sites.length > 0 && (
+        <>
+          {ct.company !== null ? '; by site: ' : ': '}
+          {ct.sites.map((s) => `${name(s.siteId)} ${month(s.month)}`).join(', ')}
+        </>
+      )}
+      . Later months are partial: their roster or case list was not in.
     </p>
   );
 }
@@ -98,7 +144,8 @@ export function RunsPage({ user }: { user: SessionUser }) {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Run history</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        Every night, and whenever the hygienist asks, a run recomputes every rate from the applied intakes. A run either succeeds whole and becomes the live figures, or fails and leaves the previous ones live.
+        Every night, and whenever the hygienist asks, a run recomputes every rate from the applied intakes. A run either succeeds whole and becomes the live
+        figures, or fails and leaves the previous ones live.
       </p>
       {roleMay(user.role, 'runs:trigger') && <RunNow onRequested={setRequestedAt} />}
       <PendingRunNote pending={pending.data?.pending} />
@@ -106,7 +153,9 @@ export function RunsPage({ user }: { user: SessionUser }) {
       <UnattributedNote run={current} outcomes={outcomes} role={user.role} />
       {requestedAt && (
         <p role="status" className="mt-2 text-sm font-medium">
-          {finishedRequest ? `Run #${finishedRequest.number} ${finishedRequest.state === 'succeeded' ? 'has finished' : 'failed'} (${formatDuration(finishedRequest.startedAt, finishedRequest.finishedAt)}).` : 'Run requested; waiting for the worker …'}
+          {finishedRequest
+            ? `Run #${finishedRequest.number} ${finishedRequest.state === 'succeeded' ? 'has finished' : 'failed'} (${formatDuration(finishedRequest.startedAt, finishedRequest.finishedAt)}).`
+            : 'Run requested; waiting for the worker …'}
         </p>
       )}
       <DataTable caption={`Runs (${list.length}, newest first)`} columns={columns} data={rows} exportName="runs" />

@@ -32,17 +32,28 @@ export function UnattributedPage() {
   return (
     <section>
       <p className="text-sm">
-        <Link to={paths.runs} className="text-accent underline">← Run history</Link>
+        <Link to={paths.runs} className="text-accent underline">
+          ← Run history
+        </Link>
       </p>
       <h1 className="mt-2 text-2xl font-bold tracking-tight">Cases not attributed</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        Cases the live run counts but cannot place in any exposure group: no roster row with hours holds the worker in the onset month (moved back by the outcome's exposure lag). They are in no group's figures until a roster gives them one, or the case is corrected.
+        Cases the live run counts but cannot place in any exposure group: no roster row with hours holds the worker in the onset month (moved back by the
+        outcome's exposure lag). They are in no group's figures until a roster gives them one, or the case is corrected.
       </p>
-      <p className="mt-1 max-w-3xl text-sm text-ink-soft">Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.</p>
+      <p className="mt-1 max-w-3xl text-sm text-ink-soft">
+        Confidential medical information, shown to the occupational physician only; every opening of this list is recorded.
+      </p>
       {data === null ? (
         <p className="mt-6">No run has finished yet.</p>
       ) : (
-        <DataTable caption={`Unattributed cases in run #${data.runNumber} (${rows.length})`} columns={columns} data={rows} exportName={`run-${data.runNumber}-unattributed`} rowHeader="caseRef" />
+        <DataTable
+          caption={`Unattributed cases in run #${data.runNumber} (${rows.length})`}
+          columns={columns}
+          data={rows}
+          exportName={`run-${data.runNumber}-unattributed`}
+          rowHeader="caseRef"
+        />
       )}
     </section>
   );

@@ -20,7 +20,9 @@ export function SettingsForm({ current }: { current: RunSettings }) {
   const [statuses, setStatuses] = useState<CaseStatus[]>(current.countedStatuses);
   const [edges, setEdges] = useState((current.ageBandEdges ?? DECADE_AGE_BAND_EDGES).join(', '));
   const [errors, setErrors] = useState<Record<string, string>>({});
-  const levels = CONFIDENCE_LEVELS.includes(current.confidence as (typeof CONFIDENCE_LEVELS)[number]) ? [...CONFIDENCE_LEVELS] : [...CONFIDENCE_LEVELS, current.confidence].sort((a, b) => a - b);
+  const levels = CONFIDENCE_LEVELS.includes(current.confidence as (typeof CONFIDENCE_LEVELS)[number])
+    ? [...CONFIDENCE_LEVELS]
+    : [...CONFIDENCE_LEVELS, current.confidence].sort((a, b) => a - b);
   return (
     <form
       aria-label="Change the analysis settings"
@@ -32,7 +34,10 @@ export function SettingsForm({ current }: { current: RunSettings }) {
           per: Number(per),
           confidence: Number(confidence),
           countedStatuses: statuses,
-          ageBandEdges: edges.split(/[,\s]+/).filter(Boolean).map(Number),
+          ageBandEdges: edges
+            .split(/[,\s]+/)
+            .filter(Boolean)
+            .map(Number),
         });
         if (!parsed.success) {
           setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
@@ -42,27 +47,65 @@ export function SettingsForm({ current }: { current: RunSettings }) {
         save.mutate(parsed.data);
       }}
     >
-      <SelectField label="Person-time" value={basis} onChange={(e) => setBasis(e.target.value as PersonTimeBasis)} options={(Object.keys(basisLabels) as PersonTimeBasis[]).map((b) => ({ value: b, label: basisLabels[b] }))} />
-      <TextField label="Rate multiplier" hint="1000: rates per 1,000 person-years; 1 with units of 200,000 h: the OSHA-style rate" inputMode="decimal" value={per} onChange={(e) => setPer(e.target.value)} error={errors.per} />
-      <SelectField label="Confidence level" value={confidence} onChange={(e) => setConfidence(e.target.value)} options={levels.map((c) => ({ value: String(c), label: formatConfidence(c) }))} />
-      <TextField label="Age band edges" hint="whole years, increasing: 18, 25, 65 gives under 18, 18–24, 25–64, 65 and over" value={edges} onChange={(e) => setEdges(e.target.value)} error={errors.ageBandEdges} />
+      <SelectField
+        label="Person-time"
+        value={basis}
+        onChange={(e) => setBasis(e.target.value as PersonTimeBasis)}
+        options={(Object.keys(basisLabels) as PersonTimeBasis[]).map((b) => ({ value: b, label: basisLabels[b] }))}
+      />
+      <TextField
+        label="Rate multiplier"
+        hint="1000: rates per 1,000 person-years; 1 with units of 200,000 h: the OSHA-style rate"
+        inputMode="decimal"
+        value={per}
+        onChange={(e) => setPer(e.target.value)}
+        error={errors.per}
+      />
+      <SelectField
+        label="Confidence level"
+        value={confidence}
+        onChange={(e) => setConfidence(e.target.value)}
+        options={levels.map((c) => ({ value: String(c), label: formatConfidence(c) }))}
+      />
+      <TextField
+        label="Age band edges"
+        hint="whole years, increasing: 18, 25, 65 gives under 18, 18–24, 25–64, 65 and over"
+        value={edges}
+        onChange={(e) => setEdges(e.target.value)}
+        error={errors.ageBandEdges}
+      />
       <fieldset className="sm:col-span-2" aria-describedby={errors.countedStatuses ? 'counted-error' : undefined}>
         <legend className="text-sm font-medium">Case statuses counted</legend>
         <div className="mt-1 flex flex-wrap gap-4">
           {caseStatusSchema.options.map((s) => (
             <label key={s} className="flex items-center gap-2">
-              <input type="checkbox" checked={statuses.includes(s)} onChange={(e) => setStatuses(e.target.checked ? [...statuses, s] : statuses.filter((x) => x !== s))} />
+              <input
+                type="checkbox"
+                checked={statuses.includes(s)}
+                onChange={(e) => setStatuses(e.target.checked ? [...statuses, s] : statuses.filter((x) => x !== s))}
+              />
               {statusLabels[s]}
             </label>
           ))}
         </div>
-        {errors.countedStatuses && <span id="counted-error" className="text-sm text-alarm"><span aria-hidden="true">⚠ </span>choose at least one status</span>}
+        {errors.countedStatuses && (
+          <span id="counted-error" className="text-sm text-alarm">
+            <span aria-hidden="true">⚠ </span>choose at least one status
+          </span>
+        )}
       </fieldset>
-      {save.isError && <div className="sm:col-span-2"><ProblemNotice title="Not saved" problem={problemOf(save.error).problem} /></div>}
+      {save.isError && (
+        <div className="sm:col-span-2">
+          <ProblemNotice title="Not saved" problem={problemOf(save.error).problem} />
+        </div>
+      )}
       <div className="flex flex-wrap items-center gap-3 sm:col-span-2">
-        <button type="submit" disabled={save.isPending} className="btn btn-primary px-4 py-2">Save as a new version</button>
+        <button type="submit" disabled={save.isPending} className="btn btn-primary px-4 py-2">
+          Save as a new version
+        </button>
         <p role="status" className="text-sm">
-          {save.data && (save.data.changed ? `Saved as version ${save.data.current.version}; a run has been requested.` : 'Nothing changed: the current version stays.')}
+          {save.data &&
+            (save.data.changed ? `Saved as version ${save.data.current.version}; a run has been requested.` : 'Nothing changed: the current version stays.')}
         </p>
       </div>
     </form>

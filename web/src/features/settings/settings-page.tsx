@@ -24,12 +24,14 @@ export function SettingsPage({ user }: { user: SessionUser }) {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Analysis settings</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        How every run counts person-time, scales rates, sets its intervals, counts cases and bands ages. Each change is saved as a new version with who made it and
-        when; each run records the version it used, shown beside its figures. A change asks for a run, so the figures follow.
+        How every run counts person-time, scales rates, sets its intervals, counts cases and bands ages. Each change is saved as a new version with who made it
+        and when; each run records the version it used, shown beside its figures. A change asks for a run, so the figures follow.
       </p>
       <p className="mt-2 max-w-3xl text-sm">
         {data.current ? (
-          <>Current: <strong>version {data.current.version}</strong>, saved {formatWhen(data.current.createdAt)} by {data.current.createdBy}.</>
+          <>
+            Current: <strong>version {data.current.version}</strong>, saved {formatWhen(data.current.createdAt)} by {data.current.createdBy}.
+          </>
         ) : (
           <>No version yet: the worker's defaults become version 1 at its first start or run, unless one is saved here first.</>
         )}
@@ -40,8 +42,8 @@ export function SettingsPage({ user }: { user: SessionUser }) {
         <p className="mt-4 note note-plain max-w-3xl px-4 py-3">{summary(current)}. The administrator or the hygienist can change them.</p>
       )}
       <p className="mt-4 max-w-3xl text-sm text-ink-soft">
-        A narrower confidence level (90 %) gives narrower intervals and more watch-rule crossings by chance; a finding is a prompt for a licensed professional's review,
-        not a conclusion, and local regulations may prescribe other conventions.
+        A narrower confidence level (90 %) gives narrower intervals and more watch-rule crossings by chance; a finding is a prompt for a licensed professional's
+        review, not a conclusion, and local regulations may prescribe other conventions.
       </p>
       {versions.length > 0 && (
         <div className="mt-6">
@@ -49,7 +51,11 @@ export function SettingsPage({ user }: { user: SessionUser }) {
             caption={`Versions (${versions.length}), newest first`}
             columns={['Version', 'Saved', 'By', 'Settings']}
             exportName="analysis-settings-versions"
-            rows={versions.map((v) => ({ key: String(v.version), cells: [String(v.version), formatWhen(v.createdAt), v.createdBy, summary(v.settings)], csv: [v.version, v.createdAt, v.createdBy, summary(v.settings)] }))}
+            rows={versions.map((v) => ({
+              key: String(v.version),
+              cells: [String(v.version), formatWhen(v.createdAt), v.createdBy, summary(v.settings)],
+              csv: [v.version, v.createdAt, v.createdBy, summary(v.settings)],
+            }))}
           />
         </div>
       )}

@@ -19,10 +19,12 @@ export function ReferenceUploadPanel() {
   const rejected = upload.error && isApiError(upload.error) ? rejectedDetails.safeParse(upload.error.problem.details) : null;
   return (
     <section aria-labelledby={`${ids}-h`} className="no-print card mt-6 p-4">
-      <h2 id={`${ids}-h`} className="text-lg font-semibold">Upload reference rates</h2>
+      <h2 id={`${ids}-h`} className="text-lg font-semibold">
+        Upload reference rates
+      </h2>
       <p className="mt-1 max-w-3xl text-sm text-ink-soft">
-        A CSV file, one row per outcome, sex, age band and calendar year, with the rate in cases per person-year and its source. The whole table is checked and replaces the
-        current one (which is kept in the history); a file with any problem is refused whole. The next run uses it.{' '}
+        A CSV file, one row per outcome, sex, age band and calendar year, with the rate in cases per person-year and its source. The whole table is checked and
+        replaces the current one (which is kept in the history); a file with any problem is refused whole. The next run uses it.{' '}
         <a className="text-accent underline" href="/api/reference-rates/template.csv" download>
           Download the template
         </a>
@@ -48,7 +50,9 @@ export function ReferenceUploadPanel() {
         }}
       >
         <div className="flex flex-col gap-1">
-          <label htmlFor={`${ids}-file`} className="text-sm font-medium">Reference-rate file (CSV)</label>
+          <label htmlFor={`${ids}-file`} className="text-sm font-medium">
+            Reference-rate file (CSV)
+          </label>
           <input
             id={`${ids}-file`}
             type="file"
@@ -79,10 +83,18 @@ export function ReferenceUploadPanel() {
                 <caption className="text-left font-medium">Problems by line and column</caption>
                 <thead>
                   <tr>
-                    <th scope="col" className="px-2 text-left">Line</th>
-                    <th scope="col" className="px-2 text-left">Column</th>
-                    <th scope="col" className="px-2 text-left">Value</th>
-                    <th scope="col" className="px-2 text-left">Problem</th>
+                    <th scope="col" className="px-2 text-left">
+                      Line
+                    </th>
+                    <th scope="col" className="px-2 text-left">
+                      Column
+                    </th>
+                    <th scope="col" className="px-2 text-left">
+                      Value
+                    </th>
+                    <th scope="col" className="px-2 text-left">
+                      Problem
+                    </th>
                   </tr>
                 </thead>
                 <tbody>

@@ -34,17 +34,48 @@ interface Row {
 function columns(role: SessionUser['role'], pct: number) {
   const col = createColumnHelper<Row>();
   const hidden = (r: SirRow) => r.withheld !== null;
-  const interval = (r: SirRow, l: number | 'Infinity' | null, u: number | 'Infinity' | null) => (hidden(r) ? 'not shown' : `${formatEstimate(num(l))} to ${formatEstimate(num(u))}`);
+  const interval = (r: SirRow, l: number | 'Infinity' | null, u: number | 'Infinity' | null) =>
+    hidden(r) ? 'not shown' : `${formatEstimate(num(l))} to ${formatEstimate(num(u))}`;
   return [
     col.accessor('group', { header: 'Exposure group' }),
-    col.accessor((x) => x.r.observed ?? -1, { id: 'observed', header: 'Observed (O)', cell: (c) => showCount(c.row.original.r.observed, role, smallCellThreshold(), c.row.original.r.withheld).text, meta: { numeric: true } }),
+    col.accessor((x) => x.r.observed ?? -1, {
+      id: 'observed',
+      header: 'Observed (O)',
+      cell: (c) => showCount(c.row.original.r.observed, role, smallCellThreshold(), c.row.original.r.withheld).text,
+      meta: { numeric: true },
+    }),
     col.accessor((x) => x.r.expected, { id: 'expected', header: 'Expected (E)', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
-    col.accessor((x) => x.r.sir ?? -Infinity, { id: 'sir', header: 'SIR (O/E)', cell: (c) => (hidden(c.row.original.r) ? 'not shown' : formatEstimate(c.row.original.r.sir)), meta: { numeric: true } }),
-    col.accessor((x) => interval(x.r, x.r.exact.lower, x.r.exact.upper), { id: 'exact', header: `${pct}% exact interval`, enableSorting: false, meta: { numeric: true } }),
-    col.accessor((x) => interval(x.r, x.r.byar.lower, x.r.byar.upper), { id: 'byar', header: `${pct}% Byar interval`, enableSorting: false, meta: { numeric: true } }),
-    col.accessor((x) => x.r.excess ?? -Infinity, { id: 'excess', header: 'O − E', cell: (c) => (hidden(c.row.original.r) ? 'not shown' : formatEstimate(c.row.original.r.excess)), meta: { numeric: true } }),
+    col.accessor((x) => x.r.sir ?? -Infinity, {
+      id: 'sir',
+      header: 'SIR (O/E)',
+      cell: (c) => (hidden(c.row.original.r) ? 'not shown' : formatEstimate(c.row.original.r.sir)),
+      meta: { numeric: true },
+    }),
+    col.accessor((x) => interval(x.r, x.r.exact.lower, x.r.exact.upper), {
+      id: 'exact',
+      header: `${pct}% exact interval`,
+      enableSorting: false,
+      meta: { numeric: true },
+    }),
+    col.accessor((x) => interval(x.r, x.r.byar.lower, x.r.byar.upper), {
+      id: 'byar',
+      header: `${pct}% Byar interval`,
+      enableSorting: false,
+      meta: { numeric: true },
+    }),
+    col.accessor((x) => x.r.excess ?? -Infinity, {
+      id: 'excess',
+      header: 'O − E',
+      cell: (c) => (hidden(c.row.original.r) ? 'not shown' : formatEstimate(c.row.original.r.excess)),
+      meta: { numeric: true },
+    }),
     col.accessor((x) => x.r.personYears, { id: 'py', header: 'Person-years compared', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
-    col.accessor((x) => x.r.personYearsUncovered, { id: 'uncovered', header: 'Person-years without a reference rate', cell: (c) => formatAmount(c.getValue()), meta: { numeric: true } }),
+    col.accessor((x) => x.r.personYearsUncovered, {
+      id: 'uncovered',
+      header: 'Person-years without a reference rate',
+      cell: (c) => formatAmount(c.getValue()),
+      meta: { numeric: true },
+    }),
   ];
 }
 
@@ -83,15 +114,29 @@ export function SirPage({ user }: { user: SessionUser }) {
         <PrintButton />
       </div>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        The standardized incidence ratio compares each exposure group with an outside population: the cases observed (O) against those expected (E) if the group had the reference
-        rates, for its own person-time by sex, age band and calendar year. An SIR of 1 means as many cases as expected.
+        The standardized incidence ratio compares each exposure group with an outside population: the cases observed (O) against those expected (E) if the group
+        had the reference rates, for its own person-time by sex, age band and calendar year. An SIR of 1 means as many cases as expected.
       </p>
-      <p role="note" className="mt-3 max-w-3xl note note-watch px-4 py-3 text-sm">{HEALTHY_WORKER_TEXT}</p>
+      <p role="note" className="mt-3 max-w-3xl note note-watch px-4 py-3 text-sm">
+        {HEALTHY_WORKER_TEXT}
+      </p>
       {outcome && run ? (
         <>
           <form aria-label="Choose what to show" className="no-print mt-5 flex flex-wrap items-end gap-4 card p-3" onSubmit={(e) => e.preventDefault()}>
-            <SelectField label="Outcome" value={String(outcome.id)} onChange={(e) => set('outcomeId', e.target.value)} options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))} />
-            {siteOptions.length > 1 && <SelectField label="Sites" value={siteId === undefined ? '' : String(siteId)} onChange={(e) => set('siteId', e.target.value)} options={siteOptions} />}
+            <SelectField
+              label="Outcome"
+              value={String(outcome.id)}
+              onChange={(e) => set('outcomeId', e.target.value)}
+              options={outcomes.map((o) => ({ value: String(o.id), label: o.name }))}
+            />
+            {siteOptions.length > 1 && (
+              <SelectField
+                label="Sites"
+                value={siteId === undefined ? '' : String(siteId)}
+                onChange={(e) => set('siteId', e.target.value)}
+                options={siteOptions}
+              />
+            )}
           </form>
           <QueryState query={sir} label="SIRs">
             {(data) => {
@@ -116,11 +161,22 @@ export function SirPage({ user }: { user: SessionUser }) {
                         title={`${outcome.name}: SIR against the reference rates with ${pct}% exact intervals`}
                         items={items}
                         valueLabel="SIR (log scale)"
-                        csv={{ name: `sir-${outcome.code}`, header: ['Exposure group', 'SIR', 'Lower limit', 'Upper limit'], rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper]) }}
+                        csv={{
+                          name: `sir-${outcome.code}`,
+                          header: ['Exposure group', 'SIR', 'Lower limit', 'Upper limit'],
+                          rows: items.map((i) => [i.label, i.estimate, i.lower, i.upper]),
+                        }}
                       />
-                      <DataTable caption={`SIR by exposure group (${pct}% intervals)`} columns={columns(user.role, pct)} data={rows} exportName={`sir-${outcome.code}`} rowHeader="group" />
+                      <DataTable
+                        caption={`SIR by exposure group (${pct}% intervals)`}
+                        columns={columns(user.role, pct)}
+                        data={rows}
+                        exportName={`sir-${outcome.code}`}
+                        rowHeader="group"
+                      />
                       <p className="mt-2 text-xs text-ink-soft">
-                        Intervals: {data.rows[0]?.methods.exact}; {data.rows[0]?.methods.byar}. A group whose observed count is withheld shows no SIR, no O − E and no interval: each would give the count back.
+                        Intervals: {data.rows[0]?.methods.exact}; {data.rows[0]?.methods.byar}. A group whose observed count is withheld shows no SIR, no O − E
+                        and no interval: each would give the count back.
                       </p>
                     </>
                   )}
@@ -130,11 +186,17 @@ export function SirPage({ user }: { user: SessionUser }) {
           </QueryState>
         </>
       ) : (
-        <p role="status" className="mt-6 note note-watch px-4 py-3">{!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no SIRs to show.'}</p>
+        <p role="status" className="mt-6 note note-watch px-4 py-3">
+          {!outcome ? 'No outcomes are set up yet.' : 'No run has finished yet, so there are no SIRs to show.'}
+        </p>
       )}
       {roleMay(user.role, 'reference:write') && <ReferenceUploadPanel />}
       <ReferenceHistory />
-      <Cautions extra={['The SIR compares with an outside population: differences in case definitions, diagnosis and reporting between the workplace and the reference source bias it too.']} />
+      <Cautions
+        extra={[
+          'The SIR compares with an outside population: differences in case definitions, diagnosis and reporting between the workplace and the reference source bias it too.',
+        ]}
+      />
     </section>
   );
 }

@@ -28,13 +28,23 @@ export function SiteForm({ site, onDone }: { site: SiteDto | null; onDone: () =>
         save.mutate(site ? { id: site.id, body: rest } : { id: null, body: { code: c, ...rest } }, { onSuccess: onDone });
       }}
     >
-      {!site && <TextField label="Code" hint="as it appears in roster and case files" value={code} onChange={(e) => setCode(e.target.value)} error={errors.code} />}
+      {!site && (
+        <TextField label="Code" hint="as it appears in roster and case files" value={code} onChange={(e) => setCode(e.target.value)} error={errors.code} />
+      )}
       <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       <TextField label="Region" hint="optional" value={region} onChange={(e) => setRegion(e.target.value)} error={errors.region} />
-      {save.isError && <div className="sm:col-span-3"><ProblemNotice title="Not saved" problem={problemOf(save.error).problem} /></div>}
+      {save.isError && (
+        <div className="sm:col-span-3">
+          <ProblemNotice title="Not saved" problem={problemOf(save.error).problem} />
+        </div>
+      )}
       <div className="flex gap-3 sm:col-span-3">
-        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">{site ? 'Save the name' : 'Create the site'}</button>
-        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">Cancel</button>
+        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">
+          {site ? 'Save the name' : 'Create the site'}
+        </button>
+        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">
+          Cancel
+        </button>
       </div>
     </form>
   );

@@ -17,8 +17,8 @@ export function SitesPage() {
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Sites</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        The workplaces rosters and case lists belong to. A retired site keeps its rosters, cases, results and flags, and is no longer expected to report the months
-        after the one it was retired in. Give people access to a site under Administration.
+        The workplaces rosters and case lists belong to. A retired site keeps its rosters, cases, results and flags, and is no longer expected to report the
+        months after the one it was retired in. Give people access to a site under Administration.
       </p>
       {retire.isError && <ProblemNotice title="Not changed" problem={problemOf(retire.error).problem} />}
       <ResultTable
@@ -36,17 +36,29 @@ export function SitesPage() {
             s.region ?? '—',
             s.retiredAt ? <StateTag text={`retired ${formatWhen(s.retiredAt)}`} tone="neutral" /> : <StateTag text="active" tone="good" />,
             <span className="flex flex-wrap gap-3">
-              <button type="button" className="text-accent underline" onClick={() => setEditing(s.id)}>Rename<span className="sr-only"> {s.name}</span></button>
-              <button type="button" disabled={retire.isPending} className="text-accent underline" onClick={() => retire.mutate({ id: s.id, retired: s.retiredAt === null })}>
-                {s.retiredAt === null ? 'Retire' : 'Reinstate'}<span className="sr-only"> {s.name}</span>
+              <button type="button" className="text-accent underline" onClick={() => setEditing(s.id)}>
+                Rename<span className="sr-only"> {s.name}</span>
+              </button>
+              <button
+                type="button"
+                disabled={retire.isPending}
+                className="text-accent underline"
+                onClick={() => retire.mutate({ id: s.id, retired: s.retiredAt === null })}
+              >
+                {s.retiredAt === null ? 'Retire' : 'Reinstate'}
+                <span className="sr-only"> {s.name}</span>
               </button>
             </span>,
           ],
           csv: [s.name, s.code, s.region, s.retiredAt ?? 'active', ''],
         }))}
       />
-      {editing === 'new' ? <SiteForm site={null} onDone={() => setEditing(null)} /> : (
-        <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>New site</button>
+      {editing === 'new' ? (
+        <SiteForm site={null} onDone={() => setEditing(null)} />
+      ) : (
+        <button type="button" className="btn btn-primary mt-4 px-4 py-2" onClick={() => setEditing('new')}>
+          New site
+        </button>
       )}
     </section>
   );

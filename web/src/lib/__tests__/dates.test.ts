@@ -16,7 +16,7 @@ describe('dates and JSON numbers', () => {
     expect(formatDuration('2024-01-01T00:00:00Z', null)).toBe('still running');
   });
 
-  it('reads the API\'s infinities back as numbers', () => {
+  it("reads the API's infinities back as numbers", () => {
     expect(toNumber('Infinity')).toBe(Infinity);
     expect(toNumber('-Infinity')).toBe(-Infinity);
     expect(toNumber(null)).toBeNull();

@@ -5,16 +5,57 @@ import { agreementSentence, intervalSpread } from '../method-agreement';
 describe('how far the interval methods part', () => {
   it('measures ratios by their relative gap and differences by their absolute gap', () => {
     // By hand: lower limits 1 and 1.1 (10% apart), upper limits equal.
-    expect(intervalSpread([{ lower: 1, upper: 2 }, { lower: 1.1, upper: 2 }], 'ratio')).toBeCloseTo(0.1, 12);
+    expect(
+      intervalSpread(
+        [
+          { lower: 1, upper: 2 },
+          { lower: 1.1, upper: 2 },
+        ],
+        'ratio',
+      ),
+    ).toBeCloseTo(0.1, 12);
     // By hand: upper limits 0.30 and 0.34, 4 points apart; lower limits 1 point apart.
-    expect(intervalSpread([{ lower: -0.01, upper: 0.3 }, { lower: 0, upper: 0.34 }], 'difference')).toBeCloseTo(0.04, 12);
+    expect(
+      intervalSpread(
+        [
+          { lower: -0.01, upper: 0.3 },
+          { lower: 0, upper: 0.34 },
+        ],
+        'difference',
+      ),
+    ).toBeCloseTo(0.04, 12);
     expect(intervalSpread([{ lower: 0.5, upper: 2 }], 'ratio')).toBe(0);
   });
 
   it('gives no single figure when a method has no finite limit', () => {
-    expect(intervalSpread([{ lower: 0.5, upper: Infinity }, { lower: 0.6, upper: 3 }], 'ratio')).toBeNull();
-    expect(intervalSpread([{ lower: 0, upper: 3 }, { lower: 0.6, upper: 3 }], 'ratio')).toBeNull();
-    expect(agreementSentence([{ lower: null, upper: 3 }, { lower: 0.6, upper: 3 }], 'ratio', 0)).toMatch(/^With these counts at least one method has no finite limit/);
+    expect(
+      intervalSpread(
+        [
+          { lower: 0.5, upper: Infinity },
+          { lower: 0.6, upper: 3 },
+        ],
+        'ratio',
+      ),
+    ).toBeNull();
+    expect(
+      intervalSpread(
+        [
+          { lower: 0, upper: 3 },
+          { lower: 0.6, upper: 3 },
+        ],
+        'ratio',
+      ),
+    ).toBeNull();
+    expect(
+      agreementSentence(
+        [
+          { lower: null, upper: 3 },
+          { lower: 0.6, upper: 3 },
+        ],
+        'ratio',
+        0,
+      ),
+    ).toMatch(/^With these counts at least one method has no finite limit/);
   });
 
   it('says large counts agree: 136 and 1,709 cases', () => {
@@ -28,7 +69,9 @@ describe('how far the interval methods part', () => {
     expect([r.irr.exact.lower!.toFixed(2), r.irr.exact.upper!.toFixed(2)]).toEqual(['0.38', '0.55']);
     const spread = intervalSpread([r.irr.exact, r.irr.midP, r.irr.wald], 'ratio')!;
     expect(spread).toBeLessThan(0.01);
-    expect(agreementSentence([r.irr.exact, r.irr.midP, r.irr.wald], 'ratio', 136)).toMatch(/^With these counts the methods agree closely: their limits are at most 0\.\d+% apart\.$/);
+    expect(agreementSentence([r.irr.exact, r.irr.midP, r.irr.wald], 'ratio', 136)).toMatch(
+      /^With these counts the methods agree closely: their limits are at most 0\.\d+% apart\.$/,
+    );
   });
 
   it('says small counts part, and which interval to read', () => {
@@ -39,7 +82,9 @@ describe('how far the interval methods part', () => {
     expect(r.irr.wald.upper).toBeCloseTo(1.5 * Math.exp(1.959964 * Math.sqrt(1 / 3 + 1 / 2)), 6);
     const sentence = agreementSentence([r.irr.exact, r.irr.midP, r.irr.wald], 'ratio', 2);
     expect(sentence).toMatch(/^With these counts the methods part noticeably: their limits are up to 100% apart\./);
-    expect(sentence).toContain('The smallest count here is 2; with fewer than about 10 in a group, read the exact or score intervals rather than the Wald one.');
+    expect(sentence).toContain(
+      'The smallest count here is 2; with fewer than about 10 in a group, read the exact or score intervals rather than the Wald one.',
+    );
   });
 
   it('compares risk-difference methods in percentage points', () => {
@@ -48,6 +93,8 @@ describe('how far the interval methods part', () => {
     const r = compareRisks({ cases: 56, total: 70 }, { cases: 48, total: 80 });
     expect([r.rd.wald.upper!.toFixed(4), r.rd.newcombe.upper!.toFixed(4)]).toEqual(['0.3425', '0.3339']);
     expect(intervalSpread([r.rd.newcombe, r.rd.wald], 'difference')!).toBeCloseTo(0.3425 - 0.3339, 3);
-    expect(agreementSentence([r.rd.newcombe, r.rd.wald], 'difference', 14)).toMatch(/^With these counts the methods part noticeably: their limits are up to 0\.86\d? percentage points apart\.$/);
+    expect(agreementSentence([r.rd.newcombe, r.rd.wald], 'difference', 14)).toMatch(
+      /^With these counts the methods part noticeably: their limits are up to 0\.86\d? percentage points apart\.$/,
+    );
   });
 });

@@ -27,7 +27,9 @@ describe('plain-language readings', () => {
   it('reads the number needed to harm from a 2×2 table', () => {
     // Newcombe, Stat Med 1998;17:873-890, Table II example (a): 56/70 vs 48/80, RD 0.2 (Newcombe 0.0524 to 0.3339), NNT 5.
     const lines = riskReading(compareRisks({ cases: 56, total: 70 }, { cases: 48, total: 80 }), 'newcombe');
-    expect(lines[1]).toContain('20% of the people in each group, higher among the exposed (95% CI 5.24% to 33.4% for exposed minus reference, Newcombe hybrid score)');
+    expect(lines[1]).toContain(
+      '20% of the people in each group, higher among the exposed (95% CI 5.24% to 33.4% for exposed minus reference, Newcombe hybrid score)',
+    );
     expect(lines[2]).toContain('one additional case for every 5 people exposed (number needed to harm).');
   });
 

@@ -31,5 +31,7 @@ export function useInviteUser() {
 }
 
 export function useUpdateUserAccess() {
-  return useAdminMutation(({ id, body }: { id: string; body: UserAccessUpdate }) => api.patch(`/api/admin/users/${encodeURIComponent(id)}`, adminUserSchema, body));
+  return useAdminMutation(({ id, body }: { id: string; body: UserAccessUpdate }) =>
+    api.patch(`/api/admin/users/${encodeURIComponent(id)}`, adminUserSchema, body),
+  );
 }

@@ -7,7 +7,8 @@ export function getIntakeFormats(signal?: AbortSignal): Promise<IntakeFormats> {
 }
 
 /** The formats change only with a new version of the app (a key of their own: intake changes do not touch them). */
-export const intakeFormatsQueryOptions = () => queryOptions({ queryKey: ['intake-formats'], queryFn: ({ signal }) => getIntakeFormats(signal), staleTime: Infinity });
+export const intakeFormatsQueryOptions = () =>
+  queryOptions({ queryKey: ['intake-formats'], queryFn: ({ signal }) => getIntakeFormats(signal), staleTime: Infinity });
 
 export function useIntakeFormats() {
   return useQuery(intakeFormatsQueryOptions());

@@ -5,8 +5,14 @@ import { shownResult } from '../shown-result';
 const limits = (estimate: number) => ({ estimate, lower: estimate / 2, upper: estimate * 2 });
 const row = (over: Partial<RunResult>): RunResult =>
   ({
-    cases: 12, suppressed: false, withheld: null, comparisonSuppressed: false, personTime: 100,
-    rate: limits(120), irr: { ...limits(2), p: 0.01, waldLower: 1, waldUpper: 4 }, ird: { ...limits(60), p: 0.02 },
+    cases: 12,
+    suppressed: false,
+    withheld: null,
+    comparisonSuppressed: false,
+    personTime: 100,
+    rate: limits(120),
+    irr: { ...limits(2), p: 0.01, waldLower: 1, waldUpper: 4 },
+    ird: { ...limits(60), p: 0.02 },
     ...over,
   }) as RunResult;
 
@@ -17,7 +23,7 @@ describe('a result as a role may see it', () => {
     expect(s.cases.text).toBe('12');
   });
 
-  it('keeps the group\'s own rate but not the comparisons when the reference group\'s count is withheld', () => {
+  it("keeps the group's own rate but not the comparisons when the reference group's count is withheld", () => {
     const s = shownResult(row({ comparisonSuppressed: true }), 'safety_manager');
     expect(s).toMatchObject({ hidden: false, comparisonHidden: true, rate: 120, irr: null, irrLower: null, irrP: null, ird: null, irdP: null });
   });

@@ -23,7 +23,9 @@ export function useSaveRule() {
     mutationFn: saveRule,
     onSuccess: (rule: WatchRule) => {
       qc.setQueryData(ruleKeys.detail(rule.id), rule);
-      qc.setQueryData<WatchRule[]>(ruleKeys.list(), (list) => (list ? (list.some((r) => r.id === rule.id) ? list.map((r) => (r.id === rule.id ? rule : r)) : [...list, rule]) : list));
+      qc.setQueryData<WatchRule[]>(ruleKeys.list(), (list) =>
+        list ? (list.some((r) => r.id === rule.id) ? list.map((r) => (r.id === rule.id ? rule : r)) : [...list, rule]) : list,
+      );
       void qc.invalidateQueries({ queryKey: ruleKeys.all });
     },
   });

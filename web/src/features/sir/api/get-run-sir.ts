@@ -15,7 +15,8 @@ export function getRunSir(runId: string, q: SirQuery, signal?: AbortSignal): Pro
   return api.get(`/api/reference-rates/runs/${encodeURIComponent(runId)}/sir?${params}`, sirAnswerSchema, signal);
 }
 
-export const runSirQueryOptions = (runId: string, q: SirQuery) => queryOptions({ queryKey: sirKeys.sir(runId, q), queryFn: ({ signal }) => getRunSir(runId, q, signal) });
+export const runSirQueryOptions = (runId: string, q: SirQuery) =>
+  queryOptions({ queryKey: sirKeys.sir(runId, q), queryFn: ({ signal }) => getRunSir(runId, q, signal) });
 
 export function useRunSir(runId: string | undefined, q: SirQuery) {
   return useQuery({ ...runSirQueryOptions(runId ?? '', q), enabled: !!runId && q.outcomeId !== undefined });
