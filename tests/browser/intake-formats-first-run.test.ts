@@ -51,7 +51,7 @@ describe('intake formats on the intake page, and the first-run page', () => {
     // The first step's state follows the data: to do without an active site, done with one.
     const first = steps.first();
     expect(await first.textContent()).toContain('Create the sites');
-    const [{ active }] = (await h.ds.query(`SELECT count(*)::int AS active FROM sites WHERE retired_at IS NULL`)) as Array<{ active: number }>;
+    const [{ active }] = (await h.ds.query(`SELECT count(*)::int AS active FROM sites WHERE retired_at IS NULL`)) as [{ active: number }];
     expect(await first.textContent()).toContain(active > 0 ? 'done' : 'to do');
     if (active === 0) {
       await h.ds.query(`INSERT INTO sites (code, name) VALUES ('FIRSTRUN', 'First-run test site')`);

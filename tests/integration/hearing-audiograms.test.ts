@@ -161,11 +161,21 @@ describe('audiogram intake → derived shifts → next run', () => {
   });
 
   it("the next run counts the derived cases (suspected cases counted in this run's settings)", async () => {
-    const outcome = await performRun(ds, {
-      trigger: 'cli',
-      settings: { ...settings, countedStatuses: ['suspected', 'confirmed'] },
-      appUrl: 'http://127.0.0.1:3000',
+    // Counted statuses are an analysis setting (a version in the database, issue 15): suspected cases
+    // are counted for this run, and the settings in force before are put back after it.
+    const before = (await hyg.agent.get('/api/settings').expect(200)).body.current.settings;
+    const settingsOf = (counted: string[]) => ({
+      personTimeBasis: before.personTimeBasis,
+      per: before.per,
+      confidence: before.confidence,
+      countedStatuses: counted,
+      ageBandEdges: before.ageBandEdges,
     });
+    const putSettings = (body: object) => hyg.agent.put('/api/settings').set('x-csrf-token', hyg.csrf).send(body).expect(200);
+    await putSettings(settingsOf(['suspected', 'confirmed']));
+    const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' }).finally(() =>
+      putSettings(settingsOf(before.countedStatuses)),
+    );
     expect(outcome.status).toBe('succeeded');
     const runId = (outcome as { runId: string }).runId;
     const results = await storedResults(ds, runId, c.outcomes.HEAR!);

@@ -276,7 +276,7 @@ describe('reference rates and the SIR of a run', () => {
     });
 
     it("gives an earlier run's SIR to the physician only, as every run figure (two runs side by side would give back withheld counts)", async () => {
-      const [{ run_id: earlier }] = (await ds.query(`SELECT run_id::text FROM current_run`)) as Array<{ run_id: string }>;
+      const [{ run_id: earlier }] = (await ds.query(`SELECT run_id::text FROM current_run`)) as [{ run_id: string }];
       expect((await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' })).status).toBe('succeeded');
       await as.hygienist.agent.get(`/api/reference-rates/runs/${earlier}/sir`).expect(403);
       await as.physician.agent.get(`/api/reference-rates/runs/${earlier}/sir`).expect(200);

@@ -81,7 +81,7 @@ describe('analysis settings', () => {
     expect(run.status).toBe('succeeded');
     const s = analysisSettingsSchema.parse((await as.physician.agent.get('/api/settings').expect(200)).body);
     expect(s.current).not.toBeNull();
-    const first = [...s.history, s.current!].at(-1)!;
+    const first = [s.current!, ...s.history].at(-1)!; // history is newest first: its last is version 1
     expect(first).toMatchObject({ version: 1, createdBy: 'worker environment' });
     const detail = runDetailSchema.parse((await as.hygienist.agent.get(`/api/runs/${(run as { runId: string }).runId}`).expect(200)).body);
     expect(detail.settingsVersion).toBe(s.current!.version);

@@ -58,7 +58,7 @@ describe('site routes', () => {
       [randomBytes(32).toString('hex'), [s.id]],
     )) as Array<{ id: string }>;
     // Rostered in the month before this one: expected in this month and the next eleven.
-    const [{ month }] = (await ds.query(`SELECT to_char(date_trunc('month', now()) - interval '1 month', 'YYYY-MM-DD') AS month`)) as Array<{ month: string }>;
+    const [{ month }] = (await ds.query(`SELECT to_char(date_trunc('month', now()) - interval '1 month', 'YYYY-MM-DD') AS month`)) as [{ month: string }];
     await ds.query(`INSERT INTO roster_slices (intake_id, site_id, month) VALUES ($1, $2, $3)`, [intake!.id, s.id, month]);
     const later = (await ds.query(`SELECT to_char(date_trunc('month', now()) + interval '1 month', 'YYYY-MM-DD') AS m`)) as Array<{ m: string }>;
     const expectedLater = async () => new PeriodBook(await readSitePeriods(ds, { siteIds: [s.id], through: later[0]!.m })).expectedSites(later[0]!.m);
