@@ -4,7 +4,7 @@
  * The appendix states the tables were developed by NIOSH ("Criteria for a Recommended Standard:
  * Occupational Exposure to Noise"); the same tables are printed in 49 CFR 227 Appendix F.
  *
- * Source of the values below, read (not recalled) from a transcription of Table F-1:
+ * Source of the values below, read (not recalled) from a web copy of Table F-1:
  *   http://khosro.goorabi.ir/ (page "TABLE F-1 – AGE CORRECTION VALUES IN DECIBELS FOR MALES",
  *   reproducing 29 CFR 1910.95 Appendix F; the official text is at
  *   https://www.osha.gov/laws-regs/regulations/standardnumber/1910/1910.95AppF and
