@@ -1,5 +1,5 @@
 /** The tables a run's aggregation and a case list's checks read; their plans are only as good as these tables' statistics. */
-export const AGGREGATED_TABLES = ['roster_entries', 'roster_slices', 'workers', 'case_events'] as const;
+export const AGGREGATED_TABLES = ['roster_entries', 'roster_sums', 'roster_slices', 'workers', 'case_events'] as const;
 
 export interface TableActivity {
   table: string;

@@ -23,13 +23,34 @@ export async function insertBenchOutcomes(client: pg.ClientBase): Promise<Map<st
 }
 
 /**
+ * An applied reference-rate table for the benchmark's outcomes, so that its runs compute the SIR
+ * too (issue: a run with reference rates within the run target): each outcome × sex × ten-year
+ * age band 15–24 … 75–84 × calendar year 2015–2035, at an invented rate of 1 to 4 per 100
+ * person-years that rises with age. Inserted directly, as an applied upload would leave it.
+ */
+export async function insertBenchReferenceRates(client: pg.ClientBase, outcomeIds: number[]): Promise<void> {
+  const { rows } = await client.query<{ id: number }>(
+    `INSERT INTO reference_rate_tables (state, file_name, checksum, row_count, sources) VALUES ('applied', 'bench-rates.csv', repeat('0', 64), 0, '{bench}') RETURNING id`,
+  );
+  const tableId = rows[0]!.id;
+  const { rowCount } = await client.query(
+    `INSERT INTO reference_rates (table_id, outcome_id, sex, age_from, age_to, year, rate, source)
+     SELECT $1, o, sx, a, a + 9, y, 0.01 + 0.004 * ((a - 15) / 10) + (CASE WHEN sx = 'F' THEN 0.002 ELSE 0 END), 'invented benchmark rates'
+     FROM unnest($2::int[]) o, unnest(ARRAY['F', 'M']) sx, generate_series(15, 75, 10) a, generate_series(2015, 2035) y`,
+    [tableId, outcomeIds],
+  );
+  await client.query(`UPDATE reference_rate_tables SET row_count = $2 WHERE id = $1`, [tableId, rowCount]);
+}
+
+/**
  * Gives the benchmark roster (already applied) its case list: for every outcome, each roster row
  * (one worker × month, about 150 h) turns into a case with a probability that grows with the
  * row's exposure level, drawn from a hash of worker, month and outcome so that the data is the
  * same on every run. Onsets fall inside the row's month; 90 % are confirmed, the rest suspected
  * or ruled out, so the run's status filter has work to do. At these probabilities the injury
  * rate is about 2 to 4 per 100 person-years, a plausible order for a manufacturing workforce.
- * Inserted through one applied "cases" intake, as an applied case intake would leave them.
+ * Inserted through one applied "cases" intake, as an applied case intake would leave them; the
+ * reference rates (insertBenchReferenceRates) go in with them.
  */
 export async function addBenchCases(url: string): Promise<{ cases: number }> {
   const client = new pg.Client({ connectionString: url });
@@ -66,6 +87,7 @@ export async function addBenchCases(url: string): Promise<{ cases: number }> {
       );
       cases += res.rowCount ?? 0;
     }
+    await insertBenchReferenceRates(client, [...outcomeIds.values()]);
     await client.query('COMMIT');
     await client.query('ANALYZE case_events');
     return { cases };

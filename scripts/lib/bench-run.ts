@@ -2,7 +2,7 @@ import type { DataSource } from 'typeorm';
 import { createDataSource } from '@ratewarden/db';
 import { readWorkerConfig } from '@ratewarden/worker/config';
 import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
-import { applyAggregationSettings, CELLS_SQL } from '@ratewarden/worker/runs/cells-query';
+import { applyAggregationSettings, CELLS_FROM_ENTRIES_SQL } from '@ratewarden/worker/runs/cells-query';
 import { stopComputePool } from '@ratewarden/worker/runs/compute-pool';
 import { performRun, type PerformRunOptions } from '@ratewarden/worker/runs/perform-run';
 import { runSettingsOf } from '@ratewarden/worker/runs/run-settings';
@@ -14,7 +14,10 @@ import { benchWeb, type WebBench } from './bench-web';
 export interface RunBench {
   /** Current roster rows the run aggregated. */
   rows: number;
-  /** The bare SQL GROUP BY that produces the run's cells (best of three rounds, after a warm-up). */
+  /**
+   * The bare SQL GROUP BY that produces the run's cells from the roster's entries (best of three
+   * rounds, after a warm-up). The run itself reads the sums each intake stored (roster_sums).
+   */
   groupBySeconds: number;
   /** The whole run: the same aggregation, the statistics for every cell, storing the result set, rules (best of three rounds side by side with the GROUP BY, after a warm-up run). */
   runSeconds: number;
@@ -69,7 +72,7 @@ export async function benchRun(databaseUrl: string, log: (line: string) => void 
       ds.transaction(async (em) => {
         await applyAggregationSettings(em);
         const t = performance.now();
-        await em.query(CELLS_SQL, [settings.countedStatuses, ageBandEdgesOf(settings)]);
+        await em.query(CELLS_FROM_ENTRIES_SQL, [settings.countedStatuses, ageBandEdgesOf(settings)]);
         return (performance.now() - t) / 1000;
       });
     const timeRun = (reason: string) => timedBenchRun(ds, reason);

@@ -275,6 +275,26 @@ describe('reference rates and the SIR of a run', () => {
       relClose(flags[0]!.value, physician.get(c.groups.ALL!)!.exact.lower as number, 1e-12); // the exact lower limit checked above
     });
 
+    it('takes its confidence level from the analysis settings version the run used (90 %)', async () => {
+      const before = (await as.hygienist.agent.get('/api/settings').expect(200)).body.current.settings;
+      const withConfidence = (confidence: number) => ({
+        personTimeBasis: before.personTimeBasis,
+        per: before.per,
+        confidence,
+        countedStatuses: before.countedStatuses,
+        ageBandEdges: before.ageBandEdges,
+      });
+      const put = (body: object) => as.hygienist.agent.put('/api/settings').set('x-csrf-token', as.hygienist.csrf).send(body).expect(200);
+      await put(withConfidence(0.9));
+      const outcome = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' }).finally(() => put(withConfidence(before.confidence)));
+      expect(outcome.status).toBe('succeeded');
+      const all = (await sirOf(as.physician)).rows.find((r) => r.exposureGroupId === c.groups.ALL)!;
+      expect(all.confidence).toBe(0.9);
+      const e = all.expected;
+      relClose(all.exact.lower as number, chisquareQuantile(0.05, 2 * 538) / 2 / e, 1e-6); // Garwood 1936 / Ulm 1990, at 90 %
+      relClose(all.exact.upper as number, chisquareQuantile(0.95, 2 * 538 + 2) / 2 / e, 1e-6);
+    });
+
     it("gives an earlier run's SIR to the physician only, as every run figure (two runs side by side would give back withheld counts)", async () => {
       const [{ run_id: earlier }] = (await ds.query(`SELECT run_id::text FROM current_run`)) as [{ run_id: string }];
       expect((await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' })).status).toBe('succeeded');

@@ -14,7 +14,7 @@ export interface Cohort {
   outcomes: Record<string, number>;
   rosterIntake: string;
   casesIntake: string;
-  worker(key: string, birthYear: number | null, sex: 'F' | 'M' | null): Promise<number>;
+  worker(key: string, birthYear: number | null, sex: 'F' | 'M' | 'X' | null): Promise<number>;
   roster(rows: Array<[worker: number, month: string, site: number, group: number, hours: number]>): Promise<void>;
   cases(rows: Array<[worker: number, outcome: number, onset: string, status?: 'suspected' | 'confirmed' | 'ruled_out']>): Promise<void>;
 }

@@ -23,7 +23,7 @@ const MAX_BYTES = 2 * 1024 * 1024;
 const REQUEST_TIMEOUT_MS = 30_000;
 
 /** Stored tables whose rows hostile uploads must leave exactly as they were. */
-const STORED = ['workers', 'roster_entries', 'roster_slices', 'case_events', 'run_requests', 'sites', 'exposure_groups', 'outcomes'];
+const STORED = ['workers', 'roster_entries', 'roster_sums', 'roster_slices', 'case_events', 'run_requests', 'sites', 'exposure_groups', 'outcomes'];
 
 interface Outcome {
   c: HostileCase;

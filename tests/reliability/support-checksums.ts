@@ -16,7 +16,7 @@ export async function tableChecksums(ds: DataSource, tables: readonly string[]):
 }
 
 /** The cohort tables an intake writes. */
-export const cohortTables = ['workers', 'roster_entries', 'roster_slices', 'case_events', 'intakes', 'run_requests', 'audit_events'] as const;
+export const cohortTables = ['workers', 'roster_entries', 'roster_sums', 'roster_slices', 'case_events', 'intakes', 'run_requests', 'audit_events'] as const;
 
 /** The tables a run writes, apart from its own row in `runs`. */
 export const resultTables = ['current_run', 'run_results', 'run_cells', 'run_trends', 'flags', 'flag_events', 'notices'] as const;

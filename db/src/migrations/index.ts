@@ -15,6 +15,7 @@ import { SiteWatchRules1764634750000 } from './1764634750000-SiteWatchRules';
 import { RunRequestImmediate1764634700000 } from './1764634700000-RunRequestImmediate';
 
 import { RunPeriodRoster1764634900000 } from './1764634900000-RunPeriodRoster';
+import { RosterSums1764635900000 } from './1764635900000-RosterSums';
 import { Audiograms1764635300000 } from './1764635300000-Audiograms';
 import { CaseReviews1764635000000 } from './1764635000000-CaseReviews';
 import { NoticeInbox1764635010000 } from './1764635010000-NoticeInbox';
@@ -46,4 +47,5 @@ export const migrations = [
   AnalysisSettings1764635100000,
   ReferenceRates1764635200000,
   Audiograms1764635300000,
+  RosterSums1764635900000,
 ];

@@ -22,7 +22,29 @@ import type { UnattributedReason } from '@ratewarden/shared/unattributed';
  */
 const SHIFT = (col: string) => `(${col} + make_interval(months => o.lag_months))::date`;
 
-const CTES = `
+/**
+ * Person-time at its finest grain, month × site × group × birth year × sex, over the current
+ * slices: from each intake's stored sums (`roster_sums`, kept by triggers; see its migration),
+ * or summed from the roster entries themselves (the benchmark's bare GROUP BY, and the tests'
+ * check that the sums agree with the entries).
+ */
+const BASE_FROM = {
+  // A slice names one intake, whose sums hold one row per group × birth year × sex: no GROUP BY.
+  sums: `base AS (
+    SELECT r.month, r.site_id, r.exposure_group_id, r.birth_year, r.sex, r.hours
+    FROM roster_sums r
+    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+  )`,
+  entries: `base AS (
+    SELECT r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
+    FROM roster_entries r
+    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
+    JOIN workers w ON w.id = r.worker_id
+    GROUP BY r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex
+  )`,
+} as const;
+
+const ctes = (BASE: string) => `
   o AS (
     SELECT id AS outcome_id, lag_months, counting_rule = 'first_event' AS first_only FROM outcomes
   ),
@@ -59,13 +81,7 @@ const CTES = `
     ) a ON true
     WHERE cc.month <= lm.month
   ),
-  base AS (
-    SELECT r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
-    FROM roster_entries r
-    JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
-    JOIN workers w ON w.id = r.worker_id
-    GROUP BY r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex
-  ),
+  ${BASE},
   removed AS (
     SELECT f.outcome_id, r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
     FROM first_case f
@@ -84,35 +100,45 @@ const CTES = `
     FROM removed x JOIN o USING (outcome_id) CROSS JOIN last_month lm
     WHERE ${SHIFT('x.month')} <= lm.month
   )`;
+const CTES = ctes(BASE_FROM.sums);
 
 /**
- * The roster is read once: its hours are summed per month × site × group × birth year × sex
- * (`base`), credited to every outcome at the outcome's lag, and for first-event outcomes the
- * hours after each worker's first case (`removed`, read through the worker index) are
- * subtracted. The age band is derived from the birth year after that aggregation. `fine` keeps
- * the birth year: the SIR's aggregation (sir-query.ts) reads it by the reference table's own bands.
+ * The roster's hours per month × site × group × birth year × sex (`base`) are credited to every
+ * outcome at the outcome's lag, and for first-event outcomes the hours after each worker's first
+ * case (`removed`, read through the worker index) are subtracted; `both_sides` lists those hours
+ * beside the attributed cases at the birth-year grain, and each reader aggregates it once: the
+ * cells by the analysis age bands (below), the SIR by the reference table's own bands (sir-query.ts).
  */
-export const FINE_CTES = `${CTES},
+const sidesCtes = (base: string) => `${ctes(base)},
   both_sides AS (
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, hours, 0 AS n FROM pt
     UNION ALL
     SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, 0, n FROM case_cells
-  ),
-  fine AS (
-    SELECT outcome_id, month, site_id, exposure_group_id, birth_year, sex, sum(hours) AS hours, sum(n) AS cases
-    FROM both_sides
-    GROUP BY outcome_id, month, site_id, exposure_group_id, birth_year, sex
   )`;
+export const SIDES_CTES = sidesCtes(BASE_FROM.sums);
 
-export const CELLS_SQL = `
-  WITH ${FINE_CTES}
-  SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id,
-         CASE WHEN birth_year IS NULL THEN NULL
-              ELSE coalesce(($2::int[])[nullif(width_bucket((extract(year FROM month) - birth_year)::int, $2::int[]), 0)], 0) END AS age_band,
-         sex, sum(hours)::text AS hours, sum(cases)::int AS cases
-  FROM fine
-  GROUP BY 1, 2, 3, 4, 5, 6
-  HAVING sum(hours) > 0 OR sum(cases) > 0`;
+const cellsSql = (base: string) => `
+  WITH ${sidesCtes(base)}
+  SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id, age_band, sex, hours::text, cases::int
+  FROM (
+    SELECT outcome_id, month, site_id, exposure_group_id,
+           CASE WHEN birth_year IS NULL THEN NULL
+                ELSE coalesce(($2::int[])[nullif(width_bucket((extract(year FROM month) - birth_year)::int, $2::int[]), 0)], 0) END AS age_band,
+           sex, sum(hours) AS hours, sum(n) AS cases
+    FROM both_sides
+    GROUP BY 1, 2, 3, 4, 5, 6
+    HAVING sum(hours) > 0 OR sum(n) > 0
+  ) c`;
+
+/** The run's cells ($1 counted statuses, $2 age band edges), person-time from the stored sums. */
+export const CELLS_SQL = cellsSql(BASE_FROM.sums);
+
+/**
+ * The same cells with the roster's 1.2 M entries (on the benchmark) summed anew: what the run
+ * would cost without `roster_sums`, the run benchmark's bare GROUP BY, and the tests' check
+ * that the sums the triggers keep give the cells the entries give.
+ */
+export const CELLS_FROM_ENTRIES_SQL = cellsSql(BASE_FROM.entries);
 
 /** Counted cases per outcome after the counting rule (those matching a roster row are in the cells). */
 export const COUNTED_CASES_SQL = `
@@ -169,8 +195,14 @@ export const UNATTRIBUTED_SQL = `
  * JIT off: the aggregation is one plan of some 250 expressions, and compiling them took longer
  * (about 20 s measured on the 1.2 M-row benchmark roster) than executing the whole query without
  * JIT (about 5 s); the query is I/O and hashing bound, which JIT does not speed up.
+ * work_mem 64 MB: the birth-year grain holds some 230,000 rows on the benchmark; within the
+ * default 4 MB its hash aggregates spilled to disk in 129 batches (EXPLAIN ANALYZE). The run
+ * holds one such transaction at a time.
  */
-export const AGGREGATION_SETTINGS: ReadonlyArray<[string, string]> = [['jit', 'off']];
+export const AGGREGATION_SETTINGS: ReadonlyArray<[string, string]> = [
+  ['jit', 'off'],
+  ['work_mem', '64MB'],
+];
 
 /** Applies AGGREGATION_SETTINGS to the current transaction (SET LOCAL: gone at commit). */
 export async function applyAggregationSettings(q: { query(sql: string, params?: unknown[]): Promise<unknown> }): Promise<void> {

@@ -1,12 +1,12 @@
 import type { QueryRunner } from 'typeorm';
 import type { CaseStatus } from '@ratewarden/shared/intake';
 import { HOURS_PER_PERSON_YEAR } from '@ratewarden/shared/reference-rates';
-import { FINE_CTES } from './cells-query';
+import { SIDES_CTES } from './cells-query';
 
 /**
  * Observed and expected cases for the standardized incidence ratio, per outcome × site × exposure
- * group, from the run's own aggregation (`fine` in cells-query.ts: same roster, cases, lag and
- * counting rule) read by the reference table's strata, not the analysis age bands: sex × age band
+ * group, from the run's own hours and cases (`both_sides` in cells-query.ts: same roster, cases,
+ * lag and counting rule) read by the reference table's strata, not the analysis age bands: sex × age band
  * (age = calendar year − birth year, both band edges included) × calendar year of the month.
  * Expected E = Σ hours / 2,000 × rate (rates are per person-year; indirect standardization,
  * Breslow & Day 1987 Vol. II). Only person-time a reference rate covers enters E, and only cases
@@ -14,11 +14,11 @@ import { FINE_CTES } from './cells-query';
  * not hold) is reported as uncovered hours. Outcomes without reference rates are left out.
  */
 export const SIR_SQL = `
-  WITH ${FINE_CTES},
+  WITH ${SIDES_CTES},
   ref AS (SELECT outcome_id, sex, age_from, age_to, year, rate FROM reference_rates WHERE table_id = $2),
   matched AS (
-    SELECT f.outcome_id, f.site_id, f.exposure_group_id, f.hours, f.cases, r.rate
-    FROM fine f
+    SELECT f.outcome_id, f.site_id, f.exposure_group_id, f.hours, f.n AS cases, r.rate
+    FROM both_sides f
     LEFT JOIN ref r ON r.outcome_id = f.outcome_id AND r.sex = f.sex AND r.year = extract(year FROM f.month)::int
       AND extract(year FROM f.month)::int - f.birth_year BETWEEN r.age_from AND r.age_to
     WHERE f.outcome_id IN (SELECT DISTINCT outcome_id FROM ref)
