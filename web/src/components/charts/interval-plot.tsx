@@ -5,6 +5,7 @@ import { useMemo } from 'react';
 import { formatEstimate } from '../../lib/format';
 import type { CsvExport } from '../table/export-button';
 import { ChartFigure } from './chart-figure';
+import { IntervalTable } from './interval-table';
 import { echarts, tokenColour } from './echarts-setup';
 
 /**
@@ -139,38 +140,7 @@ export function IntervalPlot({
           />
         </div>
       }
-      table={
-        <>
-          <thead>
-            <tr className="border-b border-ink text-left">
-              <th scope="col" className="px-2 py-1">
-                Item
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Estimate
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Lower
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Upper
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {items.map((i) => (
-              <tr key={i.label} className="border-b border-line">
-                <th scope="row" className="px-2 py-1 text-left font-medium">
-                  {i.label}
-                </th>
-                <td className="px-2 py-1 tabular-nums">{formatEstimate(i.estimate)}</td>
-                <td className="px-2 py-1 tabular-nums">{formatEstimate(i.lower)}</td>
-                <td className="px-2 py-1 tabular-nums">{formatEstimate(i.upper)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </>
-      }
+      table={<IntervalTable rows={items} format={formatEstimate} />}
     />
   );
 }

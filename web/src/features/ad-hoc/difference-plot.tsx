@@ -1,4 +1,5 @@
 import { ChartFigure } from '../../components/charts/chart-figure';
+import { IntervalTable } from '../../components/charts/interval-table';
 import { formatEstimate } from '../../lib/format';
 import { linearAxis } from './linear-ticks';
 
@@ -66,36 +67,7 @@ export function DifferencePlot({
           </text>
         </svg>
       }
-      table={
-        <>
-          <thead>
-            <tr className="border-b border-ink text-left">
-              <th scope="col" className="px-2 py-1">
-                Item
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Estimate
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Lower
-              </th>
-              <th scope="col" className="px-2 py-1">
-                Upper
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            <tr className="border-b border-line">
-              <th scope="row" className="px-2 py-1 text-left font-medium">
-                {label}
-              </th>
-              <td className="px-2 py-1 tabular-nums">{estimate === null ? 'not defined' : points(estimate)}</td>
-              <td className="px-2 py-1 tabular-nums">{lower === null ? 'not defined' : points(lower)}</td>
-              <td className="px-2 py-1 tabular-nums">{upper === null ? 'not defined' : points(upper)}</td>
-            </tr>
-          </tbody>
-        </>
-      }
+      table={<IntervalTable rows={[{ label, estimate, lower, upper }]} format={(v) => (v === null ? 'not defined' : points(v))} />}
     />
   );
 }

@@ -1,8 +1,7 @@
 import { countingRuleSchema } from '@ratewarden/shared/domain';
 import { outcomeCreateSchema, type ExposureGroupDto, type OutcomeDto } from '@ratewarden/shared/groups';
 import { useId, useState } from 'react';
-import { ProblemNotice } from '../../components/feedback/problem-notice';
-import { problemOf } from '../../components/feedback/route-error';
+import { createOrChange, RecordForm, useSchemaCheck } from '../../components/form/record-form';
 import { SelectField } from '../../components/form/select-field';
 import { TextField } from '../../components/form/text-field';
 import { useSaveOutcome } from './api/save-outcome';
@@ -15,15 +14,17 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
   const [countingRule, setCountingRule] = useState(outcome?.countingRule ?? 'first_event');
   const [lag, setLag] = useState(String(outcome?.lagMonths ?? 0));
   const [reference, setReference] = useState(outcome?.referenceGroupId ? String(outcome.referenceGroupId) : '');
-  const [errors, setErrors] = useState<Record<string, string>>({});
+  const { errors, check } = useSchemaCheck(outcomeCreateSchema);
   const defId = useId();
   return (
-    <form
-      aria-label={outcome ? `Change ${outcome.name}` : 'New outcome'}
-      className="mt-3 grid gap-3 form-panel p-3 sm:grid-cols-2"
-      onSubmit={(e) => {
-        e.preventDefault();
-        const parsed = outcomeCreateSchema.safeParse({
+    <RecordForm
+      label={outcome ? `Change ${outcome.name}` : 'New outcome'}
+      columns={2}
+      save={save}
+      submitLabel={outcome ? 'Save the outcome' : 'Create the outcome'}
+      onCancel={onDone}
+      onSubmit={() => {
+        const parsed = check({
           code: outcome?.code ?? code,
           name,
           caseDefinition,
@@ -31,13 +32,7 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
           lagMonths: Number(lag),
           referenceGroupId: reference ? Number(reference) : null,
         });
-        if (!parsed.success) {
-          setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-          return;
-        }
-        setErrors({});
-        const { code: c, ...rest } = parsed.data;
-        save.mutate(outcome ? { id: outcome.id, body: rest } : { id: null, body: { code: c, ...rest } }, { onSuccess: onDone });
+        if (parsed) save.mutate(createOrChange(outcome, parsed), { onSuccess: onDone });
       }}
     >
       {!outcome && <TextField label="Code" hint="as it appears in case files" value={code} onChange={(e) => setCode(e.target.value)} error={errors.code} />}
@@ -72,19 +67,6 @@ export function OutcomeForm({ outcome, groups, onDone }: { outcome: OutcomeDto |
         onChange={(e) => setReference(e.target.value)}
         options={[{ value: '', label: 'The global reference group' }, ...groups.map((g) => ({ value: String(g.id), label: g.name }))]}
       />
-      {save.isError && (
-        <div className="sm:col-span-2">
-          <ProblemNotice title="Not saved" problem={problemOf(save.error).problem} />
-        </div>
-      )}
-      <div className="flex gap-3 sm:col-span-2">
-        <button type="submit" disabled={save.isPending} className="btn btn-primary px-3 py-1.5 text-sm">
-          {outcome ? 'Save the outcome' : 'Create the outcome'}
-        </button>
-        <button type="button" onClick={onDone} className="btn btn-quiet px-3 py-1.5 text-sm">
-          Cancel
-        </button>
-      </div>
-    </form>
+    </RecordForm>
   );
 }
