@@ -7,6 +7,7 @@ import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import { refreshPlannerStatistics } from '@ratewarden/db/planner-statistics';
+import { ExposureGroupEntity, OutcomeEntity, WatchRuleEntity } from '@ratewarden/db/entities/index';
 import { disclosureFrame } from '../disclosure/disclosure-frame';
 import { storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
@@ -236,52 +237,30 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
   try {
     await qr.query(`SET TRANSACTION READ ONLY`);
     await applyAggregationSettings(qr);
-    const outcomes: Array<{ id: number; reference_group_id: number | null }> = await qr.query(`SELECT id, reference_group_id FROM outcomes ORDER BY id`);
-    const groups: Array<{ id: number; exposure_level: number | null; is_reference: boolean }> = await qr.query(
-      `SELECT id, exposure_level, is_reference FROM exposure_groups ORDER BY id`,
-    );
+    const outcomes = await qr.manager.getRepository(OutcomeEntity).find({ select: { id: true, referenceGroupId: true }, order: { id: 'ASC' } });
+    const groups = await qr.manager
+      .getRepository(ExposureGroupEntity)
+      .find({ select: { id: true, exposureLevel: true, isReference: true }, order: { id: 'ASC' } });
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
     const cells = await loadCells(qr, settings.countedStatuses, ageBandEdgesOf(settings));
     const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
     const unattributed = await loadUnattributed(qr, settings.countedStatuses);
-    const ruleRows: Array<Record<string, unknown>> = await qr.query(`SELECT * FROM watch_rules WHERE active ORDER BY created_at`);
+    // The entity maps the rule's columns once (db/src/entities/watch-rule.ts): typed, no casts.
+    const rules = await qr.manager.getRepository(WatchRuleEntity).find({ where: { active: true }, order: { createdAt: 'ASC' } });
     const sitePeriods = await readSitePeriods(qr.manager);
     const referenceTableId = await loadReferenceTableId(qr);
     const sirCells = referenceTableId === null ? [] : await loadSirCells(qr, settings.countedStatuses, referenceTableId);
     await qr.commitTransaction();
-    const rules: RuleToEvaluate[] = ruleRows.map((r) => ({
-      id: r.id as string,
-      outcomeId: r.outcome_id as number,
-      exposureGroupId: r.exposure_group_id as number | null,
-      siteIds: (r.site_ids as number[] | null) ?? null,
-      measure: r.measure as RuleToEvaluate['measure'],
-      thresholdOn: r.threshold_on as RuleToEvaluate['thresholdOn'],
-      threshold: r.threshold as number | null,
-      minCases: r.min_cases as number,
-      minExpected: r.min_expected as number,
-      windowKind: r.window_kind as RuleToEvaluate['windowKind'],
-      consecutivePeriods: r.consecutive_periods as number,
-      fdrControl: r.fdr_control as boolean,
-      fdrLevel: r.fdr_level as number,
-    }));
     const ruleInfo = new Map<string, RuleForFlags>(
-      ruleRows.map((r) => [
-        r.id as string,
-        {
-          id: r.id as string,
-          name: r.name as string,
-          measure: r.measure as RuleForFlags['measure'],
-          thresholdOn: r.threshold_on as RuleForFlags['thresholdOn'],
-          threshold: r.threshold as number | null,
-          windowKind: r.window_kind as RuleForFlags['windowKind'],
-          recipients: r.recipients as string[],
-        },
+      rules.map((r) => [
+        r.id,
+        { id: r.id, name: r.name, measure: r.measure, thresholdOn: r.thresholdOn, threshold: r.threshold, windowKind: r.windowKind, recipients: r.recipients },
       ]),
     );
     return {
-      outcomes: outcomes.map((o) => ({ id: o.id, referenceGroupId: o.reference_group_id })),
-      groups: groups.map((g) => ({ id: g.id, exposureLevel: g.exposure_level, isReference: g.is_reference })),
+      outcomes: outcomes.map((o) => ({ id: o.id, referenceGroupId: o.referenceGroupId })),
+      groups: groups.map((g) => ({ id: g.id, exposureLevel: g.exposureLevel, isReference: g.isReference })),
       inputs: { rosterIntakeIds: roster.map((r) => r.id), caseIntakeIds: cases.map((r) => r.id) },
       cells,
       caseTotals,
