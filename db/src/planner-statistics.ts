@@ -1,5 +1,10 @@
-/** The tables a run's aggregation and a case list's checks read; their plans are only as good as these tables' statistics. */
-export const AGGREGATED_TABLES = ['roster_entries', 'roster_sums', 'roster_slices', 'workers', 'case_events'] as const;
+/**
+ * The tables a run's aggregation and a case list's checks read; their plans are only as good as
+ * these tables' statistics. The small ones count too: autovacuum never analyzes a table of a few
+ * outcomes (its threshold is 50 changed rows), and the planner's guess for a table never
+ * analyzed (hundreds of rows) multiplied the aggregation's estimate a hundredfold.
+ */
+export const AGGREGATED_TABLES = ['roster_entries', 'roster_sums', 'roster_slices', 'workers', 'case_events', 'outcomes', 'exposure_groups'] as const;
 
 export interface TableActivity {
   table: string;

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { CELLS_FROM_ENTRIES_SQL, CELLS_SQL } from '@ratewarden/worker/runs/cells-query';
+import { CELLS_AND_SIR_SQL } from '@ratewarden/worker/runs/sir-query';
 import { openTestDataSource } from '../support/test-db';
 import { clearCohortData, makeCohort, type Cohort } from './runs-fixture';
 
@@ -91,6 +92,33 @@ describe('roster sums kept by triggers', () => {
     const fromSums = await cells(CELLS_SQL);
     expect(fromSums.length).toBeGreaterThan(5);
     expect(fromSums).toEqual(await cells(CELLS_FROM_ENTRIES_SQL));
+  });
+
+  it('gives the same cells when read together with the SIR counts (one statement for both)', async () => {
+    await ds.query(`TRUNCATE reference_rate_tables CASCADE`);
+    const [{ id }] = (await ds.query(
+      `INSERT INTO reference_rate_tables (state, file_name, checksum, sources) VALUES ('applied', 'r.csv', repeat('a', 64), '{test}') RETURNING id`,
+    )) as [{ id: number }];
+    // Men 45–54 in 2031 only: worker a (born 1980, 51) is covered, the others are not.
+    await ds.query(
+      `INSERT INTO reference_rates (table_id, outcome_id, sex, age_from, age_to, year, rate, source) VALUES ($1, $2, 'M', 45, 54, 2031, 0.02, 'test')`,
+      [id, c.outcomes.INJ],
+    );
+    const rows = (await ds.query(CELLS_AND_SIR_SQL, [...params, id])) as Array<Record<string, unknown>>;
+    const cellRows = rows
+      .filter((r) => r.kind === 'cell')
+      .map((r) => JSON.stringify([r.outcome_id, r.month, r.site_id, r.exposure_group_id, r.age_band, r.sex, Number(r.hours), r.cases]))
+      .sort();
+    expect(cellRows).toEqual(await cells(CELLS_SQL));
+    const sir = rows.filter((r) => r.kind === 'sir');
+    // Every group of the outcome with hours has a row; only worker a's hours are covered: 150.25 h in
+    // January and 120 h in February on site one, group EXP, with one case in February.
+    expect(sir.every((r) => r.outcome_id === c.outcomes.INJ)).toBe(true);
+    const covered = sir.filter((r) => Number(r.hours) > 0);
+    expect(covered).toEqual([expect.objectContaining({ site_id: c.sites[0], exposure_group_id: c.groups.EXP, hours: '270.25', cases: 1 })]);
+    expect(Number(covered[0]!.expected)).toBeCloseTo((270.25 / 2000) * 0.02, 12);
+    expect(sir.filter((r) => Number(r.hours) === 0).every((r) => Number(r.hours_uncovered) > 0 && Number(r.expected) === 0)).toBe(true);
+    await ds.query(`TRUNCATE reference_rate_tables CASCADE`);
   });
 
   it('follows a delete of entries, and empties with a truncate', async () => {

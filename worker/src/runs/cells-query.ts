@@ -117,8 +117,8 @@ const sidesCtes = (base: string) => `${ctes(base)},
   )`;
 export const SIDES_CTES = sidesCtes(BASE_FROM.sums);
 
-const cellsSql = (base: string) => `
-  WITH ${sidesCtes(base)}
+/** The cells from `both_sides` by the analysis age bands ($2, an increasing list of edges). */
+export const CELL_ROWS = `
   SELECT outcome_id, to_char(month, 'YYYY-MM-DD') AS month, site_id, exposure_group_id, age_band, sex, hours::text, cases::int
   FROM (
     SELECT outcome_id, month, site_id, exposure_group_id,
@@ -129,6 +129,8 @@ const cellsSql = (base: string) => `
     GROUP BY 1, 2, 3, 4, 5, 6
     HAVING sum(hours) > 0 OR sum(n) > 0
   ) c`;
+
+const cellsSql = (base: string) => `WITH ${sidesCtes(base)} ${CELL_ROWS}`;
 
 /** The run's cells ($1 counted statuses, $2 age band edges), person-time from the stored sums. */
 export const CELLS_SQL = cellsSql(BASE_FROM.sums);
@@ -195,14 +197,10 @@ export const UNATTRIBUTED_SQL = `
  * JIT off: the aggregation is one plan of some 250 expressions, and compiling them took longer
  * (about 20 s measured on the 1.2 M-row benchmark roster) than executing the whole query without
  * JIT (about 5 s); the query is I/O and hashing bound, which JIT does not speed up.
- * work_mem 64 MB: the birth-year grain holds some 230,000 rows on the benchmark; within the
- * default 4 MB its hash aggregates spilled to disk in 129 batches (EXPLAIN ANALYZE). The run
- * holds one such transaction at a time.
+ * work_mem stays at the server's setting: at 64 MB the planner hashed the whole roster for the
+ * unattributed cases' look-ups (0.2 s became 4 to 6 s on the benchmark).
  */
-export const AGGREGATION_SETTINGS: ReadonlyArray<[string, string]> = [
-  ['jit', 'off'],
-  ['work_mem', '64MB'],
-];
+export const AGGREGATION_SETTINGS: ReadonlyArray<[string, string]> = [['jit', 'off']];
 
 /** Applies AGGREGATION_SETTINGS to the current transaction (SET LOCAL: gone at commit). */
 export async function applyAggregationSettings(q: { query(sql: string, params?: unknown[]): Promise<unknown> }): Promise<void> {
@@ -221,7 +219,7 @@ export interface Cell {
   cases: number;
 }
 
-interface CellRow {
+export interface CellRow {
   outcome_id: number;
   month: string;
   site_id: number;
@@ -232,10 +230,9 @@ interface CellRow {
   cases: number;
 }
 
-/** Runs the aggregation and returns its cells. */
-export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[], ageBandEdges: readonly number[]): Promise<Cell[]> {
-  const rows: CellRow[] = await q.query(CELLS_SQL, [countedStatuses, ageBandEdges]);
-  return rows.map((r) => ({
+/** A cell from its row (hours as exact hundredths). */
+export function cellOf(r: CellRow): Cell {
+  return {
     outcomeId: r.outcome_id,
     month: r.month,
     siteId: r.site_id,
@@ -244,7 +241,13 @@ export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[], a
     sex: r.sex,
     cents: Math.round(Number(r.hours) * 100),
     cases: r.cases,
-  }));
+  };
+}
+
+/** Runs the aggregation and returns its cells (CELLS_SQL; with reference rates, sir-query.ts loadCellsAndSir reads both at once). */
+export async function loadCells(q: QueryRunner, countedStatuses: CaseStatus[], ageBandEdges: readonly number[]): Promise<Cell[]> {
+  const rows: CellRow[] = await q.query(CELLS_SQL, [countedStatuses, ageBandEdges]);
+  return rows.map(cellOf);
 }
 
 /** Cases counted per outcome, and how many of them the cells hold (the rest matched no roster row). */

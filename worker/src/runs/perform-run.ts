@@ -23,7 +23,7 @@ import { openResultWriter, storeCells } from './store-results';
 import { storeUnattributed, unattributedSummary } from './store-unattributed';
 import { storeRunPeriods } from './store-run-periods';
 import { computeSir, sirDisclosure } from './compute-sir';
-import { loadReferenceTableId, loadSirCells, type SirCell } from './sir-query';
+import { loadCellsAndSir, loadReferenceTableId, type SirCell } from './sir-query';
 import { storeSir } from './store-sir';
 
 export interface PerformRunOptions {
@@ -243,14 +243,17 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
       .find({ select: { id: true, exposureLevel: true, isReference: true }, order: { id: 'ASC' } });
     const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
     const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
-    const cells = await loadCells(qr, settings.countedStatuses, ageBandEdgesOf(settings));
+    // With reference rates, one statement gives the cells and the SIR's counts (sir-query.ts).
+    const referenceTableId = await loadReferenceTableId(qr);
+    const { cells, sirCells } =
+      referenceTableId === null
+        ? { cells: await loadCells(qr, settings.countedStatuses, ageBandEdgesOf(settings)), sirCells: [] }
+        : await loadCellsAndSir(qr, settings.countedStatuses, ageBandEdgesOf(settings), referenceTableId);
     const caseTotals = await loadCaseTotals(qr, settings.countedStatuses, cells);
     const unattributed = await loadUnattributed(qr, settings.countedStatuses);
     // The entity maps the rule's columns once (db/src/entities/watch-rule.ts): typed, no casts.
     const rules = await qr.manager.getRepository(WatchRuleEntity).find({ where: { active: true }, order: { createdAt: 'ASC' } });
     const sitePeriods = await readSitePeriods(qr.manager);
-    const referenceTableId = await loadReferenceTableId(qr);
-    const sirCells = referenceTableId === null ? [] : await loadSirCells(qr, settings.countedStatuses, referenceTableId);
     await qr.commitTransaction();
     const ruleInfo = new Map<string, RuleForFlags>(
       rules.map((r) => [
