@@ -44,17 +44,15 @@ async function deliver(ds: DataSource, transport: NoticeTransport, s: SenderSett
   try {
     const info = await transport.sendMail({ from: s.from, to: n.recipient, subject: n.subject, text: n.body, messageId: n.messageId });
     // Only a notice still `sending` is marked: a sender that took over after the lease may have marked it already.
-    await ds
-      .getRepository(NoticeEntity)
-      .update(
-        { id: n.id, state: 'sending' },
-        {
-          state: 'sent',
-          sentAt: () => 'now()',
-          serverResponse: String((info as { response?: unknown }).response ?? '').slice(0, 500) || null,
-          lastError: null,
-        },
-      );
+    await ds.getRepository(NoticeEntity).update(
+      { id: n.id, state: 'sending' },
+      {
+        state: 'sent',
+        sentAt: () => 'now()',
+        serverResponse: String((info as { response?: unknown }).response ?? '').slice(0, 500) || null,
+        lastError: null,
+      },
+    );
     return 'sent';
   } catch (err) {
     const message = (err instanceof Error ? err.message : String(err)).slice(0, 500);
