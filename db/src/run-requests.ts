@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { RunRequestEntity } from './entities/run-request';
 import { rows } from './sql';
 
 /** The pending run requests and when the worker runs them. */
@@ -33,4 +34,9 @@ export async function pendingRun(db: DataSource | EntityManager, quietSeconds: n
     [quietSeconds, now ?? null],
   );
   return row ? { count: Number(row.count), immediate: row.immediate, latestAt: row.latest_at, dueAt: row.due_at, due: row.due } : null;
+}
+
+/** Asks for a run, in the transaction of the change that calls for it (the worker batches requests: `pendingRun`). */
+export async function requestRun(em: EntityManager, reason: string, options: { intakeId?: string; immediate?: boolean } = {}): Promise<void> {
+  await em.getRepository(RunRequestEntity).insert({ reason, intakeId: options.intakeId ?? null, immediate: options.immediate ?? false });
 }

@@ -1,5 +1,6 @@
 import { createRemoteJWKSet, errors, jwtVerify } from 'jose';
 import type { DataSource } from 'typeorm';
+import { IntegrationClientEntity } from '@ratewarden/db';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { ApiConfig } from '../config';
 import { AppError } from '../lib/app-error';
@@ -35,8 +36,8 @@ export async function verifyClientToken(ds: DataSource, config: ApiConfig, token
   const scopes = typeof payload.scope === 'string' ? payload.scope.split(' ') : [];
   if (!clientId) throw new AppError('unauthenticated', 'the access token was refused: it names no client');
   if (!scopes.includes('intake:write')) throw new AppError('forbidden', 'the access token lacks the intake:write scope');
-  const rows: { revoked_at: Date | null }[] = await ds.query(`SELECT revoked_at FROM integration_clients WHERE client_id = $1`, [clientId]);
-  if (!rows.length) throw new AppError('forbidden', `integration client ${clientId} is not registered in Ratewarden`);
-  if (rows[0]!.revoked_at) throw new AppError('forbidden', `integration client ${clientId} has been revoked`);
+  const client = await ds.getRepository(IntegrationClientEntity).findOne({ select: { clientId: true, revokedAt: true }, where: { clientId } });
+  if (!client) throw new AppError('forbidden', `integration client ${clientId} is not registered in Ratewarden`);
+  if (client.revokedAt) throw new AppError('forbidden', `integration client ${clientId} has been revoked`);
   return { kind: 'client', clientId };
 }

@@ -1,36 +1,33 @@
-import type { DataSource, EntityManager } from 'typeorm';
-import { roleSchema, type Role } from '@ratewarden/shared/domain';
+import { In, IsNull, type DataSource, type EntityManager } from 'typeorm';
+import { UserEntity, UserSiteEntity, type User } from '@ratewarden/db';
+import { roleSchema } from '@ratewarden/shared/domain';
 import type { Principal } from '@ratewarden/shared/permissions';
-import { rows as sqlRows } from '@ratewarden/db';
 
 type UserPrincipal = Extract<Principal, { kind: 'user' }>;
 
-interface UserRow {
-  id: string;
-  email: string;
-  name: string;
-  role: Role | null;
-  site_ids: number[];
-}
-
-const toPrincipal = (r: UserRow): UserPrincipal => ({
+const toPrincipal = (u: User, siteIds: number[]): UserPrincipal => ({
   kind: 'user',
-  id: r.id,
-  email: r.email,
-  name: r.name,
-  role: r.role === null ? null : roleSchema.parse(r.role),
-  siteIds: r.site_ids.map(Number),
+  id: u.id,
+  email: u.email,
+  name: u.name,
+  role: u.role === null ? null : roleSchema.parse(u.role),
+  siteIds,
 });
 
-const SELECT_USER = `
-  SELECT u.id, u.email, u.name, u.role,
-         coalesce(array_agg(us.site_id ORDER BY us.site_id) FILTER (WHERE us.site_id IS NOT NULL), '{}') AS site_ids
-    FROM users u LEFT JOIN user_sites us ON us.user_id = u.id`;
+/** The sites each of `userIds` may see (site scoping), in id order; a person without sites has an empty list. */
+export async function siteIdsByUser(db: DataSource | EntityManager, userIds: string[]): Promise<Map<string, number[]>> {
+  const bySite = new Map(userIds.map((id): [string, number[]] => [id, []]));
+  if (!userIds.length) return bySite;
+  const links = await db.getRepository(UserSiteEntity).find({ where: { userId: In(userIds) }, order: { siteId: 'ASC' } });
+  for (const l of links) bySite.get(l.userId)?.push(l.siteId);
+  return bySite;
+}
 
 /** Loads a person with their role and sites, fresh on every request so changes apply at once. */
 export async function loadUser(db: DataSource | EntityManager, id: string): Promise<UserPrincipal | undefined> {
-  const rows: UserRow[] = await db.query(`${SELECT_USER} WHERE u.id = $1 GROUP BY u.id`, [id]);
-  return rows[0] && toPrincipal(rows[0]);
+  const user = await db.getRepository(UserEntity).findOneBy({ id });
+  if (!user) return undefined;
+  return toPrincipal(user, (await siteIdsByUser(db, [id])).get(id)!);
 }
 
 /**
@@ -43,30 +40,23 @@ export async function accountForSignIn(
   identity: { subject: string; email: string; name: string },
 ): Promise<{ user: UserPrincipal; created: boolean }> {
   return ds.transaction(async (em) => {
+    const users = em.getRepository(UserEntity);
     const email = identity.email.trim().toLowerCase();
-    let rows = await sqlRows<{ id: string }>(
-      em,
-      `UPDATE users SET email = $2, name = $3, last_sign_in_at = now(), updated_at = now() WHERE subject = $1 RETURNING id`,
-      [identity.subject, email, identity.name],
-    );
-    let created = false;
-    if (!rows.length) {
-      rows = await sqlRows<{ id: string }>(
-        em,
-        `UPDATE users SET subject = $1, name = $3, last_sign_in_at = now(), updated_at = now()
-          WHERE subject IS NULL AND lower(email) = $2 RETURNING id`,
-        [identity.subject, email, identity.name],
-      );
+    const signedIn = { name: identity.name, lastSignInAt: () => 'now()' };
+    let id = (await users.findOne({ select: { id: true }, where: { subject: identity.subject } }))?.id;
+    if (id) await users.update(id, { ...signedIn, email });
+    if (!id) {
+      // Pre-provisioned: bound now, unless another sign-in bound it a moment ago.
+      const invited = await users.createQueryBuilder('u').select('u.id').where('u.subject IS NULL AND lower(u.email) = :email', { email }).getOne();
+      if (invited && (await users.update({ id: invited.id, subject: IsNull() }, { ...signedIn, subject: identity.subject })).affected) id = invited.id;
     }
-    if (!rows.length) {
-      rows = await em.query(`INSERT INTO users (subject, email, name, last_sign_in_at) VALUES ($1, $2, $3, now()) RETURNING id`, [
-        identity.subject,
-        email,
-        identity.name,
-      ]);
+    let created = false;
+    if (!id) {
+      const inserted = await users.insert({ ...signedIn, subject: identity.subject, email });
+      id = (inserted.identifiers[0] as { id: string }).id;
       created = true;
     }
-    const user = await loadUser(em, rows[0]!.id);
+    const user = await loadUser(em, id);
     return { user: user!, created };
   });
 }

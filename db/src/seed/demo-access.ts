@@ -1,4 +1,8 @@
-import type { EntityManager } from 'typeorm';
+import { In, type EntityManager } from 'typeorm';
+import { IntegrationClientEntity } from '../entities/integration-client';
+import { SiteEntity } from '../entities/site';
+import { UserEntity } from '../entities/user';
+import { UserSiteEntity } from '../entities/user-site';
 import type { Role } from '@ratewarden/shared/domain';
 
 /**
@@ -16,11 +20,9 @@ export const demoIntegrationClient = { clientId: 'hr-sync-demo', name: 'HR roste
 
 export async function seedDemoAccess(em: EntityManager): Promise<void> {
   for (const p of demoPeople) {
-    const [user] = (await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, $3) RETURNING id`, [p.email, p.name, p.role])) as { id: string }[];
-    await em.query(`INSERT INTO user_sites (user_id, site_id) SELECT $1, id FROM sites WHERE $2::text[] IS NULL OR code = ANY($2::text[])`, [
-      user!.id,
-      p.sites === 'all' ? null : p.sites,
-    ]);
+    const { id: userId } = await em.getRepository(UserEntity).save({ email: p.email, name: p.name, role: p.role });
+    const sites = await em.getRepository(SiteEntity).find({ select: { id: true }, where: p.sites === 'all' ? {} : { code: In(p.sites) } });
+    if (sites.length) await em.getRepository(UserSiteEntity).insert(sites.map((s) => ({ userId, siteId: s.id })));
   }
-  await em.query(`INSERT INTO integration_clients (client_id, name) VALUES ($1, $2)`, [demoIntegrationClient.clientId, demoIntegrationClient.name]);
+  await em.getRepository(IntegrationClientEntity).insert(demoIntegrationClient);
 }

@@ -1,4 +1,6 @@
 import type { DataSource } from 'typeorm';
+import { SiteEntity } from '../entities/site';
+import { UserEntity } from '../entities/user';
 import { seedDemo } from './seed-demo';
 
 /**
@@ -9,9 +11,9 @@ import { seedDemo } from './seed-demo';
  */
 export async function seedFirstAdministrator(ds: DataSource, email: string, name = 'Administrator'): Promise<boolean> {
   return ds.transaction(async (em) => {
-    const [row] = (await em.query(`SELECT (SELECT count(*) FROM sites) + (SELECT count(*) FROM users) AS n`)) as Array<{ n: string }>;
-    if (Number(row!.n) > 0) return false;
-    await em.query(`INSERT INTO users (email, name, role) VALUES ($1, $2, 'administrator')`, [email, name]);
+    const users = em.getRepository(UserEntity);
+    if ((await em.getRepository(SiteEntity).exists()) || (await users.exists())) return false;
+    await users.insert({ email, name, role: 'administrator' });
     return true;
   });
 }
@@ -23,6 +25,5 @@ export async function seedFirstAdministrator(ds: DataSource, email: string, name
  */
 export async function seedNewDatabase(ds: DataSource, options: { empty: boolean; firstAdminEmail: string }): Promise<'demo' | 'first administrator' | null> {
   if (options.empty) return (await seedFirstAdministrator(ds, options.firstAdminEmail)) ? 'first administrator' : null;
-  const [{ people }] = (await ds.query(`SELECT count(*)::int AS people FROM users`)) as [{ people: number }];
-  return people === 0 && (await seedDemo(ds)) ? 'demo' : null;
+  return !(await ds.getRepository(UserEntity).exists()) && (await seedDemo(ds)) ? 'demo' : null;
 }

@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import { rows } from '@ratewarden/db';
+import { NoticeEntity, rows } from '@ratewarden/db';
 import { noticeMessageId } from './message-id';
 
 export interface ClaimedNotice {
@@ -27,6 +27,7 @@ export type Claim = { kind: 'none' } | { kind: 'exhausted'; id: string } | { kin
  */
 export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: number; maxAttempts: number }): Promise<Claim> {
   return ds.transaction(async (em): Promise<Claim> => {
+    // The claim stays SQL: a row lock that skips rows other senders hold, and a lease on the database's clock.
     const due: Array<{ id: string; attempts: number }> = await em.query(
       `SELECT id, attempts FROM notices
        WHERE state IN ('pending', 'sending') AND next_attempt_at <= now()
@@ -35,9 +36,7 @@ export async function claimNextNotice(ds: DataSource, s: { sendingLeaseMs: numbe
     const n = due[0];
     if (!n) return { kind: 'none' };
     if (n.attempts >= s.maxAttempts) {
-      await em.query(`UPDATE notices SET state = 'failed', last_error = 'the sender stopped during the last allowed attempt; delivery unknown' WHERE id = $1`, [
-        n.id,
-      ]);
+      await em.getRepository(NoticeEntity).update(n.id, { state: 'failed', lastError: 'the sender stopped during the last allowed attempt; delivery unknown' });
       return { kind: 'exhausted', id: n.id };
     }
     const [row] = await rows<{ recipient: string; subject: string; body: string; attempts: number; message_id: string }>(

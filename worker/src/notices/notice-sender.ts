@@ -1,5 +1,6 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { DataSource } from 'typeorm';
+import { NoticeEntity } from '@ratewarden/db';
 import { claimNextNotice, type ClaimedNotice } from './claim-notice';
 
 export interface SenderSettings {
@@ -43,14 +44,20 @@ async function deliver(ds: DataSource, transport: NoticeTransport, s: SenderSett
   try {
     const info = await transport.sendMail({ from: s.from, to: n.recipient, subject: n.subject, text: n.body, messageId: n.messageId });
     // Only a notice still `sending` is marked: a sender that took over after the lease may have marked it already.
-    await ds.query(`UPDATE notices SET state = 'sent', sent_at = now(), server_response = $2, last_error = NULL WHERE id = $1 AND state = 'sending'`, [
-      n.id,
-      String((info as { response?: unknown }).response ?? '').slice(0, 500) || null,
-    ]);
+    await ds.getRepository(NoticeEntity).update(
+      { id: n.id, state: 'sending' },
+      {
+        state: 'sent',
+        sentAt: () => 'now()',
+        serverResponse: String((info as { response?: unknown }).response ?? '').slice(0, 500) || null,
+        lastError: null,
+      },
+    );
     return 'sent';
   } catch (err) {
     const message = (err instanceof Error ? err.message : String(err)).slice(0, 500);
     const giveUp = n.attempts >= s.maxAttempts;
+    // The next attempt's time is reckoned on the database's clock, as the claim's lease is.
     await ds.query(
       `UPDATE notices SET state = $3, last_error = $2, next_attempt_at = now() + make_interval(secs => $4::double precision / 1000)
        WHERE id = $1 AND state = 'sending'`,

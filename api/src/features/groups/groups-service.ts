@@ -1,4 +1,5 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { Not, type DataSource, type EntityManager } from 'typeorm';
+import { AuditEventEntity, ExposureGroupEntity, OutcomeEntity, type ExposureGroup, type Outcome } from '@ratewarden/db';
 import type {
   ConfigChange,
   ExposureGroupCreate,
@@ -13,33 +14,51 @@ import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
 import { changedFields } from '../../lib/changed-fields';
 
-const groupCols = `id, code, name, hazard, exposure_level AS "exposureLevel", is_reference AS "isReference", description, updated_at AS "updatedAt"`;
-const outcomeCols = `id, code, name, case_definition AS "caseDefinition", counting_rule AS "countingRule", lag_months AS "lagMonths",
-  reference_group_id AS "referenceGroupId", updated_at AS "updatedAt"`;
+/** An exposure group as the API answers it. */
+const groupDto = (g: ExposureGroup): ExposureGroupDto => ({
+  id: g.id,
+  code: g.code,
+  name: g.name,
+  hazard: g.hazard,
+  exposureLevel: g.exposureLevel,
+  isReference: g.isReference,
+  description: g.description,
+  updatedAt: g.updatedAt.toISOString(),
+});
 
-type Row<T> = Omit<T, 'updatedAt'> & { updatedAt: Date | string };
-const dto = <T extends { updatedAt: string }>(r: Row<T>): T => ({ ...r, updatedAt: new Date(r.updatedAt).toISOString() }) as T;
+/** An outcome as the API answers it. */
+const outcomeDto = (o: Outcome): OutcomeDto => ({
+  id: o.id,
+  code: o.code,
+  name: o.name,
+  caseDefinition: o.caseDefinition,
+  countingRule: o.countingRule,
+  lagMonths: o.lagMonths,
+  referenceGroupId: o.referenceGroupId,
+  updatedAt: o.updatedAt.toISOString(),
+});
+
+const forUpdate = (lock: boolean) => (lock ? { lock: { mode: 'pessimistic_write' as const } } : {});
 
 export async function listGroups(db: DataSource | EntityManager): Promise<ExposureGroupDto[]> {
-  const rows: Row<ExposureGroupDto>[] = await db.query(`SELECT ${groupCols} FROM exposure_groups ORDER BY exposure_level NULLS LAST, code`);
-  return rows.map(dto);
+  const groups = await db.getRepository(ExposureGroupEntity).find({ order: { exposureLevel: { direction: 'ASC', nulls: 'LAST' }, code: 'ASC' } });
+  return groups.map(groupDto);
 }
 
 export async function listOutcomes(db: DataSource | EntityManager): Promise<OutcomeDto[]> {
-  const rows: Row<OutcomeDto>[] = await db.query(`SELECT ${outcomeCols} FROM outcomes ORDER BY code`);
-  return rows.map(dto);
+  return (await db.getRepository(OutcomeEntity).find({ order: { code: 'ASC' } })).map(outcomeDto);
 }
 
 async function groupById(em: EntityManager, id: number, lock = false): Promise<ExposureGroupDto> {
-  const rows: Row<ExposureGroupDto>[] = await em.query(`SELECT ${groupCols} FROM exposure_groups WHERE id = $1${lock ? ' FOR UPDATE' : ''}`, [id]);
-  if (!rows[0]) throw new AppError('not_found', 'no such exposure group');
-  return dto(rows[0]);
+  const group = await em.getRepository(ExposureGroupEntity).findOne({ where: { id }, ...forUpdate(lock) });
+  if (!group) throw new AppError('not_found', 'no such exposure group');
+  return groupDto(group);
 }
 
 async function outcomeById(em: EntityManager, id: number, lock = false): Promise<OutcomeDto> {
-  const rows: Row<OutcomeDto>[] = await em.query(`SELECT ${outcomeCols} FROM outcomes WHERE id = $1${lock ? ' FOR UPDATE' : ''}`, [id]);
-  if (!rows[0]) throw new AppError('not_found', 'no such outcome');
-  return dto(rows[0]);
+  const outcome = await em.getRepository(OutcomeEntity).findOne({ where: { id }, ...forUpdate(lock) });
+  if (!outcome) throw new AppError('not_found', 'no such outcome');
+  return outcomeDto(outcome);
 }
 
 /** Without the timestamp, so the history shows only what someone changed. */
@@ -55,14 +74,9 @@ function uniqueViolation(err: unknown, what: string): never {
 
 export async function createGroup(ds: DataSource, p: Principal, body: ExposureGroupCreate, ip?: string | null): Promise<ExposureGroupDto> {
   return ds.transaction(async (em) => {
-    const [{ id }] = await em
-      .query(`INSERT INTO exposure_groups (code, name, hazard, exposure_level, description) VALUES ($1, $2, $3, $4, $5) RETURNING id`, [
-        body.code,
-        body.name,
-        body.hazard,
-        body.exposureLevel,
-        body.description,
-      ])
+    const { id } = await em
+      .getRepository(ExposureGroupEntity)
+      .save({ code: body.code, name: body.name, hazard: body.hazard, exposureLevel: body.exposureLevel, description: body.description })
       .catch((e: unknown) => uniqueViolation(e, `an exposure group with code ${body.code}`));
     const after = await groupById(em, id);
     await recordAudit(em, { actor: p, action: 'group.create', target: `exposure_group:${id}`, ip, detail: { before: null, after: plain(after) } });
@@ -76,13 +90,9 @@ export async function updateGroup(ds: DataSource, p: Principal, id: number, body
     // A PATCH that changes nothing is neither written nor audited.
     if (!changedFields(before, body).length) return before;
     const next = { ...before, ...body };
-    await em.query(`UPDATE exposure_groups SET name = $2, hazard = $3, exposure_level = $4, description = $5, updated_at = now() WHERE id = $1`, [
-      id,
-      next.name,
-      next.hazard,
-      next.exposureLevel,
-      next.description,
-    ]);
+    await em
+      .getRepository(ExposureGroupEntity)
+      .update(id, { name: next.name, hazard: next.hazard, exposureLevel: next.exposureLevel, description: next.description });
     const after = await groupById(em, id);
     await recordAudit(em, { actor: p, action: 'group.update', target: `exposure_group:${id}`, ip, detail: { before: plain(before), after: plain(after) } });
     return after;
@@ -93,9 +103,11 @@ export async function updateGroup(ds: DataSource, p: Principal, id: number, body
 export async function setReferenceGroup(ds: DataSource, p: Principal, id: number, ip?: string | null): Promise<ExposureGroupDto[]> {
   return ds.transaction(async (em) => {
     const target = await groupById(em, id, true);
-    const previous: Array<{ id: number }> = await em.query(`SELECT id FROM exposure_groups WHERE is_reference FOR UPDATE`);
-    await em.query(`UPDATE exposure_groups SET is_reference = false, updated_at = now() WHERE is_reference AND id <> $1`, [id]);
-    await em.query(`UPDATE exposure_groups SET is_reference = true, updated_at = now() WHERE id = $1`, [id]);
+    const groups = em.getRepository(ExposureGroupEntity);
+    const previous = await groups.find({ select: { id: true }, where: { isReference: true }, lock: { mode: 'pessimistic_write' } });
+    // The old reference first: one group at a time holds it (unique index exposure_groups_one_reference).
+    await groups.update({ isReference: true, id: Not(id) }, { isReference: false });
+    await groups.update(id, { isReference: true });
     for (const prev of previous.filter((r) => r.id !== id)) {
       await recordAudit(em, {
         actor: p,
@@ -127,7 +139,7 @@ export async function setExposureLevels(
     for (const l of levels) {
       const before = await groupById(em, l.id, true);
       if (before.exposureLevel === l.exposureLevel) continue;
-      await em.query(`UPDATE exposure_groups SET exposure_level = $2, updated_at = now() WHERE id = $1`, [l.id, l.exposureLevel]);
+      await em.getRepository(ExposureGroupEntity).update(l.id, { exposureLevel: l.exposureLevel });
       await recordAudit(em, {
         actor: p,
         action: 'group.update',
@@ -142,23 +154,23 @@ export async function setExposureLevels(
 
 async function assertGroupExists(em: EntityManager, id: number | null | undefined): Promise<void> {
   if (id == null) return;
-  const rows: unknown[] = await em.query(`SELECT 1 FROM exposure_groups WHERE id = $1`, [id]);
-  if (!rows.length)
+  if (!(await em.getRepository(ExposureGroupEntity).existsBy({ id })))
     throw new AppError('validation_failed', 'the reference group does not exist', [{ path: 'referenceGroupId', message: 'no such exposure group' }]);
 }
 
 export async function createOutcome(ds: DataSource, p: Principal, body: OutcomeCreate, ip?: string | null): Promise<OutcomeDto> {
   return ds.transaction(async (em) => {
     await assertGroupExists(em, body.referenceGroupId);
-    const [{ id }] = await em
-      .query(`INSERT INTO outcomes (code, name, case_definition, counting_rule, lag_months, reference_group_id) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`, [
-        body.code,
-        body.name,
-        body.caseDefinition,
-        body.countingRule,
-        body.lagMonths,
-        body.referenceGroupId,
-      ])
+    const { id } = await em
+      .getRepository(OutcomeEntity)
+      .save({
+        code: body.code,
+        name: body.name,
+        caseDefinition: body.caseDefinition,
+        countingRule: body.countingRule,
+        lagMonths: body.lagMonths,
+        referenceGroupId: body.referenceGroupId,
+      })
       .catch((e: unknown) => uniqueViolation(e, `an outcome with code ${body.code}`));
     const after = await outcomeById(em, id);
     await recordAudit(em, { actor: p, action: 'outcome.create', target: `outcome:${id}`, ip, detail: { before: null, after: plain(after) } });
@@ -172,10 +184,13 @@ export async function updateOutcome(ds: DataSource, p: Principal, id: number, bo
     if (!changedFields(before, body).length) return before;
     await assertGroupExists(em, body.referenceGroupId);
     const next = { ...before, ...body };
-    await em.query(
-      `UPDATE outcomes SET name = $2, case_definition = $3, counting_rule = $4, lag_months = $5, reference_group_id = $6, updated_at = now() WHERE id = $1`,
-      [id, next.name, next.caseDefinition, next.countingRule, next.lagMonths, next.referenceGroupId],
-    );
+    await em.getRepository(OutcomeEntity).update(id, {
+      name: next.name,
+      caseDefinition: next.caseDefinition,
+      countingRule: next.countingRule,
+      lagMonths: next.lagMonths,
+      referenceGroupId: next.referenceGroupId,
+    });
     const after = await outcomeById(em, id);
     await recordAudit(em, { actor: p, action: 'outcome.update', target: `outcome:${id}`, ip, detail: { before: plain(before), after: plain(after) } });
     return after;
@@ -184,17 +199,14 @@ export async function updateOutcome(ds: DataSource, p: Principal, id: number, bo
 
 /** The kept history of one group or outcome, newest first. */
 export async function configHistory(ds: DataSource, kind: 'exposure_group' | 'outcome', id: number): Promise<ConfigChange[]> {
-  const rows: Array<{
-    at: Date;
-    actor_label: string;
-    action: string;
-    detail: { before?: Record<string, unknown> | null; after?: Record<string, unknown> | null };
-  }> = await ds.query(`SELECT at, actor_label, action, detail FROM audit_events WHERE target = $1 ORDER BY at DESC, id DESC LIMIT 500`, [`${kind}:${id}`]);
-  return rows.map((r) => ({
-    at: new Date(r.at).toISOString(),
-    actor: r.actor_label,
-    action: r.action,
-    before: r.detail.before ?? null,
-    after: r.detail.after ?? null,
-  }));
+  const events = await ds.getRepository(AuditEventEntity).find({
+    select: { at: true, actorLabel: true, action: true, detail: true },
+    where: { target: `${kind}:${id}` },
+    order: { at: 'DESC', id: 'DESC' },
+    take: 500,
+  });
+  return events.map((e) => {
+    const detail = e.detail as { before?: Record<string, unknown> | null; after?: Record<string, unknown> | null };
+    return { at: e.at.toISOString(), actor: e.actorLabel, action: e.action, before: detail.before ?? null, after: detail.after ?? null };
+  });
 }

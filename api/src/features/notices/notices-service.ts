@@ -1,26 +1,32 @@
-import type { DataSource } from 'typeorm';
-import { rows } from '@ratewarden/db';
+import type { DataSource, Repository } from 'typeorm';
+import { IsNull } from 'typeorm';
+import { NoticeEntity, type NoticeRow } from '@ratewarden/db';
 import type { NoticeDetail, NoticeListQuery, NoticeSummary } from '@ratewarden/shared/notices';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { userOf } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 
-type Row = Record<string, any>;
+type Summarized = Pick<NoticeRow, 'id' | 'flagId' | 'kind' | 'subject' | 'period' | 'completeness' | 'createdAt' | 'readAt' | 'state'>;
 
-const COLUMNS = `n.id, n.flag_id, n.kind, n.subject, to_char(n.period, 'YYYY-MM-DD') AS period, n.completeness, n.created_at, n.read_at, n.state AS mail_state`;
+/** The columns a summary reads (the text only when a notice is opened). */
+const SUMMARY_COLUMNS = ['id', 'flagId', 'kind', 'subject', 'period', 'completeness', 'createdAt', 'readAt', 'state'].map((c) => `n.${c}`);
 
-const summaryOf = (r: Row): NoticeSummary => ({
-  id: r.id,
-  flagId: r.flag_id,
-  kind: r.kind,
-  subject: r.subject,
-  period: r.period,
-  completeness: r.completeness,
-  state: r.read_at ? 'read' : 'new',
-  createdAt: new Date(r.created_at).toISOString(),
-  readAt: r.read_at ? new Date(r.read_at).toISOString() : null,
-  mailState: r.mail_state,
+/** A notice in the inbox list, as the API answers it. */
+const summaryOf = (n: Summarized): NoticeSummary => ({
+  id: n.id,
+  flagId: n.flagId,
+  kind: n.kind,
+  subject: n.subject,
+  period: n.period,
+  completeness: n.completeness,
+  state: n.readAt ? 'read' : 'new',
+  createdAt: n.createdAt.toISOString(),
+  readAt: n.readAt?.toISOString() ?? null,
+  mailState: n.state,
 });
+
+/** A person's own notices: addressed to their e-mail address, in any case. */
+const addressedTo = (notices: Repository<NoticeRow>, email: string) => notices.createQueryBuilder('n').where('lower(n.recipient) = lower(:email)', { email });
 
 /**
  * A person's inbox: the notices addressed to their e-mail address, newest first. Nobody reads
@@ -28,41 +34,43 @@ const summaryOf = (r: Row): NoticeSummary => ({
  */
 export async function listNotices(ds: DataSource, principal: Principal, q: NoticeListQuery): Promise<NoticeSummary[]> {
   const user = userOf({ principal });
-  const rows: Row[] = await ds.query(
-    `SELECT ${COLUMNS} FROM notices n
-     WHERE lower(n.recipient) = lower($1)
-       AND ($2::text IS NULL OR ($2 = 'new') = (n.read_at IS NULL)) AND ($3::text IS NULL OR n.kind = $3) AND ($4::uuid IS NULL OR n.flag_id = $4)
-     ORDER BY n.created_at DESC, n.id LIMIT 500`,
-    [user.email, q.state ?? null, q.kind ?? null, q.flagId ?? null],
-  );
-  return rows.map(summaryOf);
+  const query = addressedTo(ds.getRepository(NoticeEntity), user.email).select(SUMMARY_COLUMNS);
+  if (q.state) query.andWhere(q.state === 'new' ? 'n.readAt IS NULL' : 'n.readAt IS NOT NULL');
+  if (q.kind) query.andWhere('n.kind = :kind', { kind: q.kind });
+  if (q.flagId) query.andWhere('n.flagId = :flagId', { flagId: q.flagId });
+  const notices = await query.orderBy('n.createdAt', 'DESC').addOrderBy('n.id').limit(500).getMany();
+  return notices.map(summaryOf);
 }
 
 export async function unreadNotices(ds: DataSource, principal: Principal): Promise<{ unread: number }> {
   const user = userOf({ principal });
-  const [r]: Row[] = await ds.query(`SELECT count(*)::int AS n FROM notices WHERE lower(recipient) = lower($1) AND read_at IS NULL`, [user.email]);
-  return { unread: r!.n };
+  return { unread: await addressedTo(ds.getRepository(NoticeEntity), user.email).andWhere('n.readAt IS NULL').getCount() };
+}
+
+async function ownNotice(notices: Repository<NoticeRow>, email: string, id: string): Promise<NoticeRow> {
+  const notice = await addressedTo(notices, email).andWhere('n.id = :id', { id }).getOne();
+  if (!notice) throw new AppError('not_found', 'no such notice in your inbox');
+  return notice;
 }
 
 /** One notice of the reader's, marked read the first time it is opened. */
 export async function openNotice(ds: DataSource, principal: Principal, id: string): Promise<NoticeDetail> {
   const user = userOf({ principal });
-  const [r] = await rows<Row>(
-    ds,
-    `UPDATE notices n SET read_at = coalesce(n.read_at, now()) WHERE n.id = $1 AND lower(n.recipient) = lower($2) RETURNING ${COLUMNS}, n.body`,
-    [id, user.email],
-  );
-  if (!r) throw new AppError('not_found', 'no such notice in your inbox');
-  return { ...summaryOf(r), text: r.body };
+  const notices = ds.getRepository(NoticeEntity);
+  let notice = await ownNotice(notices, user.email, id);
+  if (!notice.readAt) {
+    // The first opening stays the time it was read, whichever of two at once comes first.
+    await notices.update({ id, readAt: IsNull() }, { readAt: () => 'now()' });
+    notice = await ownNotice(notices, user.email, id);
+  }
+  return { ...summaryOf(notice), text: notice.body };
 }
 
 /** Marks one of the reader's notices new again. */
 export async function markUnread(ds: DataSource, principal: Principal, id: string): Promise<NoticeSummary> {
   const user = userOf({ principal });
-  const [r] = await rows<Row>(ds, `UPDATE notices n SET read_at = NULL WHERE n.id = $1 AND lower(n.recipient) = lower($2) RETURNING ${COLUMNS}`, [
-    id,
-    user.email,
-  ]);
-  if (!r) throw new AppError('not_found', 'no such notice in your inbox');
-  return summaryOf(r);
+  const notices = ds.getRepository(NoticeEntity);
+  await ownNotice(notices, user.email, id);
+  await notices.update(id, { readAt: null });
+  return summaryOf(await ownNotice(notices, user.email, id));
 }

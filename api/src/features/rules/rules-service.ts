@@ -1,4 +1,5 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { In, type DataSource, type EntityManager } from 'typeorm';
+import { ExposureGroupEntity, FlagEntity, OutcomeEntity, SiteEntity, WatchRuleEntity, type WatchRuleRow } from '@ratewarden/db';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { watchRuleCompleteSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput, type WatchRulePatch } from '@ratewarden/shared/rules';
 import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
@@ -14,22 +15,42 @@ export interface RuleWriteOptions {
   smallCellThreshold?: number;
 }
 
-const cols = `id, name, outcome_id AS "outcomeId", exposure_group_id AS "exposureGroupId", site_ids AS "siteIds", measure, threshold_on AS "thresholdOn",
-  threshold, min_cases AS "minCases", min_expected AS "minExpected", window_kind AS "window", consecutive_periods AS "consecutivePeriods",
-  fdr_control AS "fdrControl", fdr_level AS "fdrLevel", recipients, active, created_at AS "createdAt", updated_at AS "updatedAt"`;
+/** A watch rule as the API answers it (the entity's `windowKind` is the rule's `window`). */
+const ruleDto = (r: WatchRuleRow): WatchRule => ({
+  id: r.id,
+  name: r.name,
+  outcomeId: r.outcomeId,
+  exposureGroupId: r.exposureGroupId,
+  siteIds: r.siteIds,
+  measure: r.measure,
+  thresholdOn: r.thresholdOn,
+  threshold: r.threshold,
+  minCases: r.minCases,
+  minExpected: r.minExpected,
+  window: r.windowKind,
+  consecutivePeriods: r.consecutivePeriods,
+  fdrControl: r.fdrControl,
+  fdrLevel: r.fdrLevel,
+  recipients: r.recipients,
+  active: r.active,
+  createdAt: r.createdAt.toISOString(),
+  updatedAt: r.updatedAt.toISOString(),
+});
 
-type Row = Omit<WatchRule, 'createdAt' | 'updatedAt'> & { createdAt: Date; updatedAt: Date };
-const dto = (r: Row): WatchRule => ({ ...r, createdAt: r.createdAt.toISOString(), updatedAt: r.updatedAt.toISOString() });
+/** The stored fields of a rule's fields as the API names them. */
+function ruleFields(r: WatchRulePatch): Partial<WatchRuleRow> {
+  const { window, ...same } = r;
+  return window === undefined ? same : { ...same, windowKind: window };
+}
 
 export async function listRules(ds: DataSource): Promise<WatchRule[]> {
-  const rows: Row[] = await ds.query(`SELECT ${cols} FROM watch_rules ORDER BY created_at`);
-  return rows.map(dto);
+  return (await ds.getRepository(WatchRuleEntity).find({ order: { createdAt: 'ASC' } })).map(ruleDto);
 }
 
 async function ruleById(db: DataSource | EntityManager, id: string, lock = false): Promise<WatchRule> {
-  const rows: Row[] = await db.query(`SELECT ${cols} FROM watch_rules WHERE id = $1${lock ? ' FOR UPDATE' : ''}`, [id]);
-  if (!rows[0]) throw new AppError('not_found', 'no such watch rule');
-  return dto(rows[0]);
+  const rule = await db.getRepository(WatchRuleEntity).findOne({ where: { id }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
+  if (!rule) throw new AppError('not_found', 'no such watch rule');
+  return ruleDto(rule);
 }
 
 export const getRule = (ds: DataSource, id: string) => ruleById(ds, id);
@@ -37,14 +58,13 @@ export const getRule = (ds: DataSource, id: string) => ruleById(ds, id);
 /** The outcome, exposure group and sites a rule names must exist. */
 async function assertTargets(em: EntityManager, outcomeId: number, groupId: number | null, siteIds: number[] | null): Promise<void> {
   const problems: Array<{ path: string; message: string }> = [];
-  if (!(await em.query(`SELECT 1 FROM outcomes WHERE id = $1`, [outcomeId])).length) problems.push({ path: 'outcomeId', message: 'no such outcome' });
-  if (groupId !== null && !(await em.query(`SELECT 1 FROM exposure_groups WHERE id = $1`, [groupId])).length)
+  if (!(await em.getRepository(OutcomeEntity).existsBy({ id: outcomeId }))) problems.push({ path: 'outcomeId', message: 'no such outcome' });
+  if (groupId !== null && !(await em.getRepository(ExposureGroupEntity).existsBy({ id: groupId })))
     problems.push({ path: 'exposureGroupId', message: 'no such exposure group' });
   if (siteIds !== null) {
-    const missing: Array<{ id: number }> = await em.query(`SELECT x AS id FROM unnest($1::int[]) x WHERE NOT EXISTS (SELECT 1 FROM sites s WHERE s.id = x)`, [
-      siteIds,
-    ]);
-    if (missing.length) problems.push({ path: 'siteIds', message: `no such site: ${missing.map((m) => m.id).join(', ')}` });
+    const found = new Set((await em.getRepository(SiteEntity).find({ select: { id: true }, where: { id: In(siteIds) } })).map((s) => s.id));
+    const missing = siteIds.filter((id) => !found.has(id));
+    if (missing.length) problems.push({ path: 'siteIds', message: `no such site: ${missing.join(', ')}` });
   }
   if (problems.length) throw new AppError('validation_failed', 'the watch rule is not valid', problems);
 }
@@ -75,52 +95,12 @@ export async function createRule(
   return ds.transaction(async (em) => {
     await assertRuleScope(em, principal, r.siteIds);
     await assertTargets(em, r.outcomeId, r.exposureGroupId, r.siteIds);
-    const [row]: Array<{ id: string }> = await em.query(
-      `INSERT INTO watch_rules (name, outcome_id, exposure_group_id, site_ids, measure, threshold_on, threshold, min_cases, min_expected, window_kind,
-         consecutive_periods, fdr_control, fdr_level, recipients, active, created_by)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16) RETURNING id`,
-      [
-        r.name,
-        r.outcomeId,
-        r.exposureGroupId,
-        r.siteIds,
-        r.measure,
-        r.thresholdOn,
-        r.threshold,
-        r.minCases,
-        r.minExpected,
-        r.window,
-        r.consecutivePeriods,
-        r.fdrControl,
-        r.fdrLevel,
-        r.recipients,
-        r.active,
-        principal.kind === 'user' ? principal.id : null,
-      ],
-    );
-    const rule = await ruleById(em, row!.id);
+    const { id } = await em.getRepository(WatchRuleEntity).save({ ...ruleFields(r), createdBy: principal.kind === 'user' ? principal.id : null });
+    const rule = await ruleById(em, id);
     await recordAudit(em, { actor: principal, action: 'rule.create', target: `watch_rule:${rule.id}`, detail: { rule }, ip });
     return rule;
   });
 }
-
-const columnOf: Record<keyof WatchRulePatch, string> = {
-  name: 'name',
-  outcomeId: 'outcome_id',
-  exposureGroupId: 'exposure_group_id',
-  siteIds: 'site_ids',
-  measure: 'measure',
-  thresholdOn: 'threshold_on',
-  threshold: 'threshold',
-  minCases: 'min_cases',
-  minExpected: 'min_expected',
-  window: 'window_kind',
-  consecutivePeriods: 'consecutive_periods',
-  fdrControl: 'fdr_control',
-  fdrLevel: 'fdr_level',
-  recipients: 'recipients',
-  active: 'active',
-};
 
 /**
  * Applies a partial change; the merged rule is validated as a whole before it is stored. A patch
@@ -144,10 +124,7 @@ export async function updateRule(
     watchRuleCompleteSchema.parse(merged);
     if (keys.includes('siteIds')) await assertRuleScope(em, principal, merged.siteIds);
     await assertTargets(em, merged.outcomeId, merged.exposureGroupId, merged.siteIds);
-    await em.query(`UPDATE watch_rules SET ${keys.map((k, i) => `${columnOf[k]} = $${i + 2}`).join(', ')}, updated_at = now() WHERE id = $1`, [
-      id,
-      ...keys.map((k) => patch[k]),
-    ]);
+    await em.getRepository(WatchRuleEntity).update(id, ruleFields(Object.fromEntries(keys.map((k) => [k, patch[k]]))));
     const after = await ruleById(em, id);
     await recordAudit(em, { actor: principal, action: 'rule.update', target: `watch_rule:${id}`, detail: { before, after }, ip });
     return after;
@@ -159,10 +136,10 @@ export async function deleteRule(ds: DataSource, principal: Principal, id: strin
   await ds.transaction(async (em) => {
     const before = await ruleById(em, id, true);
     await assertRuleScope(em, principal, before.siteIds);
-    if ((await em.query(`SELECT 1 FROM flags WHERE rule_id = $1 LIMIT 1`, [id])).length) {
+    if (await em.getRepository(FlagEntity).existsBy({ ruleId: id })) {
       throw new AppError('conflict', 'this watch rule has raised flags; deactivate it instead so that their history stays');
     }
-    await em.query(`DELETE FROM watch_rules WHERE id = $1`, [id]);
+    await em.getRepository(WatchRuleEntity).delete(id);
     await recordAudit(em, { actor: principal, action: 'rule.delete', target: `watch_rule:${id}`, detail: { before }, ip });
   });
 }

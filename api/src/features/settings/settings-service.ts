@@ -1,28 +1,23 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { AnalysisSettingsEntity, type AnalysisSettingsRow } from '@ratewarden/db/entities/analysis-settings';
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { runSettingsSchema, type RunSettings } from '@ratewarden/shared/runs';
 import type { AnalysisSettings, SettingsUpdate, SettingsUpdateResult, SettingsVersion } from '@ratewarden/shared/settings';
 import { recordAudit } from '../../audit/audit-log';
 
-interface VersionRow {
-  version: number;
-  settings: unknown;
-  created_at: Date;
-  created_by_label: string;
-}
-
-const versionOf = (r: VersionRow): SettingsVersion => ({
+/** One version as the API answers it. */
+const versionOf = (r: AnalysisSettingsRow): SettingsVersion => ({
   version: r.version,
   settings: runSettingsSchema.parse(r.settings),
-  createdAt: new Date(r.created_at).toISOString(),
-  createdBy: r.created_by_label,
+  createdAt: r.createdAt.toISOString(),
+  createdBy: r.createdByLabel,
 });
 
 /** Every version of the analysis settings, newest first; the first is the one runs use. */
 export async function analysisSettings(db: DataSource | EntityManager): Promise<AnalysisSettings> {
-  const rows: VersionRow[] = await db.query(`SELECT version, settings, created_at, created_by_label FROM analysis_settings ORDER BY version DESC`);
-  const all = rows.map(versionOf);
+  const all = (await db.getRepository(AnalysisSettingsEntity).find({ order: { version: 'DESC' } })).map(versionOf);
   return { current: all[0] ?? null, history: all.slice(1) };
 }
 
@@ -56,11 +51,9 @@ export async function changeAnalysisSettings(
       return { current, changed: false, runRequested: false };
     }
     const version = (current?.version ?? 0) + 1;
-    const [row]: VersionRow[] = await em.query(
-      `INSERT INTO analysis_settings (version, settings, created_by, created_by_label) VALUES ($1, $2, $3, $4)
-       RETURNING version, settings, created_at, created_by_label`,
-      [version, JSON.stringify(next), p.id, p.name],
-    );
+    const versions = em.getRepository(AnalysisSettingsEntity);
+    await versions.insert({ version, settings: next, createdBy: p.id, createdByLabel: p.name });
+    const row = await versions.findOneByOrFail({ version });
     await recordAudit(em, {
       actor: p,
       action: 'settings.change',
@@ -68,7 +61,7 @@ export async function changeAnalysisSettings(
       ip,
       detail: { before: current?.settings ?? null, after: next },
     });
-    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`analysis settings changed to version ${version} by ${p.name}`]);
-    return { current: versionOf(row!), changed: true, runRequested: true };
+    await requestRun(em, `analysis settings changed to version ${version} by ${p.name}`);
+    return { current: versionOf(row), changed: true, runRequested: true };
   });
 }

@@ -1,36 +1,38 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { SiteEntity, type Site } from '@ratewarden/db';
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { SiteCreate, SiteDto, SiteUpdate } from '@ratewarden/shared/groups';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
 import { changedFields } from '../../lib/changed-fields';
 
-const siteCols = `id, code, name, region, retired_at AS "retiredAt"`;
-type SiteRow = Omit<SiteDto, 'retiredAt'> & { retiredAt: Date | string | null };
-const dto = (r: SiteRow): SiteDto => ({ ...r, retiredAt: r.retiredAt === null ? null : new Date(r.retiredAt).toISOString() });
+/** A site as the API answers it. */
+const siteDto = (s: Site): SiteDto => ({ id: s.id, code: s.code, name: s.name, region: s.region, retiredAt: s.retiredAt?.toISOString() ?? null });
 
 /** Every site, retired ones too (their history stays readable); active first, by code. */
 export async function listSites(db: DataSource | EntityManager): Promise<SiteDto[]> {
-  const rows: SiteRow[] = await db.query(`SELECT ${siteCols} FROM sites ORDER BY retired_at IS NOT NULL, code`);
-  return rows.map(dto);
+  const sites = await db.getRepository(SiteEntity).createQueryBuilder('s').orderBy('s.retiredAt IS NOT NULL').addOrderBy('s.code').getMany();
+  return sites.map(siteDto);
 }
 
 async function siteById(em: EntityManager, id: number, lock = false): Promise<SiteDto> {
-  const rows: SiteRow[] = await em.query(`SELECT ${siteCols} FROM sites WHERE id = $1${lock ? ' FOR UPDATE' : ''}`, [id]);
-  if (!rows[0]) throw new AppError('not_found', 'no such site');
-  return dto(rows[0]);
+  const site = await em.getRepository(SiteEntity).findOne({ where: { id }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
+  if (!site) throw new AppError('not_found', 'no such site');
+  return siteDto(site);
 }
 
 export async function createSite(ds: DataSource, p: Principal, body: SiteCreate, ip?: string | null): Promise<SiteDto> {
   return ds.transaction(async (em) => {
-    const [{ id }] = await em
-      .query(`INSERT INTO sites (code, name, region) VALUES ($1, $2, $3) RETURNING id`, [body.code, body.name, body.region])
+    const created = await em
+      .getRepository(SiteEntity)
+      .save({ code: body.code, name: body.name, region: body.region })
       .catch((e: unknown) => {
         if ((e as { code?: string }).code === '23505') throw new AppError('conflict', `a site with code ${body.code} already exists`);
         throw e;
       });
-    const after = await siteById(em, id);
-    await recordAudit(em, { actor: p, action: 'site.create', target: `site:${id}`, ip, detail: { before: null, after } });
+    const after = await siteById(em, created.id);
+    await recordAudit(em, { actor: p, action: 'site.create', target: `site:${created.id}`, ip, detail: { before: null, after } });
     return after;
   });
 }
@@ -41,7 +43,7 @@ export async function updateSite(ds: DataSource, p: Principal, id: number, body:
     const before = await siteById(em, id, true);
     if (!changedFields(before, body).length) return before;
     const next = { ...before, ...body };
-    await em.query(`UPDATE sites SET name = $2, region = $3, updated_at = now() WHERE id = $1`, [id, next.name, next.region]);
+    await em.getRepository(SiteEntity).update(id, { name: next.name, region: next.region });
     const after = await siteById(em, id);
     await recordAudit(em, { actor: p, action: 'site.rename', target: `site:${id}`, ip, detail: { before, after } });
     return after;
@@ -57,10 +59,10 @@ export async function setSiteRetired(ds: DataSource, p: Principal, id: number, r
   return ds.transaction(async (em) => {
     const before = await siteById(em, id, true);
     if ((before.retiredAt !== null) === retired) return before;
-    await em.query(`UPDATE sites SET retired_at = ${retired ? 'now()' : 'NULL'}, updated_at = now() WHERE id = $1`, [id]);
+    await em.getRepository(SiteEntity).update(id, { retiredAt: retired ? () => 'now()' : null });
     const after = await siteById(em, id);
     await recordAudit(em, { actor: p, action: retired ? 'site.retire' : 'site.reinstate', target: `site:${id}`, ip, detail: { before, after } });
-    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`site ${before.code} ${retired ? 'retired' : 'reinstated'}`]);
+    await requestRun(em, `site ${before.code} ${retired ? 'retired' : 'reinstated'}`);
     return after;
   });
 }
