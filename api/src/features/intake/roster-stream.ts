@@ -3,6 +3,7 @@ import { Transform, type TransformCallback } from 'node:stream';
 import { cellJudge, NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
 import { reasons, rosterColumns, type ColumnDef } from '@ratewarden/shared/intake-columns';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
+import { monthIndex } from '@ratewarden/shared/months';
 import { unreadable } from './copy-errors';
 import { PROBLEMS_LISTED } from './problems';
 
@@ -100,7 +101,7 @@ function slotJudge(def: ColumnDef, codes: { site: CodeMap; exposure_group: CodeM
         return { reason: null, cell: String(known.id), num: known.id };
       }
       case 'month':
-        return { reason: null, cell: `${v.text}-01`, num: Number(v.text.slice(0, 4)) * 12 + Number(v.text.slice(5, 7)) - 1 };
+        return { reason: null, cell: `${v.text}-01`, num: monthIndex(v.text) };
       case 'decimal':
         return { reason: null, cell: v.text, num: Math.round((v.value as number) * 100) };
       case 'integer':
