@@ -19,7 +19,7 @@ import { intakeBounds } from './intake-bounds';
 import { settleChecked } from './intake-settle';
 import { loadIntake } from './intake-queries';
 import { stageRoster, type RosterStaged } from './roster-stage';
-import { DEFAULT_TALLY_LIMITS } from './roster-stream';
+import { DEFAULT_TALLY_LIMITS } from './roster-tallies';
 import { dropStaging } from './staging-drop';
 
 /** 512 MiB: a roster of several million rows; larger exports are split by site or year. */
