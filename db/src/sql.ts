@@ -1,3 +1,4 @@
+import type { PoolClient } from 'pg';
 import type { DataSource, EntityManager } from 'typeorm';
 
 /**
@@ -8,4 +9,13 @@ export async function rows<T>(db: DataSource | EntityManager, text: string, para
   const result: unknown = await db.query(text, params);
   if (Array.isArray(result) && result.length === 2 && Array.isArray(result[0]) && typeof result[1] === 'number') return result[0] as T[];
   return result as T[];
+}
+
+/**
+ * The node-postgres client under a TypeORM transaction: the same connection and transaction, for
+ * what needs the driver itself (COPY streams, typed `client.query`). Use it inside
+ * `ds.transaction(async (em) => ...)`.
+ */
+export async function pgClientOf(em: EntityManager): Promise<PoolClient> {
+  return (await em.queryRunner!.connect()) as PoolClient;
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { addMonths } from './months';
 
 /**
  * Reporting periods: the state of one site × month, decided from what has been received.
@@ -77,14 +78,8 @@ export type SitePeriod = z.infer<typeof sitePeriodSchema>;
 export const completenessSchema = z.enum(['complete', 'partial']);
 export type Completeness = z.infer<typeof completenessSchema>;
 
-/** Month arithmetic on YYYY-MM-DD first-of-month strings. */
-export function addMonths(month: string, n: number): string {
-  const y = Number(month.slice(0, 4));
-  const m = Number(month.slice(5, 7)) - 1 + n;
-  const yy = y + Math.floor(m / 12);
-  const mm = ((m % 12) + 12) % 12;
-  return `${String(yy).padStart(4, '0')}-${String(mm + 1).padStart(2, '0')}-01`;
-}
+/** Month arithmetic lives in months.ts; re-exported for the readers of periods. */
+export { addMonths };
 
 /** Months a window covers, ending at `period`: 1 for a month, 12 for rolling 12 months. */
 export function windowMonths(windowKind: 'month' | 'rolling12', period: string): string[] {

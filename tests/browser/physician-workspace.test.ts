@@ -1,6 +1,7 @@
 import { Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { applyIntake, receiveIntake } from '@ratewarden/api/features/intake/intake-service';
+import { receiveIntake } from '@ratewarden/api/features/intake/intake-receive';
+import { applyIntake } from '@ratewarden/api/features/intake/intake-service';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { settings } from '../integration/runs-fixture';

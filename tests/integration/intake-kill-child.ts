@@ -2,7 +2,7 @@
 // slow generated stream, says when COPY is under way, and waits to be killed mid-COPY.
 import { Readable } from 'node:stream';
 import { createDataSource } from '@ratewarden/db';
-import { receiveIntake } from '@ratewarden/api/features/intake/intake-service';
+import { receiveIntake } from '@ratewarden/api/features/intake/intake-receive';
 import type { Principal } from '@ratewarden/shared/permissions';
 
 const [url, site, group, prefix, principalJson] = process.argv.slice(2) as [string, string, string, string, string];

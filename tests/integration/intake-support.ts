@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import type { DataSource } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
-import { receiveIntake, type ReceiveInput } from '@ratewarden/api/features/intake/intake-service';
+import { receiveIntake, type ReceiveInput } from '@ratewarden/api/features/intake/intake-receive';
 
 export const fixtureDir = join(import.meta.dirname, '..', 'fixtures', 'intake');
 

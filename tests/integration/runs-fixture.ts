@@ -138,6 +138,6 @@ export async function currentRunId(ds: DataSource): Promise<string | null> {
  * cohort, run, flag and month-closing tables (configuration rows other tests made go with them).
  */
 export async function clearCohortData(ds: DataSource): Promise<void> {
-  await ds.query(`TRUNCATE run_requests, current_run, run_results, run_cells, run_trends, runs, flag_events, notices, flags, watch_rules, dev_mailbox,
+  await ds.query(`TRUNCATE run_requests, current_run, run_results, run_cells, runs, flag_events, notices, flags, watch_rules, dev_mailbox,
     case_events, roster_entries, roster_slices, workers, intakes, period_closures RESTART IDENTITY CASCADE`);
 }

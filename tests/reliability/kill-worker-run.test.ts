@@ -23,7 +23,6 @@ const killPoints = [
   { name: 'while reading the cohort', hold: `LOCK TABLE roster_entries IN ACCESS EXCLUSIVE MODE`, running: 'counted AS' },
   { name: 'storing the cells', hold: `LOCK TABLE run_cells IN SHARE MODE`, running: 'COPY run_cells' },
   { name: 'storing the results', hold: `LOCK TABLE run_results IN SHARE MODE`, running: 'COPY run_results' },
-  { name: 'storing the trend tests', hold: `LOCK TABLE run_trends IN SHARE MODE`, running: 'COPY run_trends' },
   { name: 'at the switch to the new results', hold: `LOCK TABLE current_run IN SHARE MODE`, running: 'INSERT INTO current_run' },
 ] as const;
 

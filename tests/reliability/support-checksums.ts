@@ -19,4 +19,4 @@ export async function tableChecksums(ds: DataSource, tables: readonly string[]):
 export const cohortTables = ['workers', 'roster_entries', 'roster_sums', 'roster_slices', 'case_events', 'intakes', 'run_requests', 'audit_events'] as const;
 
 /** The tables a run writes, apart from its own row in `runs`. */
-export const resultTables = ['current_run', 'run_results', 'run_cells', 'run_trends', 'flags', 'flag_events', 'notices'] as const;
+export const resultTables = ['current_run', 'run_results', 'run_cells', 'flags', 'flag_events', 'notices'] as const;

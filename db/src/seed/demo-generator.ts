@@ -5,6 +5,8 @@
  * three times the reference group's rate; every other group and outcome at the baseline rate.
  */
 
+import { addMonths } from '@ratewarden/shared/months';
+
 /** mulberry32: a small, fast 32-bit PRNG; plenty for demo data, not for cryptography. */
 export function prng(seed: number): () => number {
   let a = seed >>> 0;
@@ -88,11 +90,10 @@ const jobTitles: Record<string, string[]> = {
 };
 
 function monthLabel(first: string, offset: number): { label: string; year: number; month: number; days: number } {
-  const [y, m] = first.split('-').map(Number) as [number, number];
-  const idx = y * 12 + (m - 1) + offset;
-  const year = Math.floor(idx / 12);
-  const month = (idx % 12) + 1;
-  return { label: `${year}-${String(month).padStart(2, '0')}`, year, month, days: new Date(Date.UTC(year, month, 0)).getUTCDate() };
+  const iso = addMonths(first, offset);
+  const year = Number(iso.slice(0, 4));
+  const month = Number(iso.slice(5, 7));
+  return { label: iso.slice(0, 7), year, month, days: new Date(Date.UTC(year, month, 0)).getUTCDate() };
 }
 
 function pick<T>(rnd: () => number, items: readonly T[], weight: (t: T) => number): T {

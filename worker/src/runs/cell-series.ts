@@ -1,5 +1,5 @@
 import type { Cell } from './cells-query';
-import { monthIndex } from './month-index';
+import { monthIndex } from '@ratewarden/shared/months';
 
 /** Cases and hours (in hundredths) of one group in one window, in total and by stratum. */
 export interface Tally {

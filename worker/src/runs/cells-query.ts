@@ -1,6 +1,7 @@
 import type { QueryRunner } from 'typeorm';
 import type { CaseStatus } from '@ratewarden/shared/intake';
 import type { UnattributedReason } from '@ratewarden/shared/unattributed';
+import { attributingRow, rosterMonthOf } from '@ratewarden/db/case-attribution';
 
 /**
  * The one set-wise aggregation of a run: cases and hours per outcome × month × site × exposure
@@ -13,9 +14,9 @@ import type { UnattributedReason } from '@ratewarden/shared/unattributed';
  * - First event only: a worker's first counted case of the outcome is the only one counted, and
  *   their person-time after the month of that case leaves the at-risk time of the outcome. The
  *   onset month itself is kept whole because hours are known per month only.
- * - A case is attributed to one roster row with hours (the one with most hours when a worker is
- *   on two sites' rosters in a month); a case with no such row matches no cell and is counted
- *   apart as unattributed, with its reason (UNATTRIBUTED_SQL).
+ * - A case is attributed to one roster row with hours, by the rule of db/src/case-attribution.ts
+ *   (attributingRow); a case with no such row matches no cell and is counted apart as
+ *   unattributed, with its reason (UNATTRIBUTED_SQL).
  * - Age band of (calendar year of the month − birth year), by the run's age band edges ($2, an
  *   increasing list): stored by its lower bound, 0 under the first edge (shared/src/age-bands.ts);
  *   null when the birth year is unknown.
@@ -71,13 +72,7 @@ const ctes = (BASE: string) => `
     JOIN o USING (outcome_id)
     CROSS JOIN last_month lm
     JOIN LATERAL (
-      SELECT r.site_id, r.exposure_group_id, w.birth_year, w.sex
-      FROM roster_entries r
-      JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
-      JOIN workers w ON w.id = r.worker_id
-      WHERE r.worker_id = cc.worker_id AND r.month = (cc.month - make_interval(months => o.lag_months))::date AND r.hours > 0
-      ORDER BY r.hours DESC, r.site_id
-      LIMIT 1
+      ${attributingRow('cc.worker_id', rosterMonthOf('cc.month', 'o.lag_months'), { columns: 'r.site_id, r.exposure_group_id, w.birth_year, w.sex', withWorker: true })}
     ) a ON true
     WHERE cc.month <= lm.month
   ),
@@ -170,7 +165,7 @@ export const UNATTRIBUTED_SQL = `
     ) f
   ),
   lagged AS (
-    SELECT k.id, k.worker_id, k.outcome_id, k.month, (k.month - make_interval(months => o.lag_months))::date AS roster_month
+    SELECT k.id, k.worker_id, k.outcome_id, k.month, ${rosterMonthOf('k.month', 'o.lag_months')} AS roster_month
     FROM kept k JOIN o USING (outcome_id)
   )
   SELECT x.id::text AS case_event_id, x.outcome_id,

@@ -1,6 +1,6 @@
 import type { RunSettings } from '@ratewarden/shared/runs';
 import type { Cell } from './cells-query';
-import { computeResults, type GroupInfo, type OutcomeInfo, type ResultRow, type TrendRow } from './compute-results';
+import { computeResults, type GroupInfo, type OutcomeInfo, type ResultRow } from './compute-results';
 import { resultLine } from './copy-lines';
 
 /** One piece of a run's statistics: one outcome in one scope (the company, or one site). */
@@ -48,14 +48,13 @@ export function computeJobs(cells: Cell[], outcomes: OutcomeInfo[], ruleSites: R
 /**
  * A job's answer as the run needs it: every row as COPY text for run_results (made where it is
  * computed, so only one string crosses between threads), and as objects only the rows watch
- * rules read (the company's, and the sites' that site-level rules watch) with the trend tests.
+ * rules read (the company's, and the sites' that site-level rules watch).
  */
 export interface JobAnswer {
   lines: string;
   resultCount: number;
   companyResults: ResultRow[];
   siteRuleResults: ResultRow[];
-  trends: TrendRow[];
   outcomesWithoutReference: number[];
 }
 
@@ -68,7 +67,6 @@ export function answerJob(job: ComputeJob, groups: GroupInfo[], settings: RunSet
     resultCount: c.results.length,
     companyResults: job.siteId === null ? c.results : [],
     siteRuleResults: job.siteId !== null && job.forRules ? c.results : [],
-    trends: c.trends,
     outcomesWithoutReference: job.siteId === null ? c.outcomesWithoutReference : [],
   };
 }
@@ -80,17 +78,15 @@ export interface MergedAnswers {
   siteRuleResults: ResultRow[];
   /** Every row stored, company and sites. */
   resultCount: number;
-  trends: TrendRow[];
   outcomesWithoutReference: number[];
 }
 
 /** Joins the jobs' answers in job order. */
 export function mergeAnswers(answers: JobAnswer[]): MergedAnswers {
-  const merged: MergedAnswers = { companyResults: [], siteRuleResults: [], resultCount: 0, trends: [], outcomesWithoutReference: [] };
+  const merged: MergedAnswers = { companyResults: [], siteRuleResults: [], resultCount: 0, outcomesWithoutReference: [] };
   for (const a of answers) {
     for (const r of a.companyResults) merged.companyResults.push(r);
     for (const r of a.siteRuleResults) merged.siteRuleResults.push(r);
-    for (const t of a.trends) merged.trends.push(t);
     merged.resultCount += a.resultCount;
     merged.outcomesWithoutReference.push(...a.outcomesWithoutReference);
   }

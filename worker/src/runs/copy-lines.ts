@@ -1,6 +1,6 @@
 import { stringifyJson } from '@ratewarden/shared/stats';
 import type { Cell } from './cells-query';
-import type { ResultRow, TrendRow } from './compute-results';
+import type { ResultRow } from './compute-results';
 
 const dbl = 'double precision';
 /** Columns of run_results written from a ResultRow, with their SQL types (the types document the table; COPY takes them from it). */
@@ -73,8 +73,6 @@ export function copyValue(v: unknown): string {
   return NEEDS_ESCAPE.test(text) ? text.replace(ESCAPED, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r')) : text;
 }
 
-export const TREND_COLUMNS: Array<keyof TrendRow> = ['site_id', 'outcome_id', 'window_kind', 'period', 'chi2', 'p', 'u', 'levels'];
-
 /** One run_results row as a line of COPY text, run id first (the column order of RESULT_COLUMNS). */
 export function resultLine(runId: string, r: ResultRow): string {
   let out = copyValue(runId);
@@ -117,11 +115,4 @@ export function cellsLines(runId: string, cells: Cell[]): string {
     out += `${runId}\t${key}\t${cols.map((v) => copyValue(v)).join('\t')}\n`;
   }
   return out;
-}
-
-/** One run_trends row as a line of COPY text (TREND_COLUMNS). */
-export function trendLine(runId: string, t: TrendRow): string {
-  let out = copyValue(runId);
-  for (const c of TREND_COLUMNS) out += `\t${copyValue(t[c])}`;
-  return `${out}\n`;
 }

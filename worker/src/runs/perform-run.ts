@@ -152,11 +152,11 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       // The disclosure frame needs the cells only: decided here while the threads compute.
       const frame = disclosureFrame(snapshot.cells, threshold);
       await storeCells(em, runId, snapshot.cells);
-      writer = await openResultWriter(em, runId);
+      writer = await openResultWriter(em);
       for (const lines of early.splice(0)) writer.lines(lines);
       const computed = await computing;
       const t2 = performance.now();
-      await writer.finish(computed.trends);
+      await writer.finish();
       await storeFrame(em, runId, frame);
       await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
@@ -179,7 +179,6 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         results: computed.companyResults.length,
         withheld: frame.length,
         siteResults: computed.resultCount - computed.companyResults.length,
-        trends: computed.trends.length,
         cases: snapshot.caseTotals,
         unattributed: unattributedSummary(
           snapshot.outcomes.map((o) => o.id),

@@ -3,9 +3,8 @@ import { pipeline } from 'node:stream/promises';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { EntityManager } from 'typeorm';
-import type { TrendRow } from './compute-results';
 import type { Cell } from './cells-query';
-import { CELLS_COLUMNS, cellsLines, RESULT_COLUMNS, TREND_COLUMNS, trendLine } from './copy-lines';
+import { CELLS_COLUMNS, cellsLines, RESULT_COLUMNS } from './copy-lines';
 
 /** COPY into `table` on the transaction's own connection, fed line by line while the caller works. */
 async function openCopy(em: EntityManager, table: string, columns: string[]): Promise<{ write(text: string): void; finish(): Promise<void> }> {
@@ -25,20 +24,15 @@ async function openCopy(em: EntityManager, table: string, columns: string[]): Pr
 /**
  * A run's result writer: run_results rows arrive as COPY text (made by the statistics threads,
  * see compute-scopes.ts) and go into one COPY while the threads work, so PostgreSQL stores as
- * the statistics are computed; trend tests follow with a second COPY at the end. Everything is
- * inside the run's final transaction, so a failure leaves nothing behind.
+ * the statistics are computed. Everything is inside the run's final transaction, so a failure
+ * leaves nothing behind. (The trend test across exposure levels is not stored: the trends page
+ * computes it from the results its reader may see.)
  */
-export async function openResultWriter(em: EntityManager, runId: string): Promise<{ lines(text: string): void; finish(trends: TrendRow[]): Promise<void> }> {
+export async function openResultWriter(em: EntityManager): Promise<{ lines(text: string): void; finish(): Promise<void> }> {
   const copy = await openCopy(em, 'run_results', ['run_id', ...RESULT_COLUMNS.map(([c]) => c)]);
   return {
     lines: (text) => copy.write(text),
-    finish: async (trends) => {
-      await copy.finish();
-      if (trends.length === 0) return;
-      const t = await openCopy(em, 'run_trends', ['run_id', ...TREND_COLUMNS]);
-      t.write(trends.map((x) => trendLine(runId, x)).join(''));
-      await t.finish();
-    },
+    finish: () => copy.finish(),
   };
 }
 

@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { attributingRow, countedByRule, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
 import type { CaseListQuery, CaseSummary } from '@ratewarden/shared/cases';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { siteScope } from '../../auth/authorize';
@@ -9,10 +10,10 @@ type Row = Record<string, any>;
 
 /**
  * The current version of every case with what the register shows of it: the site and exposure
- * group it is attributed to as a run would (the worker's current roster row with most hours in the
- * onset month minus the outcome's lag), the intake it came from, its number of versions, and how
- * the current run saw it (its `run_unattributed` row; its status among the run's counted ones;
- * a version made after the run started was not counted by it). Parameters: $1 site scope (null:
+ * group it is attributed to as a run would (db/src/case-attribution.ts), the intake it came from,
+ * its number of versions, and how the current run saw it (its `run_unattributed` row; its status
+ * among the run's counted ones; a version made after the run started was not counted by it; a
+ * later case of a first-event outcome is not counted). Parameters: $1 site scope (null:
  * every site), $2 whether unattributed cases are in scope (a reader of every site).
  */
 const REGISTER_SQL = `
@@ -22,17 +23,12 @@ const REGISTER_SQL = `
   ),
   cur AS (
     SELECT c.id, c.case_ref, c.worker_id, c.outcome_id, c.onset_date, c.status, c.intake_id, c.review_id, c.created_at,
-           w.worker_key, o.code AS outcome_code, o.lag_months, i.file_name, a.site_id, a.exposure_group_id
+           w.worker_key, o.code AS outcome_code, o.lag_months, o.counting_rule, i.file_name, a.site_id, a.exposure_group_id
     FROM case_events c
     JOIN workers w ON w.id = c.worker_id
     JOIN outcomes o ON o.id = c.outcome_id
     JOIN intakes i ON i.id = c.intake_id
-    LEFT JOIN LATERAL (
-      SELECT r.site_id, r.exposure_group_id FROM roster_entries r
-      JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
-      WHERE r.worker_id = c.worker_id AND r.month = (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AND r.hours > 0
-      ORDER BY r.hours DESC, r.site_id LIMIT 1
-    ) a ON true
+    LEFT JOIN LATERAL (${attributingRow('c.worker_id', rosterMonthOf(onsetMonthOf('c.onset_date'), 'o.lag_months'))}) a ON true
     WHERE c.superseded_by IS NULL
   )
   SELECT cur.*, to_char(cur.onset_date, 'YYYY-MM-DD') AS onset,
@@ -42,11 +38,13 @@ const REGISTER_SQL = `
               WHEN u.reason IS NOT NULL THEN 'unattributed'
               WHEN cur.created_at > cr.started_at THEN 'not_counted'
               WHEN NOT (cur.status = ANY(cr.statuses)) THEN 'not_counted'
+              WHEN NOT ${countedByRule('cur', 'cur.counting_rule', 'cr.statuses')} THEN 'not_counted'
               ELSE 'attributed' END AS attribution,
          CASE WHEN cr.id IS NULL THEN NULL
               WHEN u.reason IS NOT NULL THEN u.reason
               WHEN cur.created_at > cr.started_at THEN 'changed after the run: the next run counts this version'
               WHEN NOT (cur.status = ANY(cr.statuses)) THEN 'status not counted by the run'
+              WHEN NOT ${countedByRule('cur', 'cur.counting_rule', 'cr.statuses')} THEN 'a later case of a first-event outcome: the run counts the worker''s first only'
               ELSE NULL END AS attribution_reason
   FROM cur
   LEFT JOIN cr ON true

@@ -1,6 +1,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
+import { attributingRow, countedByRule, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
 import { recordAudit } from '../../audit/audit-log';
 import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
@@ -137,8 +138,8 @@ export async function closeFlag(ds: DataSource, principal: Principal, id: string
 
 /**
  * The cases counted in a flag's group, window and scope (a site flag: that site's), as the run
- * counted them (same counted statuses, lag and first-event rule; attributed to the worker's
- * roster row of the onset month minus the lag). Case-level data: the route lets only the
+ * counted them: its counted statuses, and the attribution and first-event rule of
+ * db/src/case-attribution.ts. Case-level data: the route lets only the
  * physician in, for flags they may see and within their sites, and every read is audited.
  */
 export async function flagCases(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<FlagCase[]> {
@@ -156,21 +157,13 @@ export async function flagCases(ds: DataSource, principal: Principal, id: string
      FROM case_events c
      JOIN outcomes o ON o.id = c.outcome_id
      JOIN workers w ON w.id = c.worker_id
-     JOIN LATERAL (
-       SELECT r.site_id, r.exposure_group_id FROM roster_entries r
-       JOIN roster_slices s ON s.intake_id = r.intake_id AND s.site_id = r.site_id AND s.month = r.month
-       WHERE r.worker_id = c.worker_id AND r.month = (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AND r.hours > 0
-       ORDER BY r.hours DESC, r.site_id LIMIT 1
-     ) a ON true
+     JOIN LATERAL (${attributingRow('c.worker_id', rosterMonthOf(onsetMonthOf('c.onset_date'), 'o.lag_months'))}) a ON true
      WHERE c.superseded_by IS NULL AND c.outcome_id = $1 AND c.status = ANY(ARRAY(SELECT jsonb_array_elements_text($2::jsonb)))
        AND a.exposure_group_id = $3
        AND date_trunc('month', c.onset_date) BETWEEN ($4::date - make_interval(months => $5 - 1)) AND $4::date
        AND ($6::int[] IS NULL OR a.site_id = ANY($6::int[]))
        AND ($7::int IS NULL OR a.site_id = $7)
-       AND (o.counting_rule = 'recurrent' OR NOT EXISTS (
-         SELECT 1 FROM case_events e WHERE e.superseded_by IS NULL AND e.worker_id = c.worker_id AND e.outcome_id = c.outcome_id
-           AND e.status = ANY(ARRAY(SELECT jsonb_array_elements_text($2::jsonb)))
-           AND date_trunc('month', e.onset_date) < date_trunc('month', c.onset_date)))
+       AND ${countedByRule('c', 'o.counting_rule', 'ARRAY(SELECT jsonb_array_elements_text($2::jsonb))')}
      ORDER BY c.onset_date, c.case_ref`,
     [f.outcome_id, JSON.stringify(f.statuses), f.exposure_group_id, f.period, months, scope === 'all' ? null : scope, f.site_id],
   );

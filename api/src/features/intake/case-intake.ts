@@ -1,4 +1,5 @@
 import type { PoolClient } from 'pg';
+import { attributingRow, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
 import type { CellBounds } from '@ratewarden/shared/intake-cell';
 import { caseColumns, reasons } from '@ratewarden/shared/intake-columns';
 import type { CaseStatus } from '@ratewarden/shared/intake';
@@ -82,8 +83,7 @@ const changedWhere = changedOf();
 /**
  * What applying the case list changes: new, changed and unchanged cases, per outcome, and the new
  * and changed ones split by outcome × status × exposure group, the group of the roster row that
- * attributes the case as a run would (onset month minus the outcome's lag, the current row with
- * most hours; null when there is none). Stored with every count; the API withholds small ones
+ * attributes the case as a run would (db/src/case-attribution.ts; null when there is none). Stored with every count; the API withholds small ones
  * from readers without `cases:read` (intake-disclosure.ts).
  */
 export async function caseDiff(client: PoolClient): Promise<IntakeDiff> {
@@ -96,11 +96,7 @@ export async function caseDiff(client: PoolClient): Promise<IntakeDiff> {
            count(*) FILTER (WHERE c.stored_id IS NULL) AS new, count(*) FILTER (WHERE ${changedOf('c.')}) AS changed
     FROM intake_cases c
     JOIN outcomes o ON o.id = c.outcome_id
-    LEFT JOIN LATERAL (
-      SELECT re.exposure_group_id FROM roster_entries re JOIN roster_slices rs ON ${current}
-      WHERE re.worker_id = c.worker_id AND re.month = (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AND re.hours > 0
-      ORDER BY re.hours DESC, re.site_id LIMIT 1
-    ) a ON true
+    LEFT JOIN LATERAL (${attributingRow('c.worker_id', rosterMonthOf(onsetMonthOf('c.onset_date'), 'o.lag_months'))}) a ON true
     LEFT JOIN exposure_groups g ON g.id = a.exposure_group_id
     WHERE c.stored_id IS NULL OR ${changedOf('c.')}
     GROUP BY 1, 2, 3 ORDER BY 1, 2, 3 NULLS LAST`);

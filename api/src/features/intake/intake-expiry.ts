@@ -2,8 +2,8 @@ import type { PoolClient } from 'pg';
 import type { DataSource, EntityManager } from 'typeorm';
 import { reasons } from '@ratewarden/shared/intake-columns';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
+import { pgClientOf } from '@ratewarden/db/sql';
 import { recordAudit } from '../../audit/audit-log';
-import { withTransaction } from './intake-transaction';
 import { dropStaging } from './staging-drop';
 
 /** Hours a checked intake waits for apply or discard before it expires (INTAKE_EXPIRY_HOURS). */
@@ -34,7 +34,8 @@ export async function expireIntake(client: PoolClient, em: EntityManager, id: st
  * checked or applied it does nothing, and the next intake request sweeps instead.
  */
 export async function sweepStaging(ds: DataSource, hours: number): Promise<{ expired: string[]; orphans: string[] }> {
-  return withTransaction(ds, async (client, em) => {
+  return ds.transaction(async (em) => {
+    const client = await pgClientOf(em);
     const lock = await client.query<{ ok: boolean }>(`SELECT pg_try_advisory_xact_lock(hashtext('ratewarden.intake.apply')) AS ok`);
     if (!lock.rows[0]!.ok) return { expired: [], orphans: [] };
     const { rows } = await client.query<{ id: string; staging_table: string | null }>(

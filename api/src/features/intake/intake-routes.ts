@@ -10,7 +10,8 @@ import { AppError } from '../../lib/app-error';
 import { tooLarge } from '../../lib/byte-meter';
 import { intakeAsSeenBy, namesCases } from './intake-disclosure';
 import { getIntake, listIntakes } from './intake-queries';
-import { applyIntake, DEFAULT_MAX_BYTES, discardIntake, receiveIntake, restoreIntake } from './intake-service';
+import { DEFAULT_MAX_BYTES, receiveIntake } from './intake-receive';
+import { applyIntake, discardIntake, restoreIntake } from './intake-service';
 import { DEFAULT_EXPIRY_HOURS, sweepStaging } from './intake-expiry';
 import { firstFile } from '../../lib/multipart-file';
 

@@ -1,4 +1,5 @@
 import type { PoolClient } from 'pg';
+import { attributingRow, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
 import type { OrphanedCase } from '@ratewarden/shared/intake-schemas';
 import type { RosterStage } from './roster-stage';
 
@@ -8,7 +9,7 @@ export const ORPHAN_LIST_CAP = 200;
 /**
  * The stored current cases that applying the staged roster would leave without a roster row: a
  * case is attributed to its worker's roster row with hours in the onset month minus the outcome's
- * lag (worker/src/runs/cells-query.ts); it is orphaned when such a row is current now, and after
+ * lag (db/src/case-attribution.ts); it is orphaned when such a row is current now, and after
  * apply none would be: the file replaces the slice that holds it (in `intake_stored_slices`,
  * made by rosterDiff) without a row with hours for that worker and month, and no other current
  * slice has one. Any status counts: a suspected case may be confirmed later. Returns the count
@@ -28,7 +29,7 @@ export async function orphanedCases(client: PoolClient, st: RosterStage): Promis
     WITH attributed AS (
       SELECT * FROM (
         SELECT c.case_ref, c.onset_date, c.status, upper(o.code) AS outcome_code, w.worker_key, c.worker_id,
-               (date_trunc('month', c.onset_date) - make_interval(months => o.lag_months))::date AS month
+               ${rosterMonthOf(onsetMonthOf('c.onset_date'), 'o.lag_months')} AS month
         FROM case_events c
         JOIN outcomes o ON o.id = c.outcome_id
         JOIN workers w ON w.id = c.worker_id
@@ -39,12 +40,7 @@ export async function orphanedCases(client: PoolClient, st: RosterStage): Promis
       -- The row that attributes the case now (most hours, as the run picks it), in a slice the file replaces.
       SELECT a.*, ss.site_code
       FROM attributed a
-      JOIN LATERAL (
-        SELECT re.site_id FROM roster_entries re
-        JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
-        WHERE re.worker_id = a.worker_id AND re.month = a.month AND re.hours > 0
-        ORDER BY re.hours DESC, re.site_id LIMIT 1
-      ) cur ON true
+      JOIN LATERAL (${attributingRow('a.worker_id', 'a.month', { columns: 'r.site_id' })}) cur ON true
       JOIN intake_stored_slices ss ON ss.site_id = cur.site_id AND ss.month = a.month
     ), orphaned AS (
       SELECT l.* FROM losing l

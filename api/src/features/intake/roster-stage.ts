@@ -5,7 +5,9 @@ import { NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { pumpCopy, stagingRef } from './copy-stage';
 import { assertAllRowsStaged } from './csv-record-scan';
-import { DEFAULT_TALLY_LIMITS, ROSTER_STAGE_COLUMNS, RosterStream, type CodeMap, type TallyLimits } from './roster-stream';
+import type { CodeMap } from './roster-cell-verdict';
+import { ROSTER_STAGE_COLUMNS, RosterStream } from './roster-stream';
+import { DEFAULT_TALLY_LIMITS, type TallyLimits } from './roster-tallies';
 
 /**
  * A roster's staging: its typed rows, and beside them one line per worker (birth years and sexes
@@ -95,7 +97,7 @@ export async function stageRoster(
     assertAllRowsStaged(stream.rows, staged);
   }
 
-  if (stream.overflow) {
+  if (stream.tallies.overflow) {
     await client.query(
       `INSERT INTO ${st.workers} SELECT worker_key, min(birth_year), max(birth_year), min(sex), max(sex) FROM ${st.rows} WHERE worker_key IS NOT NULL GROUP BY 1`,
     );
@@ -103,21 +105,22 @@ export async function stageRoster(
       INSERT INTO ${st.slices} SELECT s.site_id, upper(si.code), to_char(s.month, 'YYYY-MM'), s.month, count(*), coalesce(sum(s.hours), 0)
       FROM ${st.rows} s JOIN sites si ON si.id = s.site_id WHERE s.month IS NOT NULL GROUP BY s.site_id, si.code, s.month`);
   } else {
-    if (stream.workers.size) {
+    if (stream.tallies.workers.size) {
       await copyLines(
         client,
         `COPY ${st.workers} FROM STDIN`,
         (function* () {
-          for (const [k, t] of stream.workers) yield `${k}\t${nul(t.byMin)}\t${nul(t.byMax)}\t${nul(t.sexMin)}\t${nul(t.sexMax)}\n`;
+          for (const [k, t] of stream.tallies.workers) yield `${k}\t${nul(t.byMin)}\t${nul(t.byMax)}\t${nul(t.sexMin)}\t${nul(t.sexMax)}\n`;
         })(),
       );
     }
-    if (stream.slices.size) {
+    if (stream.tallies.slices.size) {
       await copyLines(
         client,
         `COPY ${st.slices} FROM STDIN`,
         (function* () {
-          for (const t of stream.slices.values()) yield `${t.siteId}\t${t.siteCode}\t${t.month}\t${t.month}-01\t${t.n}\t${(t.cents / 100).toFixed(2)}\n`;
+          for (const t of stream.tallies.slices.values())
+            yield `${t.siteId}\t${t.siteCode}\t${t.month}\t${t.month}-01\t${t.n}\t${(t.cents / 100).toFixed(2)}\n`;
         })(),
       );
     }
@@ -128,7 +131,7 @@ export async function stageRoster(
     rowCount: stream.rows,
     problems: stream.problems,
     problemCount: stream.problemCount,
-    needsDuplicateCheck: stream.overflow || !stream.monthsIncrease,
+    needsDuplicateCheck: stream.tallies.overflow || !stream.tallies.monthsIncrease,
     siteIds: [...stream.siteIds],
     groupIds: [...stream.groupIds],
   };

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { reasons } from '@ratewarden/shared/intake-columns';
 import { rowSchema } from '@ratewarden/shared/intake-schemas';
-import { RosterStream, type CodeMap } from './roster-stream';
+import type { CodeMap } from './roster-cell-verdict';
+import { RosterStream } from './roster-stream';
 
 const codes = {
   site: new Map([['NFD', { id: 7, code: 'NFD' }]]) as CodeMap,
@@ -85,15 +86,15 @@ describe('RosterStream (the roster upload hot path)', () => {
 
   it('tallies workers and site × months, and notices months that do not increase', async () => {
     const { s } = await run('W1,NFD,OFFICE,2024-01,10.25,1980,F,\nW1,NFD,OFFICE,2024-02,20,1981,F,\nW2,NFD,OFFICE,2024-02,5,1970,M,\n');
-    expect(s.monthsIncrease).toBe(true);
-    expect(s.workers.get('W1')).toMatchObject({ byMin: 1980, byMax: 1981, sexMin: 'F', sexMax: 'F' });
+    expect(s.tallies.monthsIncrease).toBe(true);
+    expect(s.tallies.workers.get('W1')).toMatchObject({ byMin: 1980, byMax: 1981, sexMin: 'F', sexMax: 'F' });
     // Hours in hundredths by hand: January 1025; February 2000 + 500.
-    expect([...s.slices.values()].map((x) => [x.month, x.n, x.cents])).toEqual([
+    expect([...s.tallies.slices.values()].map((x) => [x.month, x.n, x.cents])).toEqual([
       ['2024-01', 1, 1025],
       ['2024-02', 2, 2500],
     ]);
     const again = await run('W1,NFD,OFFICE,2024-02,1,1980,F,\nW1,NFD,OFFICE,2024-01,1,1980,F,\n');
-    expect(again.s.monthsIncrease).toBe(false);
+    expect(again.s.tallies.monthsIncrease).toBe(false);
   });
 
   it('stops on rows it cannot read, naming the line', async () => {

@@ -1,118 +1,31 @@
 import { isUtf8 } from 'node:buffer';
 import { Transform, type TransformCallback } from 'node:stream';
-import { cellJudge, NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
-import { reasons, rosterColumns, type ColumnDef } from '@ratewarden/shared/intake-columns';
+import { NO_BOUNDS, type CellBounds } from '@ratewarden/shared/intake-cell';
+import { rosterColumns } from '@ratewarden/shared/intake-columns';
 import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { unreadable } from './copy-errors';
+import { quotedRecord } from './csv-quoted-record';
 import { PROBLEMS_LISTED } from './problems';
+import {
+  cachedVerdict,
+  KEY_CACHE,
+  NONE,
+  NULL_CELL,
+  own,
+  slotJudge,
+  VERDICT_CACHE,
+  type CodeMap,
+  type Entry,
+  type Judged,
+  type Slot,
+} from './roster-cell-verdict';
+import { DEFAULT_TALLY_LIMITS, RosterTallies, type TallyLimits } from './roster-tallies';
 
 /** Columns of a roster's typed staging table, in the order the stream writes them. */
 export const ROSTER_STAGE_COLUMNS = ['line_no', 'worker_key', 'site_id', 'group_id', 'month', 'hours', 'birth_year', 'sex', 'job_title'] as const;
 
-/** Known codes, upper case, with their ids and stored spelling. */
-export type CodeMap = Map<string, { id: number; code: string }>;
-
-export interface WorkerTally {
-  byMin: number;
-  byMax: number;
-  sexMin: string;
-  sexMax: string;
-  last: number;
-}
-export interface SliceTally {
-  siteId: number;
-  siteCode: string;
-  month: string;
-  n: number;
-  cents: number;
-}
-
-/**
- * Beyond these many distinct workers (or site × months) the stream stops keeping its tallies and
- * the SQL fallback computes them from the staged rows, so memory stays bounded whatever the file.
- */
-export const WORKER_TALLY_LIMIT = 300_000;
-export const SLICE_TALLY_LIMIT = 50_000;
-
-/** The limits of the in-memory tallies (tests lower them to reach the SQL fallback with a few rows). */
-export interface TallyLimits {
-  workers: number;
-  slices: number;
-}
-export const DEFAULT_TALLY_LIMITS: TallyLimits = { workers: WORKER_TALLY_LIMIT, slices: SLICE_TALLY_LIMIT };
 /** A row longer than this is not a roster row (and would otherwise be held whole in memory). */
 const MAX_ROW_CHARS = 1024 * 1024;
-/** Distinct values remembered per low-variety column (codes, months, hours, years, sex). */
-const VERDICT_CACHE = 8192;
-/** Worker keys: a roster sorted by worker meets each key in a run of rows; one sorted by month, every key each month. */
-const KEY_CACHE = 65536;
-
-interface Judged {
-  reason: string | null;
-  /** The cell in COPY text format (`\N` for none). */
-  cell: string;
-  /** Code id, month index (year × 12 + month), hours in hundredths or year; NaN when none. */
-  num: number;
-}
-
-interface Slot {
-  def: ColumnDef;
-  /** Field position in the file, -1 when the column is absent (optional columns only). */
-  pos: number;
-  judge: (raw: string) => Judged;
-  /** Direct-mapped cache of verdicts by a hash of the raw bytes (FNV-1a), checked byte for byte on a hit. */
-  cache: Array<Entry | undefined>;
-  mask: number;
-}
-
-const NONE: Judged = { reason: null, cell: '\\N', num: NaN };
-const NULL_CELL = Buffer.from('\\N');
-
-/** A cached verdict, with the raw bytes it was given and its COPY text as bytes. */
-interface Entry {
-  raw: Buffer;
-  text: string;
-  j: Judged;
-  out: Buffer;
-  /** For worker keys: the worker's tally, once looked up. */
-  tally: WorkerTally | null;
-}
-
-/** COPY text format: backslash, tab, newline and carriage return are written as escapes. */
-function copyText(s: string): string {
-  return /[\\\t\n\r]/.test(s) ? s.replace(/[\\\t\n\r]/g, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r')) : s;
-}
-
-/** A copy that does not keep the chunk it was sliced from alive (V8 sliced strings do). */
-const own = (s: string) => Buffer.from(s, 'utf8').toString('utf8');
-
-function slotJudge(def: ColumnDef, codes: { site: CodeMap; exposure_group: CodeMap }, bounds: CellBounds): (raw: string) => Judged {
-  const judge = cellJudge(def, bounds);
-  const rule = def.rule;
-  return (raw) => {
-    const v = judge(raw);
-    if (v.reason) return { reason: v.reason, cell: '\\N', num: NaN };
-    if (v.text === null) return NONE;
-    switch (rule.type) {
-      case 'code': {
-        const known = rule.ref === 'outcome' ? undefined : codes[rule.ref].get(v.text);
-        if (!known) return { reason: reasons.unknownCode(def.name, rule.ref), cell: '\\N', num: NaN };
-        return { reason: null, cell: String(known.id), num: known.id };
-      }
-      case 'month':
-        return { reason: null, cell: `${v.text}-01`, num: Number(v.text.slice(0, 4)) * 12 + Number(v.text.slice(5, 7)) - 1 };
-      case 'decimal':
-        return { reason: null, cell: v.text, num: Math.round((v.value as number) * 100) };
-      case 'integer':
-        return { reason: null, cell: v.text, num: v.value as number };
-      case 'key':
-        // The key's pattern admits no character that COPY text would need escaped.
-        return { reason: null, cell: v.text, num: NaN };
-      default:
-        return { reason: null, cell: copyText(v.text), num: NaN };
-    }
-  };
-}
 
 /**
  * The roster's hot path: reads the upload's data rows (after the header) as they arrive, splits
@@ -128,12 +41,8 @@ export class RosterStream extends Transform {
   problemCount = 0;
   /** The first problems in file order; with `problemCount` all are counted. */
   readonly problems: IntakeProblem[] = [];
-  readonly workers = new Map<string, WorkerTally>();
-  readonly slices = new Map<number, SliceTally>();
-  /** False once a worker's months do not strictly increase: the SQL duplicate check must run. */
-  monthsIncrease = true;
-  /** True once a tally outgrew its limit: the SQL fallback computes workers and slices. */
-  overflow = false;
+  /** Per worker and per site × month, for the set-wise checks (roster-tallies.ts). */
+  readonly tallies: RosterTallies;
   readonly siteIds = new Set<number>();
   readonly groupIds = new Set<number>();
 
@@ -146,7 +55,6 @@ export class RosterStream extends Transform {
   private readonly delimByte: number;
   private carry: Buffer = Buffer.alloc(0);
   private line: number;
-  private readonly sitesById: Map<number, string>;
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
   private out = Buffer.allocUnsafe(0);
@@ -158,7 +66,7 @@ export class RosterStream extends Transform {
     private readonly eol: '\n' | '\r',
     codes: { site: CodeMap; exposure_group: CodeMap },
     firstLine = 2,
-    private readonly limits: TallyLimits = DEFAULT_TALLY_LIMITS,
+    limits: TallyLimits = DEFAULT_TALLY_LIMITS,
     bounds: CellBounds = NO_BOUNDS,
   ) {
     super();
@@ -172,7 +80,7 @@ export class RosterStream extends Transform {
     });
     this.at = Object.fromEntries(this.slots.map((s) => [s.def.name, s]));
     this.byPos = columns.map((c) => this.at[c]!);
-    this.sitesById = new Map([...codes.site.values()].map((s) => [s.id, s.code.toUpperCase()]));
+    this.tallies = new RosterTallies(limits, new Map([...codes.site.values()].map((s) => [s.id, s.code.toUpperCase()])));
     this.starts = new Int32Array(this.ncols + 1);
     this.ends = new Int32Array(this.ncols + 1);
   }
@@ -286,7 +194,7 @@ export class RosterStream extends Transform {
   /**
    * Handles the records in `b[0, limit)`; returns where it stopped: `limit`, or the start of a
    * quoted record that continues beyond it. Records without a quote are split byte by byte
-   * (the common case, no strings made but for the worker key); quoted ones go through `quoted`.
+   * (the common case, no strings made but for the worker key); quoted ones go through `quotedRecord`.
    */
   private parse(b: Buffer, limit: number, final: boolean): number {
     const eolByte = this.eolByte;
@@ -303,7 +211,7 @@ export class RosterStream extends Transform {
       const next = end + 1;
       if (quote >= 0 && quote < end) {
         const text = b.toString('utf8', pos, final ? limit : b.length);
-        const rec = this.quoted(text, 0, final);
+        const rec = quotedRecord(text, 0, final, this.eol, this.delimiter);
         if (!rec) {
           if (final) throw unreadable(`a quoted value is never closed (line ${this.line})`, this.line);
           return pos;
@@ -345,30 +253,9 @@ export class RosterStream extends Transform {
     );
   }
 
-  /** The verdict on field `f` of the current byte row, from the column's cache when seen before. */
+  /** The verdict on field `slot.pos` of the current byte row (cached per column). */
   private byteJudged(slot: Slot, b: Buffer): Entry {
-    const s = this.starts[slot.pos]!;
-    const e = this.ends[slot.pos]!;
-    let h = 0x811c9dc5;
-    for (let i = s; i < e; i++) h = Math.imul(h ^ b[i]!, 16777619);
-    const cache = slot.cache;
-    const at = h & slot.mask;
-    const hit = cache[at];
-    if (hit !== undefined && hit.raw.length === e - s) {
-      let same = true;
-      for (let i = s, k = 0; i < e; i++, k++) {
-        if (hit.raw[k] !== b[i]) {
-          same = false;
-          break;
-        }
-      }
-      if (same) return hit;
-    }
-    const text = b.toString('utf8', s, e);
-    const j = slot.judge(text);
-    const entry: Entry = { raw: Buffer.from(b.subarray(s, e)), text, j, out: Buffer.from(j.cell), tally: null };
-    cache[at] = entry;
-    return entry;
+    return cachedVerdict(slot, b, this.starts[slot.pos]!, this.ends[slot.pos]!);
   }
 
   private problemAt(line: number, column: string, raw: string, reason: string): void {
@@ -401,10 +288,11 @@ export class RosterStream extends Transform {
       ];
       for (const [column, x] of all) if (x?.j.reason) this.problemAt(line, column, x.text, x.j.reason);
     }
-    if (!this.overflow) {
-      if (key.tally) this.tallyWorker(key.tally, month.j, by.j, sex.j);
-      else key.tally = this.tally(key.j, site.j, month.j, hours.j, by.j, sex.j, true);
-      if (!this.overflow) this.tallySlice(site.j, month.j, hours.j);
+    const tallies = this.tallies;
+    if (!tallies.overflow) {
+      if (key.tally) tallies.tallyWorker(key.tally, month.j, by.j, sex.j);
+      else key.tally = tallies.tally(key.j, site.j, month.j, hours.j, by.j, sex.j, true);
+      if (!tallies.overflow) tallies.tallySlice(site.j, month.j, hours.j);
     }
     if (site.j.num === site.j.num) this.siteIds.add(site.j.num);
     if (group.j.num === group.j.num) this.groupIds.add(group.j.num);
@@ -443,7 +331,7 @@ export class RosterStream extends Transform {
       j[slot.def.name] = v;
     }
     const key = j.worker_key!;
-    if (!this.overflow) this.tally(key, j.site!, j.month!, j.hours!, j.birth_year!, j.sex!);
+    if (!this.tallies.overflow) this.tallies.tally(key, j.site!, j.month!, j.hours!, j.birth_year!, j.sex!);
     if (!Number.isNaN(j.site!.num)) this.siteIds.add(j.site!.num);
     if (!Number.isNaN(j.exposure_group!.num)) this.groupIds.add(j.exposure_group!.num);
     this.putStr(
@@ -451,109 +339,5 @@ export class RosterStream extends Transform {
         .map((c) => j[c === 'site_id' ? 'site' : c === 'group_id' ? 'exposure_group' : c]!.cell)
         .join('\t')}\n`,
     );
-  }
-
-  /** One record with quoted fields, starting at `pos`; null when it does not end within `s`. */
-  private quoted(s: string, pos: number, final: boolean): { fields: string[]; next: number; lines: number } | null {
-    const eol = this.eol;
-    const d = this.delimiter;
-    const fields: string[] = [];
-    let lines = 1;
-    let i = pos;
-    for (;;) {
-      let value = '';
-      if (s[i] === '"') {
-        i++;
-        for (;;) {
-          const q = s.indexOf('"', i);
-          if (q < 0) return null;
-          value += s.slice(i, q);
-          if (s[q + 1] === '"') {
-            value += '"';
-            i = q + 2;
-          } else {
-            i = q + 1;
-            break;
-          }
-        }
-        for (let k = value.indexOf(eol); k >= 0; k = value.indexOf(eol, k + 1)) lines++;
-      }
-      // Unquoted text, or what follows a closing quote, up to the next separator or line end.
-      let j = i;
-      while (j < s.length && s[j] !== d && s[j] !== eol) j++;
-      if (j === s.length && !final) return null;
-      let tail = s.slice(i, j);
-      if (s[j] !== d && eol === '\n' && tail.charCodeAt(tail.length - 1) === 13) tail = tail.slice(0, -1);
-      fields.push(value + tail);
-      if (s[j] === d) {
-        i = j + 1;
-        continue;
-      }
-      return { fields, next: Math.min(j + 1, s.length), lines };
-    }
-  }
-
-  /** Tallies a row for its worker and its site × month; returns the worker's tally (null when none). */
-  private tally(key: Judged, site: Judged, month: Judged, hours: Judged, by: Judged, sex: Judged, workerOnly = false): WorkerTally | null {
-    let t: WorkerTally | null = null;
-    if (key.cell !== '\\N') {
-      t = this.workers.get(key.cell) ?? null;
-      if (t) this.tallyWorker(t, month, by, sex);
-      else if (this.workers.size >= this.limits.workers) {
-        this.giveUpTallies();
-        return null;
-      } else {
-        const year = by.num;
-        const sx = sex.cell === '\\N' ? '' : sex.cell;
-        t = { byMin: year, byMax: year, sexMin: sx, sexMax: sx, last: Number.isNaN(month.num) ? -1 : month.num };
-        this.workers.set(own(key.cell), t);
-      }
-    }
-    if (!workerOnly) this.tallySlice(site, month, hours);
-    return t;
-  }
-
-  private tallyWorker(t: WorkerTally, month: Judged, by: Judged, sex: Judged): void {
-    const year = by.num;
-    if (year === year) {
-      if (!(t.byMin <= year)) t.byMin = year;
-      if (!(t.byMax >= year)) t.byMax = year;
-    }
-    const sx = sex.cell;
-    if (sx !== '\\N') {
-      if (!t.sexMin || sx < t.sexMin) t.sexMin = sx;
-      if (!t.sexMax || sx > t.sexMax) t.sexMax = sx;
-    }
-    const m = month.num;
-    if (m === m) {
-      if (m <= t.last) this.monthsIncrease = false;
-      else t.last = m;
-    }
-  }
-
-  private tallySlice(site: Judged, month: Judged, hours: Judged): void {
-    if (Number.isNaN(site.num) || Number.isNaN(month.num)) return;
-    const k = site.num * 200_000 + month.num;
-    const sl = this.slices.get(k);
-    if (sl) {
-      sl.n++;
-      if (hours.num === hours.num) sl.cents += hours.num;
-    } else if (this.slices.size >= this.limits.slices) {
-      this.giveUpTallies();
-    } else {
-      this.slices.set(k, {
-        siteId: site.num,
-        siteCode: this.sitesById.get(site.num)!,
-        month: month.cell.slice(0, 7),
-        n: 1,
-        cents: Number.isNaN(hours.num) ? 0 : hours.num,
-      });
-    }
-  }
-
-  private giveUpTallies(): void {
-    this.overflow = true;
-    this.workers.clear();
-    this.slices.clear();
   }
 }

@@ -1,7 +1,8 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import type { PeriodCalendar, PeriodCalendarQuery } from '@ratewarden/shared/period-calendar';
-import { addMonths, isCompleteState, periodStateLabels, type SitePeriod } from '@ratewarden/shared/periods';
+import { addMonths } from '@ratewarden/shared/months';
+import { isCompleteState, periodStateLabels, type SitePeriod } from '@ratewarden/shared/periods';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites, siteScope, userOf } from '../../auth/authorize';

@@ -2,7 +2,9 @@ import type { DataSource } from 'typeorm';
 import type { RunPeriodIndex, RunPeriodIndexQuery } from '@ratewarden/shared/runs';
 import { runFrame, withheldCount } from '../../disclosure/run-frame';
 import { completenessOf, runPeriodBook } from './run-periods';
-import { getRun, resultScope, type ResultReader } from './runs-service';
+import { resultScope } from '../../disclosure/result-scope';
+import type { ResultReader } from './result-reader';
+import { getRun } from './runs-service';
 
 /**
  * The periods of one outcome's window in the reader's scope, with completeness and what the reader

@@ -5,7 +5,9 @@ import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewa
 import { compareRates, METHODS, personTimeOfHours } from '@ratewarden/shared/stats';
 import { AppError } from '../../lib/app-error';
 import { runFrame, withheldCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
-import { getRun, n, resultScope, type ResultReader } from './runs-service';
+import { resultScope } from '../../disclosure/result-scope';
+import { n, type ResultReader } from './result-reader';
+import { getRun } from './runs-service';
 
 const KEY_SQL = { age: 'c.age_band::text', site: 'c.site_id::text', sex: 'c.sex' } as const;
 

@@ -7,7 +7,7 @@ import { recordAudit } from '../../audit/audit-log';
 import { readsEverySite, seesEveryCount } from '../../disclosure/run-frame';
 import { siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
-import type { ResultReader } from './runs-service';
+import type { ResultReader } from './result-reader';
 
 interface StoredCount {
   outcomeId: number;

@@ -8,7 +8,9 @@ import { runPeriodIndex } from './run-period-index';
 import { runStrata } from './run-strata';
 import { listUnattributed } from './run-unattributed';
 import { pendingRunOf, withCompleteThrough } from './run-periods';
-import { diffRuns, getRun, listResults, listRuns, requestRun, runAsSeenBy } from './runs-service';
+import { diffRuns } from './run-diff';
+import { listResults } from './run-results';
+import { getRun, listRuns, requestRun, runAsSeenBy } from './runs-service';
 
 export interface RunsRouterDeps {
   dataSource: DataSource;

@@ -1,6 +1,7 @@
 import { ScrollRegion } from '../../components/table/scroll-region';
 import { roleMay } from '@ratewarden/shared/permissions';
-import { addMonths, periodStateLabels, periodStates, type SitePeriod } from '@ratewarden/shared/periods';
+import { addMonths } from '@ratewarden/shared/months';
+import { periodStateLabels, periodStates, type SitePeriod } from '@ratewarden/shared/periods';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useState } from 'react';
 import { useSearchParams } from 'react-router';
