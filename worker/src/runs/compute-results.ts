@@ -11,8 +11,8 @@ import {
   type UChartPoint,
 } from '@ratewarden/shared/stats';
 import type { RunSettings } from '@ratewarden/shared/runs';
-import type { WindowKind } from '@ratewarden/shared/rules';
-import { buildSeries, windowTally, type OutcomeSeries, type Tally } from './cell-series';
+import { offeredWindows, windowContextOf, windowStartIndex, type WindowKind } from '@ratewarden/shared/windows';
+import { addTally, buildSeries, emptyTally, windowTally, type OutcomeSeries, type Tally } from './cell-series';
 import type { Cell } from './cells-query';
 import { monthIso } from './month-index';
 
@@ -106,10 +106,13 @@ export interface ComputedResults {
   outcomesWithoutReference: number[];
 }
 
-export const WINDOWS: Array<{ kind: WindowKind; length: number }> = [
-  { kind: 'month', length: 1 },
-  { kind: 'rolling12', length: 12 },
-];
+/** Adds one month's tally of a group into its running total. */
+function addMonth(running: Map<number, Tally>, groupId: number, month: Tally | undefined): void {
+  if (!month) return;
+  let t = running.get(groupId);
+  if (!t) running.set(groupId, (t = emptyTally()));
+  addTally(t, month);
+}
 
 /** Turns hundredths of hours into the run's person-time unit. */
 export function personTimeOf(cents: number, settings: RunSettings): number {
@@ -138,7 +141,8 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
 }
 
 /**
- * Every result of a run from its cells: for each outcome, exposure group, window and month, the
+ * Every result of a run from its cells: for each outcome, exposure group, window the settings
+ * offer (shared/src/windows.ts: a row wherever a window of that kind ends) and month, the
  * rate with exact limits, and against the reference group the IRR (exact conditional, mid-p,
  * Wald) and IRD with their tests, Mantel–Haenszel IRR and IRD by age band, by site and by sex,
  * the u-chart limits of single months, and the trend test across exposure levels. All statistics
@@ -160,6 +164,7 @@ export function computeResults(
   const globalReference = groups.find((g) => g.isReference)?.id ?? null;
   const levelOf = new Map(groups.map((g) => [g.id, g.exposureLevel]));
   const opts = { confidence: settings.confidence, per: settings.per };
+  const ctx = windowContextOf(settings);
   const results: ResultRow[] = [];
   const trends: TrendRow[] = [];
   const outcomesWithoutReference: number[] = [];
@@ -172,15 +177,21 @@ export function computeResults(
     const groupIds = [...s.groups.keys()].sort((a, b) => a - b);
     const charts = new Map(groupIds.map((g) => [g, uChartPoints(s, g, settings)]));
 
-    for (const w of WINDOWS) {
+    for (const kind of offeredWindows(settings)) {
+      // The whole period grows a month at a time: its tallies are kept running, not summed again.
+      const running = new Map<number, Tally>();
       for (let p = s.firstMonth; p <= s.lastMonth; p++) {
+        const start = windowStartIndex(kind, p, ctx);
+        if (start === null) continue;
+        if (kind === 'whole') for (const g of groupIds) addMonth(running, g, s.groups.get(g)?.get(p));
+        const tallyOf = (g: number) => (kind === 'whole' ? (running.get(g) ?? emptyTally()) : windowTally(s.groups.get(g), start, p));
         const period = monthIso(p);
-        const ref = referenceId === null ? null : windowTally(s.groups.get(referenceId), p, w.length);
+        const ref = referenceId === null ? null : tallyOf(referenceId);
         const refGroup: RateGroup | null = ref ? { cases: ref.cases, personTime: personTimeOf(ref.cents, settings) } : null;
         const levelTotals = new Map<number, { cases: number; cents: number }>();
 
         for (const g of groupIds) {
-          const t = windowTally(s.groups.get(g), p, w.length);
+          const t = tallyOf(g);
           if (t.cents === 0 && t.cases === 0) continue;
           const exposed: RateGroup = { cases: t.cases, personTime: personTimeOf(t.cents, settings) };
           const level = levelOf.get(g);
@@ -214,13 +225,13 @@ export function computeResults(
           // The crude comparison once; the three adjustments add only their Mantel–Haenszel parts.
           const compare = compared ? compareRates(exposed, refGroup!, opts) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
-          const point = w.kind === 'month' ? (charts.get(g)!.points.get(p) ?? null) : null;
+          const point = kind === 'month' ? (charts.get(g)!.points.get(p) ?? null) : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
           results.push({
             site_id: siteId,
             outcome_id: outcome.id,
             exposure_group_id: g,
-            window_kind: w.kind,
+            window_kind: kind,
             period,
             periodIndex: p,
             months_covered: t.months,
@@ -296,7 +307,7 @@ export function computeResults(
           trends.push({
             site_id: siteId,
             outcome_id: outcome.id,
-            window_kind: w.kind,
+            window_kind: kind,
             period,
             chi2: trend.chi2,
             p: trend.p,

@@ -149,7 +149,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       );
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
       // The disclosure frame needs the cells only: decided here while the threads compute.
-      const frame = disclosureFrame(snapshot.cells, threshold);
+      const frame = disclosureFrame(snapshot.cells, threshold, settings);
       await storeCells(em, runId, snapshot.cells);
       writer = await openResultWriter(em, runId);
       for (const lines of early.splice(0)) writer.lines(lines);
@@ -159,9 +159,8 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       await storeFrame(em, runId, frame);
       await storeUnattributed(em, runId, snapshot.unattributed);
       await storeRunPeriods(em, runId, snapshot.sitePeriods);
-      const sir =
-        snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, options.settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
-      if (snapshot.referenceTableId !== null) await storeSir(em, runId, snapshot.referenceTableId, options.settings.confidence, sir);
+      const sir = snapshot.referenceTableId === null ? [] : computeSir(snapshot.sirCells, settings.confidence, threshold, sirDisclosure(snapshot.cells, frame));
+      if (snapshot.referenceTableId !== null) await storeSir(em, runId, snapshot.referenceTableId, settings.confidence, sir);
       const t3 = performance.now();
       resultCount = computed.resultCount;
       // Watch rules: company-wide ones on the company's rows, site rules on their sites' own rows;
@@ -172,7 +171,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         rulesOnPartialPeriods: options.rulesOnPartialPeriods === true,
         threshold,
         sir,
-        hoursPerUnit: options.settings.personTimeBasis === 'person_years' ? 2000 : 200_000,
+        hoursPerUnit: settings.personTimeBasis === 'person_years' ? 2000 : 200_000,
       });
       const summary = {
         cells: snapshot.cells.length,
