@@ -62,11 +62,12 @@ export async function changeAnalysisSettings(
     // Windows left out: the current version's stay (a client that does not know them keeps them).
     const start = body.wholePeriodStart ?? current?.settings.wholePeriodStart ?? null;
     const windows = offeredWindows({ windows: body.windows ?? current?.settings.windows, wholePeriodStart: start });
+    const { wholePeriodStart: _start, ...rest } = body;
     const next: RunSettings = {
-      ...body,
+      ...rest,
       countedStatuses: [...body.countedStatuses].sort(),
       windows,
-      wholePeriodStart: windows.includes('whole') ? start : null,
+      ...(windows.includes('whole') && start !== null && { wholePeriodStart: start }),
     };
     if (current && canonical(current.settings) === canonical(next)) {
       return { current, changed: false, runRequested: false };
