@@ -61,6 +61,8 @@ export function disclosureFrame(cells: Cell[], threshold: number, settings: Wind
   const others = (['quarter', 'whole'] as const).filter((k) => offered.has(k));
   // The twelve-month windows ending in December: the rolling twelve months and the calendar year, one treatment.
   const twelve = (['rolling12', 'year'] as const).filter((k) => offered.has(k));
+  // First month of the rolling twelve months ending at p (shared/src/windows.ts).
+  const r12 = (p: number) => windowStartIndex('rolling12', p, ctx)!;
   const range = new Map<number, [number, number]>();
   for (const c of cells) {
     const m = monthIndex(c.month);
@@ -94,7 +96,7 @@ export function disclosureFrame(cells: Cell[], threshold: number, settings: Wind
       out.push({ siteId, outcomeId, exposureGroupId, window, period: period === null ? null : monthIso(period), reason });
     // Calendar years: the rolling windows ending in December, disjoint, the same in every run.
     const ends = new Set<number>();
-    for (let p = first; p <= last; p++) if (p % 12 === 11) ends.add(p);
+    for (let p = first; p <= last; p++) if (windowStartIndex('year', p, ctx) !== null) ends.add(p);
     const siteIds = [...sitesOf.get(g)!].sort((a, b) => a - b);
     const company = series.get(`${g}|company`)!;
     const sites = siteIds.map((s) => series.get(`${g}|site|${s}`)!);
@@ -103,8 +105,8 @@ export function disclosureFrame(cells: Cell[], threshold: number, settings: Wind
     for (const by of ['age', 'sex'] as const) {
       const tables = strata(by);
       for (let p = first; p <= last; p++) {
-        if (!company.published(p - 11, p)) continue;
-        if (!ends.has(p) || tables.some((t) => isSmallCount(t.cases(p - 11, p), threshold))) push(null, STRATA_WINDOW[by], p, 'strata');
+        if (!company.published(r12(p), p)) continue;
+        if (!ends.has(p) || tables.some((t) => isSmallCount(t.cases(r12(p), p), threshold))) push(null, STRATA_WINDOW[by], p, 'strata');
       }
     }
 
@@ -115,7 +117,7 @@ export function disclosureFrame(cells: Cell[], threshold: number, settings: Wind
       // Every month of the outcome: a scope's rows run over its cells' months of every group.
       for (let p = first; p <= last; p++) {
         if (s.published(p, p)) push(siteId, 'month', p, 'months');
-        if (offered.has('rolling12') && !ends.has(p) && s.published(p - 11, p)) push(siteId, 'rolling12', p, 'months');
+        if (offered.has('rolling12') && !ends.has(p) && s.published(r12(p), p)) push(siteId, 'rolling12', p, 'months');
         for (const kind of others) {
           const start = windowStartIndex(kind, p, ctx);
           if (start !== null && s.published(start, p)) push(siteId, kind, p, 'months');
@@ -127,14 +129,14 @@ export function disclosureFrame(cells: Cell[], threshold: number, settings: Wind
     if (!sitesOpen) siteIds.forEach((s, i) => yearly(s, sites[i]!));
     const yearly12 = (siteId: number | null, p: number, reason: FrameReason) => twelve.forEach((kind) => push(siteId, kind, p, reason));
     for (const p of ends) {
-      const parts = sites.map((s) => s.cases(p - 11, p));
-      const total = company.cases(p - 11, p);
+      const parts = sites.map((s) => s.cases(r12(p), p));
+      const total = company.cases(r12(p), p);
       const margin = marginSuppression(parts, threshold);
       if (isSmallCount(total, threshold)) {
         yearly12(null, p, 'small');
-        margin.parts.forEach((w, i) => w && sites[i]!.published(p - 11, p) && yearly12(siteIds[i]!, p, w));
+        margin.parts.forEach((w, i) => w && sites[i]!.published(r12(p), p) && yearly12(siteIds[i]!, p, w));
       } else if (margin.total && companyOpen) {
-        siteIds.forEach((s, i) => sites[i]!.published(p - 11, p) && yearly12(s, p, 'months'));
+        siteIds.forEach((s, i) => sites[i]!.published(r12(p), p) && yearly12(s, p, 'months'));
       } else {
         margin.parts.forEach((w, i) => w && yearly12(siteIds[i]!, p, w));
         if (margin.total) yearly12(null, p, 'complement');
