@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ruleMeasureSchema, thresholdOnSchema, windowKindSchema } from './rules';
+import { ruleMeasureSchema, ruleWindowSchema, thresholdOnSchema } from './rules';
 import { completenessSchema } from './periods';
 import { withheldSchema } from './runs';
 
@@ -27,7 +27,7 @@ export type FlagEventKind = z.infer<typeof flagEventKindSchema>;
 export const flagFiguresSchema = z.object({
   runId: z.string(),
   period: z.string(),
-  window: windowKindSchema,
+  window: ruleWindowSchema,
   measure: ruleMeasureSchema,
   thresholdOn: thresholdOnSchema,
   threshold: z.number().nullable(),

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { addMonths } from './months';
+import { windowMonths, type WindowContext, type WindowKind } from './windows';
 
 /**
  * Reporting periods: the state of one site × month, decided from what has been received.
@@ -18,7 +19,7 @@ import { addMonths } from './months';
  *
  * Complete: `ready` or `closed`. A site is expected in a month when it had a roster in the 12
  * months ending there and had not been retired before that month (a retired site keeps its
- * history: the months it was expected in still count). A company-wide month is complete when every expected site's month is; a window (rolling 12 months) is complete when each of its months is. This file is the
+ * history: the months it was expected in still count). A company-wide month is complete when every expected site's month is; a window (any analysis window, shared/src/windows.ts) is complete when each of its months is. This file is the
  * one statement of these rules: the worker (watch rules), the API (results) and the web app
  * (calendar, labels) all use it.
  */
@@ -81,11 +82,7 @@ export type Completeness = z.infer<typeof completenessSchema>;
 /** Month arithmetic lives in months.ts; re-exported for the readers of periods. */
 export { addMonths };
 
-/** Months a window covers, ending at `period`: 1 for a month, 12 for rolling 12 months. */
-export function windowMonths(windowKind: 'month' | 'rolling12', period: string): string[] {
-  const n = windowKind === 'month' ? 1 : 12;
-  return Array.from({ length: n }, (_, i) => addMonths(period, i - n + 1));
-}
+export { windowMonths };
 
 /**
  * Period states of one run or of now, answering completeness questions for any scope. `states`
@@ -139,14 +136,14 @@ export class PeriodBook {
    * A window is complete when its last month is, and so is each earlier month in which some site
    * of the scope was expected (months before the scope's first data do not make it partial).
    */
-  windowComplete(windowKind: 'month' | 'rolling12', period: string, siteIds: readonly number[] | null = null): boolean {
+  windowComplete(windowKind: WindowKind, period: string, siteIds: readonly number[] | null = null, ctx: WindowContext = { wholeStart: null }): boolean {
     if (!this.monthComplete(period, siteIds)) return false;
     const among = siteIds ?? this.sites;
-    return windowMonths(windowKind, period).every((m) => this.expectedSites(m, among).length === 0 || this.monthComplete(m, siteIds));
+    return windowMonths(windowKind, period, ctx).every((m) => this.expectedSites(m, among).length === 0 || this.monthComplete(m, siteIds));
   }
 
-  completeness(windowKind: 'month' | 'rolling12', period: string, siteIds: readonly number[] | null = null): Completeness {
-    return this.windowComplete(windowKind, period, siteIds) ? 'complete' : 'partial';
+  completeness(windowKind: WindowKind, period: string, siteIds: readonly number[] | null = null, ctx: WindowContext = { wholeStart: null }): Completeness {
+    return this.windowComplete(windowKind, period, siteIds, ctx) ? 'complete' : 'partial';
   }
 
   /** The latest complete month of a scope (null: the company), or null when none is. */

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { patchSchemaOf } from './patch-schema';
 import { DEFAULT_SMALL_CELL_THRESHOLD } from './small-cells';
+import { windowKindSchema } from './windows';
 
 /**
  * Watch rules: what a run's results are compared with to raise flags.
@@ -33,8 +34,13 @@ export type RuleMeasure = z.infer<typeof ruleMeasureSchema>;
 export const thresholdOnSchema = z.enum(['estimate', 'lower_bound']);
 export type ThresholdOn = z.infer<typeof thresholdOnSchema>;
 
-export const windowKindSchema = z.enum(['month', 'rolling12']);
-export type WindowKind = z.infer<typeof windowKindSchema>;
+/**
+ * The windows a watch rule reads: a single month or the rolling 12 months, which have a row at
+ * every month (consecutive periods are consecutive months). The calendar quarter, calendar year and
+ * whole period (shared/src/windows.ts) are for reading results, not for rules.
+ */
+export const ruleWindowSchema = windowKindSchema.extract(['month', 'rolling12']);
+export type RuleWindow = z.infer<typeof ruleWindowSchema>;
 
 /** Messages people read in the rule form (the server sends the same ones). */
 const aNumber = { error: 'enter a number, e.g. 1.5' };
@@ -65,7 +71,7 @@ const ruleFields = (smallCellThreshold: number) =>
       .max(100_000, aWholeNumber(smallCellThreshold, 100_000))
       .default(smallCellThreshold),
     minExpected: z.number(aNumber).min(0, 'enter 0 or more').max(100_000, 'at most 100,000').default(0),
-    window: windowKindSchema.default('rolling12'),
+    window: ruleWindowSchema.default('rolling12'),
     consecutivePeriods: z.number(aWholeNumber(1, 24)).int(aWholeNumber(1, 24)).min(1, aWholeNumber(1, 24)).max(24, aWholeNumber(1, 24)).default(1),
     fdrControl: z.boolean().default(true),
     fdrLevel: z.number(aNumber).gt(0, 'between 0 and 1, e.g. 0.05').lt(1, 'between 0 and 1, e.g. 0.05').default(0.05),
@@ -76,7 +82,7 @@ const ruleFields = (smallCellThreshold: number) =>
     active: z.boolean().default(true),
   });
 
-function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: WindowKind }, ctx: z.RefinementCtx): void {
+function checkRule(r: { measure: RuleMeasure; threshold: number | null; window: RuleWindow }, ctx: z.RefinementCtx): void {
   if (r.measure !== 'uchart' && r.threshold === null) {
     ctx.addIssue({ code: 'custom', path: ['threshold'], message: 'a threshold is required for this measure' });
   }
@@ -105,7 +111,7 @@ export type WatchRulePatch = z.input<typeof watchRulePatchSchema>;
 
 /** Checks a complete rule after a patch has been merged into it. */
 export const watchRuleCompleteSchema = z
-  .object({ measure: ruleMeasureSchema, threshold: z.number().nullable(), window: windowKindSchema })
+  .object({ measure: ruleMeasureSchema, threshold: z.number().nullable(), window: ruleWindowSchema })
   .superRefine(checkRule);
 
 /** A stored rule as the API returns it. */
@@ -120,7 +126,7 @@ export const watchRuleSchema = z.object({
   threshold: z.number().nullable(),
   minCases: z.number().int(),
   minExpected: z.number(),
-  window: windowKindSchema,
+  window: ruleWindowSchema,
   consecutivePeriods: z.number().int(),
   fdrControl: z.boolean(),
   fdrLevel: z.number(),

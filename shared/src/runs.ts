@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { caseStatusSchema } from './intake';
-import { windowKindSchema } from './rules';
+import { monthIsoSchema, windowKindSchema } from './windows';
 import { unattributedCountSchema } from './unattributed';
 import { completenessSchema, completeThroughSchema } from './periods';
 
@@ -39,6 +39,10 @@ export const runSettingsSchema = z.object({
   countedStatuses: z.array(caseStatusSchema).min(1).default(['confirmed']),
   /** Absent (runs before the edges were a setting, callers that do not choose): ten-year bands. */
   ageBandEdges: ageBandEdgesSchema.optional(),
+  /** The analysis windows a run computes (shared/src/windows.ts); absent (versions before windows were a setting): month and rolling 12 months. */
+  windows: z.array(windowKindSchema).optional(),
+  /** First month of the whole-period window (YYYY-MM-01); only with `whole` among the windows. */
+  wholePeriodStart: monthIsoSchema.nullable().optional(),
 });
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 
@@ -106,7 +110,7 @@ export const runResultSchema = z.object({
   outcomeId: z.number().int(),
   exposureGroupId: z.number().int(),
   window: windowKindSchema,
-  /** The month, or the last month of the rolling window (ISO date, first of the month). */
+  /** The last month of the window (ISO date, first of the month; shared/src/windows.ts). */
   period: z.string(),
   monthsCovered: z.number().int(),
   isReference: z.boolean(),
@@ -222,7 +226,7 @@ export const runStrataQuerySchema = z.object({
   outcomeId: z.coerce.number().int().positive(),
   exposureGroupId: z.coerce.number().int().positive(),
   window: windowKindSchema,
-  /** The month, or the last month of the rolling window (first of the month). */
+  /** The last month of the window (first of the month; shared/src/windows.ts). */
   period: z.string().regex(/^\d{4}-\d{2}-01$/, 'a month as YYYY-MM-01'),
   by: stratificationSchema,
   siteId: z.coerce.number().int().positive().optional(),

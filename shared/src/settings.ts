@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { caseStatusSchema } from './intake';
 import { ageBandEdgesSchema, personTimeBasisSchema, runSettingsSchema } from './runs';
+import { monthIsoSchema, windowKindSchema } from './windows';
 
 /**
  * The analysis settings as versions (GET/PUT /api/settings): every run uses the current version
@@ -25,17 +26,31 @@ export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;
 /** Confidence levels offered: the usual ones (common practice). */
 export const CONFIDENCE_LEVELS = [0.8, 0.9, 0.95, 0.99] as const;
 
-/** PUT /api/settings: the whole next version; unknown keys refused. */
-export const settingsUpdateSchema = z.strictObject({
-  personTimeBasis: personTimeBasisSchema,
-  per: z.number().positive().max(1e9),
-  confidence: z.number().gt(0.5).lt(1),
-  countedStatuses: z
-    .array(caseStatusSchema)
-    .min(1)
-    .refine((s) => new Set(s).size === s.length, 'each status once'),
-  ageBandEdges: ageBandEdgesSchema,
-});
+/**
+ * PUT /api/settings: the whole next version; unknown keys refused. `windows` (the month always
+ * among them) and `wholePeriodStart` may be left out: then the current version's stay.
+ */
+export const settingsUpdateSchema = z
+  .strictObject({
+    personTimeBasis: personTimeBasisSchema,
+    per: z.number().positive().max(1e9),
+    confidence: z.number().gt(0.5).lt(1),
+    countedStatuses: z
+      .array(caseStatusSchema)
+      .min(1)
+      .refine((s) => new Set(s).size === s.length, 'each status once'),
+    ageBandEdges: ageBandEdgesSchema,
+    windows: z
+      .array(windowKindSchema)
+      .refine((w) => w.includes('month'), 'the month is always offered')
+      .refine((w) => new Set(w).size === w.length, 'each window once')
+      .optional(),
+    wholePeriodStart: monthIsoSchema.nullable().optional(),
+  })
+  .superRefine((s, ctx) => {
+    if (s.windows?.includes('whole') && !s.wholePeriodStart)
+      ctx.addIssue({ code: 'custom', path: ['wholePeriodStart'], message: 'choose the month the whole period starts from' });
+  });
 export type SettingsUpdate = z.infer<typeof settingsUpdateSchema>;
 
 /** The answer of PUT /api/settings: the version now current, and whether the change asked for a run. */

@@ -11,7 +11,8 @@ import { makeFlagFixture, type FlagFixture } from './flag-fixture';
  * Issue 15's first "done when", in Chromium: the administrator creates a site and changes the
  * confidence level to 90 %; the next run (the worker's request loop, called here as the worker
  * calls it) computes with it, and every page of results the hygienist reads says 90 % and names
- * the settings version beside its figures.
+ * the settings version beside its figures. Then the hygienist offers calendar quarters (issue 15's
+ * analysis windows) and the results pages offer them after the next run.
  */
 describe('the administrator creates a site and sets 90 % intervals; the next run shows them', () => {
   let fx: FlagFixture;
@@ -92,6 +93,40 @@ describe('the administrator creates a site and sets 90 % intervals; the next run
     await page.goto(`${h.app.baseUrl}/runs`, { waitUntil: 'networkidle' });
     const history = page.getByRole('table', { name: /^Runs \(/ });
     expect(await history.getByRole('row').nth(1).textContent()).toContain(`version ${version}`);
+    await page.close();
+  });
+
+  it('the hygienist offers calendar quarters; the next run offers "Calendar quarter" on the results pages and shows a quarter', async () => {
+    const page = await pageSignedInAs(h, 'hygienist@demo.ratewarden.test');
+    await page.goto(`${h.app.baseUrl}/settings`, { waitUntil: 'networkidle' });
+    const form = page.getByRole('form', { name: 'Change the analysis settings' });
+    const windows = form.getByRole('group', { name: 'Analysis windows offered' });
+    // The month is always offered: its box is checked and cannot be cleared.
+    expect(await windows.getByLabel('Single month').isChecked()).toBe(true);
+    expect(await windows.getByLabel('Single month').isDisabled()).toBe(true);
+    await windows.getByLabel('Calendar quarter').check();
+    await form.getByRole('button', { name: 'Save as a new version' }).click();
+    const saved = await page
+      .getByRole('status')
+      .filter({ hasText: /Saved as version \d+; a run has been requested\./ })
+      .textContent();
+    const version = Number(/version (\d+)/.exec(saved!)![1]);
+    const [stored] = (await h.ds.query(`SELECT settings FROM analysis_settings WHERE version = $1`, [version])) as Array<{ settings: { windows: string[] } }>;
+    expect(stored!.settings.windows).toContain('quarter');
+    const outcome = await runIfRequested(h.ds, settings, h.app.baseUrl);
+    expect(outcome?.status).toBe('succeeded');
+
+    await page.goto(`${h.app.baseUrl}/comparison?outcome=${fx.cohort.outcomes.DERM!}`, { waitUntil: 'networkidle' });
+    const choice = page.getByRole('form', { name: 'Choose what to show' });
+    const options = await choice.getByLabel('Window').locator('option').allTextContents();
+    expect(options).toContain('Calendar quarter');
+    await choice.getByLabel('Window').selectOption({ label: 'Calendar quarter' });
+    // The fixture's months (November and December 2032) make one quarter, the fourth.
+    await expect.poll(() => choice.getByLabel('Calendar quarter').locator('option').allTextContents()).toEqual(['Q4 2032']);
+    const table = page.getByRole('table', { name: /calendar quarter Q4 2032 \(Oct 2032 to Dec 2032\)/ });
+    await table.waitFor();
+    // One row per group (REF, MID, EXP) under the header row.
+    expect(await table.getByRole('row').count()).toBe(4);
     await page.close();
   });
 });

@@ -2,9 +2,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
 import { flagSchema, mailboxMessageSchema } from '@ratewarden/shared/flags';
-import { runDetailSchema, runDiffSchema, type RunResult, type RunStrata } from '@ratewarden/shared/runs';
+import { runDetailSchema, runDiffSchema, type RunResult, type RunSettings, type RunStrata } from '@ratewarden/shared/runs';
+import { analysisSettingsSchema } from '@ratewarden/shared/settings';
+import { isWindowEnd, offeredWindows, windowKinds } from '@ratewarden/shared/windows';
+import { addMonths } from '@ratewarden/shared/periods';
 import { auditEventSchema } from '@ratewarden/shared/admin';
 import { createTransport, sendDueNotices } from '@ratewarden/worker/notices/notice-sender';
+import { currentAnalysisSettings } from '@ratewarden/worker/runs/analysis-settings';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { startFakeSmtp, type FakeSmtp } from '@ratewarden/worker/smtp-fake/fake-smtp-server';
 import { keepInMailbox } from '@ratewarden/worker/smtp-fake/keep-in-mailbox';
@@ -40,6 +44,13 @@ describe('small-count disclosure against a hostile reader', () => {
   const truth = { results: new Map<string, RunResult>(), strata: new Map<string, RunStrata>() };
   const seen = { results: new Map<string, RunResult>(), strata: new Map<string, RunStrata>() };
   const company: StrataRequest[] = [];
+  let settingsBefore: RunSettings = settings;
+  const putSettings = (body: object) =>
+    as.hygienist.agent
+      .put('/api/settings')
+      .set('x-csrf-token', as.hygienist.csrf)
+      .send({ ...body, ageBandEdges: (body as { ageBandEdges?: number[] }).ageBandEdges ?? [10, 20, 30, 40, 50, 60, 70, 80, 90] })
+      .expect(200);
 
   beforeAll(async () => {
     ds = await openTestDataSource();
@@ -51,6 +62,8 @@ describe('small-count disclosure against a hostile reader', () => {
       sites: dc.sites,
       months: dc.months,
       threshold: THRESHOLD,
+      // The run offers every window (below): the whole period from the cohort's seventh month.
+      wholeStart: dc.months[6]!,
     };
 
     const allSites = await allSiteIds(ds);
@@ -128,6 +141,12 @@ describe('small-count disclosure against a hostile reader', () => {
       }
     }
 
+    // Every analysis window offered (a settings version, put back after): the attacker reads them all together.
+    await currentAnalysisSettings(ds, settings); // version 1 of a new database: the worker environment's, as a first run writes it
+    const current = analysisSettingsSchema.parse((await as.hygienist.agent.get('/api/settings').expect(200)).body).current;
+    settingsBefore = current?.settings ?? settings;
+    await putSettings({ ...(current?.settings ?? settings), windows: [...windowKinds], wholePeriodStart: u.wholeStart });
+
     const first = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1/' });
     expect(first.status).toBe('succeeded');
     firstRun = (first as { runId: string }).runId;
@@ -147,15 +166,28 @@ describe('small-count disclosure against a hostile reader', () => {
     // window and period.
     for (const outcomeId of u.outcomes)
       for (const exposureGroupId of u.groups)
-        for (const window of ['month', 'rolling12'] as const)
+        for (const window of windowKinds)
           for (const period of u.months)
-            for (const by of ['age', 'sex', 'site'] as const) company.push({ by, siteId: null, outcomeId, exposureGroupId, window, period });
+            if (isWindowEnd(window, period, { wholeStart: u.wholeStart }) && (window !== 'whole' || period >= dc.months.at(-3)!))
+              for (const by of ['age', 'sex', 'site'] as const) company.push({ by, siteId: null, outcomeId, exposureGroupId, window, period });
     truth.results = await readResults(as.physician, runId, u.outcomes, u.sites);
     seen.results = await readResults(as.hygienist, runId, u.outcomes, u.sites);
     truth.strata = await readStrata(as.physician, runId, company);
     seen.strata = await readStrata(as.hygienist, runId, company);
   }, 900_000);
   afterAll(async () => {
+    if (as) {
+      const { ageBandEdges, countedStatuses, confidence, per, personTimeBasis } = settingsBefore;
+      await putSettings({
+        personTimeBasis,
+        per,
+        confidence,
+        countedStatuses,
+        ageBandEdges: ageBandEdges ?? [10, 20, 30, 40, 50, 60, 70, 80, 90],
+        windows: offeredWindows(settingsBefore),
+        wholePeriodStart: settingsBefore.wholePeriodStart ?? null,
+      });
+    }
     await smtp?.close();
     await ds?.destroy();
   });
@@ -175,6 +207,42 @@ describe('small-count disclosure against a hostile reader', () => {
     expect([...seen.strata.values()].some((t) => t.by === 'age' && t.strata.every((s) => s.exposed.cases !== null))).toBe(true);
     // The physician sees everything, small counts included.
     expect(real.every((r) => r.cases !== null && r.withheld === null)).toBe(true);
+  });
+
+  it('the new windows: a calendar year reads as the rolling 12 ending in December; quarters and whole periods of scopes with small months are withheld', () => {
+    let years = 0;
+    const kinds = new Set([...seen.results.values()].map((r) => r.window));
+    expect([...kinds].sort()).toEqual(['month', 'quarter', 'rolling12', 'whole', 'year']);
+    for (const [k, r] of seen.results) {
+      if (r.window === 'year') {
+        years++;
+        const rolling = seen.results.get(resultKey(r.siteId, r.outcomeId, r.exposureGroupId, 'rolling12', r.period))!;
+        expect({ cases: r.cases, withheld: r.withheld, hours: r.hours }, k).toEqual({ cases: rolling.cases, withheld: rolling.withheld, hours: rolling.hours });
+        expect(r.irr.estimate, k).toEqual(rolling.irr.estimate);
+      }
+      if (r.window !== 'quarter' && r.window !== 'whole') continue;
+      // A scope whose months are withheld for being read by year has its quarters and whole periods withheld.
+      const monthsWithheld = [...seen.results.values()].some(
+        (m) =>
+          m.window === 'month' && m.siteId === r.siteId && m.outcomeId === r.outcomeId && m.exposureGroupId === r.exposureGroupId && m.withheld === 'months',
+      );
+      if (monthsWithheld) expect(r.withheld, k).not.toBeNull();
+    }
+    expect(years).toBeGreaterThan(20);
+    // The physician reads every quarter's count: the sum of its months.
+    for (const r of truth.results.values()) {
+      if (r.window !== 'quarter') continue;
+      const months = [...truth.results.values()].filter(
+        (m) =>
+          m.window === 'month' &&
+          m.siteId === r.siteId &&
+          m.outcomeId === r.outcomeId &&
+          m.exposureGroupId === r.exposureGroupId &&
+          m.period <= r.period &&
+          m.period > addMonths(r.period, -3),
+      );
+      expect(r.cases).toBe(months.reduce((a, m) => a + m.cases!, 0));
+    }
   });
 
   it('the safety manager of every site reads exactly what the hygienist reads', async () => {

@@ -1,5 +1,6 @@
 import { expect } from 'vitest';
 import { runResultSchema, runStrataSchema, type RunResult, type RunStrata } from '@ratewarden/shared/runs';
+import type { WindowKind } from '@ratewarden/shared/windows';
 import type { SignedInAgent } from '../support/sign-in';
 
 /** Key of one result row: scope (site id or "all"), outcome, group, window, period. */
@@ -16,7 +17,7 @@ export interface StrataRequest {
   siteId: number | null;
   outcomeId: number;
   exposureGroupId: number;
-  window: 'month' | 'rolling12';
+  window: WindowKind;
   period: string;
 }
 

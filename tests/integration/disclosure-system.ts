@@ -1,6 +1,7 @@
 import type { RunResult, RunStrata } from '@ratewarden/shared/runs';
 import { LinearSystem, sumOf, termsKey, type Terms } from './disclosure-linear';
 import { resultKey, type By } from './disclosure-reads';
+import { isWindowEnd, windowKinds, windowMonths } from '@ratewarden/shared/windows';
 
 /**
  * What a reader can write down from what they read: one observation per published or withheld
@@ -28,15 +29,16 @@ export interface Universe {
   sites: number[];
   months: string[];
   threshold: number;
+  /** The whole-period start of the run's settings (shared/src/windows.ts), null: none. */
+  wholeStart: string | null;
 }
 
-const WINDOWS = ['month', 'rolling12'] as const;
-
+/** The months of the cohort a window ending at `period` covers (shared/src/windows.ts; months before the cohort hold nothing). */
 export const monthsOf = (u: Universe, window: string, period: string): number[] => {
-  const p = u.months.indexOf(period);
-  if (p < 0) throw new Error(`period ${period} outside the cohort`);
-  const from = window === 'month' ? p : Math.max(0, p - 11);
-  return Array.from({ length: p - from + 1 }, (_, i) => from + i);
+  if (!u.months.includes(period)) throw new Error(`period ${period} outside the cohort`);
+  const months = windowMonths(window as (typeof windowKinds)[number], period, { wholeStart: u.wholeStart });
+  if (months.length === 0) throw new Error(`${period} ends no ${window} window`);
+  return months.map((m) => u.months.indexOf(m)).filter((m) => m >= 0);
 };
 
 const x = (o: number, g: number, s: number, m: number) => `x|${o}|${g}|${s}|${m}`;
@@ -62,8 +64,10 @@ export function observe(
   for (const o of u.outcomes) {
     for (const g of u.groups) {
       for (const scope of [null, ...u.sites]) {
-        for (const window of WINDOWS) {
+        for (const window of windowKinds) {
           for (const period of u.months) {
+            // Rows exist only where a window of the kind ends (a quarter in March, June, ...).
+            if (!isWindowEnd(window, period, { wholeStart: u.wholeStart })) continue;
             const key = resultKey(scope, o, g, window, period);
             const mine = seen.results.get(key);
             const real = truth.results.get(key);

@@ -1,5 +1,5 @@
 import { EntitySchema } from 'typeorm';
-import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
+import type { RuleMeasure, ThresholdOn, RuleWindow } from '@ratewarden/shared/rules';
 
 /** A watch rule: which measure of which outcome × group raises a flag, and who is told. */
 export interface WatchRuleRow {
@@ -15,7 +15,7 @@ export interface WatchRuleRow {
   threshold: number | null;
   minCases: number;
   minExpected: number;
-  windowKind: WindowKind;
+  windowKind: RuleWindow;
   consecutivePeriods: number;
   fdrControl: boolean;
   fdrLevel: number;

@@ -24,6 +24,7 @@ import { FlagClinicalNotes1764635020000 } from './1764635020000-FlagClinicalNote
 import { IntakeCaseConflicts1764635030000 } from './1764635030000-IntakeCaseConflicts';
 import { ReferenceRates1764635200000 } from './1764635200000-ReferenceRates';
 import { AnalysisSettings1764635100000 } from './1764635100000-AnalysisSettings';
+import { AnalysisWindows1764635400000 } from './1764635400000-AnalysisWindows';
 /** Every migration, oldest first. Listed by hand because the TypeORM CLI cannot glob TypeScript under tsx. */
 export const migrations = [
   Foundation1764633600000,
@@ -48,6 +49,7 @@ export const migrations = [
   AnalysisSettings1764635100000,
   ReferenceRates1764635200000,
   Audiograms1764635300000,
+  AnalysisWindows1764635400000,
   DropRunTrends1764635700000,
   RosterSums1764635900000,
 ];

@@ -1,6 +1,7 @@
 import { isSmallCount, marginSuppression, type Withheld } from '@ratewarden/shared/small-cells';
 import type { Cell } from '../runs/cells-query';
-import { monthIndex, monthIso } from '../runs/month-index';
+import { offeredWindows, windowContextOf, windowStartIndex, type WindowKind, type WindowSettings } from '@ratewarden/shared/windows';
+import { monthIndex, monthIso } from '@ratewarden/shared/months';
 import { MonthSeries } from './month-series';
 
 /** Why a count is kept from readers other than the physician (see disclosureFrame). */
@@ -11,8 +12,8 @@ export interface WithheldCount {
   siteId: number | null;
   outcomeId: number;
   exposureGroupId: number;
-  /** month, rolling12 or series (the total behind the u-chart); strata_age / strata_sex: the company's stratum table. */
-  window: 'month' | 'rolling12' | 'series' | 'strata_age' | 'strata_sex';
+  /** An analysis window (shared/src/windows.ts) or series (the total behind the u-chart); strata_age / strata_sex: the company's stratum table. */
+  window: WindowKind | 'series' | 'strata_age' | 'strata_sex';
   /** First day of the window's last month; null for the series. */
   period: string | null;
   reason: FrameReason;
@@ -36,7 +37,11 @@ const STRATA_WINDOW = { age: 'strata_age', sex: 'strata_sex' } as const;
  *   ("yearly windows"), disjoint, so no difference of two is a month, and the same in every run,
  *   so neither is a difference of this run's window and the last run's (a window ending at the
  *   latest month would move a month each run). The year in progress is not shown; the first year
- *   of the data may hold fewer than twelve months.
+ *   of the data may hold fewer than twelve months. The calendar-year window holds the same months
+ *   as the rolling twelve months ending in December and is treated exactly as they are, margins
+ *   included. Every other window of such a scope is withheld ('months'): calendar quarters (a
+ *   year less three of its quarters, or two quarters less their months' neighbours, give months
+ *   back) and whole-period windows (two consecutive ends differ by one month).
  * - In each yearly window the sites add up to the company: small site counts and their
  *   complements by marginSuppression, one deterministic order for every table. Where the company's
  *   months are shown its yearly count is known anyway, and a margin that would need the total
@@ -49,7 +54,15 @@ const STRATA_WINDOW = { age: 'strata_age', sex: 'strata_sex' } as const;
  * withheld when it holds a small count; being disjoint, a withheld table stands alone. Every other
  * company table is listed as withheld ('strata').
  */
-export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount[] {
+export function disclosureFrame(cells: Cell[], threshold: number, settings: WindowSettings = {}): WithheldCount[] {
+  const offered = new Set(offeredWindows(settings));
+  const ctx = windowContextOf(settings);
+  // The other windows, withheld whole in a scope with a small month (the month and the rolling twelve months are handled below).
+  const others = (['quarter', 'whole'] as const).filter((k) => offered.has(k));
+  // The twelve-month windows ending in December: the rolling twelve months and the calendar year, one treatment.
+  const twelve = (['rolling12', 'year'] as const).filter((k) => offered.has(k));
+  // First month of the rolling twelve months ending at p (shared/src/windows.ts).
+  const r12 = (p: number) => windowStartIndex('rolling12', p, ctx)!;
   const range = new Map<number, [number, number]>();
   for (const c of cells) {
     const m = monthIndex(c.month);
@@ -83,7 +96,7 @@ export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount
       out.push({ siteId, outcomeId, exposureGroupId, window, period: period === null ? null : monthIso(period), reason });
     // Calendar years: the rolling windows ending in December, disjoint, the same in every run.
     const ends = new Set<number>();
-    for (let p = first; p <= last; p++) if (p % 12 === 11) ends.add(p);
+    for (let p = first; p <= last; p++) if (windowStartIndex('year', p, ctx) !== null) ends.add(p);
     const siteIds = [...sitesOf.get(g)!].sort((a, b) => a - b);
     const company = series.get(`${g}|company`)!;
     const sites = siteIds.map((s) => series.get(`${g}|site|${s}`)!);
@@ -92,8 +105,8 @@ export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount
     for (const by of ['age', 'sex'] as const) {
       const tables = strata(by);
       for (let p = first; p <= last; p++) {
-        if (!company.published(p - 11, p)) continue;
-        if (!ends.has(p) || tables.some((t) => isSmallCount(t.cases(p - 11, p), threshold))) push(null, STRATA_WINDOW[by], p, 'strata');
+        if (!company.published(r12(p), p)) continue;
+        if (!ends.has(p) || tables.some((t) => isSmallCount(t.cases(r12(p), p), threshold))) push(null, STRATA_WINDOW[by], p, 'strata');
       }
     }
 
@@ -104,24 +117,29 @@ export function disclosureFrame(cells: Cell[], threshold: number): WithheldCount
       // Every month of the outcome: a scope's rows run over its cells' months of every group.
       for (let p = first; p <= last; p++) {
         if (s.published(p, p)) push(siteId, 'month', p, 'months');
-        if (!ends.has(p) && s.published(p - 11, p)) push(siteId, 'rolling12', p, 'months');
+        if (offered.has('rolling12') && !ends.has(p) && s.published(r12(p), p)) push(siteId, 'rolling12', p, 'months');
+        for (const kind of others) {
+          const start = windowStartIndex(kind, p, ctx);
+          if (start !== null && s.published(start, p)) push(siteId, kind, p, 'months');
+        }
       }
       if (s.published(first, last)) push(siteId, 'series', null, 'months');
     };
     if (!companyOpen) yearly(null, company);
     if (!sitesOpen) siteIds.forEach((s, i) => yearly(s, sites[i]!));
+    const yearly12 = (siteId: number | null, p: number, reason: FrameReason) => twelve.forEach((kind) => push(siteId, kind, p, reason));
     for (const p of ends) {
-      const parts = sites.map((s) => s.cases(p - 11, p));
-      const total = company.cases(p - 11, p);
+      const parts = sites.map((s) => s.cases(r12(p), p));
+      const total = company.cases(r12(p), p);
       const margin = marginSuppression(parts, threshold);
       if (isSmallCount(total, threshold)) {
-        push(null, 'rolling12', p, 'small');
-        margin.parts.forEach((w, i) => w && sites[i]!.published(p - 11, p) && push(siteIds[i]!, 'rolling12', p, w));
+        yearly12(null, p, 'small');
+        margin.parts.forEach((w, i) => w && sites[i]!.published(r12(p), p) && yearly12(siteIds[i]!, p, w));
       } else if (margin.total && companyOpen) {
-        siteIds.forEach((s, i) => sites[i]!.published(p - 11, p) && push(s, 'rolling12', p, 'months'));
+        siteIds.forEach((s, i) => sites[i]!.published(r12(p), p) && yearly12(s, p, 'months'));
       } else {
-        margin.parts.forEach((w, i) => w && push(siteIds[i]!, 'rolling12', p, w));
-        if (margin.total) push(null, 'rolling12', p, 'complement');
+        margin.parts.forEach((w, i) => w && yearly12(siteIds[i]!, p, w));
+        if (margin.total) yearly12(null, p, 'complement');
       }
     }
   }

@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import { toJsonValue } from '@ratewarden/shared/stats';
 import type { FlagFigures } from '@ratewarden/shared/flags';
-import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
+import type { RuleMeasure, ThresholdOn, RuleWindow } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/small-cells';
 import { randomUUID } from 'node:crypto';
@@ -17,7 +17,7 @@ export interface RuleForFlags {
   measure: RuleMeasure;
   thresholdOn: ThresholdOn;
   threshold: number | null;
-  windowKind: WindowKind;
+  windowKind: RuleWindow;
   recipients: string[];
 }
 

@@ -1,6 +1,6 @@
 import { formatCount, formatFigure, NOT_DEFINED } from '@ratewarden/shared/number-format';
 import type { Completeness } from '@ratewarden/shared/periods';
-import type { RuleMeasure, ThresholdOn, WindowKind } from '@ratewarden/shared/rules';
+import type { RuleMeasure, ThresholdOn, RuleWindow } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
 
 /**
@@ -17,7 +17,7 @@ export interface NoticeFacts {
   measure: RuleMeasure;
   thresholdOn: ThresholdOn;
   threshold: number | null;
-  window: WindowKind;
+  window: RuleWindow;
   period: string;
   /** Whether the period was complete in the flag's scope when the run read it. */
   completeness: Completeness;
@@ -85,7 +85,7 @@ function monthWords(period: string): string {
 }
 
 /** The period and its completeness as a notice states it, e.g. "12 months ending Dec 2031, complete". */
-export function periodText(window: WindowKind, period: string, completeness: Completeness): string {
+export function periodText(window: RuleWindow, period: string, completeness: Completeness): string {
   const span = window === 'month' ? `month of ${monthWords(period)}` : `12 months ending ${monthWords(period)}`;
   return completeness === 'complete' ? `${span}, complete` : `${span}, partial (a roster or case list of the period was not in when the run read it)`;
 }

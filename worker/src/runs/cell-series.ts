@@ -77,11 +77,11 @@ export function buildSeries(cells: Cell[]): Map<number, OutcomeSeries> {
   return byOutcome;
 }
 
-/** The tally of one group over months [end − length + 1, end]. */
-export function windowTally(months: Map<number, Tally> | undefined, end: number, length: number): Tally {
+/** The tally of one group over months [start, end]. */
+export function windowTally(months: Map<number, Tally> | undefined, start: number, end: number): Tally {
   const sum = emptyTally();
   if (!months) return sum;
-  for (let m = end - length + 1; m <= end; m++) {
+  for (let m = start; m <= end; m++) {
     const t = months.get(m);
     if (t) addTally(sum, t);
   }

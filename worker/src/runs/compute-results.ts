@@ -2,7 +2,6 @@ import {
   compareRates,
   personTimeOfHours,
   incidenceRate,
-  rateTrend,
   mantelHaenszelRates,
   uChart,
   type RateGroup,
@@ -11,10 +10,10 @@ import {
   type UChartPoint,
 } from '@ratewarden/shared/stats';
 import type { RunSettings } from '@ratewarden/shared/runs';
-import type { WindowKind } from '@ratewarden/shared/rules';
-import { buildSeries, windowTally, type OutcomeSeries, type Tally } from './cell-series';
+import { offeredWindows, windowContextOf, windowStartIndex, type WindowKind } from '@ratewarden/shared/windows';
+import { addTally, buildSeries, emptyTally, windowTally, type OutcomeSeries, type Tally } from './cell-series';
 import type { Cell } from './cells-query';
-import { monthIso } from './month-index';
+import { monthIso } from '@ratewarden/shared/months';
 
 export interface OutcomeInfo {
   id: number;
@@ -88,28 +87,19 @@ export interface ResultRow {
   detail: Record<string, unknown>;
 }
 
-export interface TrendRow {
-  site_id: number | null;
-  outcome_id: number;
-  window_kind: WindowKind;
-  period: string;
-  chi2: number | null;
-  p: number | null;
-  u: number | null;
-  levels: Array<{ level: number; cases: number; personTime: number; rate: number | null }>;
-}
-
 export interface ComputedResults {
   results: ResultRow[];
-  trends: TrendRow[];
   /** Outcomes for which no reference group exists (comparisons left empty). */
   outcomesWithoutReference: number[];
 }
 
-export const WINDOWS: Array<{ kind: WindowKind; length: number }> = [
-  { kind: 'month', length: 1 },
-  { kind: 'rolling12', length: 12 },
-];
+/** Adds one month's tally of a group into its running total. */
+function addMonth(running: Map<number, Tally>, groupId: number, month: Tally | undefined): void {
+  if (!month) return;
+  let t = running.get(groupId);
+  if (!t) running.set(groupId, (t = emptyTally()));
+  addTally(t, month);
+}
 
 /** Turns hundredths of hours into the run's person-time unit. */
 export function personTimeOf(cents: number, settings: RunSettings): number {
@@ -138,10 +128,12 @@ function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSetti
 }
 
 /**
- * Every result of a run from its cells: for each outcome, exposure group, window and month, the
+ * Every result of a run from its cells: for each outcome, exposure group, window the settings
+ * offer (shared/src/windows.ts: a row wherever a window of that kind ends) and month, the
  * rate with exact limits, and against the reference group the IRR (exact conditional, mid-p,
  * Wald) and IRD with their tests, Mantel–Haenszel IRR and IRD by age band, by site and by sex,
- * the u-chart limits of single months, and the trend test across exposure levels. All statistics
+ * the u-chart limits of single months. (The trend test across exposure levels is the web's, on
+ * the results each reader may see.) All statistics
  * come from the shared core.
  *
  * `siteId` names the scope the cells belong to: null for the whole company, else one site (the
@@ -158,10 +150,9 @@ export function computeResults(
 ): ComputedResults {
   const series = buildSeries(cells);
   const globalReference = groups.find((g) => g.isReference)?.id ?? null;
-  const levelOf = new Map(groups.map((g) => [g.id, g.exposureLevel]));
   const opts = { confidence: settings.confidence, per: settings.per };
+  const ctx = windowContextOf(settings);
   const results: ResultRow[] = [];
-  const trends: TrendRow[] = [];
   const outcomesWithoutReference: number[] = [];
 
   for (const outcome of outcomes) {
@@ -172,24 +163,22 @@ export function computeResults(
     const groupIds = [...s.groups.keys()].sort((a, b) => a - b);
     const charts = new Map(groupIds.map((g) => [g, uChartPoints(s, g, settings)]));
 
-    for (const w of WINDOWS) {
+    for (const kind of offeredWindows(settings)) {
+      // The whole period grows a month at a time: its tallies are kept running, not summed again.
+      const running = new Map<number, Tally>();
       for (let p = s.firstMonth; p <= s.lastMonth; p++) {
+        const start = windowStartIndex(kind, p, ctx);
+        if (start === null) continue;
+        if (kind === 'whole') for (const g of groupIds) addMonth(running, g, s.groups.get(g)?.get(p));
+        const tallyOf = (g: number) => (kind === 'whole' ? (running.get(g) ?? emptyTally()) : windowTally(s.groups.get(g), start, p));
         const period = monthIso(p);
-        const ref = referenceId === null ? null : windowTally(s.groups.get(referenceId), p, w.length);
+        const ref = referenceId === null ? null : tallyOf(referenceId);
         const refGroup: RateGroup | null = ref ? { cases: ref.cases, personTime: personTimeOf(ref.cents, settings) } : null;
-        const levelTotals = new Map<number, { cases: number; cents: number }>();
 
         for (const g of groupIds) {
-          const t = windowTally(s.groups.get(g), p, w.length);
+          const t = tallyOf(g);
           if (t.cents === 0 && t.cases === 0) continue;
           const exposed: RateGroup = { cases: t.cases, personTime: personTimeOf(t.cents, settings) };
-          const level = levelOf.get(g);
-          if (level !== null && level !== undefined) {
-            const lt = levelTotals.get(level) ?? { cases: 0, cents: 0 };
-            lt.cases += t.cases;
-            lt.cents += t.cents;
-            levelTotals.set(level, lt);
-          }
           const isReference = g === referenceId;
           const compared = ref !== null && !isReference;
           const mhAge = compared
@@ -214,13 +203,13 @@ export function computeResults(
           // The crude comparison once; the three adjustments add only their Mantel–Haenszel parts.
           const compare = compared ? compareRates(exposed, refGroup!, opts) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
-          const point = w.kind === 'month' ? (charts.get(g)!.points.get(p) ?? null) : null;
+          const point = kind === 'month' ? (charts.get(g)!.points.get(p) ?? null) : null;
           const expected = refGroup && refGroup.personTime > 0 && !isReference ? (refGroup.cases * exposed.personTime) / refGroup.personTime : null;
           results.push({
             site_id: siteId,
             outcome_id: outcome.id,
             exposure_group_id: g,
-            window_kind: w.kind,
+            window_kind: kind,
             period,
             periodIndex: p,
             months_covered: t.months,
@@ -286,31 +275,8 @@ export function computeResults(
             },
           });
         }
-
-        if (levelTotals.size >= 2) {
-          const levels = [...levelTotals.entries()].sort((a, b) => a[0] - b[0]);
-          const trend = rateTrend(
-            levels.map(([score, lt]) => ({ score, cases: lt.cases, personTime: personTimeOf(lt.cents, settings) })),
-            opts,
-          );
-          trends.push({
-            site_id: siteId,
-            outcome_id: outcome.id,
-            window_kind: w.kind,
-            period,
-            chi2: trend.chi2,
-            p: trend.p,
-            u: trend.u,
-            levels: levels.map(([level, lt], i) => ({
-              level,
-              cases: lt.cases,
-              personTime: personTimeOf(lt.cents, settings),
-              rate: trend.levels[i]!.rate.estimate,
-            })),
-          });
-        }
       }
     }
   }
-  return { results, trends, outcomesWithoutReference };
+  return { results, outcomesWithoutReference };
 }

@@ -121,6 +121,6 @@ export function sirDisclosure(cells: readonly Cell[], frame: readonly WithheldCo
     add(sirScopeKey(null, c.outcomeId, c.groupId), c.cases);
     add(sirScopeKey(c.siteId, c.outcomeId, c.groupId), c.cases);
   }
-  const alongTime = frame.filter((w) => w.window === 'month' || w.window === 'rolling12' || w.window === 'series');
+  const alongTime = frame.filter((w) => w.window !== 'strata_age' && w.window !== 'strata_sex');
   return { totals, framed: new Set(alongTime.map((w) => `${w.outcomeId}:${w.exposureGroupId}`)) };
 }

@@ -150,7 +150,7 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       );
       computing.catch(() => undefined); // awaited below; a failure while the cells are stored must not go unhandled
       // The disclosure frame needs the cells only: decided here while the threads compute.
-      const frame = disclosureFrame(snapshot.cells, threshold);
+      const frame = disclosureFrame(snapshot.cells, threshold, settings);
       await storeCells(em, runId, snapshot.cells);
       writer = await openResultWriter(em);
       for (const lines of early.splice(0)) writer.lines(lines);

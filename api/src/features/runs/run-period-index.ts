@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { RunPeriodIndex, RunPeriodIndexQuery } from '@ratewarden/shared/runs';
 import { runFrame, withheldCount } from '../../disclosure/run-frame';
-import { completenessOf, runPeriodBook } from './run-periods';
+import { completenessOf, runPeriodBook, runWindowContext } from './run-periods';
 import { resultScope } from '../../disclosure/result-scope';
 import type { ResultReader } from './result-reader';
 import { getRun } from './runs-service';
@@ -12,7 +12,7 @@ import { getRun } from './runs-service';
  * picks its period before it asks for the figures of that period only.
  */
 export async function runPeriodIndex(ds: DataSource, runId: string, q: RunPeriodIndexQuery, reader: ResultReader): Promise<RunPeriodIndex> {
-  await getRun(ds, runId);
+  const run = await getRun(ds, runId);
   const siteId = await resultScope(ds, reader.principal, q.siteId);
   const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
   const rows: Array<{ period: string; exposure_group_id: number; cases: number }> = await ds.query(
@@ -21,7 +21,7 @@ export async function runPeriodIndex(ds: DataSource, runId: string, q: RunPeriod
      ORDER BY period DESC`,
     [runId, siteId, q.outcomeId, q.window],
   );
-  const completeness = completenessOf(await runPeriodBook(ds, runId));
+  const completeness = completenessOf(await runPeriodBook(ds, runId), runWindowContext(run));
   const byPeriod = new Map<string, Array<ReturnType<typeof withheldCount>>>();
   for (const r of rows) {
     const w = withheldCount(frame, r.cases, reader.smallCellThreshold, siteId, q.outcomeId, r.exposure_group_id, q.window, r.period);

@@ -3,6 +3,7 @@ import { pendingRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { PendingRunAnswer, RunDetail } from '@ratewarden/shared/runs';
 import { PeriodBook, type CompleteThrough, type Completeness, type PeriodState } from '@ratewarden/shared/periods';
+import { windowContextOf, type WindowContext, type WindowKind } from '@ratewarden/shared/windows';
 import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
 import { RunMemo } from '../../lib/run-memo';
@@ -25,19 +26,25 @@ export function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook
 /** A run's period states never change: kept for the runs read last. */
 const books = new RunMemo<PeriodBook>(16);
 
-/** Completeness of a result row (company-wide when `siteId` is null), remembered per window × period × scope. */
-export function completenessOf(book: PeriodBook): (window: 'month' | 'rolling12', period: string, siteId: number | null) => Completeness {
+/**
+ * Completeness of a result row (company-wide when `siteId` is null), remembered per window ×
+ * period × scope; `ctx` is the run's (its whole-period start).
+ */
+export function completenessOf(book: PeriodBook, ctx: WindowContext): (window: WindowKind, period: string, siteId: number | null) => Completeness {
   const seen = new Map<string, Completeness>();
   return (window, period, siteId) => {
     const key = `${window}|${period}|${siteId ?? 'all'}`;
     let c = seen.get(key);
     if (c === undefined) {
-      c = book.completeness(window, period, siteId === null ? null : [siteId]);
+      c = book.completeness(window, period, siteId === null ? null : [siteId], ctx);
       seen.set(key, c);
     }
     return c;
   };
 }
+
+/** The window context (whole-period start) of a run's settings. */
+export const runWindowContext = (run: Pick<RunDetail, 'settings'>): WindowContext => windowContextOf(run.settings);
 
 /**
  * The latest complete month of a run, company-wide (for readers of every site, who read the

@@ -4,7 +4,8 @@ import { toJsonValue } from '@ratewarden/shared/stats';
 import { resultScope } from '../../disclosure/result-scope';
 import { runFrame, withheldIn, type RunFrame } from '../../disclosure/run-frame';
 import { n, withheldOf, type ResultReader } from './result-reader';
-import { completenessOf, runPeriodBook } from './run-periods';
+import { isTwelveMonthWindow } from '@ratewarden/shared/windows';
+import { completenessOf, runPeriodBook, runWindowContext } from './run-periods';
 import { getRun } from './runs-service';
 
 type Row = Record<string, any>;
@@ -34,7 +35,7 @@ const MH_DETAIL = {
  * it back (rate and limits, u-chart, comparisons; a withheld reference count takes the
  * comparisons and the expected count). An adjusted measure is a function of its strata, so it is
  * shown only where they are: by age band and by sex where the company's stratum tables of both
- * groups are shown (run-strata.ts), by site where every site's count of both groups is.
+ * groups are shown (run-strata.ts: twelve-month windows ending in December), by site where every site's count of both groups is.
  */
 function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): Omit<RunResult, 'completeness'> {
   const t = reader.smallCellThreshold;
@@ -48,7 +49,7 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
   const strataShown = (by: 'age' | 'sex') =>
     frame === null ||
     (r.site_id === null &&
-      r.window_kind === 'rolling12' &&
+      isTwelveMonthWindow(r.window_kind) &&
       groups.every((g) => withheldIn(frame, null, r.outcome_id, g, `strata_${by}`, r.period_iso) === null));
   const open = {
     age: !hide && strataShown('age'),
@@ -100,7 +101,7 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
  * alone) when `siteId` is given; small counts suppressed unless the reader is the physician.
  */
 export async function listResults(ds: DataSource, runId: string, q: RunResultsQuery, reader: ResultReader): Promise<RunResult[]> {
-  await getRun(ds, runId); // a run's existence is not scoped (the run list shows every run)
+  const run = await getRun(ds, runId); // a run's existence is not scoped (the run list shows every run)
   const siteId = await resultScope(ds, reader.principal, q.siteId);
   const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
   const rows: Row[] = await ds.query(
@@ -114,6 +115,6 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
     [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
   );
   const sitesWithheld = siteCountsWithheld(frame);
-  const completeness = completenessOf(await runPeriodBook(ds, runId));
+  const completeness = completenessOf(await runPeriodBook(ds, runId), runWindowContext(run));
   return rows.map((r) => ({ ...resultOf(r, reader, frame, sitesWithheld), completeness: completeness(r.window_kind, r.period_iso, r.site_id) }));
 }

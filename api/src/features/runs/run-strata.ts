@@ -8,18 +8,11 @@ import { runFrame, withheldCount, withheldIn, type RunFrame } from '../../disclo
 import { resultScope } from '../../disclosure/result-scope';
 import { n, type ResultReader } from './result-reader';
 import { getRun } from './runs-service';
+import { isTwelveMonthWindow, windowContextOf, windowMonths } from '@ratewarden/shared/windows';
 
 const KEY_SQL = { age: 'c.age_band::text', site: 'c.site_id::text', sex: 'c.sex' } as const;
 
 const sexLabels: Record<string, string> = { F: 'female', M: 'male', X: 'another sex' };
-
-/** First month of a window ending in `period` (ISO, first of the month). */
-function windowStart(period: string, window: RunStrataQuery['window']): string {
-  if (window === 'month') return period;
-  const [y, m] = period.split('-').map(Number) as [number, number];
-  const start = new Date(Date.UTC(y, m - 1 - 11, 1));
-  return start.toISOString().slice(0, 10);
-}
 
 interface Arm {
   cases: number;
@@ -46,13 +39,15 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
   );
   if (!row) throw new AppError('not_found', 'this run has no result for that outcome, group, window and period in your scope');
   const referenceId = row.is_reference ? null : row.reference_group_id;
+  // The row exists, so the period ends a window of its kind (shared/src/windows.ts).
+  const [windowStart] = windowMonths(q.window, q.period, windowContextOf(run.settings));
   const groupIds = referenceId === null ? [q.exposureGroupId] : [q.exposureGroupId, referenceId];
   const cells: Array<{ group_id: number; k: string | null; hours: string; cases: number }> = await ds.query(
     `SELECT rc.exposure_group_id AS group_id, ${KEY_SQL[q.by]} AS k, sum(c.hours)::text AS hours, sum(c.cases)::int AS cases
      FROM run_cells rc, unnest(rc.months, rc.site_ids, rc.age_bands, rc.sexes, rc.hours, rc.cases) AS c(month, site_id, age_band, sex, hours, cases)
      WHERE rc.run_id = $1 AND rc.outcome_id = $2 AND rc.exposure_group_id = ANY($3::int[]) AND c.month BETWEEN $4 AND $5 AND ($6::int IS NULL OR c.site_id = $6)
      GROUP BY 1, 2`,
-    [runId, q.outcomeId, groupIds, windowStart(q.period, q.window), q.period, siteId],
+    [runId, q.outcomeId, groupIds, windowStart ?? q.period, q.period, siteId],
   );
   const arms = new Map<string, Map<number, Arm>>();
   for (const c of cells) {
@@ -124,7 +119,8 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
  * For each arm, which strata counts a reader may not see (group id → stratum key → why), as the
  * run's disclosure frame says (worker/src/disclosure/disclosure-frame.ts). By site, the strata are
  * the sites' own counts in the results, withheld as there. By age band and by sex, a reader other
- * than the physician sees the company's tables in yearly rolling windows only, each whole or not
+ * than the physician sees the company's tables in yearly windows only (the rolling twelve months
+ * ending in December and the calendar year), each whole or not
  * at all ('strata'): zeros too, since the zeros of a table would say how many strata share its
  * total. A whole arm is withheld when its group's count is.
  */
@@ -151,7 +147,7 @@ function armWithholding(
       });
     } else {
       const tableShown =
-        row === null && siteId === null && q.window === 'rolling12' && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
+        row === null && siteId === null && isTwelveMonthWindow(q.window) && withheldIn(frame, null, q.outcomeId, g, `strata_${q.by}`, q.period) === null;
       // One label for a withheld table's every entry: each stratum's own would say which are small.
       if (!tableShown) keys.forEach((k) => m.set(k, 'strata'));
     }

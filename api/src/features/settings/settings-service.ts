@@ -5,6 +5,7 @@ import type { Principal } from '@ratewarden/shared/permissions';
 import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { runSettingsSchema, type RunSettings } from '@ratewarden/shared/runs';
 import type { AnalysisSettings, SettingsUpdate, SettingsUpdateResult, SettingsVersion } from '@ratewarden/shared/settings';
+import { offeredWindows } from '@ratewarden/shared/windows';
 import { recordAudit } from '../../audit/audit-log';
 
 /** One version as the API answers it. */
@@ -21,15 +22,22 @@ export async function analysisSettings(db: DataSource | EntityManager): Promise<
   return { current: all[0] ?? null, history: all.slice(1) };
 }
 
-/** The settings compared as a run reads them (the order of statuses does not matter; no edges are ten-year bands). */
-const canonical = (s: RunSettings) =>
-  JSON.stringify({
+/**
+ * The settings compared as a run reads them (the order of statuses and windows does not matter;
+ * no edges are ten-year bands; no windows are month and rolling 12 months).
+ */
+const canonical = (s: RunSettings) => {
+  const windows = offeredWindows(s);
+  return JSON.stringify({
     personTimeBasis: s.personTimeBasis,
     per: s.per,
     confidence: s.confidence,
     countedStatuses: [...s.countedStatuses].sort(),
     ageBandEdges: ageBandEdgesOf(s),
+    windows,
+    wholePeriodStart: windows.includes('whole') ? s.wholePeriodStart : null,
   });
+};
 
 /**
  * A change of the analysis settings: the next version, who and when, an audit line with before
@@ -46,7 +54,16 @@ export async function changeAnalysisSettings(
     // One writer at a time: versions are numbered without gaps, and readers are not blocked.
     await em.query(`LOCK TABLE analysis_settings IN EXCLUSIVE MODE`);
     const { current } = await analysisSettings(em);
-    const next = { ...body, countedStatuses: [...body.countedStatuses].sort() };
+    // Windows left out: the current version's stay (a client that does not know them keeps them).
+    const start = body.wholePeriodStart ?? current?.settings.wholePeriodStart ?? null;
+    const windows = offeredWindows({ windows: body.windows ?? current?.settings.windows, wholePeriodStart: start });
+    const { wholePeriodStart: _start, ...rest } = body;
+    const next: RunSettings = {
+      ...rest,
+      countedStatuses: [...body.countedStatuses].sort(),
+      windows,
+      ...(windows.includes('whole') && start !== null && { wholePeriodStart: start }),
+    };
     if (current && canonical(current.settings) === canonical(next)) {
       return { current, changed: false, runRequested: false };
     }

@@ -3,7 +3,6 @@ import { METHODS } from '@ratewarden/shared/stats/methods';
 import { IntervalPlot } from '../../components/charts/interval-plot';
 import { SelectField } from '../../components/form/select-field';
 import { ResultTable } from '../../components/table/result-table';
-import { formatMonth } from '../../lib/dates';
 import { formatAmount, formatEstimate, formatP } from '../../lib/format';
 import { toNumber } from '../../lib/json-number';
 import { exportCount, showCount } from '../../lib/small-cells';
@@ -12,6 +11,7 @@ import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult } from './shown-result';
 import { StratumTable } from './stratum-table';
 import { partialSuffix } from './partial-period';
+import { windowPeriodText } from './window-text';
 import { levelRows, trendOf } from './trend-levels';
 import { trendReading } from './trend-reading';
 
@@ -38,7 +38,7 @@ function AdjustedBody({ ctx }: { ctx: ResultsContext }) {
   const compared = cells.filter((r) => !r.isReference);
   const partial = cells.some((r) => r.completeness === 'partial');
   const completeness = partial ? 'partial' : 'complete';
-  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}${partialSuffix(partial)}`;
+  const when = `${period ? windowPeriodText(filters.window, period, run.settings) : '—'}${partialSuffix(partial)}`;
 
   const rows = compared.map((r) => {
     const s = shownResult(r, user.role);

@@ -4,12 +4,12 @@ import { METHODS } from '@ratewarden/shared/stats/methods';
 import { createColumnHelper } from '@tanstack/react-table';
 import { IntervalPlot } from '../../components/charts/interval-plot';
 import { DataTable } from '../../components/table/data-table';
-import { formatMonth } from '../../lib/dates';
 import { formatAmount, formatEstimate, formatP } from '../../lib/format';
 import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult, type ShownResult } from './shown-result';
 import { PARTIAL_SHAPE, partialSuffix } from './partial-period';
+import { windowPeriodText } from './window-text';
 
 interface Row {
   group: string;
@@ -109,7 +109,7 @@ function ComparisonBody({ ctx }: { ctx: ResultsContext }) {
   const unit = rateUnit(run.settings);
   const pct = Math.round(run.settings.confidence * 100);
   const partial = rows.some((r) => r.completeness === 'partial');
-  const when = `${filters.window === 'month' ? 'month of' : 'twelve months ending'} ${period ? formatMonth(period) : '—'}${partialSuffix(partial)}`;
+  const when = `${period ? windowPeriodText(filters.window, period, run.settings) : '—'}${partialSuffix(partial)}`;
   const refName = rows.find((r) => r.reference)?.group;
   const items = rows.map((r) => ({
     label: r.group,

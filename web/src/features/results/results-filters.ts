@@ -1,4 +1,4 @@
-import type { WindowKind } from '@ratewarden/shared/rules';
+import type { WindowKind } from '@ratewarden/shared/windows';
 import { useSearchParams } from 'react-router';
 
 /**

@@ -1,6 +1,6 @@
 import type { ExposureGroupDto, OutcomeDto } from '@ratewarden/shared/groups';
 import { roleMay } from '@ratewarden/shared/permissions';
-import type { WindowKind } from '@ratewarden/shared/rules';
+import { offeredWindows, type WindowKind } from '@ratewarden/shared/windows';
 import type { RunDetail, RunResult } from '@ratewarden/shared/runs';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useQuery } from '@tanstack/react-query';
@@ -13,7 +13,7 @@ import { UnitsStrip } from '../../components/units/units-strip';
 import { PrintButton } from '../../components/layout/print-button';
 import { UnattributedNote } from '../../components/data-quality/unattributed-note';
 import { paths } from '../../config/paths';
-import { formatMonth, formatWhen } from '../../lib/dates';
+import { formatWhen } from '../../lib/dates';
 import { COMPLEMENT_TEXT, smallCellThreshold } from '../../lib/small-cells';
 import { flagsQueryOptions } from '../../api/get-flags';
 import { useGroups } from '../../api/get-groups';
@@ -26,6 +26,7 @@ import { useResultsFilters, type ResultsFilters } from './results-filters';
 import { defaultPeriod, isPartialPeriod, latestCompletePeriod } from './default-period';
 import { PartialPeriodNote, partialSuffix } from './partial-period';
 import { unitsOf } from './results-units';
+import { periodChoiceLabel, periodName, windowName } from './window-text';
 
 export interface ResultsContext {
   user: SessionUser;
@@ -80,7 +81,10 @@ export function ResultsFrame({
   const ownSites = sites.filter((s) => user.siteIds.includes(s.id));
   const [chosen, setFilters] = useResultsFilters({ outcomeId: flagged ?? outcomes[0]?.id ?? null, siteId: seesAllSites ? null : (ownSites[0]?.id ?? null) });
   const siteId = chosen.siteId !== null && ownSites.some((s) => s.id === chosen.siteId) ? chosen.siteId : seesAllSites ? null : (ownSites[0]?.id ?? null);
-  const filters: ResultsFilters = { ...chosen, window: fixedWindow ?? chosen.window, siteId };
+  // The windows of the run's settings version only (shared/src/windows.ts); one it did not compute falls back to the first offered.
+  const offered = run ? offeredWindows(run.settings) : [];
+  const window = fixedWindow ?? (offered.includes(chosen.window) ? chosen.window : offered.includes('rolling12') ? 'rolling12' : (offered[0] ?? chosen.window));
+  const filters: ResultsFilters = { ...chosen, window, siteId };
   const outcome = outcomes.find((o) => o.id === filters.outcomeId) ?? outcomes[0];
   const scope = siteId === null ? {} : { siteId };
   // Each page asks for what it shows: first the window's periods (cheap), then that period's rows.
@@ -122,10 +126,7 @@ export function ResultsFrame({
   }
 
   const groupName = (id: number) => groups.find((g) => g.id === id)?.name ?? `group ${id}`;
-  const windowOptions = [
-    { value: 'rolling12', label: 'Rolling 12 months' },
-    { value: 'month', label: 'Single month' },
-  ];
+  const windowOptions = offered.map((w) => ({ value: w, label: windowName(w, run.settings) }));
   return (
     <section>
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -153,10 +154,13 @@ export function ResultsFrame({
         )}
         {periodChoice && index.data && (
           <SelectField
-            label={filters.window === 'month' ? 'Month' : 'Twelve months ending'}
+            label={periodChoiceLabel[filters.window]}
             value={period ?? ''}
             onChange={(e) => setFilters({ period: e.target.value })}
-            options={periods.map((p) => ({ value: p.period, label: `${formatMonth(p.period)}${partialSuffix(p.completeness === 'partial')}` }))}
+            options={periods.map((p) => ({
+              value: p.period,
+              label: `${periodName(filters.window, p.period, run.settings)}${partialSuffix(p.completeness === 'partial')}`,
+            }))}
           />
         )}
         {extraControls?.({ filters, setFilters, groups })}
@@ -185,7 +189,7 @@ export function ResultsFrame({
             return (
               <>
                 {periodChoice && isPartialPeriod(periods, period) && (
-                  <PartialPeriodNote period={period!} window={filters.window} latestComplete={latestCompletePeriod(periods)} />
+                  <PartialPeriodNote period={period!} window={filters.window} settings={run.settings} latestComplete={latestCompletePeriod(periods)} />
                 )}
                 {children({ user, run, outcome, groups, groupName, results: data, filters, period, setFilters })}
                 <SuppressionNote results={data} />
@@ -218,7 +222,7 @@ function SuppressionNote({ results }: { results: RunResult[] }) {
       {complement &&
         `“${COMPLEMENT_TEXT}”: a count that is not small itself, kept back because with the other sites’ or strata’s figures it would give a small count back by subtraction. `}
       {months &&
-        `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown by calendar year, in the rolling twelve-month windows that end in December; the year in progress is the physician's.`}
+        `Where a group has small monthly counts, its single months and most rolling windows are kept back too (two overlapping windows would give a month back by difference): it is shown by calendar year, in the rolling twelve-month windows that end in December and the calendar-year window; its calendar quarters and whole-period windows are kept back too (they differ by a month from one another), and the year in progress is the physician's.`}
     </p>
   );
 }

@@ -7,6 +7,7 @@ import { ResultsFrame, type ResultsContext } from './results-frame';
 import { personTimeUnit, rateUnit } from './results-units';
 import { shownResult } from './shown-result';
 import { PARTIAL_SHAPE } from './partial-period';
+import { trendPhrase } from './window-text';
 
 const month = (p: string) => p.slice(0, 7);
 
@@ -84,7 +85,7 @@ function TrendsBody({ ctx }: { ctx: ResultsContext }) {
       ctx,
     ),
   );
-  const windowLabel = filters.window === 'month' ? 'per month' : 'over rolling 12 months';
+  const windowLabel = trendPhrase[filters.window];
 
   const monthsAll = [...new Set(results.filter((r) => r.window === 'month').map((r) => r.period))].sort();
   const months = filters.span > 0 ? monthsAll.slice(-filters.span) : monthsAll;
@@ -160,7 +161,7 @@ export function TrendsPage({ user }: { user: SessionUser }) {
   return (
     <ResultsFrame
       title="Trends"
-      intro="Rates per month and over rolling 12 months for each exposure group, with their intervals; hover a point for its cases, person-time and interval."
+      intro="Rates in the chosen window (per month, over rolling 12 months, or the other windows the analysis settings offer) for each exposure group, with their intervals; hover a point for its cases, person-time and interval."
       user={user}
       periodChoice={false}
       extraControls={({ filters, setFilters }) => (

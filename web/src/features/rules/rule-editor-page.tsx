@@ -1,5 +1,14 @@
 import { roleMay } from '@ratewarden/shared/permissions';
-import { fdrFamilySentence, ruleMeasureSchema, thresholdOnSchema, watchRuleSchemas, type WatchRule, type WatchRuleInput } from '@ratewarden/shared/rules';
+import {
+  fdrFamilySentence,
+  ruleMeasureSchema,
+  ruleWindowSchema,
+  thresholdOnSchema,
+  watchRuleSchemas,
+  type WatchRule,
+  type WatchRuleInput,
+} from '@ratewarden/shared/rules';
+import { windowLabels } from '@ratewarden/shared/windows';
 import type { SessionUser } from '@ratewarden/shared/session';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router';
@@ -181,11 +190,11 @@ export function RuleEditorPage({ rule, user }: { rule: WatchRule | null; user: S
                 label="Window"
                 value={d.window}
                 onChange={(e) => set('window', e.target.value as Draft['window'])}
-                options={[
-                  { value: 'rolling12', label: 'Rolling 12 months' },
-                  { value: 'month', label: 'Single month' },
-                ]}
+                options={ruleWindowSchema.options.map((w) => ({ value: w, label: windowLabels[w] })).reverse()}
               />
+              <p className="self-end text-xs text-ink-soft">
+                Rules read single months or rolling 12 months; calendar quarters, calendar years and the whole period are for reading results.
+              </p>
             </>
           )}
           <TextField label="Minimum cases" inputMode="numeric" value={d.minCases} onChange={(e) => set('minCases', e.target.value)} error={errors.minCases} />

@@ -2,6 +2,7 @@ import { caseStatusSchema, type CaseStatus } from '@ratewarden/shared/intake';
 import type { PersonTimeBasis, RunSettings } from '@ratewarden/shared/runs';
 import { CONFIDENCE_LEVELS, settingsUpdateSchema } from '@ratewarden/shared/settings';
 import { DECADE_AGE_BAND_EDGES } from '@ratewarden/shared/runs';
+import { offeredWindows, windowKinds, windowLabels, type WindowKind } from '@ratewarden/shared/windows';
 import { useState } from 'react';
 import { ProblemNotice } from '../../components/feedback/problem-notice';
 import { problemOf } from '../../components/feedback/route-error';
@@ -19,6 +20,8 @@ export function SettingsForm({ current }: { current: RunSettings }) {
   const [confidence, setConfidence] = useState(String(current.confidence));
   const [statuses, setStatuses] = useState<CaseStatus[]>(current.countedStatuses);
   const [edges, setEdges] = useState((current.ageBandEdges ?? DECADE_AGE_BAND_EDGES).join(', '));
+  const [windows, setWindows] = useState<WindowKind[]>(offeredWindows(current));
+  const [wholeStart, setWholeStart] = useState(current.wholePeriodStart?.slice(0, 7) ?? '');
   const [errors, setErrors] = useState<Record<string, string>>({});
   const levels = CONFIDENCE_LEVELS.includes(current.confidence as (typeof CONFIDENCE_LEVELS)[number])
     ? [...CONFIDENCE_LEVELS]
@@ -38,6 +41,13 @@ export function SettingsForm({ current }: { current: RunSettings }) {
             .split(/[,\s]+/)
             .filter(Boolean)
             .map(Number),
+          windows: windowKinds.filter((w) => windows.includes(w)),
+          // The month as typed (YYYY-MM); the schema refuses anything else with its own words.
+          wholePeriodStart: windows.includes('whole')
+            ? /^\d{4}-\d{2}$/.test(wholeStart.trim())
+              ? `${wholeStart.trim()}-01`
+              : wholeStart.trim() || null
+            : null,
         });
         if (!parsed.success) {
           setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
@@ -94,6 +104,36 @@ export function SettingsForm({ current }: { current: RunSettings }) {
           </span>
         )}
       </fieldset>
+      <fieldset className="sm:col-span-2" aria-describedby="windows-hint">
+        <legend className="text-sm font-medium">Analysis windows offered</legend>
+        <span id="windows-hint" className="text-xs text-ink-soft">
+          Each run computes these windows and the results pages offer them; the single month is always computed. Fewer windows make runs shorter. Watch rules
+          read the single month or the rolling 12 months only.
+        </span>
+        <div className="mt-1 flex flex-wrap gap-4">
+          {windowKinds.map((w) => (
+            <label key={w} className="flex items-center gap-2">
+              <input
+                type="checkbox"
+                checked={windows.includes(w)}
+                disabled={w === 'month'}
+                onChange={(e) => setWindows(e.target.checked ? [...windows, w] : windows.filter((x) => x !== w))}
+              />
+              {windowLabels[w]}
+              {w === 'month' && <span className="text-xs text-ink-soft">(always)</span>}
+            </label>
+          ))}
+        </div>
+      </fieldset>
+      {windows.includes('whole') && (
+        <TextField
+          label="Whole period starts"
+          hint="the first month of the whole-period window, as YYYY-MM, e.g. 2024-01"
+          value={wholeStart}
+          onChange={(e) => setWholeStart(e.target.value)}
+          error={errors.wholePeriodStart}
+        />
+      )}
       {save.isError && (
         <div className="sm:col-span-2">
           <ProblemNotice title="Not saved" problem={problemOf(save.error).problem} />

@@ -3,13 +3,18 @@ import { DECADE_AGE_BAND_EDGES, runSettingsSchema, type RunSettings } from '@rat
 import type { SessionUser } from '@ratewarden/shared/session';
 import { ResultTable } from '../../components/table/result-table';
 import { formatConfidence } from '../../components/units/units-strip';
-import { formatWhen } from '../../lib/dates';
+import { formatMonth, formatWhen } from '../../lib/dates';
 import { useAnalysisSettings } from '../../api/get-settings';
+import { DEFAULT_WINDOWS, offeredWindows, windowContextOf, windowLabel } from '@ratewarden/shared/windows';
 import { SettingsForm } from './settings-form';
 import { basisLabels, statusLabels } from './settings-labels';
 
 const summary = (s: RunSettings) =>
-  `${basisLabels[s.personTimeBasis]}; per ${s.per.toLocaleString('en-GB')}; ${formatConfidence(s.confidence)}; counts ${s.countedStatuses.map((x) => statusLabels[x]).join(', ')}; age band edges ${(s.ageBandEdges ?? DECADE_AGE_BAND_EDGES).join(', ')}`;
+  `${basisLabels[s.personTimeBasis]}; per ${s.per.toLocaleString('en-GB')}; ${formatConfidence(s.confidence)}; counts ${s.countedStatuses.map((x) => statusLabels[x]).join(', ')}; age band edges ${(s.ageBandEdges ?? DECADE_AGE_BAND_EDGES).join(', ')}; windows ${offeredWindows(
+    s,
+  )
+    .map((w) => windowLabel(w, windowContextOf(s), formatMonth).toLowerCase())
+    .join(', ')}`;
 
 /**
  * The analysis settings every run computes with, as numbered versions: the administrator and the
@@ -18,14 +23,15 @@ const summary = (s: RunSettings) =>
 export function SettingsPage({ user }: { user: SessionUser }) {
   const { data } = useAnalysisSettings();
   const canWrite = roleMay(user.role, 'settings:write');
-  const current = data.current?.settings ?? runSettingsSchema.parse({ ageBandEdges: [...DECADE_AGE_BAND_EDGES] });
+  const current = data.current?.settings ?? runSettingsSchema.parse({ ageBandEdges: [...DECADE_AGE_BAND_EDGES], windows: [...DEFAULT_WINDOWS] });
   const versions = data.current ? [data.current, ...data.history] : [];
   return (
     <section>
       <h1 className="text-2xl font-bold tracking-tight">Analysis settings</h1>
       <p className="mt-2 max-w-3xl text-ink-soft">
-        How every run counts person-time, scales rates, sets its intervals, counts cases and bands ages. Each change is saved as a new version with who made it
-        and when; each run records the version it used, shown beside its figures. A change asks for a run, so the figures follow.
+        How every run counts person-time, scales rates, sets its intervals, counts cases, bands ages and which analysis windows it computes. Each change is
+        saved as a new version with who made it and when; each run records the version it used, shown beside its figures. A change asks for a run, so the
+        figures follow.
       </p>
       <p className="mt-2 max-w-3xl text-sm">
         {data.current ? (
