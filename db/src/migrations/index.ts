@@ -16,6 +16,7 @@ import { RunRequestImmediate1764634700000 } from './1764634700000-RunRequestImme
 
 import { RunPeriodRoster1764634900000 } from './1764634900000-RunPeriodRoster';
 import { Audiograms1764635300000 } from './1764635300000-Audiograms';
+import { DataVersions1764635500000 } from './1764635500000-DataVersions';
 import { CaseReviews1764635000000 } from './1764635000000-CaseReviews';
 import { NoticeInbox1764635010000 } from './1764635010000-NoticeInbox';
 import { FlagClinicalNotes1764635020000 } from './1764635020000-FlagClinicalNotes';
@@ -46,4 +47,5 @@ export const migrations = [
   AnalysisSettings1764635100000,
   ReferenceRates1764635200000,
   Audiograms1764635300000,
+  DataVersions1764635500000,
 ];
