@@ -16,7 +16,6 @@ import { recreateDatabase, startPostgres } from './lib/postgres';
 const root = join(import.meta.dirname, '..');
 const WORKERS = 20_000;
 const MONTHS = 60;
-const PGPORT = 54349;
 
 /**
  * `npm run bench`: its own PostgreSQL and database, a 1.2 M-row roster CSV, then side by side
@@ -29,6 +28,7 @@ const PGPORT = 54349;
  */
 runMain(async () => {
   const settings = readBenchSettings();
+  const PGPORT = settings.BENCH_PGPORT;
   const outDir = join(root, '.data', 'bench');
   mkdirSync(outDir, { recursive: true });
   const db = await startPostgres({ folder: join(root, '.data', 'bench-postgres'), port: PGPORT, database: 'ratewarden_bench', durable: false });
