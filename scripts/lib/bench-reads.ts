@@ -330,17 +330,22 @@ export async function benchReads(opts: {
         `${prefix}: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`,
       );
     };
-    for (const route of routes) {
-      await measure(servers.apiUrl, route, reads, 'reads');
-      if (!other) continue;
-      // The same route on the other checkout's API at once, so that both meet the same moment of a shared machine.
+    for (const [i, route] of routes.entries()) {
+      if (!other) {
+        await measure(servers.apiUrl, route, reads, 'reads');
+        continue;
+      }
+      // The same route on the other checkout's API just before or after (in turn), so that both meet the same moment of a shared machine.
       let theirs = route;
       if (route.ifNoneMatch !== undefined) {
         const res = await fetch(new URL(route.path, other.apiUrl), { headers: readHeaders(signedIn[route.reader]) });
         await res.arrayBuffer();
         theirs = { ...route, ifNoneMatch: res.headers.get('etag') ?? '' };
       }
-      await measure(other.apiUrl, theirs, readsBeside, `reads beside (${beside})`);
+      const ours = () => measure(servers.apiUrl, route, reads, 'reads');
+      const besides = () => measure(other.apiUrl, theirs, readsBeside, `reads beside (${beside})`);
+      if (i % 2 === 0) await ours().then(besides);
+      else await besides().then(ours);
     }
     await other?.stop();
 
