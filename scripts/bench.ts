@@ -101,15 +101,16 @@ runMain(async () => {
   const { cases } = await writeBenchCasesCsv(db.url, casesFile);
 
   if (settings.sections.has('reads')) {
-    const { reads, readsDuringApply } = await benchReads({
+    const { reads, readsBeside, readsDuringApply } = await benchReads({
       root,
       databaseUrl: db.url,
       connections: settings.BENCH_READS_CONNECTIONS,
       seconds: settings.BENCH_READS_SECONDS,
+      beside: settings.BENCH_READS_BESIDE,
       say,
     });
     // `reads` is keyed by route label only; its measurement time is readsDuringApply's.
-    mergeLatest(root, { reads }, false);
+    mergeLatest(root, readsBeside ? { reads, readsBeside } : { reads }, false);
     say(`read figures written to ${mergeLatest(root, { readsDuringApply })}`);
   }
   if (settings.sections.has('endToEnd')) {

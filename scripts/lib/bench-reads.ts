@@ -231,14 +231,24 @@ export async function benchReads(opts: {
   databaseUrl: string;
   connections: number;
   seconds: number;
+  /** Another checkout whose API is loaded right after this one's on each route (BENCH_READS_BESIDE). */
+  beside?: string;
   say: (line: string) => void;
-}): Promise<{ reads: Record<string, ReadFigures>; readsDuringApply: ReadsDuringApply }> {
-  const { root, databaseUrl, connections, seconds, say } = opts;
+}): Promise<{ reads: Record<string, ReadFigures>; readsBeside?: Record<string, ReadFigures>; readsDuringApply: ReadsDuringApply }> {
+  const { root, databaseUrl, connections, seconds, beside, say } = opts;
   const ds = createDataSource(databaseUrl, 3);
   await ds.initialize();
-  const servers = await startApiWithIdentityProvider(root, databaseUrl, (line) => {
+  const quiet = (line: string) => {
     if (!/^\[(api|idp)\] (listening on|identity provider)/.test(line)) say(line);
-  });
+  };
+  const servers = await startApiWithIdentityProvider(root, databaseUrl, quiet);
+  // Sessions live in the shared database, so the same cookies sign the readers in to both APIs.
+  const other = beside
+    ? await startApiWithIdentityProvider(beside, databaseUrl, quiet).catch(async (err: unknown) => {
+        await servers.stop();
+        throw err;
+      })
+    : undefined;
   let sessions: Record<Reader, BenchSession> | undefined;
   try {
     const siteIds = new Map(((await ds.query(`SELECT id, code FROM sites`)) as Array<{ id: number; code: string }>).map((s) => [s.code, s.id]));
@@ -309,17 +319,35 @@ export async function benchReads(opts: {
     // A short warm-up of every route, then each route alone at full load.
     await Promise.all(routes.map((route) => load(servers.apiUrl, route, signedIn[route.reader], 2, 3).done));
     const reads: Record<string, ReadFigures> = {};
-    for (const route of routes) {
-      await settle(servers.apiUrl, signedIn.hygienist);
+    const readsBeside: Record<string, ReadFigures> = {};
+    const measure = async (apiUrl: string, route: ReadRoute, into: Record<string, ReadFigures>, prefix: string) => {
+      await settle(apiUrl, signedIn.hygienist);
       const t = performance.now();
-      const l = load(servers.apiUrl, route, signedIn[route.reader], connections, seconds);
+      const l = load(apiUrl, route, signedIn[route.reader], connections, seconds);
       await l.done;
-      reads[route.label] = l.figures(t, performance.now());
-      const f = reads[route.label]!;
+      const f = (into[route.label] = l.figures(t, performance.now()));
       say(
-        `reads: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`,
+        `${prefix}: ${route.label}: ${f.requestsPerSecond} req/s, p50 ${f.p50Ms} ms, p95 ${f.p95Ms} ms, p99 ${f.p99Ms} ms, errors ${f.errors}, non-2xx ${f.non2xx}${f.non2xxStatuses ? ` ${JSON.stringify(f.non2xxStatuses)}` : ''}, longest open ${f.longestOpenMs} ms, ${f.bytesPerResponse} B${f.notModified === undefined ? '' : `, ${f.notModified} answered 304`}`,
       );
+    };
+    for (const [i, route] of routes.entries()) {
+      if (!other) {
+        await measure(servers.apiUrl, route, reads, 'reads');
+        continue;
+      }
+      // The same route on the other checkout's API just before or after (in turn), so that both meet the same moment of a shared machine.
+      let theirs = route;
+      if (route.ifNoneMatch !== undefined) {
+        const res = await fetch(new URL(route.path, other.apiUrl), { headers: readHeaders(signedIn[route.reader]) });
+        await res.arrayBuffer();
+        theirs = { ...route, ifNoneMatch: res.headers.get('etag') ?? '' };
+      }
+      const ours = () => measure(servers.apiUrl, route, reads, 'reads');
+      const besides = () => measure(other.apiUrl, theirs, readsBeside, `reads beside (${beside})`);
+      if (i % 2 === 0) await ours().then(besides);
+      else await besides().then(ours);
     }
+    await other?.stop();
 
     // The same check and apply alone, then with every route loaded at once (the connections shared out among them).
     const files = [60, 60 + APPLY_MONTHS].map((first) => join(root, '.data', 'bench', `roster-300k-from-${first}.csv`));
@@ -364,6 +392,7 @@ export async function benchReads(opts: {
     );
     return {
       reads,
+      ...(other ? { readsBeside } : {}),
       readsDuringApply: {
         rosterRows: rows,
         checkAloneSeconds: r2(alone.check),

@@ -19,7 +19,13 @@ const schema = z.object({
     .describe('comma list of the sections to run: intake, run, reads, endToEnd (reads and endToEnd need run, run needs intake)'),
   BENCH_READS_SECONDS: z.coerce.number().int().min(1).default(30).describe('seconds of load per read route'),
   BENCH_READS_CONNECTIONS: z.coerce.number().int().min(1).default(50).describe('concurrent connections of the read load'),
-  BENCH_PGPORT: z.coerce.number().int().min(1024).max(65535).default(54349).describe("loopback port of the benchmark's own PostgreSQL"),
+  BENCH_READS_BESIDE: z
+    .string()
+    .optional()
+    .describe(
+      "another checkout's root (its node_modules in place): its API is loaded on each read route just before or after this one's, in turn, on the same database",
+    ),
+  BENCH_PGPORT: z.coerce.number().int().min(1024).max(65535).default(54349).describe('port of the benchmark PostgreSQL (another checkout may bench at once)'),
   BENCH_END_TO_END_ROUNDS: z.coerce.number().int().min(1).max(10).default(3).describe('rounds of the end-to-end path beside its baselines'),
 });
 

@@ -29,6 +29,7 @@ import { IntakeCaseConflictEntity } from './intake-case-conflict';
 import { ReferenceRateTableEntity } from './reference-rate-table';
 import { ReferenceRateEntity } from './reference-rate';
 import { AnalysisSettingsEntity } from './analysis-settings';
+import { DataVersionEntity } from './data-version';
 
 export const entities = [
   SiteEntity,
@@ -62,6 +63,7 @@ export const entities = [
   ReferenceRateTableEntity,
   ReferenceRateEntity,
   AnalysisSettingsEntity,
+  DataVersionEntity,
 ];
 
 export type { AuditEvent } from './audit-event';
@@ -122,3 +124,5 @@ export type { ReferenceRateTable } from './reference-rate-table';
 export type { ReferenceRate } from './reference-rate';
 export { ReferenceRateTableEntity, ReferenceRateEntity };
 export type { AnalysisSettingsRow } from './analysis-settings';
+export type { DataVersion } from './data-version';
+export { DataVersionEntity };

@@ -18,6 +18,7 @@ import { RunPeriodRoster1764634900000 } from './1764634900000-RunPeriodRoster';
 import { RosterSums1764635900000 } from './1764635900000-RosterSums';
 import { Audiograms1764635300000 } from './1764635300000-Audiograms';
 import { DropRunTrends1764635700000 } from './1764635700000-DropRunTrends';
+import { DataVersions1764635500000 } from './1764635500000-DataVersions';
 import { CaseReviews1764635000000 } from './1764635000000-CaseReviews';
 import { NoticeInbox1764635010000 } from './1764635010000-NoticeInbox';
 import { FlagClinicalNotes1764635020000 } from './1764635020000-FlagClinicalNotes';
@@ -50,6 +51,7 @@ export const migrations = [
   ReferenceRates1764635200000,
   Audiograms1764635300000,
   AnalysisWindows1764635400000,
+  DataVersions1764635500000,
   DropRunTrends1764635700000,
   RosterSums1764635900000,
 ];

@@ -1,0 +1,41 @@
+import type { Request } from 'express';
+import type { DataSource } from 'typeorm';
+
+/**
+ * What the answer caches of one request are keyed by, read once per request in one query: the
+ * current run and the counters of `data_versions` (migration DataVersions: every transaction
+ * that writes what a domain's answers read raises the domain's counter at its commit, whichever
+ * process wrote). Read before the data it keys, so data kept under a counter is never older
+ * than the counter.
+ */
+export interface DataVersions {
+  /** The current run's id, or null before the first run. */
+  run: string | null;
+  /** People, roles, sites and sessions. */
+  access: string;
+  /** The flag list. */
+  flags: string;
+  /** The period calendar. */
+  periods: string;
+}
+
+const asked = new WeakMap<Request, Promise<DataVersions>>();
+
+/** The versions `req` is answered against, read at its first need and shared by its later ones. */
+export function versionsOf(ds: DataSource, req: Request): Promise<DataVersions> {
+  let found = asked.get(req);
+  if (!found) {
+    found = readVersions(ds);
+    asked.set(req, found);
+    found.catch(() => asked.delete(req));
+  }
+  return found;
+}
+
+export async function readVersions(ds: DataSource): Promise<DataVersions> {
+  const [row] = (await ds.query(
+    `SELECT (SELECT run_id::text FROM current_run) AS run, (SELECT json_object_agg(domain, version::text) FROM data_versions) AS v`,
+  )) as Array<{ run: string | null; v: Record<string, string> | null }>;
+  const v = row?.v ?? {};
+  return { run: row?.run ?? null, access: v.access ?? '0', flags: v.flags ?? '0', periods: v.periods ?? '0' };
+}
