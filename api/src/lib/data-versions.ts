@@ -17,6 +17,10 @@ export interface DataVersions {
   flags: string;
   /** The period calendar. */
   periods: string;
+  /** Sites, exposure groups and outcomes. */
+  config: string;
+  /** The run history. */
+  runs: string;
 }
 
 const asked = new WeakMap<Request, Promise<DataVersions>>();
@@ -37,5 +41,12 @@ export async function readVersions(ds: DataSource): Promise<DataVersions> {
     `SELECT (SELECT run_id::text FROM current_run) AS run, (SELECT json_object_agg(domain, version::text) FROM data_versions) AS v`,
   )) as Array<{ run: string | null; v: Record<string, string> | null }>;
   const v = row?.v ?? {};
-  return { run: row?.run ?? null, access: v.access ?? '0', flags: v.flags ?? '0', periods: v.periods ?? '0' };
+  return {
+    run: row?.run ?? null,
+    access: v.access ?? '0',
+    flags: v.flags ?? '0',
+    periods: v.periods ?? '0',
+    config: v.config ?? '0',
+    runs: v.runs ?? '0',
+  };
 }

@@ -16,6 +16,7 @@ import { RunRequestImmediate1764634700000 } from './1764634700000-RunRequestImme
 
 import { RunPeriodRoster1764634900000 } from './1764634900000-RunPeriodRoster';
 import { RosterSums1764635900000 } from './1764635900000-RosterSums';
+import { ConfigAndRunsVersions1764636000000 } from './1764636000000-ConfigAndRunsVersions';
 import { Audiograms1764635300000 } from './1764635300000-Audiograms';
 import { DropRunTrends1764635700000 } from './1764635700000-DropRunTrends';
 import { DataVersions1764635500000 } from './1764635500000-DataVersions';
@@ -54,4 +55,5 @@ export const migrations = [
   DataVersions1764635500000,
   DropRunTrends1764635700000,
   RosterSums1764635900000,
+  ConfigAndRunsVersions1764636000000,
 ];

@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import { Router, type Request, type Response } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import {
@@ -9,6 +9,8 @@ import {
   outcomeUpdateSchema,
 } from '@ratewarden/shared/groups';
 import { authorize } from '../../auth/authorize';
+import { versionsOf } from '../../lib/data-versions';
+import { TaggedAnswers } from '../../lib/tagged-answers';
 import {
   configHistory,
   createGroup,
@@ -30,9 +32,17 @@ const idParam = z.coerce.number().int().positive();
 /** Exposure groups and outcomes (the hygienist edits them); mounted at /api. */
 export function groupsRouter({ dataSource: ds }: GroupsRouterDeps): Router {
   const router = Router();
-  router.get('/groups', authorize('config:read'), async (_req, res) => {
-    res.json(await listGroups(ds));
-  });
+  // Kept per reader and `config` counter (lib/tagged-answers.ts): a change anywhere shows at once.
+  const lists = new TaggedAnswers('config', 4 * 1024 ** 2);
+  const list = (read: () => Promise<unknown>) => async (req: Request, res: Response) => {
+    const { config } = await versionsOf(ds, req);
+    await lists.send(req, res, [config], read);
+  };
+  router.get(
+    '/groups',
+    authorize('config:read'),
+    list(() => listGroups(ds)),
+  );
   router.post('/groups', authorize('groups:write'), async (req, res) => {
     res.status(201).json(await createGroup(ds, req.principal!, exposureGroupCreateSchema.parse(req.body), req.ip));
   });
@@ -49,9 +59,11 @@ export function groupsRouter({ dataSource: ds }: GroupsRouterDeps): Router {
     res.json(await configHistory(ds, 'exposure_group', idParam.parse(req.params.id)));
   });
 
-  router.get('/outcomes', authorize('config:read'), async (_req, res) => {
-    res.json(await listOutcomes(ds));
-  });
+  router.get(
+    '/outcomes',
+    authorize('config:read'),
+    list(() => listOutcomes(ds)),
+  );
   router.post('/outcomes', authorize('groups:write'), async (req, res) => {
     res.status(201).json(await createOutcome(ds, req.principal!, outcomeCreateSchema.parse(req.body), req.ip));
   });

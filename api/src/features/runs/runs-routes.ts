@@ -3,6 +3,8 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { runDiffQuerySchema, runPeriodIndexQuerySchema, runResultsQuerySchema, runStrataQuerySchema } from '@ratewarden/shared/runs';
 import { authorize } from '../../auth/authorize';
+import { versionsOf } from '../../lib/data-versions';
+import { TaggedAnswers } from '../../lib/tagged-answers';
 import { RunAnswers } from './run-cache';
 import { runPeriodIndex } from './run-period-index';
 import { runStrata } from './run-strata';
@@ -29,8 +31,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
   const reader = (req: Request) => ({ principal: req.principal!, smallCellThreshold });
   const answers = new RunAnswers(ds, smallCellThreshold, answerCacheBytes);
   const router = Router();
-  router.get('/', authorize('runs:read'), async (_req, res) => {
-    res.json(await listRuns(ds));
+  // The history, kept per reader and `runs` counter (lib/tagged-answers.ts).
+  const history = new TaggedAnswers('runs', 4 * 1024 ** 2);
+  router.get('/', authorize('runs:read'), async (req, res) => {
+    const { runs } = await versionsOf(ds, req);
+    await history.send(req, res, [runs], () => listRuns(ds));
   });
   router.post('/', authorize('runs:trigger'), async (req, res) => {
     res.status(202).json(await requestRun(ds, req.principal!, req.ip));
