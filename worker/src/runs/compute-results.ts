@@ -117,6 +117,30 @@ function mh(s: RateStratum[], settings: RunSettings): MantelHaenszelRatesResult 
   return s.length === 0 ? null : mantelHaenszelRates(s, { confidence: settings.confidence, per: settings.per });
 }
 
+type Adjustment = 'age' | 'site' | 'sex';
+type MhColumns<K extends Adjustment> = Pick<
+  ResultRow,
+  `mh_${K}_irr` | `mh_${K}_irr_lower` | `mh_${K}_irr_upper` | `mh_${K}_irr_p` | `mh_${K}_ird` | `mh_${K}_ird_lower` | `mh_${K}_ird_upper`
+>;
+
+/** The stored columns of one Mantel–Haenszel adjustment (null when there is none). */
+function mhColumns<K extends Adjustment>(by: K, m: MantelHaenszelRatesResult | null): MhColumns<K> {
+  return {
+    [`mh_${by}_irr`]: m?.mhIrr.estimate ?? null,
+    [`mh_${by}_irr_lower`]: m?.mhIrr.lower ?? null,
+    [`mh_${by}_irr_upper`]: m?.mhIrr.upper ?? null,
+    [`mh_${by}_irr_p`]: m?.mhIrr.p ?? null,
+    [`mh_${by}_ird`]: m?.mhIrd.estimate ?? null,
+    [`mh_${by}_ird_lower`]: m?.mhIrd.lower ?? null,
+    [`mh_${by}_ird_upper`]: m?.mhIrd.upper ?? null,
+  } as MhColumns<K>;
+}
+
+/** What the detail keeps of one adjustment: its homogeneity test and the strata it used. */
+function mhDetail(by: 'Age' | 'Site' | 'Sex', m: MantelHaenszelRatesResult | null): Record<string, unknown> {
+  return m ? { [`mh${by}Homogeneity`]: m.homogeneity, [`mh${by}StrataUsed`]: m.strataUsed } : {};
+}
+
 function uChartPoints(series: OutcomeSeries, groupId: number, settings: RunSettings): { centre: number | null; points: Map<number, UChartPoint> } {
   const months = series.groups.get(groupId);
   const indices: number[] = [];
@@ -181,25 +205,28 @@ export function computeResults(
           const exposed: RateGroup = { cases: t.cases, personTime: personTimeOf(t.cents, settings) };
           const isReference = g === referenceId;
           const compared = ref !== null && !isReference;
-          const mhAge = compared
-            ? mh(
-                strata(t, ref, (x) => x.byAge, settings),
-                settings,
-              )
-            : null;
-          const mhSite =
-            compared && siteId === null
+          const mhBy = {
+            age: compared
               ? mh(
-                  strata(t, ref, (x) => x.bySite, settings),
+                  strata(t, ref, (x) => x.byAge, settings),
                   settings,
                 )
-              : null;
-          const mhSex = compared
-            ? mh(
-                strata(t, ref, (x) => x.bySex, settings),
-                settings,
-              )
-            : null;
+              : null,
+            // A site's own rows are one stratum: nothing to adjust by site.
+            site:
+              compared && siteId === null
+                ? mh(
+                    strata(t, ref, (x) => x.bySite, settings),
+                    settings,
+                  )
+                : null,
+            sex: compared
+              ? mh(
+                  strata(t, ref, (x) => x.bySex, settings),
+                  settings,
+                )
+              : null,
+          };
           // The crude comparison once; the three adjustments add only their Mantel–Haenszel parts.
           const compare = compared ? compareRates(exposed, refGroup!, opts) : null;
           const rate = compare ? compare.rateExposed : incidenceRate(exposed, opts);
@@ -232,27 +259,9 @@ export function computeResults(
             ird_lower: compare?.ird.wald.lower ?? null,
             ird_upper: compare?.ird.wald.upper ?? null,
             ird_p: compare?.ird.p ?? null,
-            mh_age_irr: mhAge?.mhIrr.estimate ?? null,
-            mh_age_irr_lower: mhAge?.mhIrr.lower ?? null,
-            mh_age_irr_upper: mhAge?.mhIrr.upper ?? null,
-            mh_age_irr_p: mhAge?.mhIrr.p ?? null,
-            mh_age_ird: mhAge?.mhIrd.estimate ?? null,
-            mh_age_ird_lower: mhAge?.mhIrd.lower ?? null,
-            mh_age_ird_upper: mhAge?.mhIrd.upper ?? null,
-            mh_site_irr: mhSite?.mhIrr.estimate ?? null,
-            mh_site_irr_lower: mhSite?.mhIrr.lower ?? null,
-            mh_site_irr_upper: mhSite?.mhIrr.upper ?? null,
-            mh_site_irr_p: mhSite?.mhIrr.p ?? null,
-            mh_site_ird: mhSite?.mhIrd.estimate ?? null,
-            mh_site_ird_lower: mhSite?.mhIrd.lower ?? null,
-            mh_site_ird_upper: mhSite?.mhIrd.upper ?? null,
-            mh_sex_irr: mhSex?.mhIrr.estimate ?? null,
-            mh_sex_irr_lower: mhSex?.mhIrr.lower ?? null,
-            mh_sex_irr_upper: mhSex?.mhIrr.upper ?? null,
-            mh_sex_irr_p: mhSex?.mhIrr.p ?? null,
-            mh_sex_ird: mhSex?.mhIrd.estimate ?? null,
-            mh_sex_ird_lower: mhSex?.mhIrd.lower ?? null,
-            mh_sex_ird_upper: mhSex?.mhIrd.upper ?? null,
+            ...mhColumns('age', mhBy.age),
+            ...mhColumns('site', mhBy.site),
+            ...mhColumns('sex', mhBy.sex),
             u_centre: point ? charts.get(g)!.centre : null,
             u_lcl: point?.lcl ?? null,
             u_ucl: point?.ucl ?? null,
@@ -267,9 +276,9 @@ export function computeResults(
                 excessCases: compare.excessCases,
                 afExposed: compare.afExposed.estimate,
               }),
-              ...(mhAge && { mhAgeHomogeneity: mhAge.homogeneity, mhAgeStrataUsed: mhAge.strataUsed }),
-              ...(mhSite && { mhSiteHomogeneity: mhSite.homogeneity, mhSiteStrataUsed: mhSite.strataUsed }),
-              ...(mhSex && { mhSexHomogeneity: mhSex.homogeneity, mhSexStrataUsed: mhSex.strataUsed }),
+              ...mhDetail('Age', mhBy.age),
+              ...mhDetail('Site', mhBy.site),
+              ...mhDetail('Sex', mhBy.sex),
               ...(point && { uExactLcl: point.exactLcl, uExactUcl: point.exactUcl, u: point.u }),
               reasons: compare ? compare.reasons : rate.reasons,
             },
