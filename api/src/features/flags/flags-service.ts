@@ -2,6 +2,8 @@ import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
 import { attributingRow, countedByRule, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
+import { ruleWindowSchema } from '@ratewarden/shared/rules';
+import { windowMonths } from '@ratewarden/shared/windows';
 import { recordAudit } from '../../audit/audit-log';
 import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
@@ -145,12 +147,13 @@ export async function closeFlag(ds: DataSource, principal: Principal, id: string
 export async function flagCases(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<FlagCase[]> {
   const visibleTo = await flagScopeOf(ds, principal);
   const [f]: Row[] = await ds.query(
-    `SELECT f.outcome_id, f.exposure_group_id, f.site_id, f.period, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
+    `SELECT f.outcome_id, f.exposure_group_id, f.site_id, f.period, to_char(f.period, 'YYYY-MM-DD') AS period_iso, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
      FROM flags f JOIN runs r ON r.id = f.last_run_id WHERE f.id = $1 AND ${visible(2)}`,
     [id, visibleTo.sites, visibleTo.company],
   );
   if (!f) throw new AppError('not_found', 'no such flag');
-  const months = f.window_kind === 'rolling12' ? 12 : 1;
+  // The months of the flag's window, by the one definition of windows (rules watch month and rolling 12 only).
+  const months = windowMonths(ruleWindowSchema.parse(f.window_kind), f.period_iso as string).length;
   const scope = siteScope(principal);
   const rows: Row[] = await ds.query(
     `SELECT c.case_ref, w.worker_key, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, c.status, a.site_id
