@@ -45,7 +45,7 @@ const BASE_FROM = {
   )`,
 } as const;
 
-const ctes = (BASE: string) => `
+const ctes = (base: string) => `
   o AS (
     SELECT id AS outcome_id, lag_months, counting_rule = 'first_event' AS first_only FROM outcomes
   ),
@@ -76,7 +76,7 @@ const ctes = (BASE: string) => `
     ) a ON true
     WHERE cc.month <= lm.month
   ),
-  ${BASE},
+  ${base},
   removed AS (
     SELECT f.outcome_id, r.month, r.site_id, r.exposure_group_id, w.birth_year, w.sex, sum(r.hours) AS hours
     FROM first_case f
