@@ -1,4 +1,6 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { In, type DataSource, type EntityManager } from 'typeorm';
+import { PeriodClosureEntity, SiteEntity } from '@ratewarden/db/entities/index';
+import { requestRun } from '@ratewarden/db/run-requests';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import type { PeriodCalendar, PeriodCalendarQuery } from '@ratewarden/shared/period-calendar';
 import { addMonths } from '@ratewarden/shared/months';
@@ -35,9 +37,11 @@ const awaiting = (siteId: number, month: string): SitePeriod => ({
  */
 export async function periodCalendar(ds: DataSource, principal: Principal, q: PeriodCalendarQuery, now = new Date()): Promise<PeriodCalendar> {
   const siteIds = scopeIds(principal);
-  const sites: PeriodCalendar['sites'] = await ds.query(`SELECT id, code, name FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY name, id`, [
-    siteIds,
-  ]);
+  const sites: PeriodCalendar['sites'] = await ds.getRepository(SiteEntity).find({
+    select: { id: true, code: true, name: true },
+    where: siteIds === null ? {} : { id: In(siteIds) },
+    order: { name: 'ASC', id: 'ASC' },
+  });
   const received = await readSitePeriods(ds, { siteIds });
   const latest = received.filter((p) => p.state !== 'awaiting').reduce<string | null>((m, p) => (m === null || p.month > m ? p.month : m), null);
   const to = q.to ?? latest ?? currentMonth(now);
@@ -63,7 +67,7 @@ async function periodOf(em: EntityManager, siteId: number, month: string): Promi
 
 async function siteOf(em: EntityManager, principal: Principal, siteId: number): Promise<{ id: number; code: string; name: string }> {
   assertSites(principal, [siteId]);
-  const [site]: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM sites WHERE id = $1`, [siteId]);
+  const site = await em.getRepository(SiteEntity).findOne({ select: { id: true, code: true, name: true }, where: { id: siteId } });
   if (!site) throw new AppError('not_found', 'no such site');
   return site;
 }
@@ -110,12 +114,9 @@ export async function closePeriod(
         { state: before.state },
       );
     }
-    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'close', $3, $4)`, [
-      site.id,
-      body.month,
-      body.reason ?? null,
-      person.id,
-    ]);
+    await em
+      .getRepository(PeriodClosureEntity)
+      .insert({ siteId: site.id, month: body.month, action: 'close', reason: body.reason ?? null, personId: person.id });
     await recordAudit(em, {
       actor: principal,
       action: 'period.close',
@@ -123,7 +124,7 @@ export async function closePeriod(
       detail: { state: before.state, forced: !isCompleteState(before.state), reason: body.reason ?? null },
       ip: opts.ip,
     });
-    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`month closed: ${site.code} ${monthText(body.month)}`]);
+    await requestRun(em, `month closed: ${site.code} ${monthText(body.month)}`);
     return (await periodOf(em, site.id, body.month))!;
   });
 }
@@ -141,12 +142,7 @@ export async function reopenPeriod(
     await lockPeriod(em, site.id, body.month);
     const before = await periodOf(em, site.id, body.month);
     if (before?.state !== 'closed') throw new AppError('conflict', `${site.name}, ${monthText(body.month)} is not closed`);
-    await em.query(`INSERT INTO period_closures (site_id, month, action, reason, person_id) VALUES ($1, $2, 'reopen', $3, $4)`, [
-      site.id,
-      body.month,
-      body.reason,
-      person.id,
-    ]);
+    await em.getRepository(PeriodClosureEntity).insert({ siteId: site.id, month: body.month, action: 'reopen', reason: body.reason, personId: person.id });
     await recordAudit(em, {
       actor: principal,
       action: 'period.reopen',
@@ -154,7 +150,7 @@ export async function reopenPeriod(
       detail: { reason: body.reason },
       ip: opts.ip,
     });
-    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`month reopened: ${site.code} ${monthText(body.month)}`]);
+    await requestRun(em, `month reopened: ${site.code} ${monthText(body.month)}`);
     return (await periodOf(em, site.id, body.month))!;
   });
 }
