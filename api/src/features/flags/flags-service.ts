@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { FlagEntity, FlagEventEntity, type FlagEventRow } from '@ratewarden/db/entities/index';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
 import { attributingRow, countedByRule, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
@@ -98,6 +99,12 @@ export async function getFlag(ds: DataSource, id: string, scope: FlagScope = eve
 
 const actorId = (p: Principal) => (p.kind === 'user' ? p.id : null);
 
+/** One event of a flag's history, in the caller's transaction. */
+async function addEvent(em: EntityManager, event: Pick<FlagEventRow, 'flagId' | 'kind' | 'actorId' | 'detail'>): Promise<void> {
+  const events = em.getRepository(FlagEventEntity);
+  await events.save(events.create(event));
+}
+
 /** A flag's state, locked for a decision, when the person may see the flag. */
 async function lockVisible(em: EntityManager, principal: Principal, id: string): Promise<Row | undefined> {
   const scope = await flagScopeOf(em, principal);
@@ -111,12 +118,8 @@ export async function startReview(ds: DataSource, principal: Principal, id: stri
     const f = await lockVisible(em, principal, id);
     if (!f) throw new AppError('not_found', 'no such flag');
     if (f.state !== 'raised') throw new AppError('conflict', `the flag is ${f.state.replace('_', ' ')}, not raised`);
-    await em.query(`UPDATE flags SET state = 'in_review', updated_at = now() WHERE id = $1`, [id]);
-    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'review_started', $2, $3)`, [
-      id,
-      actorId(principal),
-      JSON.stringify({ comment: comment ?? null }),
-    ]);
+    await em.getRepository(FlagEntity).update({ id }, { state: 'in_review' });
+    await addEvent(em, { flagId: id, kind: 'review_started', actorId: actorId(principal), detail: { comment: comment ?? null } });
     await recordAudit(em, { actor: principal, action: 'flag.review', target: `flag:${id}`, detail: { comment: comment ?? null }, ip });
   });
   return getFlag(ds, id, await flagScopeOf(ds, principal));
@@ -128,11 +131,10 @@ export async function closeFlag(ds: DataSource, principal: Principal, id: string
     const f = await lockVisible(em, principal, id);
     if (!f) throw new AppError('not_found', 'no such flag');
     if (f.state === 'closed') throw new AppError('conflict', 'the flag is already closed');
-    await em.query(
-      `UPDATE flags SET state = 'closed', close_reason = $2, close_comment = $3, closed_at = now(), closed_by = $4, updated_at = now() WHERE id = $1`,
-      [id, input.reason, input.comment, actorId(principal)],
-    );
-    await em.query(`INSERT INTO flag_events (flag_id, kind, actor_id, detail) VALUES ($1, 'closed', $2, $3)`, [id, actorId(principal), JSON.stringify(input)]);
+    await em
+      .getRepository(FlagEntity)
+      .update({ id }, { state: 'closed', closeReason: input.reason, closeComment: input.comment, closedAt: () => 'now()', closedBy: actorId(principal) });
+    await addEvent(em, { flagId: id, kind: 'closed', actorId: actorId(principal), detail: { ...input } });
     await recordAudit(em, { actor: principal, action: 'flag.close', target: `flag:${id}`, detail: { ...input, from: f.state }, ip });
   });
   return getFlag(ds, id, await flagScopeOf(ds, principal));
