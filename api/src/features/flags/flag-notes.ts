@@ -1,9 +1,9 @@
 import type { DataSource } from 'typeorm';
+import { FlagNoteEntity } from '@ratewarden/db/entities/flag-note';
 import type { FlagNote } from '@ratewarden/shared/flags';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { userOf } from '../../auth/authorize';
-import { AppError } from '../../lib/app-error';
 import { flagScopeOf, getFlag } from './flags-service';
 
 type Row = Record<string, any>;
@@ -27,12 +27,8 @@ export async function addFlagNote(ds: DataSource, principal: Principal, flagId: 
   const user = userOf({ principal });
   await getFlag(ds, flagId, await flagScopeOf(ds, principal));
   await ds.transaction(async (em) => {
-    const [row]: Row[] = await em.query(`INSERT INTO flag_notes (flag_id, author_id, text) VALUES ($1, $2, $3) RETURNING id::text AS id`, [
-      flagId,
-      user.id,
-      text,
-    ]);
-    if (!row) throw new AppError('internal_error', 'the note was not stored');
+    // Insert only: a trigger refuses any UPDATE or DELETE of a note.
+    await em.getRepository(FlagNoteEntity).insert({ flagId, authorId: user.id, text });
     await recordAudit(em, { actor: principal, action: 'flag.clinical_note', target: `flag:${flagId}`, ip });
   });
   return flagNotes(ds, principal, flagId, ip);

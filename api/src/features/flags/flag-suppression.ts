@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import { CurrentRunEntity } from '@ratewarden/db/entities/current-run';
 import type { Flag, FlagDetail } from '@ratewarden/shared/flags';
 import type { Withheld } from '@ratewarden/shared/small-cells';
 import { readsEverySite, runFrame, seesEveryCount, withheldIn, type RunFrame } from '../../disclosure/run-frame';
@@ -60,12 +61,12 @@ export async function flagsAsSeenBy<T extends Flag | FlagDetail>(ds: DataSource,
   const shown = (f: T) => ({ ...f, figures: { ...f.figures, suppressed: false, withheld: null } });
   if (seesEveryCount(reader.principal)) return flags.map(shown);
   const everySite = await readsEverySite(ds, reader.principal);
-  const [current]: Array<{ run_id: string }> = await ds.query(`SELECT run_id FROM current_run`);
+  const current = await ds.getRepository(CurrentRunEntity).findOne({ where: { singleton: true } });
   let frame: RunFrame | null | undefined;
-  if (current && flags.some((f) => f.figures.runId === current.run_id)) frame = await runFrame(ds, current.run_id, reader.principal).catch(() => undefined);
+  if (current && flags.some((f) => f.figures.runId === current.runId)) frame = await runFrame(ds, current.runId, reader.principal).catch(() => undefined);
   return flags.map((f) => {
     if (f.siteId === null && !everySite) return withheldFlag(f, 'complement');
-    if (!current || f.figures.runId !== current.run_id || frame === undefined) return withheldFlag(f, 'earlier');
+    if (!current || f.figures.runId !== current.runId || frame === undefined) return withheldFlag(f, 'earlier');
     const why = withheldIn(frame, f.siteId, f.outcomeId, f.exposureGroupId, f.figures.window, f.figures.period);
     const small = f.figures.cases !== null && f.figures.cases > 0 && f.figures.cases < reader.smallCellThreshold;
     if (why || small) return withheldFlag(f, why ?? 'small');
