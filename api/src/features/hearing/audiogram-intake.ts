@@ -1,5 +1,6 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { duplicateRows, readAudiogramHeader, readAudiogramRow, type AudiogramProblem, type AudiogramRow } from '@ratewarden/shared/hearing/audiogram-rows';
 import type { HearingSettings } from '@ratewarden/shared/hearing/audiometric-history';
@@ -130,7 +131,7 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
       ],
     );
     await deriveShiftCases(em, id, workerIds, outcome.id, input.settings);
-    await em.query(`INSERT INTO run_requests (reason, intake_id) VALUES ('audiograms applied', $1)`, [id]);
+    await requestRun(em, 'audiograms applied', { intakeId: id });
     // No count of derived shifts in the entry: the administrator reads the log, and shifts are case-level.
     await recordAudit(em, {
       actor: input.principal,

@@ -1,5 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import { OutcomeEntity, ReferenceRateTableEntity } from '@ratewarden/db/entities/index';
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { ReferenceRateRow, ReferenceTable } from '@ratewarden/shared/reference-rates';
 import { recordAudit } from '../../audit/audit-log';
@@ -57,10 +59,10 @@ export interface ReferenceUpload {
 export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload): Promise<{ table: ReferenceTable; duplicate: boolean }> {
   const checksum = createHash('sha256').update(up.bytes).digest('hex');
   const uploadedBy = up.principal.kind === 'user' ? up.principal.id : null;
-  const [same]: Row[] = await ds.query(`SELECT id FROM reference_rate_tables WHERE state = 'applied' AND checksum = $1`, [checksum]);
+  const same = await ds.getRepository(ReferenceRateTableEntity).findOne({ select: { id: true }, where: { state: 'applied', checksum } });
   if (same) return { table: await tableById(ds, same.id), duplicate: true };
 
-  const outcomes: Array<{ id: number; code: string }> = await ds.query(`SELECT id, code FROM outcomes`);
+  const outcomes = await ds.getRepository(OutcomeEntity).find({ select: { id: true, code: true } });
   const checked = checkReferenceFile(up.bytes.toString('utf8'), new Map(outcomes.map((o) => [o.code.toUpperCase(), o.id])));
   if (checked.problems.length) {
     const id = await ds.transaction(async (em) => {
@@ -114,7 +116,7 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
       detail: { fileName: up.fileName, rows: rows.length, sources },
       ip: up.ip,
     });
-    await em.query(`INSERT INTO run_requests (reason) VALUES ($1)`, [`reference rates version ${tableId} uploaded`]);
+    await requestRun(em, `reference rates version ${tableId} uploaded`);
     return tableId;
   });
   return { table: await tableById(ds, id), duplicate: false };
@@ -130,9 +132,9 @@ export async function listReferenceTables(ds: DataSource): Promise<ReferenceTabl
 export async function referenceRatesOf(ds: DataSource, version: number | undefined): Promise<{ table: ReferenceTable; rates: ReferenceRateRow[] }> {
   let id = version;
   if (id === undefined) {
-    const [row]: Row[] = await ds.query(`SELECT id FROM reference_rate_tables WHERE state = 'applied'`);
-    if (!row) throw new AppError('not_found', 'no reference rates have been uploaded yet');
-    id = row.id as number;
+    const applied = await ds.getRepository(ReferenceRateTableEntity).findOne({ select: { id: true }, where: { state: 'applied' } });
+    if (!applied) throw new AppError('not_found', 'no reference rates have been uploaded yet');
+    id = applied.id;
   }
   const table = await tableById(ds, id);
   const rows: Row[] = await ds.query(
