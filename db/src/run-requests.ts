@@ -37,6 +37,14 @@ export async function pendingRun(db: DataSource | EntityManager, quietSeconds: n
 }
 
 /** Asks for a run, in the transaction of the change that calls for it (the worker batches requests: `pendingRun`). */
-export async function requestRun(em: EntityManager, reason: string, options: { intakeId?: string; immediate?: boolean } = {}): Promise<void> {
-  await em.getRepository(RunRequestEntity).insert({ reason, intakeId: options.intakeId ?? null, immediate: options.immediate ?? false });
+export async function requestRun(
+  em: EntityManager,
+  reason: string,
+  options: { intakeId?: string; immediate?: boolean } = {},
+): Promise<{ id: string; requestedAt: Date }> {
+  const { generatedMaps } = await em
+    .getRepository(RunRequestEntity)
+    .insert({ reason, intakeId: options.intakeId ?? null, immediate: options.immediate ?? false });
+  const made = generatedMaps[0] as { id: string | number; requestedAt: Date };
+  return { id: String(made.id), requestedAt: made.requestedAt };
 }

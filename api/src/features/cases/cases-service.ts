@@ -1,3 +1,4 @@
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { DataSource } from 'typeorm';
 import {
   decisionStatus,
@@ -124,7 +125,7 @@ export async function reviewCase(ds: DataSource, principal: Principal, caseRef: 
       [cur.id, to, review!.id],
     );
     // No case reference in the request: run requests are read by people without case-level access.
-    const [req]: Row[] = await em.query(`INSERT INTO run_requests (reason) VALUES ('a physician reviewed a case') RETURNING id::text AS id`);
+    const req = await requestRun(em, 'a physician reviewed a case');
     await recordAudit(em, {
       actor: principal,
       action: 'case.review',
@@ -132,7 +133,7 @@ export async function reviewCase(ds: DataSource, principal: Principal, caseRef: 
       detail: { decision: input.decision, review: review!.id },
       ip,
     });
-    return req!.id as string;
+    return req.id;
   });
   return { case: await detail(ds, principal, caseRef), runRequestId };
 }

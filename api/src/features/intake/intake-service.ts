@@ -16,7 +16,8 @@ import { intakeBounds } from './intake-bounds';
 import { lockIntakes, runChecks } from './intake-check';
 import { DEFAULT_EXPIRY_HOURS, expireIntake } from './intake-expiry';
 import { loadIntake } from './intake-queries';
-import { requestRun, settleChecked } from './intake-settle';
+import { settleChecked } from './intake-settle';
+import { requestRun } from '@ratewarden/db/run-requests';
 import { restoreRoster } from './roster-apply';
 import { dropStaging } from './staging-drop';
 
@@ -137,7 +138,7 @@ export async function restoreIntake(ds: DataSource, p: Principal, id: string, ip
       superseded = (await restoreCases(client, id)).superseded;
     }
     await client.query(`UPDATE intakes SET state = 'applied', superseded_at = NULL, restored_at = now() WHERE id = $1`, [id]);
-    await requestRun(client, id, `${it.kind === 'roster' ? 'roster' : 'case list'} intake restored`);
+    await requestRun(em, `${it.kind === 'roster' ? 'roster' : 'case list'} intake restored`, { intakeId: id });
     await recordAudit(em, { actor: p, action: 'intake.restore', target: `intake:${id}`, ip, detail: { superseded } });
     return loadIntake(em, id);
   });

@@ -1,5 +1,6 @@
 import type { PoolClient } from 'pg';
 import type { EntityManager } from 'typeorm';
+import { requestRun } from '@ratewarden/db/run-requests';
 import type { IntakeKind } from '@ratewarden/shared/intake';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
@@ -53,10 +54,6 @@ export async function settleChecked(
   await applyNow(client, em, id, kind, table, principal, ip);
 }
 
-export async function requestRun(client: PoolClient, id: string, reason: string): Promise<void> {
-  await client.query(`INSERT INTO run_requests (reason, intake_id) VALUES ($1, $2)`, [reason, id]);
-}
-
 async function applyNow(
   client: PoolClient,
   em: EntityManager,
@@ -70,6 +67,6 @@ async function applyNow(
   const { superseded } = await applyChecked(client, kind, table, id);
   await client.query(`UPDATE intakes SET state = 'applied', applied_at = now() WHERE id = $1`, [id]);
   await dropStaging(client, id, table);
-  await requestRun(client, id, `${kind === 'roster' ? 'roster' : 'case list'} intake applied`);
+  await requestRun(em, `${kind === 'roster' ? 'roster' : 'case list'} intake applied`, { intakeId: id });
   await recordAudit(em, { actor: principal, action: 'intake.apply', target: `intake:${id}`, ip, detail: { kind, superseded } });
 }

@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import { requestRun as requestRunOf } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { RunDetail, RunRequested, RunSummary } from '@ratewarden/shared/runs';
 import { recordAudit } from '../../audit/audit-log';
@@ -84,10 +85,8 @@ export async function getRun(ds: DataSource, id: string | 'current'): Promise<Ru
 export async function requestRun(ds: DataSource, principal: Principal, ip?: string): Promise<RunRequested> {
   return ds.transaction(async (em) => {
     const who = principal.kind === 'user' ? principal.email : `client:${principal.clientId}`;
-    const [row]: Row[] = await em.query(`INSERT INTO run_requests (reason, immediate) VALUES ($1, true) RETURNING id::text AS id, requested_at`, [
-      `run requested by ${who}`,
-    ]);
-    await recordAudit(em, { actor: principal, action: 'run.request', target: `run_request:${row!.id}`, ip });
-    return { requestId: row!.id, requestedAt: iso(row!.requested_at)! };
+    const made = await requestRunOf(em, `run requested by ${who}`, { immediate: true });
+    await recordAudit(em, { actor: principal, action: 'run.request', target: `run_request:${made.id}`, ip });
+    return { requestId: made.id, requestedAt: iso(made.requestedAt)! };
   });
 }
