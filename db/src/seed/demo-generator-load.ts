@@ -4,6 +4,7 @@ import { pipeline } from 'node:stream/promises';
 import type { PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import type { EntityManager } from 'typeorm';
+import { requestRun } from '../run-requests';
 import {
   caseCsvHeader,
   caseCsvLine,
@@ -112,6 +113,6 @@ export async function loadDemoCohort(
     cases.map((c) => tsv([caseIntake, c.caseRef, workerIds.get(c.workerKey)!, outcomeIds.get(c.outcome)!, c.onsetDate, c.status])),
   );
   // The demo's first figures should not wait for uploads to settle: nothing else is coming.
-  await em.query(`INSERT INTO run_requests (reason, intake_id, immediate) VALUES ('demo scenario loaded', $1, true)`, [caseIntake]);
+  await requestRun(em, 'demo scenario loaded', { intakeId: caseIntake, immediate: true });
   return { rosterRows: roster.length, cases: cases.length };
 }
