@@ -23,7 +23,8 @@ const killPoints = [
   { name: 'before the new workers', hold: `LOCK TABLE workers IN SHARE MODE`, running: `%INSERT INTO workers%`, waits: true },
   { name: 'during the roster insert', hold: null, running: `%INSERT INTO roster_entries%`, waits: false },
   { name: 'before the site × month pointers', hold: `LOCK TABLE roster_slices IN SHARE MODE`, running: `%INSERT INTO roster_slices%`, waits: true },
-  { name: 'before the run request', hold: null, running: `%INSERT INTO run_requests%`, waits: true },
+  // The run request is written through its repository (db/src/run-requests.ts): TypeORM quotes the table name.
+  { name: 'before the run request', hold: null, running: `%INSERT INTO "run_requests"%`, waits: true },
 ] as const;
 
 describe('kill -9 of the API mid-apply', () => {
