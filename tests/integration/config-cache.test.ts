@@ -10,7 +10,7 @@ import { settings } from './runs-fixture';
 
 /**
  * The lists of sites, exposure groups and outcomes (`config` counter of data_versions) and the
- * run history (`runs` counter) are kept per reader and counter: the same tag gives 304, and a
+ * run history and the pending run (`runs` counter) are kept per reader and counter: the same tag gives 304, and a
  * write through the API, one straight in the database or a new run changes the answer at once
  * (the old tag then gets a 200 with the new list, never a 304).
  */
@@ -62,6 +62,21 @@ describe('config lists and run history: kept per data version', () => {
     expect(g.body.map((x) => x.code)).toContain(`G${tag}`);
     expect(o.status).toBe(200);
     expect(o.body.map((x) => x.code)).toContain(`O${tag}`);
+  });
+
+  it('shows a run requested and a run request picked up, both straight in the database, in the pending run at once', async () => {
+    const count = (body: unknown) => (body as { pending: { count: number } | null }).pending?.count ?? 0;
+    const before = await get(hyg, '/api/runs/pending');
+    expect((await get(hyg, '/api/runs/pending', before.tag)).status).toBe(304);
+    const [{ id }] = (await ds.query(`INSERT INTO run_requests (reason, immediate) VALUES ('cache test', true) RETURNING id`)) as [{ id: string }];
+    const requested = await get(hyg, '/api/runs/pending', before.tag);
+    expect(requested.status).toBe(200);
+    expect(count(requested.body)).toBe(count(before.body) + 1);
+    expect(requested.body).toMatchObject({ pending: { immediate: true } });
+    await ds.query(`UPDATE run_requests SET picked_at = now() WHERE id = $1`, [id]);
+    const picked = await get(hyg, '/api/runs/pending', requested.tag);
+    expect(picked.status).toBe(200);
+    expect(count(picked.body)).toBe(count(before.body));
   });
 
   it('shows a new run in the history at once', async () => {

@@ -40,9 +40,11 @@ export function runsRouter({ dataSource: ds, smallCellThreshold, runQuietSeconds
   router.post('/', authorize('runs:trigger'), async (req, res) => {
     res.status(202).json(await requestRun(ds, req.principal!, req.ip));
   });
-  // Whether a run is waiting for uploads to settle, and until when.
-  router.get('/pending', authorize('runs:read'), async (_req, res) => {
-    res.json(await pendingRunOf(ds, runQuietSeconds));
+  // Whether a run is waiting for uploads to settle, and until when: kept under the same counter (run_requests raise it).
+  const pending = new TaggedAnswers('pending', 1024 ** 2);
+  router.get('/pending', authorize('runs:read'), async (req, res) => {
+    const { runs } = await versionsOf(ds, req);
+    await pending.send(req, res, [runs, runQuietSeconds], () => pendingRunOf(ds, runQuietSeconds));
   });
   // Same scope and suppression as the results below.
   router.get('/diff', authorize('runs:read'), async (req, res) => {
