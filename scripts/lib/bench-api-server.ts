@@ -45,8 +45,15 @@ function quietLog(log: (line: string) => void) {
   };
 }
 
-function startService(root: string, name: string, entry: string, env: NodeJS.ProcessEnv, log: (line: string) => void): ChildProcess {
-  const child = spawn(process.execPath, ['--import', 'tsx', entry], {
+function startService(
+  root: string,
+  name: string,
+  entry: string,
+  env: NodeJS.ProcessEnv,
+  log: (line: string) => void,
+  nodeArgs: string[] = [],
+): ChildProcess {
+  const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', entry], {
     cwd: root,
     // Supervised: the service stops by itself if this process dies (exit-with-parent.ts).
     env: { ...process.env, ...env, RATEWARDEN_SUPERVISED: '1' },
@@ -87,7 +94,9 @@ export async function startApiWithIdentityProvider(root: string, databaseUrl: st
   };
   const output = quietLog(log);
   const idp = startService(root, 'idp', 'api/src/stand-ins/identity-provider/main.ts', env, output.line);
-  const api = startService(root, 'api', 'api/src/server.ts', env, output.line);
+  // BENCH_API_NODE_ARGS, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" (which Node refuses in NODE_OPTIONS): where the API spends its time under load.
+  const nodeArgs = process.env.BENCH_API_NODE_ARGS?.split(' ').filter(Boolean) ?? [];
+  const api = startService(root, 'api', 'api/src/server.ts', env, output.line, nodeArgs);
   const stop = async () => {
     output.stopping();
     await Promise.all([stopService(api), stopService(idp)]);
