@@ -1,5 +1,7 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import { OutcomeEntity } from '@ratewarden/db/entities/outcome';
+import { WorkerEntity } from '@ratewarden/db/entities/worker';
 import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { duplicateRows, readAudiogramHeader, readAudiogramRow, type AudiogramProblem, type AudiogramRow } from '@ratewarden/shared/hearing/audiogram-rows';
@@ -58,16 +60,24 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
   if (problems.length) reject(problems);
 
   return ds.transaction(async (em) => {
-    const [outcome] = (await em.query(`SELECT id FROM outcomes WHERE upper(code) = upper($1)`, [input.settings.outcomeCode])) as { id: number }[];
+    const outcome = await em
+      .getRepository(OutcomeEntity)
+      .createQueryBuilder('o')
+      .select(['o.id'])
+      .where('upper(o.code) = upper(:code)', { code: input.settings.outcomeCode })
+      .getOne();
     if (!outcome)
       throw new AppError('conflict', `there is no outcome ${input.settings.outcomeCode} for the threshold shifts: create it first (HEARING_OUTCOME_CODE)`);
 
     const keys = [...new Set(rows.map((r) => r.workerKey))];
-    const known = new Map(
-      ((await em.query(`SELECT id::text, worker_key FROM workers WHERE worker_key = ANY($1::text[])`, [keys])) as { id: string; worker_key: string }[]).map(
-        (w) => [w.worker_key, w.id],
-      ),
-    );
+    // One array parameter, however many workers the file names.
+    const workers = await em
+      .getRepository(WorkerEntity)
+      .createQueryBuilder('w')
+      .select(['w.id', 'w.workerKey'])
+      .where('w.workerKey = ANY(:keys)', { keys })
+      .getMany();
+    const known = new Map(workers.map((w) => [w.workerKey, w.id]));
     for (const r of rows)
       if (!known.has(r.workerKey))
         problems.push({
