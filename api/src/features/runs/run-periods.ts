@@ -1,4 +1,5 @@
-import type { DataSource } from 'typeorm';
+import { In, type DataSource } from 'typeorm';
+import { SiteEntity } from '@ratewarden/db/entities/site';
 import { pendingRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { PendingRunAnswer, RunDetail } from '@ratewarden/shared/runs';
@@ -53,9 +54,7 @@ export const runWindowContext = (run: Pick<RunDetail, 'settings'>): WindowContex
 export async function completeThroughFor(ds: DataSource, runId: string, principal: Principal): Promise<CompleteThrough> {
   const book = await runPeriodBook(ds, runId);
   const scope = siteScope(principal);
-  const sites: Array<{ id: number }> = await ds.query(`SELECT id FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY id`, [
-    scope === 'all' ? null : scope,
-  ]);
+  const sites = await ds.getRepository(SiteEntity).find({ select: { id: true }, where: scope === 'all' ? {} : { id: In(scope) }, order: { id: 'ASC' } });
   return {
     company: (await readsEverySite(ds, principal)) ? book.latestComplete() : null,
     sites: sites.map((s) => ({ siteId: s.id, month: book.latestComplete([s.id]) })),

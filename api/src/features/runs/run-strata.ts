@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import { SiteEntity } from '@ratewarden/db/entities/site';
 import type { Withheld } from '@ratewarden/shared/small-cells';
 import { ageBandEdgesOf, ageBandLabel } from '@ratewarden/shared/age-bands';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
@@ -57,9 +58,7 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     arms.set(k, m);
   }
   const siteNames =
-    q.by === 'site'
-      ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name]))
-      : null;
+    q.by === 'site' ? new Map((await ds.getRepository(SiteEntity).find({ select: { id: true, name: true } })).map((s) => [String(s.id), s.name])) : null;
   const label = (k: string) =>
     k === ''
       ? 'not recorded'
