@@ -1,4 +1,5 @@
 import { IsNull, Like, type DataSource } from 'typeorm';
+import { rows } from '@ratewarden/db';
 import { CaseEventEntity } from '@ratewarden/db/entities/case-event';
 import { WorkerEntity } from '@ratewarden/db/entities/worker';
 import type { Principal } from '@ratewarden/shared/permissions';
@@ -32,10 +33,11 @@ export async function listHearingWorkers(
   ip?: string | null,
 ): Promise<HearingWorkerListResponse> {
   const ids = (
-    (await ds.query(
+    await rows<{ id: string }>(
+      ds,
       `SELECT w.id::text FROM workers w WHERE EXISTS (SELECT 1 FROM audiograms a WHERE a.worker_id = w.id) AND ${visibleWorker('$1')} ORDER BY w.worker_key LIMIT 5000`,
       [scopeParam(principal)],
-    )) as { id: string }[]
+    )
   ).map((r) => r.id);
   const hearing = await loadWorkerHearing(ds, ids, settings);
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: 'audiograms', ip });
