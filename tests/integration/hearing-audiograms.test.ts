@@ -2,6 +2,8 @@ import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createApp } from '@ratewarden/api/app';
+import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
+import type { RunSettings } from '@ratewarden/shared/runs';
 import { performRun } from '@ratewarden/worker/runs/perform-run';
 import { provisionUser, signIn, type SignedInAgent } from '../support/sign-in';
 import { testApiConfig } from '../support/test-config';
@@ -162,14 +164,15 @@ describe('audiogram intake → derived shifts → next run', () => {
 
   it("the next run counts the derived cases (suspected cases counted in this run's settings)", async () => {
     // Counted statuses are an analysis setting (a version in the database, issue 15): suspected cases
-    // are counted for this run, and the settings in force before are put back after it.
-    const before = (await hyg.agent.get('/api/settings').expect(200)).body.current.settings;
+    // are counted for this run, and the settings in force before are put back after it (the run
+    // fixture's when no version has been saved yet, as in a fresh database with this file alone).
+    const before: RunSettings = (await hyg.agent.get('/api/settings').expect(200)).body.current?.settings ?? settings;
     const settingsOf = (counted: string[]) => ({
       personTimeBasis: before.personTimeBasis,
       per: before.per,
       confidence: before.confidence,
       countedStatuses: counted,
-      ageBandEdges: before.ageBandEdges,
+      ageBandEdges: ageBandEdgesOf(before),
     });
     const putSettings = (body: object) => hyg.agent.put('/api/settings').set('x-csrf-token', hyg.csrf).send(body).expect(200);
     await putSettings(settingsOf(['suspected', 'confirmed']));

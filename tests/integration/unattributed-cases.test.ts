@@ -139,9 +139,13 @@ describe('unattributed cases: the roster check that orphans one, the run that co
 
   it('after apply and a run, the run counts the unattributed cases by reason, withheld where small for everyone but the physician', async () => {
     await as.hygienist.agent.post(`/api/intakes/${correctionId}/apply`).set('x-csrf-token', as.hygienist.csrf).expect(200);
-    const run = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000' });
+    const run = await performRun(ds, { trigger: 'cli', settings, appUrl: 'http://127.0.0.1:3000', consumeRequests: true });
     expect(run.status).toBe('succeeded');
     runId = (run as { runId: string }).runId;
+    // The intake names the run that took its request up (the run lists the request among its inputs).
+    const applied = intakeDetailSchema.parse((await as.hygienist.agent.get(`/api/intakes/${correctionId}`).expect(200)).body);
+    expect(applied.runRequest).toMatchObject({ reason: 'roster intake applied', run: { id: runId, state: 'succeeded' } });
+    expect(applied.runRequest!.pickedAt).not.toBeNull();
 
     const phys = runDetailSchema.parse((await as.physician.agent.get('/api/runs/current').expect(200)).body);
     const of = (d: typeof phys, outcome: number) => d.unattributed!.find((u) => u.outcomeId === outcome)!;

@@ -1,5 +1,6 @@
 import { EntitySchema } from 'typeorm';
 import type { IntakeKind, IntakeState } from '@ratewarden/shared/intake';
+import type { IntakeDiff, IntakeProblem } from '@ratewarden/shared/intake-schemas';
 
 /** One uploaded roster or case list and what became of it. */
 export interface Intake {
@@ -14,8 +15,9 @@ export interface Intake {
   monthTo: string | null;
   rowCount: number;
   problemCount: number;
-  problems: unknown[];
-  diff: Record<string, unknown> | null;
+  /** The first 1,000 problems, by line (`problemCount` counts them all). */
+  problems: IntakeProblem[];
+  diff: IntakeDiff | null;
   submittedBy: string | null;
   submittedByClient: string | null;
   createdAt: Date;

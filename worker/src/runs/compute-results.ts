@@ -10,10 +10,11 @@ import {
   type UChartPoint,
 } from '@ratewarden/shared/stats';
 import type { RunSettings } from '@ratewarden/shared/runs';
-import { offeredWindows, windowContextOf, windowStartIndex, type WindowKind } from '@ratewarden/shared/windows';
+import { offeredWindows, windowContextOf, windowStartIndex } from '@ratewarden/shared/windows';
 import { addTally, buildSeries, emptyTally, windowTally, type OutcomeSeries, type Tally } from './cell-series';
 import type { Cell } from './cells-query';
 import { monthIso } from '@ratewarden/shared/months';
+import type { ResultAdjustment, StoredResult } from '@ratewarden/db/run-results';
 
 export interface OutcomeInfo {
   id: number;
@@ -27,64 +28,15 @@ export interface GroupInfo {
   isReference: boolean;
 }
 
-/** One row of `run_results`, keyed by its column names. */
-export interface ResultRow {
-  /** null: the whole company (every site); a site id: that site's cells alone. */
-  site_id: number | null;
-  outcome_id: number;
-  exposure_group_id: number;
-  window_kind: WindowKind;
-  period: string;
+/**
+ * One result as the run computes it: the stored row (db/src/run-results.ts) without the run id,
+ * which the writer puts first, and with what rule evaluation needs beside it (not stored).
+ */
+export interface ResultRow extends Omit<StoredResult, 'run_id'> {
   /** Month index of the period, kept for rule evaluation (not stored). */
   periodIndex: number;
   /** Only on the rows a SIR watch rule reads (rule-verdicts.ts): the group's SIR in this scope. */
   sir?: { estimate: number | null; lower: number | null; upper: number | null; p: number | null; expected: number };
-  months_covered: number;
-  is_reference: boolean;
-  reference_group_id: number | null;
-  cases: number;
-  hours: string;
-  person_time: number;
-  rate: number | null;
-  rate_lower: number | null;
-  rate_upper: number | null;
-  expected: number | null;
-  irr: number | null;
-  irr_lower: number | null;
-  irr_upper: number | null;
-  irr_p: number | null;
-  irr_wald_lower: number | null;
-  irr_wald_upper: number | null;
-  ird: number | null;
-  ird_lower: number | null;
-  ird_upper: number | null;
-  ird_p: number | null;
-  mh_age_irr: number | null;
-  mh_age_irr_lower: number | null;
-  mh_age_irr_upper: number | null;
-  mh_age_irr_p: number | null;
-  mh_age_ird: number | null;
-  mh_age_ird_lower: number | null;
-  mh_age_ird_upper: number | null;
-  mh_site_irr: number | null;
-  mh_site_irr_lower: number | null;
-  mh_site_irr_upper: number | null;
-  mh_site_irr_p: number | null;
-  mh_site_ird: number | null;
-  mh_site_ird_lower: number | null;
-  mh_site_ird_upper: number | null;
-  mh_sex_irr: number | null;
-  mh_sex_irr_lower: number | null;
-  mh_sex_irr_upper: number | null;
-  mh_sex_irr_p: number | null;
-  mh_sex_ird: number | null;
-  mh_sex_ird_lower: number | null;
-  mh_sex_ird_upper: number | null;
-  u_centre: number | null;
-  u_lcl: number | null;
-  u_ucl: number | null;
-  u_signal: 'above' | 'below' | 'within' | null;
-  detail: Record<string, unknown>;
 }
 
 export interface ComputedResults {
@@ -117,7 +69,7 @@ function mh(s: RateStratum[], settings: RunSettings): MantelHaenszelRatesResult 
   return s.length === 0 ? null : mantelHaenszelRates(s, { confidence: settings.confidence, per: settings.per });
 }
 
-type Adjustment = 'age' | 'site' | 'sex';
+type Adjustment = ResultAdjustment;
 type MhColumns<K extends Adjustment> = Pick<
   ResultRow,
   `mh_${K}_irr` | `mh_${K}_irr_lower` | `mh_${K}_irr_upper` | `mh_${K}_irr_p` | `mh_${K}_ird` | `mh_${K}_ird_lower` | `mh_${K}_ird_upper`

@@ -1,10 +1,11 @@
 import { stringifyJson } from '@ratewarden/shared/stats';
 import type { Cell } from './cells-query';
+import type { ResultColumn } from '@ratewarden/db/run-results';
 import type { ResultRow } from './compute-results';
 
 const dbl = 'double precision';
-/** Columns of run_results written from a ResultRow, with their SQL types (the types document the table; COPY takes them from it). */
-export const RESULT_COLUMNS: Array<[keyof ResultRow, string]> = [
+/** Columns of run_results (db/src/run-results.ts) written from a ResultRow, with their SQL types (the types document the table; COPY takes them from it). */
+export const RESULT_COLUMNS = [
   ['site_id', 'integer'],
   ['outcome_id', 'integer'],
   ['exposure_group_id', 'integer'],
@@ -56,7 +57,11 @@ export const RESULT_COLUMNS: Array<[keyof ResultRow, string]> = [
   ['u_ucl', dbl],
   ['u_signal', 'text'],
   ['detail', 'jsonb'],
-];
+] as const satisfies ReadonlyArray<readonly [ResultColumn, string]>;
+
+/** Every stored column is written: a column of StoredResult missing above is named here, and fails to compile. */
+const everyColumnWritten: Record<Exclude<ResultColumn, (typeof RESULT_COLUMNS)[number][0]>, never> = {};
+void everyColumnWritten;
 
 const NEEDS_ESCAPE = /[\\\t\n\r]/;
 const ESCAPED = /[\\\t\n\r]/g;

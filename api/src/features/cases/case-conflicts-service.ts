@@ -1,22 +1,42 @@
 import type { DataSource } from 'typeorm';
+import type { CaseReview } from '@ratewarden/db/entities/case-review';
+import { IntakeCaseConflictEntity, type IntakeCaseConflict } from '@ratewarden/db/entities/intake-case-conflict';
+import { IntakeEntity } from '@ratewarden/db/entities/intake';
 import type { CaseConflict, CaseConflictResolution } from '@ratewarden/shared/cases';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites, userOf } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 
-type Row = Record<string, any>;
+/** A conflict with its case, the decision it contradicts and its resolution, as the join below reads it. */
+interface ConflictRow {
+  case_ref: string;
+  worker_key: string;
+  onset: string;
+  decided_status: IntakeCaseConflict['decidedStatus'];
+  list_status: IntakeCaseConflict['listStatus'];
+  resolution: IntakeCaseConflict['resolution'];
+  resolved_by: string | null;
+  resolved_at: Date | null;
+  review_id: string;
+  decision: CaseReview['decision'];
+  from_status: CaseReview['fromStatus'];
+  to_status: CaseReview['toStatus'];
+  reason: string;
+  decided_by: string;
+  decided_at: Date;
+}
 
 async function intakeSites(ds: DataSource, principal: Principal, intakeId: string): Promise<void> {
-  const [it]: Row[] = await ds.query(`SELECT site_ids FROM intakes WHERE id = $1 AND kind = 'cases'`, [intakeId]);
+  const it = await ds.getRepository(IntakeEntity).findOne({ select: { id: true, siteIds: true }, where: { id: intakeId, kind: 'cases' } });
   if (!it) throw new AppError('not_found', 'no such case list');
-  assertSites(principal, it.site_ids);
+  assertSites(principal, it.siteIds);
 }
 
 /** The cases of a case list that contradict a physician's decision, with the decision and its resolution; audited. */
 export async function listConflicts(ds: DataSource, principal: Principal, intakeId: string, ip?: string): Promise<CaseConflict[]> {
   await intakeSites(ds, principal, intakeId);
-  const rows: Row[] = await ds.query(
+  const rows: ConflictRow[] = await ds.query(
     `SELECT k.case_ref, w.worker_key, to_char(e.onset_date, 'YYYY-MM-DD') AS onset, k.decided_status, k.list_status, k.resolution, ru.email AS resolved_by, k.resolved_at,
             r.id::text AS review_id, r.decision, r.from_status, r.to_status, r.reason, du.email AS decided_by, r.decided_at
      FROM intake_case_conflicts k
@@ -65,16 +85,13 @@ export async function resolveConflict(
   const user = userOf({ principal });
   await intakeSites(ds, principal, intakeId);
   await ds.transaction(async (em) => {
-    const [it]: Row[] = await em.query(`SELECT state FROM intakes WHERE id = $1 FOR UPDATE`, [intakeId]);
+    const it = await em
+      .getRepository(IntakeEntity)
+      .findOne({ select: { id: true, state: true }, where: { id: intakeId }, lock: { mode: 'pessimistic_write' } });
     if (it!.state !== 'checked') throw new AppError('conflict', `the case list is ${it!.state}; conflicts are decided before it is applied`);
-    const [row]: Row[] = await em.query(`SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND case_ref = $2`, [intakeId, caseRef]);
-    if (!row) throw new AppError('not_found', 'no such conflict in this case list');
-    await em.query(`UPDATE intake_case_conflicts SET resolution = $3, resolved_by = $4, resolved_at = now() WHERE intake_id = $1 AND case_ref = $2`, [
-      intakeId,
-      caseRef,
-      resolution,
-      user.id,
-    ]);
+    const conflicts = em.getRepository(IntakeCaseConflictEntity);
+    if (!(await conflicts.existsBy({ intakeId, caseRef }))) throw new AppError('not_found', 'no such conflict in this case list');
+    await conflicts.update({ intakeId, caseRef }, { resolution, resolvedBy: user.id, resolvedAt: () => 'now()' });
     await recordAudit(em, { actor: principal, action: 'case.conflict_resolve', target: `intake:${intakeId}`, detail: { resolution }, ip });
   });
   return listConflicts(ds, principal, intakeId, ip);

@@ -6,7 +6,26 @@ import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
 
 type Db = DataSource | EntityManager;
-type Row = Record<string, any>;
+
+/** A row of the register as REGISTER_SQL reads it: what toSummary shows (the statement's other columns serve its filters). */
+interface RegisterRow {
+  case_ref: string;
+  worker_key: string;
+  outcome_id: number;
+  outcome_code: string;
+  /** The onset as YYYY-MM-DD. */
+  onset: string;
+  status: CaseSummary['status'];
+  site_id: number | null;
+  exposure_group_id: number | null;
+  intake_id: string;
+  file_name: string;
+  review_id: string | null;
+  versions: number;
+  run_id: string | null;
+  attribution: CaseSummary['attribution']['state'];
+  attribution_reason: string | null;
+}
 
 /**
  * The current version of every case with what the register shows of it: the site and exposure
@@ -57,7 +76,7 @@ export async function caseScope(db: Db, principal: Principal): Promise<[number[]
   return [scope === 'all' ? null : scope, await readsEverySite(db, principal)];
 }
 
-export function toSummary(r: Row): CaseSummary {
+function toSummary(r: RegisterRow): CaseSummary {
   return {
     caseRef: r.case_ref,
     workerKey: r.worker_key,
@@ -78,7 +97,7 @@ export function toSummary(r: Row): CaseSummary {
 /** The register: current cases within the reader's sites, filtered; newest onset first. */
 export async function queryCases(db: Db, principal: Principal, q: CaseListQuery): Promise<CaseSummary[]> {
   const [sites, everySite] = await caseScope(db, principal);
-  const rows: Row[] = await db.query(
+  const rows: RegisterRow[] = await db.query(
     `SELECT * FROM (${REGISTER_SQL}) x
      WHERE ($3::int IS NULL OR outcome_id = $3) AND ($4::int IS NULL OR exposure_group_id = $4) AND ($5::int IS NULL OR site_id = $5)
        AND ($6::text IS NULL OR status = $6) AND ($7::date IS NULL OR onset_date >= $7) AND ($8::date IS NULL OR onset_date < ($8::date + interval '1 month'))
@@ -92,6 +111,6 @@ export async function queryCases(db: Db, principal: Principal, q: CaseListQuery)
 /** One current case within the reader's sites, or null. */
 export async function queryCase(db: Db, principal: Principal, caseRef: string): Promise<CaseSummary | null> {
   const [sites, everySite] = await caseScope(db, principal);
-  const [row]: Row[] = await db.query(`SELECT * FROM (${REGISTER_SQL}) x WHERE case_ref = $3`, [sites, everySite, caseRef]);
+  const [row]: RegisterRow[] = await db.query(`SELECT * FROM (${REGISTER_SQL}) x WHERE case_ref = $3`, [sites, everySite, caseRef]);
   return row ? toSummary(row) : null;
 }

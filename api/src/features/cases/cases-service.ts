@@ -1,3 +1,5 @@
+import { CaseEventEntity } from '@ratewarden/db/entities/case-event';
+import { CaseReviewEntity, type CaseReview } from '@ratewarden/db/entities/case-review';
 import { requestRun } from '@ratewarden/db/run-requests';
 import type { DataSource } from 'typeorm';
 import {
@@ -15,7 +17,31 @@ import { userOf } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { queryCase, queryCases } from './case-queries';
 
-type Row = Record<string, any>;
+/** The decision that made a version, as the join in `history` reads it (every column null for a list's version). */
+type ReviewColumns =
+  | {
+      review_id: string;
+      decision: CaseReview['decision'];
+      from_status: CaseReview['fromStatus'];
+      to_status: CaseReview['toStatus'];
+      reason: string;
+      decided_by: string;
+      decided_at: Date;
+    }
+  | { review_id: null; decision: null; from_status: null; to_status: null; reason: null; decided_by: null; decided_at: null };
+
+/** One version of a case with its outcome, worker and intake, as the join in `history` reads it. */
+type VersionRow = ReviewColumns & {
+  id: string;
+  status: CaseVersion['status'];
+  onset: string;
+  outcome_code: string;
+  worker_key: string;
+  intake_id: string;
+  file_name: string;
+  created_at: Date;
+  current: boolean;
+};
 
 /**
  * The physician's case register and case review. Every read is audited: the entry names what was
@@ -44,7 +70,7 @@ const filtersOf = (q: CaseListQuery) =>
   );
 
 async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> {
-  const rows: Row[] = await ds.query(
+  const rows: VersionRow[] = await ds.query(
     `SELECT c.id::text AS id, c.status, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, o.code AS outcome_code, w.worker_key,
             c.intake_id, i.file_name, c.created_at, c.superseded_by IS NULL AS current,
             r.id::text AS review_id, r.decision, r.from_status, r.to_status, r.reason, u.email AS decided_by, r.decided_at
@@ -111,26 +137,35 @@ export async function reviewCase(ds: DataSource, principal: Principal, caseRef: 
   if (!(await queryCase(ds, principal, caseRef))) throw new AppError('not_found', 'no such case among your sites');
   const to = decisionStatus[input.decision];
   const runRequestId = await ds.transaction(async (em) => {
-    const [cur]: Row[] = await em.query(`SELECT id, status, intake_id FROM case_events WHERE case_ref = $1 AND superseded_by IS NULL FOR UPDATE`, [caseRef]);
+    const events = em.getRepository(CaseEventEntity);
+    const cur = await events
+      .createQueryBuilder('c')
+      .where('c.caseRef = :caseRef AND c.supersededBy IS NULL', { caseRef })
+      .setLock('pessimistic_write')
+      .getOne();
     if (!cur) throw new AppError('not_found', 'no such case');
     if (cur.status === to) throw new AppError('conflict', `the case is already ${to.replace('_', ' ')}`);
-    const [review]: Row[] = await em.query(
-      `INSERT INTO case_reviews (case_ref, decision, from_status, to_status, reason, decided_by) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id::text AS id`,
-      [caseRef, input.decision, cur.status, to, input.reason, user.id],
-    );
-    await em.query(`UPDATE case_events SET superseded_by = intake_id, superseded_by_review = $2 WHERE id = $1`, [cur.id, review!.id]);
-    await em.query(
-      `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status, review_id)
-       SELECT intake_id, case_ref, worker_id, outcome_id, onset_date, $2, $3 FROM case_events WHERE id = $1`,
-      [cur.id, to, review!.id],
-    );
+    const review = await em
+      .getRepository(CaseReviewEntity)
+      .save({ caseRef, decision: input.decision, fromStatus: cur.status, toStatus: to, reason: input.reason, decidedBy: user.id });
+    // The current version is superseded by its own intake and the review; the new one copies it with the decided status.
+    await events.update(cur.id, { supersededBy: cur.intakeId, supersededByReview: review.id });
+    await events.insert({
+      intakeId: cur.intakeId,
+      caseRef,
+      workerId: cur.workerId,
+      outcomeId: cur.outcomeId,
+      onsetDate: cur.onsetDate,
+      status: to,
+      reviewId: review.id,
+    });
     // No case reference in the request: run requests are read by people without case-level access.
     const req = await requestRun(em, 'a physician reviewed a case');
     await recordAudit(em, {
       actor: principal,
       action: 'case.review',
       target: `case_event:${cur.id}`,
-      detail: { decision: input.decision, review: review!.id },
+      detail: { decision: input.decision, review: review.id },
       ip,
     });
     return req.id;

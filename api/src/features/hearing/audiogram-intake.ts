@@ -1,5 +1,9 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import { rows as dbRows } from '@ratewarden/db';
+import { IntakeEntity } from '@ratewarden/db/entities/intake';
+import { OutcomeEntity } from '@ratewarden/db/entities/outcome';
+import { WorkerEntity } from '@ratewarden/db/entities/worker';
 import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import { duplicateRows, readAudiogramHeader, readAudiogramRow, type AudiogramProblem, type AudiogramRow } from '@ratewarden/shared/hearing/audiogram-rows';
@@ -58,16 +62,24 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
   if (problems.length) reject(problems);
 
   return ds.transaction(async (em) => {
-    const [outcome] = (await em.query(`SELECT id FROM outcomes WHERE upper(code) = upper($1)`, [input.settings.outcomeCode])) as { id: number }[];
+    const outcome = await em
+      .getRepository(OutcomeEntity)
+      .createQueryBuilder('o')
+      .select(['o.id'])
+      .where('upper(o.code) = upper(:code)', { code: input.settings.outcomeCode })
+      .getOne();
     if (!outcome)
       throw new AppError('conflict', `there is no outcome ${input.settings.outcomeCode} for the threshold shifts: create it first (HEARING_OUTCOME_CODE)`);
 
     const keys = [...new Set(rows.map((r) => r.workerKey))];
-    const known = new Map(
-      ((await em.query(`SELECT id::text, worker_key FROM workers WHERE worker_key = ANY($1::text[])`, [keys])) as { id: string; worker_key: string }[]).map(
-        (w) => [w.worker_key, w.id],
-      ),
-    );
+    // One array parameter, however many workers the file names.
+    const workers = await em
+      .getRepository(WorkerEntity)
+      .createQueryBuilder('w')
+      .select(['w.id', 'w.workerKey'])
+      .where('w.workerKey = ANY(:keys)', { keys })
+      .getMany();
+    const known = new Map(workers.map((w) => [w.workerKey, w.id]));
     for (const r of rows)
       if (!known.has(r.workerKey))
         problems.push({
@@ -76,15 +88,13 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
           value: r.workerKey,
           reason: 'no worker with this key is known (send a roster with the worker first)',
         });
-    const stored = new Set(
-      (
-        (await em.query(
-          `SELECT w.worker_key || '|' || to_char(a.test_date, 'YYYY-MM-DD') || '|' || a.ear || '|' || a.test_type AS k
+    const tests = await dbRows<{ k: string }>(
+      em,
+      `SELECT w.worker_key || '|' || to_char(a.test_date, 'YYYY-MM-DD') || '|' || a.ear || '|' || a.test_type AS k
        FROM audiograms a JOIN workers w ON w.id = a.worker_id WHERE w.worker_key = ANY($1::text[])`,
-          [keys],
-        )) as { k: string }[]
-      ).map((r) => r.k),
+      [keys],
     );
+    const stored = new Set(tests.map((r) => r.k));
     for (const r of rows) {
       if (stored.has(`${r.workerKey}|${r.testDate}|${r.ear}|${r.testType}`))
         problems.push({ line: r.line, column: 'test_date', value: r.testDate, reason: 'this test (worker, date, ear, type) is already stored' });
@@ -93,12 +103,13 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
 
     const workerIds = [...new Set(known.values())];
     const sites = (
-      (await em.query(
+      await dbRows<{ site_id: number }>(
+        em,
         `SELECT DISTINCT re.site_id FROM roster_entries re
        JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
        WHERE re.worker_id = ANY($1::bigint[]) ORDER BY 1`,
         [workerIds],
-      )) as { site_id: number }[]
+      )
     ).map((r) => r.site_id);
     assertSites(input.principal, sites);
 
@@ -106,11 +117,24 @@ export async function receiveAudiograms(ds: DataSource, input: AudiogramIntakeIn
     const checksum = createHash('sha256').update(input.bytes).digest('hex');
     const [submittedBy, submittedByClient] = input.principal.kind === 'user' ? [input.principal.id, null] : [null, input.principal.clientId];
     const dates = rows.map((r) => r.testDate).sort();
-    await em.query(
-      `INSERT INTO intakes (id, kind, state, file_name, checksum, size_bytes, row_count, submitted_by, submitted_by_client, site_ids, month_from, month_to, checked_at, applied_at)
-       VALUES ($1, 'cases', 'applied', $2, $3, $4, $5, $6, $7, $8, date_trunc('month', $9::date), date_trunc('month', $10::date), now(), now())`,
-      [id, input.fileName, checksum, input.bytes.length, rows.length, submittedBy, submittedByClient, sites, dates[0], dates[dates.length - 1]],
-    );
+    // Checked and applied at once: the file was checked whole above. Months as their first day.
+    const monthOf = (date: string) => `${date.slice(0, 7)}-01`;
+    await em.getRepository(IntakeEntity).insert({
+      id,
+      kind: 'cases',
+      state: 'applied',
+      fileName: input.fileName,
+      checksum,
+      sizeBytes: String(input.bytes.length),
+      rowCount: rows.length,
+      submittedBy,
+      submittedByClient,
+      siteIds: sites,
+      monthFrom: monthOf(dates[0]!),
+      monthTo: monthOf(dates[dates.length - 1]!),
+      checkedAt: () => 'now()',
+      appliedAt: () => 'now()',
+    });
     const col = <T>(f: (r: AudiogramRow) => T) => rows.map(f);
     await em.query(
       `INSERT INTO audiograms (intake_id, worker_id, test_date, ear, test_type, hl_500, hl_1000, hl_2000, hl_3000, hl_4000, hl_6000, hl_8000)

@@ -1,4 +1,7 @@
-import type { DataSource } from 'typeorm';
+import { IsNull, Like, type DataSource } from 'typeorm';
+import { rows } from '@ratewarden/db';
+import { CaseEventEntity } from '@ratewarden/db/entities/case-event';
+import { WorkerEntity } from '@ratewarden/db/entities/worker';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { HearingSettings } from '@ratewarden/shared/hearing/audiometric-history';
 import type { HearingWorkerListResponse, HearingWorkerResponse } from '@ratewarden/shared/hearing/hearing-view';
@@ -10,6 +13,7 @@ import { loadWorkerHearing } from './worker-hearing';
 /**
  * Workers the reader may see (every worker for 'all'): with a current roster row at one of their
  * sites, or audiograms uploaded for one of their sites (the upload's sites are its workers' roster sites).
+ * `param` is the reader's sites (integer[], null for every site) as the statement names it; the worker is `w`.
  */
 const visibleWorker = (param: string) => `(${param}::integer[] IS NULL OR EXISTS (
   SELECT 1 FROM roster_entries re JOIN roster_slices rs ON rs.intake_id = re.intake_id AND rs.site_id = re.site_id AND rs.month = re.month
@@ -29,10 +33,11 @@ export async function listHearingWorkers(
   ip?: string | null,
 ): Promise<HearingWorkerListResponse> {
   const ids = (
-    (await ds.query(
+    await rows<{ id: string }>(
+      ds,
       `SELECT w.id::text FROM workers w WHERE EXISTS (SELECT 1 FROM audiograms a WHERE a.worker_id = w.id) AND ${visibleWorker('$1')} ORDER BY w.worker_key LIMIT 5000`,
       [scopeParam(principal)],
-    )) as { id: string }[]
+    )
   ).map((r) => r.id);
   const hearing = await loadWorkerHearing(ds, ids, settings);
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: 'audiograms', ip });
@@ -59,16 +64,22 @@ export async function getHearingWorker(
   settings: HearingSettings,
   ip?: string | null,
 ): Promise<HearingWorkerResponse> {
-  const [w] = (await ds.query(`SELECT w.id::text FROM workers w WHERE w.worker_key = $1 AND ${visibleWorker('$2')}`, [workerKey, scopeParam(principal)])) as {
-    id: string;
-  }[];
+  const w = await ds
+    .getRepository(WorkerEntity)
+    .createQueryBuilder('w')
+    .select(['w.id'])
+    .where('w.workerKey = :workerKey', { workerKey })
+    .andWhere(visibleWorker(':scope'), { scope: scopeParam(principal) })
+    .getOne();
   const [h] = w ? await loadWorkerHearing(ds, [w.id], settings) : [];
   if (!w || !h) throw new AppError('not_found', 'no audiograms for that worker');
-  const cases = (await ds.query(
-    `SELECT case_ref AS "caseRef", to_char(onset_date, 'YYYY-MM-DD') AS "onsetDate", status FROM case_events
-     WHERE worker_id = $1 AND superseded_by IS NULL AND case_ref LIKE 'STS-%' ORDER BY onset_date`,
-    [w.id],
-  )) as HearingWorkerResponse['cases'];
+  // The worker's current standard-threshold-shift cases (worker-hearing.ts shiftCaseRef names them STS-…).
+  const shifts = await ds.getRepository(CaseEventEntity).find({
+    select: { caseRef: true, onsetDate: true, status: true },
+    where: { workerId: w.id, supersededBy: IsNull(), caseRef: Like('STS-%') },
+    order: { onsetDate: 'ASC' },
+  });
+  const cases: HearingWorkerResponse['cases'] = shifts.map((c) => ({ caseRef: c.caseRef, onsetDate: c.onsetDate, status: c.status }));
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: `audiograms:worker:${w.id}`, ip });
   return {
     workerKey: h.workerKey,

@@ -1,4 +1,5 @@
 import type { EntityManager } from 'typeorm';
+import { rows } from '@ratewarden/db';
 import type { HearingSettings } from '@ratewarden/shared/hearing/audiometric-history';
 import { loadWorkerHearing, shiftCaseRef } from './worker-hearing';
 
@@ -30,13 +31,14 @@ export async function deriveShiftCases(
     }
   }
   if (!refs.length) return 0;
-  const inserted = (await em.query(
+  const inserted = await rows<{ id: string }>(
+    em,
     `INSERT INTO case_events (intake_id, case_ref, worker_id, outcome_id, onset_date, status)
      SELECT $1, n.ref, n.worker_id, $2, n.onset, 'suspected'
      FROM unnest($3::text[], $4::bigint[], $5::date[]) AS n(ref, worker_id, onset)
      WHERE NOT EXISTS (SELECT 1 FROM case_events e WHERE e.case_ref = n.ref)
      RETURNING id`,
     [intakeId, outcomeId, refs, workers, onsets],
-  )) as unknown[];
+  );
   return inserted.length;
 }

@@ -1,4 +1,5 @@
 import type { EntityManager, DataSource } from 'typeorm';
+import { rows } from '@ratewarden/db';
 import type { EarAudiogram } from '@ratewarden/shared/hearing/audiogram';
 import { workerHearingHistory, type EarHistory, type HearingSettings } from '@ratewarden/shared/hearing/audiometric-history';
 
@@ -34,13 +35,14 @@ export interface WorkerHearing {
 /** Every stored audiogram of the workers, read into their histories (shared/src/hearing). */
 export async function loadWorkerHearing(db: Db, workerIds: string[], settings: HearingSettings): Promise<WorkerHearing[]> {
   if (!workerIds.length) return [];
-  const records = (await db.query(
+  const records = await rows<AudiogramRecord>(
+    db,
     `SELECT a.id::text, a.worker_id::text, w.worker_key, w.sex, w.birth_year, to_char(a.test_date, 'YYYY-MM-DD') AS test_date, a.ear, a.test_type,
             a.hl_500, a.hl_1000, a.hl_2000, a.hl_3000, a.hl_4000, a.hl_6000, a.hl_8000
      FROM audiograms a JOIN workers w ON w.id = a.worker_id
      WHERE a.worker_id = ANY($1::bigint[]) ORDER BY a.worker_id, a.test_date, a.id`,
     [workerIds],
-  )) as AudiogramRecord[];
+  );
   const byWorker = new Map<string, AudiogramRecord[]>();
   for (const r of records) byWorker.set(r.worker_id, [...(byWorker.get(r.worker_id) ?? []), r]);
   return [...byWorker.values()].map((rs) => {

@@ -1,4 +1,9 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { In, IsNull, type DataSource, type EntityManager } from 'typeorm';
+import { IntakeEntity, type Intake } from '@ratewarden/db/entities/intake';
+import { IntakeCaseConflictEntity } from '@ratewarden/db/entities/intake-case-conflict';
+import { RunEntity } from '@ratewarden/db/entities/run';
+import { RunRequestEntity } from '@ratewarden/db/entities/run-request';
+import { UserEntity } from '@ratewarden/db/entities/user';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { IntakeDetail, IntakeListResponse, IntakeSummary } from '@ratewarden/shared/intake-schemas';
 import { intakeListQuerySchema } from '@ratewarden/shared/intake-schemas';
@@ -6,132 +11,125 @@ import type { z } from 'zod';
 import { assertSites, siteScope } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 
-type Db = DataSource | EntityManager | { query: (sql: string, params?: unknown[]) => Promise<unknown> };
+type Db = DataSource | EntityManager;
 
-interface IntakeRow {
-  id: string;
-  kind: 'roster' | 'cases';
-  state: IntakeSummary['state'];
-  file_name: string;
-  checksum: string;
-  size_bytes: string;
-  site_ids: number[];
-  month_from: string | null;
-  month_to: string | null;
-  row_count: number;
-  problem_count: number;
-  submitted_label: string | null;
-  created_at: Date;
-  checked_at: Date | null;
-  applied_at: Date | null;
-  superseded_at: Date | null;
-  staging_table: string | null;
-  problems?: IntakeDetail['problems'];
-  diff?: IntakeDetail['diff'];
-}
+/** The columns a summary shows (the list reads these only: problems and diff can be large). */
+const SUMMARY_COLUMNS = [
+  'id',
+  'kind',
+  'state',
+  'fileName',
+  'checksum',
+  'sizeBytes',
+  'siteIds',
+  'monthFrom',
+  'monthTo',
+  'rowCount',
+  'problemCount',
+  'submittedBy',
+  'submittedByClient',
+  'createdAt',
+  'checkedAt',
+  'appliedAt',
+  'supersededAt',
+  'stagingTable',
+] as const satisfies ReadonlyArray<keyof Intake>;
 
-const columns = `i.id, i.kind, i.state, i.file_name, i.checksum, i.size_bytes, i.site_ids,
-  to_char(i.month_from, 'YYYY-MM') AS month_from, to_char(i.month_to, 'YYYY-MM') AS month_to, i.row_count, i.problem_count,
-  coalesce(u.email, 'client:' || i.submitted_by_client) AS submitted_label,
-  i.created_at, i.checked_at, i.applied_at, i.superseded_at, i.staging_table`;
+type SummaryColumns = Pick<Intake, (typeof SUMMARY_COLUMNS)[number]>;
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+/** A month column (a date, the first of its month) as YYYY-MM. */
+const month = (d: string | null) => (d === null ? null : d.slice(0, 7));
 
-function summary(r: IntakeRow): IntakeSummary {
+/** Who submitted each intake: the user's email, else the integration client as `client:<id>`. */
+async function submitterLabels(db: Db, intakes: SummaryColumns[]): Promise<Map<SummaryColumns, string | null>> {
+  const userIds = [...new Set(intakes.flatMap((i) => (i.submittedBy ? [i.submittedBy] : [])))];
+  const users = userIds.length ? await db.getRepository(UserEntity).find({ select: { id: true, email: true }, where: { id: In(userIds) } }) : [];
+  const email = new Map(users.map((u) => [u.id, u.email]));
+  return new Map(
+    intakes.map((i) => [i, (i.submittedBy ? email.get(i.submittedBy) : undefined) ?? (i.submittedByClient === null ? null : `client:${i.submittedByClient}`)]),
+  );
+}
+
+function summary(i: SummaryColumns, submittedBy: string | null): IntakeSummary {
   return {
-    id: r.id,
-    kind: r.kind,
-    state: r.state,
-    fileName: r.file_name,
-    checksum: r.checksum,
-    sizeBytes: Number(r.size_bytes),
-    siteIds: r.site_ids,
-    monthFrom: r.month_from,
-    monthTo: r.month_to,
-    rowCount: r.row_count,
-    problemCount: r.problem_count,
-    submittedBy: r.submitted_label,
-    createdAt: iso(r.created_at)!,
-    checkedAt: iso(r.checked_at),
-    appliedAt: iso(r.applied_at),
-    supersededAt: iso(r.superseded_at),
-    staged: r.staging_table !== null,
+    id: i.id,
+    kind: i.kind,
+    state: i.state,
+    fileName: i.fileName,
+    checksum: i.checksum,
+    sizeBytes: Number(i.sizeBytes),
+    siteIds: i.siteIds,
+    monthFrom: month(i.monthFrom),
+    monthTo: month(i.monthTo),
+    rowCount: i.rowCount,
+    problemCount: i.problemCount,
+    submittedBy,
+    createdAt: iso(i.createdAt)!,
+    checkedAt: iso(i.checkedAt),
+    appliedAt: iso(i.appliedAt),
+    supersededAt: iso(i.supersededAt),
+    staged: i.stagingTable !== null,
+  };
+}
+
+/** The request for a run an intake made (its latest), with the run that took it up once one has. */
+async function intakeRunRequest(db: Db, intakeId: string): Promise<IntakeDetail['runRequest']> {
+  const request = await db.getRepository(RunRequestEntity).findOne({ where: { intakeId }, order: { requestedAt: 'DESC' } });
+  if (!request) return null;
+  // The run that consumed the request lists it among its inputs.
+  const run = await db
+    .getRepository(RunEntity)
+    .createQueryBuilder('r')
+    .select(['r.id', 'r.number', 'r.state', 'r.finishedAt'])
+    .where(`r.inputs->'requestIds' ? :requestId`, { requestId: String(request.id) })
+    .orderBy('r.startedAt', 'DESC')
+    .limit(1)
+    .getOne();
+  return {
+    id: Number(request.id),
+    requestedAt: iso(request.requestedAt)!,
+    pickedAt: iso(request.pickedAt),
+    reason: request.reason,
+    run: run ? { id: run.id, number: Number(run.number), state: run.state, finishedAt: iso(run.finishedAt) } : null,
   };
 }
 
 /** The intake with its problems, diff and the run it requested; 404 when absent. */
 export async function loadIntake(db: Db, id: string): Promise<IntakeDetail> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw new AppError('not_found', 'no such intake');
-  const rows = (await db.query(`SELECT ${columns}, i.problems, i.diff FROM intakes i LEFT JOIN users u ON u.id = i.submitted_by WHERE i.id = $1`, [
-    id,
-  ])) as IntakeRow[];
-  const r = rows[0];
-  if (!r) throw new AppError('not_found', 'no such intake');
-  const runs = (await db.query(`SELECT id, requested_at, picked_at, reason FROM run_requests WHERE intake_id = $1 ORDER BY requested_at DESC LIMIT 1`, [
-    id,
-  ])) as Array<{ id: string; requested_at: Date; picked_at: Date | null; reason: string }>;
-  const run = runs[0];
-  // The run that consumed the request lists it among its inputs.
-  const taken = run
-    ? (
-        (await db.query(`SELECT id, number, state, finished_at FROM runs WHERE inputs->'requestIds' ? $1 ORDER BY started_at DESC LIMIT 1`, [
-          String(run.id),
-        ])) as Array<{ id: string; number: string; state: 'running' | 'succeeded' | 'failed'; finished_at: Date | null }>
-      )[0]
-    : undefined;
-  const conflicts =
-    r.kind === 'cases'
-      ? (
-          (await db.query(`SELECT EXISTS (SELECT 1 FROM intake_case_conflicts WHERE intake_id = $1 AND resolution IS NULL) AS pending`, [id])) as Array<{
-            pending: boolean;
-          }>
-        )[0]!.pending
-      : undefined;
+  const intake = await db.getRepository(IntakeEntity).findOneBy({ id });
+  if (!intake) throw new AppError('not_found', 'no such intake');
+  const submitter = (await submitterLabels(db, [intake])).get(intake) ?? null;
+  const conflictsPending =
+    intake.kind === 'cases' ? await db.getRepository(IntakeCaseConflictEntity).existsBy({ intakeId: id, resolution: IsNull() }) : undefined;
   return {
-    ...summary(r),
-    ...(conflicts === undefined ? {} : { conflictsPending: conflicts }),
-    problems: r.problems ?? [],
-    diff: r.diff ?? null,
-    runRequest: run
-      ? {
-          id: Number(run.id),
-          requestedAt: iso(run.requested_at)!,
-          pickedAt: iso(run.picked_at),
-          reason: run.reason,
-          run: taken ? { id: taken.id, number: Number(taken.number), state: taken.state, finishedAt: iso(taken.finished_at) } : null,
-        }
-      : null,
+    ...summary(intake, submitter),
+    ...(conflictsPending === undefined ? {} : { conflictsPending }),
+    problems: intake.problems ?? [],
+    diff: intake.diff ?? null,
+    runRequest: await intakeRunRequest(db, id),
   };
 }
 
-/** For people: only intakes whose sites they may all see, and their own site-less rejects. */
-function scopeFilter(p: Principal, params: unknown[]): string {
-  const scope = siteScope(p);
-  if (scope === 'all') return 'true';
-  params.push(scope);
-  const s = `$${params.length}`;
-  params.push(p.kind === 'user' ? p.id : null);
-  return `(i.site_ids <@ ${s}::int[] AND (cardinality(i.site_ids) > 0 OR i.submitted_by = $${params.length}))`;
-}
-
+/** The newest intakes first, filtered; for people, only intakes whose sites they may all see, and their own site-less rejects. */
 export async function listIntakes(ds: DataSource, p: Principal, q: z.infer<typeof intakeListQuerySchema>): Promise<IntakeListResponse> {
-  const params: unknown[] = [];
-  const where = [scopeFilter(p, params)];
-  if (q.kind) {
-    params.push(q.kind);
-    where.push(`i.kind = $${params.length}`);
+  const qb = ds
+    .getRepository(IntakeEntity)
+    .createQueryBuilder('i')
+    .select(SUMMARY_COLUMNS.map((c) => `i.${c}`));
+  const scope = siteScope(p);
+  if (scope !== 'all') {
+    qb.where('i.siteIds <@ CAST(:scope AS int[]) AND (cardinality(i.siteIds) > 0 OR i.submittedBy = :self)', {
+      scope,
+      self: p.kind === 'user' ? p.id : null,
+    });
   }
-  if (q.state) {
-    params.push(q.state);
-    where.push(`i.state = $${params.length}`);
-  }
-  const [{ n }] = (await ds.query(`SELECT count(*) AS n FROM intakes i WHERE ${where.join(' AND ')}`, params)) as [{ n: string }];
-  const rows = (await ds.query(
-    `SELECT ${columns} FROM intakes i LEFT JOIN users u ON u.id = i.submitted_by WHERE ${where.join(' AND ')}
-     ORDER BY i.created_at DESC LIMIT ${q.limit} OFFSET ${q.offset}`,
-    params,
-  )) as IntakeRow[];
-  return { items: rows.map(summary), total: Number(n) };
+  if (q.kind) qb.andWhere('i.kind = :kind', { kind: q.kind });
+  if (q.state) qb.andWhere('i.state = :state', { state: q.state });
+  const [intakes, total] = await qb.orderBy('i.createdAt', 'DESC').limit(q.limit).offset(q.offset).getManyAndCount();
+  const submitters = await submitterLabels(ds, intakes);
+  return { items: intakes.map((i) => summary(i, submitters.get(i) ?? null)), total };
 }
 
 export async function getIntake(ds: DataSource, p: Principal, id: string): Promise<IntakeDetail> {

@@ -1,11 +1,21 @@
 import type { DataSource } from 'typeorm';
+import type { StoredResult } from '@ratewarden/db/run-results';
 import type { RunDiff } from '@ratewarden/shared/runs';
 import { resultScope } from '../../disclosure/result-scope';
 import { runFrame } from '../../disclosure/run-frame';
 import { n, withheldOf, type ResultReader } from './result-reader';
 import { getRun, summaryPart } from './runs-service';
 
-type Row = Record<string, any>;
+/** One run's side of a result cell in the diff below: its figures, null where the run has no row for the cell. */
+type DiffSide<P extends 'a' | 'b'> = Record<`${P}_cases` | `${P}_ref_cases`, StoredResult['cases'] | null> &
+  Record<`${P}_hours`, StoredResult['hours'] | null> &
+  Record<`${P}_rate` | `${P}_irr`, StoredResult['rate'] | null> &
+  Record<`${P}_ref_group`, StoredResult['reference_group_id']>;
+
+/** A result cell of two runs side by side, as diffRuns reads it: the cell's key (period as YYYY-MM-DD), each side, and what changed. */
+type DiffRow = Pick<StoredResult, 'outcome_id' | 'exposure_group_id' | 'window_kind' | 'period'> &
+  DiffSide<'a'> &
+  DiffSide<'b'> & { added: boolean; removed: boolean; changed: boolean };
 
 /**
  * What changed between two runs: every result cell (outcome × group × window × period) added,
@@ -17,7 +27,7 @@ type Row = Record<string, any>;
 export async function diffRuns(ds: DataSource, fromId: string, toId: string, siteIdAsked: number | undefined, reader: ResultReader): Promise<RunDiff> {
   const [from, to] = [await getRun(ds, fromId), await getRun(ds, toId)];
   const siteId = await resultScope(ds, reader.principal, siteIdAsked);
-  const rows: Row[] = await ds.query(
+  const rows: DiffRow[] = await ds.query(
     `WITH scoped AS (
             SELECT r.*, ref.cases AS ref_cases
             FROM run_results r
@@ -40,20 +50,21 @@ export async function diffRuns(ds: DataSource, fromId: string, toId: string, sit
   // physician); the earlier run's figures are the physician's (see runFrame).
   const frame = await runFrame(ds, toId, reader.principal);
   const t = reader.smallCellThreshold;
-  const side = (r: Row, p: 'a' | 'b') => {
-    const cases = r[`${p}_cases`] as number | null;
-    if (cases === null) return null;
-    if (p === 'a' && frame !== null) return { cases: null, suppressed: true, withheld: 'earlier' as const, hours: r.a_hours, rate: null, irr: null };
+  const side = (r: DiffRow, p: 'a' | 'b') => {
+    // Both are NOT NULL in a stored result: null together where the run has no row for the cell.
+    const [cases, hours] = [r[`${p}_cases`], r[`${p}_hours`]];
+    if (cases === null || hours === null) return null;
+    if (p === 'a' && frame !== null) return { cases: null, suppressed: true, withheld: 'earlier' as const, hours, rate: null, irr: null };
     const withheld = withheldOf(frame, cases, siteId, r.outcome_id, r.exposure_group_id, r.window_kind, r.period, t);
-    const refGroup = r[`${p}_ref_group`] as number | null;
-    const refCases = r[`${p}_ref_cases`] as number | null;
+    const refGroup = r[`${p}_ref_group`];
+    const refCases = r[`${p}_ref_cases`];
     const refWithheld =
       refGroup !== null && refCases !== null && withheldOf(frame, refCases, siteId, r.outcome_id, refGroup, r.window_kind, r.period, t) !== null;
     // The IRR is withheld with the count: with the reference row it would give the count back; and
     // with the reference count: with the group's rate it would give that back.
     return withheld
-      ? { cases: null, suppressed: true, withheld, hours: r[`${p}_hours`], rate: null, irr: null }
-      : { cases, suppressed: false, withheld, hours: r[`${p}_hours`], rate: n(r[`${p}_rate`]), irr: refWithheld ? null : n(r[`${p}_irr`]) };
+      ? { cases: null, suppressed: true, withheld, hours, rate: null, irr: null }
+      : { cases, suppressed: false, withheld, hours, rate: n(r[`${p}_rate`]), irr: refWithheld ? null : n(r[`${p}_irr`]) };
   };
   const changed = rows.filter((r) => r.changed);
   return {

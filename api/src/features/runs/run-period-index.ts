@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import type { StoredResult } from '@ratewarden/db/run-results';
 import type { RunPeriodIndex, RunPeriodIndexQuery } from '@ratewarden/shared/runs';
 import { runFrame, withheldCount } from '../../disclosure/run-frame';
 import { completenessOf, runPeriodBook, runWindowContext } from './run-periods';
@@ -15,7 +16,7 @@ export async function runPeriodIndex(ds: DataSource, runId: string, q: RunPeriod
   const run = await getRun(ds, runId);
   const siteId = await resultScope(ds, reader.principal, q.siteId);
   const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
-  const rows: Array<{ period: string; exposure_group_id: number; cases: number }> = await ds.query(
+  const rows: Array<Pick<StoredResult, 'period' | 'exposure_group_id' | 'cases'>> = await ds.query(
     `SELECT to_char(period, 'YYYY-MM-DD') AS period, exposure_group_id, cases FROM run_results
      WHERE run_id = $1 AND site_id IS NOT DISTINCT FROM $2::int AND outcome_id = $3 AND window_kind = $4
      ORDER BY period DESC`,

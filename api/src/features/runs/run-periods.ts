@@ -1,8 +1,10 @@
-import type { DataSource } from 'typeorm';
+import { In, type DataSource } from 'typeorm';
+import { RunPeriodEntity } from '@ratewarden/db/entities/run-period';
+import { SiteEntity } from '@ratewarden/db/entities/site';
 import { pendingRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { PendingRunAnswer, RunDetail } from '@ratewarden/shared/runs';
-import { PeriodBook, type CompleteThrough, type Completeness, type PeriodState } from '@ratewarden/shared/periods';
+import { PeriodBook, type CompleteThrough, type Completeness } from '@ratewarden/shared/periods';
 import { windowContextOf, type WindowContext, type WindowKind } from '@ratewarden/shared/windows';
 import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
@@ -15,11 +17,8 @@ import { RunMemo } from '../../lib/run-memo';
  */
 export function runPeriodBook(ds: DataSource, runId: string): Promise<PeriodBook> {
   return books.get(runId, async () => {
-    const rows: Array<{ site_id: number; month: string; state: PeriodState; roster: boolean | null; retired: boolean }> = await ds.query(
-      `SELECT site_id, to_char(month, 'YYYY-MM-DD') AS month, state, roster, retired FROM run_periods WHERE run_id = $1`,
-      [runId],
-    );
-    return new PeriodBook(rows.map((r) => ({ siteId: r.site_id, month: r.month, state: r.state, roster: r.roster, retired: r.retired })));
+    const periods = await ds.getRepository(RunPeriodEntity).find({ where: { runId } });
+    return new PeriodBook(periods.map((r) => ({ siteId: r.siteId, month: r.month, state: r.state, roster: r.roster, retired: r.retired })));
   });
 }
 
@@ -53,9 +52,7 @@ export const runWindowContext = (run: Pick<RunDetail, 'settings'>): WindowContex
 export async function completeThroughFor(ds: DataSource, runId: string, principal: Principal): Promise<CompleteThrough> {
   const book = await runPeriodBook(ds, runId);
   const scope = siteScope(principal);
-  const sites: Array<{ id: number }> = await ds.query(`SELECT id FROM sites WHERE $1::int[] IS NULL OR id = ANY($1::int[]) ORDER BY id`, [
-    scope === 'all' ? null : scope,
-  ]);
+  const sites = await ds.getRepository(SiteEntity).find({ select: { id: true }, where: scope === 'all' ? {} : { id: In(scope) }, order: { id: 'ASC' } });
   return {
     company: (await readsEverySite(ds, principal)) ? book.latestComplete() : null,
     sites: sites.map((s) => ({ siteId: s.id, month: book.latestComplete([s.id]) })),

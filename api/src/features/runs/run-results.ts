@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import type { ResultAdjustment, ResultInterval, StoredResult } from '@ratewarden/db/run-results';
 import type { RunResult, RunResultsQuery } from '@ratewarden/shared/runs';
 import { toJsonValue } from '@ratewarden/shared/stats';
 import { resultScope } from '../../disclosure/result-scope';
@@ -8,9 +9,13 @@ import { isTwelveMonthWindow } from '@ratewarden/shared/windows';
 import { completenessOf, runPeriodBook, runWindowContext } from './run-periods';
 import { getRun } from './runs-service';
 
-type Row = Record<string, any>;
+/**
+ * A stored result as listResults reads it (`r.*`): node-postgres gives its period as a Date, so
+ * the statement adds it as YYYY-MM-DD (`period_iso`), with the reference group's count beside it.
+ */
+type ResultRead = Omit<StoredResult, 'period'> & { period: Date; period_iso: string; ref_cases: number | null };
 
-const limits = (r: Row, p: string) => ({ estimate: n(r[p]), lower: n(r[`${p}_lower`]), upper: n(r[`${p}_upper`]) });
+const limits = (r: ResultRead, p: ResultInterval) => ({ estimate: n(r[p]), lower: n(r[`${p}_lower` as const]), upper: n(r[`${p}_upper` as const]) });
 
 const nullLimits = () => ({ estimate: null, lower: null, upper: null });
 
@@ -37,7 +42,7 @@ const MH_DETAIL = {
  * shown only where they are: by age band and by sex where the company's stratum tables of both
  * groups are shown (run-strata.ts: twelve-month windows ending in December), by site where every site's count of both groups is.
  */
-function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): Omit<RunResult, 'completeness'> {
+function resultOf(r: ResultRead, reader: ResultReader, frame: RunFrame | null, sitesWithheld: Set<string>): Omit<RunResult, 'completeness'> {
   const t = reader.smallCellThreshold;
   const withheld = withheldOf(frame, r.cases, r.site_id, r.outcome_id, r.exposure_group_id, r.window_kind, r.period_iso, t);
   const suppressed = withheld !== null;
@@ -56,8 +61,8 @@ function resultOf(r: Row, reader: ResultReader, frame: RunFrame | null, sitesWit
     sex: !hide && strataShown('sex'),
     site: !hide && (frame === null || (r.site_id === null && groups.every((g) => !sitesWithheld.has(`${r.outcome_id}|${g}|${r.window_kind}|${r.period_iso}`)))),
   };
-  const mh = (by: 'age' | 'site' | 'sex') => {
-    const p = `mh_${by}`;
+  const mh = (by: ResultAdjustment) => {
+    const p = `mh_${by}` as const;
     return open[by]
       ? { irr: { ...limits(r, `${p}_irr`), p: r[`${p}_irr_p`] }, ird: limits(r, `${p}_ird`) }
       : { irr: { ...nullLimits(), p: null }, ird: nullLimits() };
@@ -104,7 +109,7 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
   const run = await getRun(ds, runId); // a run's existence is not scoped (the run list shows every run)
   const siteId = await resultScope(ds, reader.principal, q.siteId);
   const frame = await runFrame(ds, runId, reader.principal, q.outcomeId);
-  const rows: Row[] = await ds.query(
+  const rows: ResultRead[] = await ds.query(
     `SELECT r.*, to_char(r.period, 'YYYY-MM-DD') AS period_iso, ref.cases AS ref_cases
      FROM run_results r
      LEFT JOIN run_results ref ON ref.run_id = r.run_id AND ref.site_id IS NOT DISTINCT FROM r.site_id AND ref.outcome_id = r.outcome_id

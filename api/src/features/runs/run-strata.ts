@@ -1,4 +1,6 @@
 import type { DataSource } from 'typeorm';
+import type { StoredResult } from '@ratewarden/db/run-results';
+import { SiteEntity } from '@ratewarden/db/entities/site';
 import type { Withheld } from '@ratewarden/shared/small-cells';
 import { ageBandEdgesOf, ageBandLabel } from '@ratewarden/shared/age-bands';
 import type { RunSettings, RunStrata, RunStrataQuery, RunStratum } from '@ratewarden/shared/runs';
@@ -32,7 +34,7 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
   const siteId = await resultScope(ds, reader.principal, q.siteId);
   if (q.by === 'site' && siteId !== null)
     throw new AppError('bad_request', 'one site is a single site stratum: stratify by age band or sex, or read the whole company');
-  const [row]: Array<{ cases: number; reference_group_id: number | null; is_reference: boolean }> = await ds.query(
+  const [row]: Array<Pick<StoredResult, 'cases' | 'reference_group_id' | 'is_reference'>> = await ds.query(
     `SELECT cases, reference_group_id, is_reference FROM run_results
      WHERE run_id = $1 AND site_id IS NOT DISTINCT FROM $2::int AND outcome_id = $3 AND exposure_group_id = $4 AND window_kind = $5 AND period = $6`,
     [runId, siteId, q.outcomeId, q.exposureGroupId, q.window, q.period],
@@ -57,9 +59,7 @@ export async function runStrata(ds: DataSource, runId: string, q: RunStrataQuery
     arms.set(k, m);
   }
   const siteNames =
-    q.by === 'site'
-      ? new Map(((await ds.query(`SELECT id, name FROM sites`)) as Array<{ id: number; name: string }>).map((s) => [String(s.id), s.name]))
-      : null;
+    q.by === 'site' ? new Map((await ds.getRepository(SiteEntity).find({ select: { id: true, name: true } })).map((s) => [String(s.id), s.name])) : null;
   const label = (k: string) =>
     k === ''
       ? 'not recorded'

@@ -1,4 +1,6 @@
 import type { DataSource } from 'typeorm';
+import { CurrentRunEntity } from '@ratewarden/db/entities/current-run';
+import { RunEntity } from '@ratewarden/db/entities/run';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { RunDetail } from '@ratewarden/shared/runs';
 import { splitSuppression } from '@ratewarden/shared/small-cells';
@@ -53,7 +55,12 @@ export async function unattributedFor(ds: DataSource, run: RunDetail, reader: Re
  */
 export async function listUnattributed(ds: DataSource, principal: Principal, ip?: string): Promise<UnattributedList> {
   const scope = (await readsEverySite(ds, principal)) ? null : siteScope(principal);
-  const [run]: Array<{ id: string; number: string }> = await ds.query(`SELECT r.id, r.number FROM current_run c JOIN runs r ON r.id = c.run_id`);
+  const run = await ds
+    .getRepository(RunEntity)
+    .createQueryBuilder('r')
+    .innerJoin(CurrentRunEntity.options.name, 'c', 'c.runId = r.id')
+    .select(['r.id', 'r.number'])
+    .getOne();
   if (!run) throw new AppError('not_found', 'no run has succeeded yet');
   const rows: Array<{
     case_ref: string;

@@ -1,4 +1,6 @@
 import type { DataSource } from 'typeorm';
+import { CurrentRunEntity } from '@ratewarden/db/entities/current-run';
+import { RunEntity, type Run } from '@ratewarden/db/entities/run';
 import { requestRun as requestRunOf } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { RunDetail, RunRequested, RunSummary } from '@ratewarden/shared/runs';
@@ -11,32 +13,29 @@ import { unattributedFor } from './run-unattributed';
 // Runs as records: the list, one run's detail as its reader may see it, and the run button.
 // Their results: run-results.ts; the difference between two runs: run-diff.ts.
 
-type Row = Record<string, any>;
-
-const runCols = `r.id, r.number, r.trigger, r.reason, r.state, r.started_at, r.finished_at, r.error, r.code_version,
-  r.inputs, r.settings, r.settings_version, r.worker, r.summary, (cr.run_id IS NOT NULL) AS is_current`;
-const runFrom = `runs r LEFT JOIN current_run cr ON cr.run_id = r.id`;
+/** A run with whether it is the current one (current_run points at it). */
+type RunRecord = Run & { isCurrent: boolean };
 
 const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
 
-function summaryOf(r: Row): RunSummary {
+function summaryOf(r: RunRecord): RunSummary {
   return {
     id: r.id,
     number: Number(r.number),
     trigger: r.trigger,
     reason: r.reason,
     state: r.state,
-    isCurrent: r.is_current,
-    startedAt: iso(r.started_at)!,
-    finishedAt: iso(r.finished_at),
+    isCurrent: r.isCurrent,
+    startedAt: iso(r.startedAt)!,
+    finishedAt: iso(r.finishedAt),
     error: r.error,
-    codeVersion: r.code_version,
-    settingsVersion: r.settings_version ?? null,
+    codeVersion: r.codeVersion,
+    settingsVersion: r.settingsVersion ?? null,
     resultCount: typeof r.summary?.results === 'number' ? r.summary.results : null,
   };
 }
 
-function detailOf(r: Row): RunDetail {
+function detailOf(r: RunRecord): RunDetail {
   return {
     ...summaryOf(r),
     inputs: { rosterIntakeIds: r.inputs.rosterIntakeIds ?? [], caseIntakeIds: r.inputs.caseIntakeIds ?? [], requestIds: r.inputs.requestIds ?? [] },
@@ -46,6 +45,18 @@ function detailOf(r: Row): RunDetail {
     unattributed: null,
     completeThrough: null,
   };
+}
+
+/** Runs read with the current-run pointer beside them (one statement), `where` applied to the run `r`. */
+async function readRuns(ds: DataSource, filter: { id?: string; current?: true; limit?: number }): Promise<RunRecord[]> {
+  const qb = ds.getRepository(RunEntity).createQueryBuilder('r').addSelect('cr.runId', 'current_run_id');
+  if (filter.current) qb.innerJoin(CurrentRunEntity.options.name, 'cr', 'cr.runId = r.id');
+  else qb.leftJoin(CurrentRunEntity.options.name, 'cr', 'cr.runId = r.id');
+  if (filter.id !== undefined) qb.where('r.id = :id', { id: filter.id });
+  if (filter.limit !== undefined) qb.orderBy('r.number', 'DESC').limit(filter.limit);
+  const { entities, raw } = await qb.getRawAndEntities<{ current_run_id: string | null }>();
+  const current = new Set(raw.flatMap((r) => (r.current_run_id ? [r.current_run_id] : [])));
+  return entities.map((r) => ({ ...r, isCurrent: current.has(r.id) }));
 }
 
 /**
@@ -68,17 +79,13 @@ export function summaryPart(d: RunDetail): RunSummary {
 }
 
 export async function listRuns(ds: DataSource, limit = 100): Promise<RunSummary[]> {
-  const rows: Row[] = await ds.query(`SELECT ${runCols} FROM ${runFrom} ORDER BY r.number DESC LIMIT $1`, [limit]);
-  return rows.map(summaryOf);
+  return (await readRuns(ds, { limit })).map(summaryOf);
 }
 
 export async function getRun(ds: DataSource, id: string | 'current'): Promise<RunDetail> {
-  const rows: Row[] =
-    id === 'current'
-      ? await ds.query(`SELECT ${runCols} FROM current_run c JOIN runs r ON r.id = c.run_id LEFT JOIN current_run cr ON cr.run_id = r.id`)
-      : await ds.query(`SELECT ${runCols} FROM ${runFrom} WHERE r.id = $1`, [id]);
-  if (!rows[0]) throw new AppError('not_found', id === 'current' ? 'no run has succeeded yet' : 'no such run');
-  return detailOf(rows[0]);
+  const [run] = await readRuns(ds, id === 'current' ? { current: true } : { id });
+  if (!run) throw new AppError('not_found', id === 'current' ? 'no run has succeeded yet' : 'no such run');
+  return detailOf(run);
 }
 
 /** The run button: a request the worker picks up within seconds (immediate: it does not wait for uploads to settle). */
