@@ -77,7 +77,7 @@ const APPLY_MONTHS = 15;
  * web/src/features/results/api/*.ts, results-frame.tsx): the session, the run summary and
  * history, the pending run; for the overview and comparison pages the period index of an outcome's
  * window, then that window's rows of the period the page opens on; for the trends page every
- * result of the outcome; a stratum table; the flag list, the periods calendar and the
+ * period of its window and of the months (its control chart); a stratum table; the flag list, the periods calendar and the
  * configuration lists. Readers of every site read the company, the safety manager one of their sites.
  */
 function readRoutes(ids: {
@@ -90,6 +90,8 @@ function readRoutes(ids: {
   const run = `/api/runs/${ids.runId}`;
   const o = `outcomeId=${ids.outcomeId}`;
   const site = `siteId=${ids.siteId}`;
+  // As the trends page asks (results-frame.tsx): its window (rolling 12 by default) and the months.
+  const trends = `windows=month,rolling12`;
   const onePeriod = (p: string) => `${run}/results?${o}&window=rolling12&from=${p}&to=${p}`;
   return [
     { label: 'session', reader: 'hygienist', path: '/api/session' },
@@ -102,8 +104,8 @@ function readRoutes(ids: {
     { label: 'results of one period, company (physician)', reader: 'physician', path: onePeriod(ids.period.physician) },
     { label: 'period index of an outcome, one site (safety manager)', reader: 'safety', path: `${run}/periods?${o}&window=rolling12&${site}` },
     { label: 'results of one period, one site (safety manager)', reader: 'safety', path: `${onePeriod(ids.period.site)}&${site}` },
-    { label: 'results of every period, company (hygienist, trends)', reader: 'hygienist', path: `${run}/results?${o}` },
-    { label: 'results of every period, one site (safety manager, trends)', reader: 'safety', path: `${run}/results?${o}&${site}` },
+    { label: 'results of every period, company (hygienist, trends)', reader: 'hygienist', path: `${run}/results?${o}&${trends}` },
+    { label: 'results of every period, one site (safety manager, trends)', reader: 'safety', path: `${run}/results?${o}&${trends}&${site}` },
     {
       label: 'stratum table by age (hygienist)',
       reader: 'hygienist',

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { caseStatusSchema } from './intake';
-import { monthIsoSchema, windowKindSchema } from './windows';
+import { monthIsoSchema, windowKindSchema, windowKinds } from './windows';
 import { unattributedCountSchema } from './unattributed';
 import { completenessSchema, completeThroughSchema } from './periods';
 
@@ -167,6 +167,12 @@ export const runResultsQuerySchema = z.object({
   outcomeId: z.coerce.number().int().positive().optional(),
   exposureGroupId: z.coerce.number().int().positive().optional(),
   window: windowKindSchema.optional(),
+  /** Several windows, comma-separated (the trends page: its window and the months of its control chart). */
+  windows: z
+    .string()
+    .transform((s) => s.split(','))
+    .pipe(z.array(windowKindSchema).min(1).max(windowKinds.length))
+    .optional(),
   from: z.iso.date().optional(),
   to: z.iso.date().optional(),
 });

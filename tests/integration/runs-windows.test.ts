@@ -174,6 +174,26 @@ describe('analysis windows: quarter, year and whole period', () => {
     expect(index.periods.every((p) => !p.someGroupShown)).toBe(true);
   });
 
+  it('several windows in one read (the trends page) give exactly the rows of each window read alone, for each role', async () => {
+    for (const who of [as.physician, as.hygienist]) {
+      const get = async (query: Record<string, string | number>) =>
+        runResultSchema.array().parse(
+          (
+            await who.agent
+              .get(`/api/runs/${runId}/results`)
+              .query({ outcomeId: c.outcomes.WIN, ...query })
+              .expect(200)
+          ).body,
+        );
+      const both = await get({ windows: 'month,quarter' });
+      const alone = [...(await get({ window: 'month' })), ...(await get({ window: 'quarter' }))];
+      expect(new Set(both.map((r) => r.window))).toEqual(new Set(['month', 'quarter']));
+      const key = (r: { exposureGroupId: number; window: string; period: string }) => `${r.exposureGroupId}|${r.window}|${r.period}`;
+      expect([...both].sort((a, b) => key(a).localeCompare(key(b)))).toEqual([...alone].sort((a, b) => key(a).localeCompare(key(b))));
+    }
+    await as.hygienist.agent.get(`/api/runs/${runId}/results`).query({ outcomeId: c.outcomes.WIN, windows: 'month,fortnight' }).expect(422);
+  });
+
   it("stratum tables of a quarter: the physician's add up to the quarter; everyone else's are withheld whole", async () => {
     const q = { outcomeId: c.outcomes.WIN, exposureGroupId: c.groups.EXP, window: 'quarter', period: '2031-03-01', by: 'sex' };
     const doctor = runStrataSchema.parse((await as.physician.agent.get(`/api/runs/${runId}/strata`).query(q).expect(200)).body);

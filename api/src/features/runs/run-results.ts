@@ -116,8 +116,9 @@ export async function listResults(ds: DataSource, runId: string, q: RunResultsQu
        AND ref.exposure_group_id = r.reference_group_id AND ref.window_kind = r.window_kind AND ref.period = r.period AND NOT r.is_reference
      WHERE r.run_id = $1 AND r.site_id IS NOT DISTINCT FROM $7::int AND ($2::int IS NULL OR r.outcome_id = $2) AND ($3::int IS NULL OR r.exposure_group_id = $3)
        AND ($4::text IS NULL OR r.window_kind = $4) AND ($5::date IS NULL OR r.period >= $5) AND ($6::date IS NULL OR r.period <= $6)
+       AND ($8::text[] IS NULL OR r.window_kind = ANY($8))
      ORDER BY r.outcome_id, r.exposure_group_id, r.window_kind, r.period`,
-    [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId],
+    [runId, q.outcomeId ?? null, q.exposureGroupId ?? null, q.window ?? null, q.from ?? null, q.to ?? null, siteId, q.windows ?? null],
   );
   const sitesWithheld = siteCountsWithheld(frame);
   const completeness = completenessOf(await runPeriodBook(ds, runId), runWindowContext(run));

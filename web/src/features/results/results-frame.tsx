@@ -95,7 +95,8 @@ export function ResultsFrame({
     run?.id ?? '',
     periodChoice
       ? { outcomeId: outcome?.id, window: filters.window, ...(period ? { from: period, to: period } : {}), ...scope }
-      : { outcomeId: outcome?.id, ...scope },
+      : // The trends page: every period of its window, and the months its control chart draws.
+        { outcomeId: outcome?.id, windows: [...new Set(['month', filters.window] as const)].sort(), ...scope },
     !periodChoice || (index.isSuccess && period !== null),
   );
   const siteOptions = [...(seesAllSites ? [{ value: '', label: 'All sites together' }] : []), ...ownSites.map((s) => ({ value: String(s.id), label: s.name }))];
