@@ -191,6 +191,19 @@ describe('intake checks (service level, real PostgreSQL)', () => {
         [4, 'case_ref', reasons.caseDuplicateEvent],
       ]);
     });
+
+    it('reports a case event stored under another reference, unless the file gives that reference another event', async () => {
+      const header = 'case_ref,worker_key,outcome,onset_date,status\n';
+      const stored = await c.upload('cases', `${header}D1{W},{W}003,{OA},2024-02-10,confirmed\n`, { mode: 'apply' });
+      expect(stored.intake.state).toBe('applied');
+      // The same worker, outcome and onset under a new reference: a duplicate of the stored case.
+      const twice = await c.upload('cases', `${header}D2{W},{W}003,{OA},2024-02-10,suspected\n`);
+      expect(twice.intake.state).toBe('rejected');
+      expect(twice.intake.problems.map((p) => [p.line, p.column, p.reason])).toEqual([[2, 'case_ref', reasons.caseDuplicateEvent]]);
+      // The stored reference moved to another day in the same file: the new reference may take the event.
+      const moved = await c.upload('cases', `${header}D1{W},{W}003,{OA},2024-02-11,confirmed\nD2{W},{W}003,{OA},2024-02-10,suspected\n`);
+      expect(moved.intake.problems).toEqual([]);
+    });
   });
 
   it('derives the zod row schema from the same rules (same reasons as SQL)', () => {

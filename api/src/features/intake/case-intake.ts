@@ -35,6 +35,9 @@ export async function checkCases(client: PoolClient, stg: string, bounds: CellBo
     LEFT JOIN workers w ON w.worker_key = ${cell('s', 'worker_key')}
     LEFT JOIN case_events ce ON ce.case_ref = ${cell('s', 'case_ref')} AND ce.superseded_by IS NULL
     WHERE ${isCalendarDateSql(cell('s', 'onset_date'), onsetRule)}`);
+  // Autovacuum never analyzes a temporary table: without statistics the duplicate check below
+  // compared every case with every other (2.1 s for 4,613 cases instead of a hash join).
+  await client.query(`ANALYZE pg_temp.intake_cases`);
 
   await client.query(`
     INSERT INTO intake_problems (line, col, val, reason)
@@ -51,16 +54,22 @@ export async function checkCases(client: PoolClient, stg: string, bounds: CellBo
       AND NOT EXISTS (SELECT 1 FROM roster_entries re JOIN roster_slices rs ON ${current}
                       WHERE re.worker_id = c.worker_id AND re.month = date_trunc('month', c.onset_date)::date)`);
 
-  // The same worker × outcome × onset under two case references: within the file or against the store.
+  // The same worker × outcome × onset under two case references: within the file or against the store
+  // (a stored case whose reference the file gives again is judged by the file's version). Two
+  // uncorrelated joins: as correlated EXISTS ... OR EXISTS they compared every case with every other
+  // (1.7 s for 4,613 cases, against 6 ms).
   await client.query(`
     INSERT INTO intake_problems (line, col, val, reason)
     SELECT c.line_no + 1, 'case_ref', c.case_ref, ${lit(reasons.caseDuplicateEvent)}
     FROM intake_cases c
-    WHERE c.worker_id IS NOT NULL AND (
-      EXISTS (SELECT 1 FROM intake_cases d WHERE d.worker_id = c.worker_id AND d.outcome_id = c.outcome_id AND d.onset_date = c.onset_date AND d.case_ref <> c.case_ref)
-      OR EXISTS (SELECT 1 FROM case_events e WHERE e.superseded_by IS NULL AND e.worker_id = c.worker_id AND e.outcome_id = c.outcome_id
-                 AND e.onset_date = c.onset_date AND e.case_ref <> c.case_ref
-                 AND e.case_ref NOT IN (SELECT case_ref FROM intake_cases)))`);
+    WHERE c.line_no IN (
+      SELECT a.line_no FROM intake_cases a
+      JOIN intake_cases d ON d.worker_id = a.worker_id AND d.outcome_id = a.outcome_id AND d.onset_date = a.onset_date AND d.case_ref <> a.case_ref
+      UNION
+      SELECT a.line_no FROM intake_cases a
+      JOIN case_events e ON e.superseded_by IS NULL AND e.worker_id = a.worker_id AND e.outcome_id = a.outcome_id AND e.onset_date = a.onset_date
+        AND e.case_ref <> a.case_ref
+      WHERE NOT EXISTS (SELECT 1 FROM intake_cases x WHERE x.case_ref = e.case_ref))`);
 }
 
 /** Sites of the rostered months the cases fall in, for site scoping. */
