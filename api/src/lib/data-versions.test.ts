@@ -66,4 +66,24 @@ describe('freshVersions', () => {
     started[1]!.resolve(versions(2));
     expect([await a, await b]).toEqual([versions(1), versions(2)]);
   });
+
+  it('does not hold callers behind a read that stalls: after the patience their own read starts', async () => {
+    const ds = {} as DataSource;
+    const { started, read, versions } = controlledReads();
+    const stalled = freshVersions(ds, read, 20);
+    const waiting = freshVersions(ds, read, 20);
+    expect(started).toHaveLength(1);
+    await new Promise((r) => setTimeout(r, 40));
+    expect(started).toHaveLength(2);
+    started[1]!.resolve(versions(2));
+    expect(await waiting).toEqual(versions(2));
+    // The stalled read still ends for its own caller, and replaces nothing newer.
+    started[0]!.resolve(versions(1));
+    expect(await stalled).toEqual(versions(1));
+    await tick();
+    const next = freshVersions(ds, read, 20);
+    expect(started).toHaveLength(3);
+    started[2]!.resolve(versions(3));
+    expect(await next).toEqual(versions(3));
+  });
 });

@@ -44,15 +44,22 @@ interface Reads {
 }
 const readsOf = new WeakMap<DataSource, Reads>();
 
+/** How long callers wait for a running read to end before their own starts anyway (a stalled connection must not hold every request). */
+export const VERSIONS_PATIENCE_MS = 500;
+
 /**
  * The versions as of a moment after this call: a read that starts now, or, while one is already
- * running, the next read, which starts when it ends and is shared by every caller that asked in
- * between. A read that started before the call is never shared with it (its snapshot could miss a
- * commit the caller has seen). Under 50 readers this makes a few hundred queries a second instead
- * of one per request (hand-written: the usual request coalescers share the running call, which
- * would be stale here).
+ * running, the next read, which starts when it ends (or after `patienceMs`) and is shared by every
+ * caller that asked in between. A read that started before the call is never shared with it (its
+ * snapshot could miss a commit the caller has seen). Under 50 readers this makes a few hundred
+ * queries a second instead of one per request (hand-written: the usual request coalescers share
+ * the running call, which would be stale here).
  */
-export function freshVersions(ds: DataSource, read: (ds: DataSource) => Promise<DataVersions> = readVersions): Promise<DataVersions> {
+export function freshVersions(
+  ds: DataSource,
+  read: (ds: DataSource) => Promise<DataVersions> = readVersions,
+  patienceMs = VERSIONS_PATIENCE_MS,
+): Promise<DataVersions> {
   let reads = readsOf.get(ds);
   if (!reads) readsOf.set(ds, (reads = { running: null, queued: null }));
   const r = reads;
@@ -67,11 +74,19 @@ export function freshVersions(ds: DataSource, read: (ds: DataSource) => Promise<
   };
   if (!r.running) return start();
   if (!r.queued) {
-    const after = () => {
+    const running = r.running;
+    const queued = new Promise<void>((resolve) => {
+      const timer = setTimeout(resolve, patienceMs);
+      const done = () => {
+        clearTimeout(timer);
+        resolve();
+      };
+      running.then(done, done);
+    }).then(() => {
       r.queued = null;
       return start();
-    };
-    r.queued = r.running.then(after, after);
+    });
+    r.queued = queued;
   }
   return r.queued;
 }
