@@ -69,7 +69,7 @@ async function physiciansOf(em: EntityManager): Promise<Array<{ email: string; s
   return [...byEmail].map(([email, siteIds]) => ({ email, siteIds }));
 }
 
-/** The open flag of a rule × group × outcome × scope, locked for this run's change. */
+/** The flags of a verdict's rule × group × outcome × scope (a site, or the company: site null). */
 const scopeOf = (v: ScopedVerdict) => ({ ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, outcomeId: v.outcomeId, siteId: v.siteId ?? IsNull() });
 
 /** A flag's figures as stored: jsonb has no ±∞, spelled as strings (json-encoding.ts), which FlagFigures allows. */
