@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { stringifyJson, toJsonValue } from './json-encoding';
+import { stringifyJson, toJsonObject, toJsonValue } from './json-encoding';
 
 describe('JSON encoding of results', () => {
   it('stringifyJson writes what JSON.stringify(toJsonValue(x)) writes (property over nested values with ±∞, NaN and undefined)', () => {
@@ -27,5 +27,12 @@ describe('JSON encoding of results', () => {
 
   it('spells infinities as strings and keeps full precision (the CLI and published-examples convention)', () => {
     expect(stringifyJson({ upper: Infinity, lower: 0.1 + 0.2, p: Number.NaN })).toBe('{"upper":"Infinity","lower":0.30000000000000004,"p":null}');
+  });
+
+  it('toJsonObject encodes an object as toJsonValue does, nested infinities included', () => {
+    expect(toJsonObject({ upper: Infinity, seconds: { total: -Infinity, p: Number.NaN }, skip: undefined })).toEqual({
+      upper: 'Infinity',
+      seconds: { total: '-Infinity', p: null },
+    });
   });
 });

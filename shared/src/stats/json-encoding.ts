@@ -30,6 +30,15 @@ export function toJsonValue(value: unknown): JsonValue {
   return null;
 }
 
+/**
+ * toJsonValue of an object, typed as one: what a jsonb column of details stores.
+ * @example toJsonObject({ upper: Infinity, lower: 0.5 }) // { upper: 'Infinity', lower: 0.5 }
+ */
+export function toJsonObject(value: object): { [key: string]: JsonValue } {
+  const encoded = toJsonValue(value);
+  return encoded !== null && typeof encoded === 'object' && !Array.isArray(encoded) ? encoded : {};
+}
+
 const nonFinite = (_key: string, v: unknown) =>
   typeof v === 'number' && !Number.isFinite(v) ? (Number.isNaN(v) ? null : v > 0 ? 'Infinity' : '-Infinity') : v;
 

@@ -1,5 +1,5 @@
-import type { EntityManager } from 'typeorm';
-import { toJsonValue } from '@ratewarden/shared/stats';
+import { In, IsNull, Not, type EntityManager } from 'typeorm';
+import { toJsonObject, toJsonValue } from '@ratewarden/shared/stats';
 import type { FlagFigures } from '@ratewarden/shared/flags';
 import type { RuleMeasure, ThresholdOn, RuleWindow } from '@ratewarden/shared/rules';
 import type { RunSettings } from '@ratewarden/shared/runs';
@@ -7,6 +7,16 @@ import { DEFAULT_SMALL_CELL_THRESHOLD, isSmallCount } from '@ratewarden/shared/s
 import { randomUUID } from 'node:crypto';
 import { rolesWith } from '@ratewarden/shared/permissions';
 import { recordAudit } from '@ratewarden/db/audit-log';
+import {
+  ExposureGroupEntity,
+  FlagEntity,
+  FlagEventEntity,
+  NoticeEntity,
+  SiteEntity,
+  UserEntity,
+  UserSiteEntity,
+  type FlagRow,
+} from '@ratewarden/db/entities/index';
 import { composeMail, composeNotice, type NoticeKind } from '../notices/compose-notice';
 import type { ScopedVerdict } from '../rules/rule-verdicts';
 import { standingEscalations, withdrawnBy, type RunFlagEvent } from './escalations';
@@ -32,30 +42,38 @@ export interface FlagTally {
   notices: number;
 }
 
-interface OpenFlag {
-  id: string;
-  value: number;
-  worst_value: number;
-  crossing: boolean;
-}
-
 /**
  * The audit log is read by the administrator, who may not read aggregates: its entries name the
  * flag, rule, group, site and period, never a count or a measure's value.
  */
 async function audit(em: EntityManager, action: string, flagId: string, detail: Record<string, unknown>): Promise<void> {
-  await recordAudit(em, { actor: { kind: 'system', name: 'run' }, action, target: `flag:${flagId}`, detail: toJsonValue(detail) as Record<string, unknown> });
+  await recordAudit(em, { actor: { kind: 'system', name: 'run' }, action, target: `flag:${flagId}`, detail: toJsonObject(detail) });
 }
 
-async function addEvent(em: EntityManager, flagId: string, kind: string, runId: string, detail: Record<string, unknown>): Promise<string> {
-  const rows: Array<{ id: string }> = await em.query(`INSERT INTO flag_events (flag_id, kind, run_id, detail) VALUES ($1, $2, $3, $4) RETURNING id`, [
-    flagId,
-    kind,
-    runId,
-    JSON.stringify(toJsonValue(detail)),
-  ]);
-  return rows[0]!.id;
+async function addEvent(em: EntityManager, flagId: string, kind: NoticeKind | 'updated', runId: string, detail: Record<string, unknown>): Promise<string> {
+  const events = em.getRepository(FlagEventEntity);
+  return (await events.save(events.create({ flagId, kind, runId, detail: toJsonObject(detail) }))).id;
 }
+
+/** The physicians (who see small counts) by e-mail, with the sites of each, in e-mail order. */
+async function physiciansOf(em: EntityManager): Promise<Array<{ email: string; siteIds: number[] }>> {
+  const users = await em
+    .getRepository(UserEntity)
+    .find({ select: { id: true, email: true }, where: { role: In(rolesWith('counts:small')) }, order: { email: 'ASC' } });
+  const links = users.length ? await em.getRepository(UserSiteEntity).find({ where: { userId: In(users.map((u) => u.id)) } }) : [];
+  const sitesOfUser = new Map<string, number[]>();
+  for (const l of links) sitesOfUser.set(l.userId, [...(sitesOfUser.get(l.userId) ?? []), l.siteId]);
+  // Two accounts with one address are one recipient with the sites of both.
+  const byEmail = new Map<string, number[]>();
+  for (const u of users) byEmail.set(u.email, [...(byEmail.get(u.email) ?? []), ...(sitesOfUser.get(u.id) ?? [])]);
+  return [...byEmail].map(([email, siteIds]) => ({ email, siteIds }));
+}
+
+/** The flags of a verdict's rule × group × outcome × scope (a site, or the company: site null). */
+const scopeOf = (v: ScopedVerdict) => ({ ruleId: v.ruleId, exposureGroupId: v.exposureGroupId, outcomeId: v.outcomeId, siteId: v.siteId ?? IsNull() });
+
+/** A flag's figures as stored: jsonb has no ±∞, spelled as strings (json-encoding.ts), which FlagFigures allows. */
+const storedFigures = (figures: FlagFigures): FlagFigures => toJsonValue(figures) as FlagFigures;
 
 const auditAction: Record<NoticeKind, string> = {
   raised: 'flag.raise',
@@ -94,14 +112,10 @@ export async function applyVerdicts(
   smallCellThreshold = DEFAULT_SMALL_CELL_THRESHOLD,
 ): Promise<FlagTally> {
   const tally: FlagTally = { raised: 0, escalated: 0, eased: 0, updated: 0, cleared: 0, crossedAgain: 0, notRaisedAgain: 0, notices: 0 };
-  const physicians: Array<{ email: string; site_ids: number[] }> = await em.query(
-    `SELECT u.email, coalesce(array_agg(us.site_id) FILTER (WHERE us.site_id IS NOT NULL), '{}') AS site_ids
-     FROM users u LEFT JOIN user_sites us ON us.user_id = u.id WHERE u.role = ANY($1) GROUP BY u.email ORDER BY u.email`,
-    [rolesWith('counts:small')],
-  );
-  const groups: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM exposure_groups`);
+  const physicians = await physiciansOf(em);
+  const groups = await em.getRepository(ExposureGroupEntity).find({ select: { id: true, code: true, name: true } });
   const groupOf = new Map(groups.map((g) => [g.id, g]));
-  const sites: Array<{ id: number; code: string; name: string }> = await em.query(`SELECT id, code, name FROM sites`);
+  const sites = await em.getRepository(SiteEntity).find({ select: { id: true, code: true, name: true } });
   const siteOf = new Map(sites.map((s) => [s.id, s]));
 
   const notify = async (kind: NoticeKind, flagId: string, eventId: string, rule: RuleForFlags, v: ScopedVerdict) => {
@@ -133,7 +147,7 @@ export async function applyVerdicts(
     // A physician's notice has every figure; anyone else's leaves a small count out, as the app does.
     const full = composeNotice(facts);
     const withheld = isSmallCount(v.cases, smallCellThreshold) ? composeNotice({ ...facts, withholdFigures: { threshold: smallCellThreshold } }) : full;
-    const told = physicians.filter((p) => v.siteId === null || p.site_ids.includes(v.siteId));
+    const told = physicians.filter((p) => v.siteId === null || p.siteIds.includes(v.siteId));
     const physicianEmails = new Set(told.map((p) => p.email.trim().toLowerCase()));
     const recipients = [...new Set([...told.map((p) => p.email), ...rule.recipients].map((e) => e.trim().toLowerCase()).filter(Boolean))];
     for (const recipient of recipients) {
@@ -141,11 +155,26 @@ export async function applyVerdicts(
       // The inbox shows the notice; the e-mail only links to it.
       const id = randomUUID();
       const mail = composeMail(kind, id, appUrl);
-      await em.query(
-        `INSERT INTO notices (id, flag_id, flag_event_id, recipient, subject, body, mail_subject, mail_body, kind, period, completeness)
-         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11) ON CONFLICT DO NOTHING`,
-        [id, flagId, eventId, recipient, subject, text, mail.subject, mail.text, kind, v.period, v.completeness],
-      );
+      await em
+        .createQueryBuilder()
+        .insert()
+        .into(NoticeEntity)
+        .values({
+          id,
+          flagId,
+          flagEventId: eventId,
+          recipient,
+          subject,
+          body: text,
+          mailSubject: mail.subject,
+          mailBody: mail.text,
+          kind,
+          period: v.period,
+          completeness: v.completeness,
+        })
+        .orIgnore()
+        .updateEntity(false)
+        .execute();
       tally.notices++;
     }
   };
@@ -157,18 +186,17 @@ export async function applyVerdicts(
     await notify(kind, flagId, eventId, rule, v);
   };
 
+  const flags = em.getRepository(FlagEntity);
   for (const v of verdicts) {
     const rule = rules.get(v.ruleId)!;
-    const open: OpenFlag | undefined = (
-      await em.query(
-        `SELECT id, value, worst_value, crossing FROM flags
-         WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND site_id IS NOT DISTINCT FROM $4::int AND state <> 'closed' FOR UPDATE`,
-        [v.ruleId, v.exposureGroupId, v.outcomeId, v.siteId],
-      )
-    )[0];
+    const [open]: Array<Pick<FlagRow, 'id' | 'value' | 'worstValue' | 'crossing'>> = await flags.find({
+      select: { id: true, value: true, worstValue: true, crossing: true },
+      where: { ...scopeOf(v), state: Not('closed') },
+      lock: { mode: 'pessimistic_write' },
+    });
     if (!v.crossing || v.value === null) {
       if (open?.crossing) {
-        await em.query(`UPDATE flags SET crossing = false, last_run_id = $2, updated_at = now() WHERE id = $1`, [open.id, runId]);
+        await flags.update({ id: open.id }, { crossing: false, lastRunId: runId });
         await told('cleared', open.id, rule, v, { value: v.value });
         tally.cleared++;
       }
@@ -195,50 +223,60 @@ export async function applyVerdicts(
       per: settings.per,
       completeness: v.completeness,
     };
-    const detailJson = JSON.stringify(toJsonValue(figures));
+    const detail = storedFigures(figures);
 
     if (!open) {
-      const closed: Array<{ id: string; worst_value: number }> = await em.query(
-        `SELECT id, worst_value FROM flags WHERE rule_id = $1 AND exposure_group_id = $2 AND outcome_id = $3 AND site_id IS NOT DISTINCT FROM $4::int AND state = 'closed'
-         ORDER BY closed_at DESC NULLS LAST LIMIT 1`,
-        [v.ruleId, v.exposureGroupId, v.outcomeId, v.siteId],
-      );
-      if (closed[0] && !(value > closed[0].worst_value)) {
+      const closed = await flags.findOne({
+        select: { id: true, worstValue: true },
+        where: { ...scopeOf(v), state: 'closed' },
+        order: { closedAt: { direction: 'DESC', nulls: 'LAST' } },
+      });
+      if (closed && !(value > closed.worstValue)) {
         tally.notRaisedAgain++;
         continue;
       }
-      const rows: Array<{ id: string }> = await em.query(
-        `INSERT INTO flags (rule_id, outcome_id, exposure_group_id, site_id, raised_run_id, last_run_id, period, value, worst_value, detail)
-         VALUES ($1, $2, $3, $4, $5, $5, $6, $7, $7, $8) RETURNING id`,
-        [v.ruleId, v.outcomeId, v.exposureGroupId, v.siteId, runId, v.period, value, detailJson],
+      const raised = await flags.save(
+        flags.create({
+          ruleId: v.ruleId,
+          outcomeId: v.outcomeId,
+          exposureGroupId: v.exposureGroupId,
+          siteId: v.siteId,
+          raisedRunId: runId,
+          lastRunId: runId,
+          period: v.period,
+          value,
+          worstValue: value,
+          detail,
+        }),
       );
-      await told('raised', rows[0]!.id, rule, v, { value });
+      await told('raised', raised.id, rule, v, { value });
       tally.raised++;
       continue;
     }
 
-    const worse = value > open.worst_value;
+    const worse = value > open.worstValue;
     const events: RunFlagEvent[] = worse
       ? []
-      : await em.query(`SELECT kind, detail FROM flag_events WHERE flag_id = $1 AND run_id IS NOT NULL ORDER BY id`, [open.id]);
+      : await em
+          .getRepository(FlagEventEntity)
+          .find({ select: { kind: true, detail: true }, where: { flagId: open.id, runId: Not(IsNull()) }, order: { id: 'ASC' } });
     const withdrawal = worse ? null : withdrawnBy(standingEscalations(events), value);
-    const worst = withdrawal ? withdrawal.worstBefore : Math.max(open.worst_value, value);
+    const worst = withdrawal ? withdrawal.worstBefore : Math.max(open.worstValue, value);
     // The figures are this run's even when they have not changed: readers other than the
     // physician see a flag's figures only when they are the current run's (flag-suppression.ts).
     const changed = worse || withdrawal !== null || value !== open.value || !open.crossing;
-    await em.query(
-      `UPDATE flags SET last_run_id = $2, period = $3, value = $4, worst_value = $5, crossing = true, detail = $6,
-         updated_at = CASE WHEN $7 THEN now() ELSE updated_at END WHERE id = $1`,
-      [open.id, runId, v.period, value, worst, detailJson, changed],
+    await flags.update(
+      { id: open.id },
+      { lastRunId: runId, period: v.period, value, worstValue: worst, crossing: true, detail, updatedAt: () => (changed ? 'now()' : 'updated_at') },
     );
     if (worse) {
-      await told('escalated', open.id, rule, v, { value, previousWorst: open.worst_value });
+      await told('escalated', open.id, rule, v, { value, previousWorst: open.worstValue });
       tally.escalated++;
     } else if (!open.crossing) {
-      await told('crossed_again', open.id, rule, v, { value, ...(withdrawal ? { withdrawn: withdrawal.withdrawn, previousWorst: open.worst_value } : {}) });
+      await told('crossed_again', open.id, rule, v, { value, ...(withdrawal ? { withdrawn: withdrawal.withdrawn, previousWorst: open.worstValue } : {}) });
       tally.crossedAgain++;
     } else if (withdrawal) {
-      await told('eased', open.id, rule, v, { value, withdrawn: withdrawal.withdrawn, previousWorst: open.worst_value });
+      await told('eased', open.id, rule, v, { value, withdrawn: withdrawal.withdrawn, previousWorst: open.worstValue });
       tally.eased++;
     } else if (value !== open.value) {
       await addEvent(em, open.id, 'updated', runId, { period: v.period, value, previous: open.value });

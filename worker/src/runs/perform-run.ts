@@ -1,13 +1,21 @@
 import { hostname } from 'node:os';
-import type { DataSource, EntityManager, QueryRunner } from 'typeorm';
-import { toJsonValue } from '@ratewarden/shared/stats';
+import { In, IsNull, MoreThanOrEqual, type DataSource, type EntityManager, type QueryRunner } from 'typeorm';
+import { stringifyJson } from '@ratewarden/shared/stats';
 import type { RunInputs, RunSettings, RunTrigger } from '@ratewarden/shared/runs';
 import { DEFAULT_SMALL_CELL_THRESHOLD } from '@ratewarden/shared/small-cells';
 import { ageBandEdgesOf } from '@ratewarden/shared/age-bands';
 import { PeriodBook, type SitePeriod } from '@ratewarden/shared/periods';
 import { readSitePeriods } from '@ratewarden/db/reporting-periods';
 import { refreshPlannerStatistics } from '@ratewarden/db/planner-statistics';
-import { ExposureGroupEntity, OutcomeEntity, WatchRuleEntity } from '@ratewarden/db/entities/index';
+import {
+  CaseEventEntity,
+  ExposureGroupEntity,
+  OutcomeEntity,
+  RosterSliceEntity,
+  RunEntity,
+  RunRequestEntity,
+  WatchRuleEntity,
+} from '@ratewarden/db/entities/index';
 import { disclosureFrame } from '../disclosure/disclosure-frame';
 import { storeFrame } from '../disclosure/store-frame';
 import { applyVerdicts, type FlagTally, type RuleForFlags } from '../flags/apply-verdicts';
@@ -87,15 +95,15 @@ export async function performRun(ds: DataSource, options: PerformRunOptions): Pr
 }
 
 async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<RunOutcome> {
+  const runs = qr.manager.getRepository(RunEntity);
   // Holding the lock, any run still "running" belongs to a process that died mid-run.
-  await qr.query(`UPDATE runs SET state = 'failed', finished_at = now(), error = $1 WHERE state = 'running'`, [INTERRUPTED]);
-  if (options.notBefore) {
-    const ran: unknown[] = await qr.query(`SELECT 1 FROM runs WHERE started_at >= $1 LIMIT 1`, [options.notBefore]);
-    if (ran.length) return { status: 'skipped', reason: 'already ran' };
-  }
+  await runs.update({ state: 'running' }, { state: 'failed', finishedAt: () => 'now()', error: INTERRUPTED });
+  if (options.notBefore && (await runs.existsBy({ startedAt: MoreThanOrEqual(options.notBefore) }))) return { status: 'skipped', reason: 'already ran' };
   let requests: Array<{ id: string; reason: string }> = [];
   if (options.consumeRequests) {
-    requests = await qr.query(`SELECT id::text AS id, reason FROM run_requests WHERE picked_at IS NULL ORDER BY requested_at`);
+    requests = await qr.manager
+      .getRepository(RunRequestEntity)
+      .find({ select: { id: true, reason: true }, where: { pickedAt: IsNull() }, order: { requestedAt: 'ASC' } });
     if (requests.length === 0 && options.trigger === 'request') return { status: 'skipped', reason: 'nothing requested' };
   }
   const requestIds = requests.map((r) => r.id);
@@ -110,15 +118,21 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
   const started = performance.now();
   const threshold = options.smallCellThreshold ?? DEFAULT_SMALL_CELL_THRESHOLD;
   const { version: settingsVersion, settings } = await currentAnalysisSettings(qr, options.settings);
-  const [run]: Array<{ id: string }> = await qr.query(
-    `INSERT INTO runs (trigger, reason, settings, settings_version, code_version, worker, inputs) VALUES ($1, $2, $3, $4, $5, $6, $7) RETURNING id`,
-    [options.trigger, reason, JSON.stringify(settings), settingsVersion, RUN_CODE_VERSION, `${hostname()}:${process.pid}`, JSON.stringify({ requestIds })],
+  const run = await runs.save(
+    runs.create({
+      trigger: options.trigger,
+      reason,
+      settings,
+      settingsVersion,
+      codeVersion: RUN_CODE_VERSION,
+      worker: `${hostname()}:${process.pid}`,
+      inputs: { requestIds },
+    }),
   );
-  const runId = run!.id;
-  const markPicked = (em: EntityManager | QueryRunner) =>
-    requestIds.length
-      ? em.query(`UPDATE run_requests SET picked_at = now() WHERE id::text = ANY($1::text[]) AND picked_at IS NULL`, [requestIds])
-      : Promise.resolve();
+  const runId = run.id;
+  const markPicked = async (em: EntityManager) => {
+    if (requestIds.length) await em.getRepository(RunRequestEntity).update({ id: In(requestIds), pickedAt: IsNull() }, { pickedAt: () => 'now()' });
+  };
 
   try {
     warmComputePool();
@@ -189,7 +203,6 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
         referenceTableId: snapshot.referenceTableId,
         seconds: { aggregate: (t1 - t0) / 1000, compute: (t2 - t1) / 1000, storeAfterCompute: (t3 - t2) / 1000 },
       };
-      await em.query(`UPDATE runs SET inputs = $2, summary = $3 WHERE id = $1`, [runId, JSON.stringify(inputs), JSON.stringify(toJsonValue(summary))]);
       await em.query(
         `INSERT INTO current_run (singleton, run_id, switched_at) VALUES (true, $1, now())
          ON CONFLICT (singleton) DO UPDATE SET run_id = EXCLUDED.run_id, switched_at = EXCLUDED.switched_at`,
@@ -198,16 +211,20 @@ async function runLocked(qr: QueryRunner, options: PerformRunOptions): Promise<R
       flags = await applyVerdicts(em, runId, settings, options.appUrl, snapshot.ruleInfo, verdicts, threshold);
       await markPicked(em);
       const seconds = (performance.now() - started) / 1000;
-      await em.query(`UPDATE runs SET state = 'succeeded', finished_at = now(), summary = summary || $2::jsonb WHERE id = $1`, [
-        runId,
-        JSON.stringify({ flags, seconds: { ...summary.seconds, total: seconds } }),
-      ]);
+      // The summary as JSON (±∞ spelled out, json-encoding.ts), a parameter of the update.
+      await em
+        .createQueryBuilder()
+        .update(RunEntity)
+        .set({ inputs, state: 'succeeded', finishedAt: () => 'now()', summary: () => 'CAST(:summary AS jsonb)' })
+        .setParameter('summary', stringifyJson({ ...summary, flags, seconds: { ...summary.seconds, total: seconds } }))
+        .where({ id: runId })
+        .execute();
     });
     return { status: 'succeeded', runId, resultCount, flags: flags!, seconds: (performance.now() - started) / 1000 };
   } catch (err) {
     const message = err instanceof Error ? err.message : String(err);
-    await qr.query(`UPDATE runs SET state = 'failed', finished_at = now(), error = $2 WHERE id = $1`, [runId, message.slice(0, 2000)]);
-    await markPicked(qr);
+    await runs.update({ id: runId }, { state: 'failed', finishedAt: () => 'now()', error: message.slice(0, 2000) });
+    await markPicked(qr.manager);
     return { status: 'failed', runId, error: message };
   }
 }
@@ -240,8 +257,21 @@ async function readSnapshot(qr: QueryRunner, settings: RunSettings): Promise<Sna
     const groups = await qr.manager
       .getRepository(ExposureGroupEntity)
       .find({ select: { id: true, exposureLevel: true, isReference: true }, order: { id: 'ASC' } });
-    const roster: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM roster_slices ORDER BY 1`);
-    const cases: Array<{ id: string }> = await qr.query(`SELECT DISTINCT intake_id::text AS id FROM case_events WHERE superseded_by IS NULL ORDER BY 1`);
+    const roster = await qr.manager
+      .getRepository(RosterSliceEntity)
+      .createQueryBuilder('s')
+      .select('s.intakeId', 'id')
+      .distinct(true)
+      .orderBy('s.intakeId')
+      .getRawMany<{ id: string }>();
+    const cases = await qr.manager
+      .getRepository(CaseEventEntity)
+      .createQueryBuilder('e')
+      .select('e.intakeId', 'id')
+      .distinct(true)
+      .where('e.supersededBy IS NULL')
+      .orderBy('e.intakeId')
+      .getRawMany<{ id: string }>();
     // With reference rates, one statement gives the cells and the SIR's counts (sir-query.ts).
     const referenceTableId = await loadReferenceTableId(qr);
     const { cells, sirCells } =

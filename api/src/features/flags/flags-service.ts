@@ -1,5 +1,6 @@
-import type { DataSource, EntityManager } from 'typeorm';
-import { FlagEntity, FlagEventEntity, type FlagEventRow } from '@ratewarden/db/entities/index';
+import type { DataSource, EntityManager, ObjectLiteral, SelectQueryBuilder } from 'typeorm';
+import { FlagEntity, FlagEventEntity, NoticeEntity, type FlagEventRow, type FlagRow } from '@ratewarden/db/entities/index';
+import { rows } from '@ratewarden/db/sql';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { Flag, FlagCase, FlagCloseInput, FlagDetail, FlagState } from '@ratewarden/shared/flags';
 import { attributingRow, countedByRule, onsetMonthOf, rosterMonthOf } from '@ratewarden/db/case-attribution';
@@ -10,8 +11,30 @@ import { siteScope } from '../../auth/authorize';
 import { readsEverySite } from '../../disclosure/run-frame';
 import { AppError } from '../../lib/app-error';
 
-type Row = Record<string, any>;
 const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
+
+/** A flag as flagSelect reads it: its columns, its period as text and the names it shows. */
+interface FlagListRow {
+  id: string;
+  rule_id: string;
+  rule_name: string;
+  outcome_id: number;
+  exposure_group_id: number;
+  group_name: string;
+  site_id: number | null;
+  site_name: string | null;
+  state: FlagState;
+  close_reason: FlagRow['closeReason'];
+  close_comment: string | null;
+  period_iso: string;
+  value: number;
+  worst_value: number;
+  crossing: boolean;
+  detail: FlagRow['detail'];
+  raised_at: Date;
+  updated_at: Date;
+  closed_at: Date | null;
+}
 
 const flagSelect = `SELECT f.*, to_char(f.period, 'YYYY-MM-DD') AS period_iso, r.name AS rule_name, g.name AS group_name, s.name AS site_name
   FROM flags f JOIN watch_rules r ON r.id = f.rule_id JOIN exposure_groups g ON g.id = f.exposure_group_id LEFT JOIN sites s ON s.id = f.site_id`;
@@ -36,7 +59,13 @@ export async function flagScopeOf(ds: DataSource | EntityManager, principal: Pri
 const visible = (n: number) =>
   `((f.site_id IS NULL AND $${n + 1}::boolean) OR (f.site_id IS NOT NULL AND ($${n}::int[] IS NULL OR f.site_id = ANY($${n}::int[]))))`;
 
-function flagOf(r: Row): Flag {
+/** The same condition on flags `f` of a query builder. */
+function visibleIn<T extends ObjectLiteral>(qb: SelectQueryBuilder<T>, scope: FlagScope): SelectQueryBuilder<T> {
+  const site = scope.sites === null ? 'f.siteId IS NOT NULL' : 'f.siteId = ANY(:sites)';
+  return qb.andWhere(scope.company ? `(f.siteId IS NULL OR ${site})` : site, { sites: scope.sites });
+}
+
+function flagOf(r: FlagListRow): Flag {
   return {
     id: r.id,
     ruleId: r.rule_id,
@@ -65,34 +94,36 @@ export async function listFlags(
   q: { state?: FlagState; outcomeId?: number; exposureGroupId?: number },
   scope: FlagScope = everyFlag,
 ): Promise<Flag[]> {
-  const rows: Row[] = await ds.query(
+  const found = await rows<FlagListRow>(
+    ds,
     `${flagSelect} WHERE ($1::text IS NULL OR f.state = $1) AND ($2::int IS NULL OR f.outcome_id = $2) AND ($3::int IS NULL OR f.exposure_group_id = $3) AND ${visible(4)}
      ORDER BY (f.state = 'closed'), f.raised_at DESC LIMIT 500`,
     [q.state ?? null, q.outcomeId ?? null, q.exposureGroupId ?? null, scope.sites, scope.company],
   );
-  return rows.map(flagOf);
+  return found.map(flagOf);
 }
 
 /** One flag with its history and notices; a flag outside the reader's scope is "no such flag". */
 export async function getFlag(ds: DataSource, id: string, scope: FlagScope = everyFlag): Promise<FlagDetail> {
-  const rows: Row[] = await ds.query(`${flagSelect} WHERE f.id = $1 AND ${visible(2)}`, [id, scope.sites, scope.company]);
-  if (!rows[0]) throw new AppError('not_found', 'no such flag');
-  const events: Row[] = await ds.query(`SELECT id::text, at, kind, actor_id, run_id, detail FROM flag_events WHERE flag_id = $1 ORDER BY at, id`, [id]);
-  const notices: Row[] = await ds.query(
-    `SELECT id, recipient, state, attempts, last_error, created_at, sent_at FROM notices WHERE flag_id = $1 ORDER BY created_at, recipient`,
-    [id],
-  );
+  const [flag] = await rows<FlagListRow>(ds, `${flagSelect} WHERE f.id = $1 AND ${visible(2)}`, [id, scope.sites, scope.company]);
+  if (!flag) throw new AppError('not_found', 'no such flag');
+  const events = await ds.getRepository(FlagEventEntity).find({ where: { flagId: id }, order: { at: 'ASC', id: 'ASC' } });
+  const notices = await ds.getRepository(NoticeEntity).find({
+    select: { id: true, recipient: true, state: true, attempts: true, lastError: true, createdAt: true, sentAt: true },
+    where: { flagId: id },
+    order: { createdAt: 'ASC', recipient: 'ASC' },
+  });
   return {
-    ...flagOf(rows[0]),
-    events: events.map((e) => ({ id: e.id, at: iso(e.at)!, kind: e.kind, actorId: e.actor_id, runId: e.run_id, detail: e.detail })),
+    ...flagOf(flag),
+    events: events.map((e) => ({ id: e.id, at: iso(e.at)!, kind: e.kind, actorId: e.actorId, runId: e.runId, detail: e.detail })),
     notices: notices.map((n) => ({
       id: n.id,
       recipient: n.recipient,
       state: n.state,
       attempts: n.attempts,
-      lastError: n.last_error,
-      createdAt: iso(n.created_at)!,
-      sentAt: iso(n.sent_at),
+      lastError: n.lastError,
+      createdAt: iso(n.createdAt)!,
+      sentAt: iso(n.sentAt),
     })),
   };
 }
@@ -106,10 +137,10 @@ async function addEvent(em: EntityManager, event: Pick<FlagEventRow, 'flagId' | 
 }
 
 /** A flag's state, locked for a decision, when the person may see the flag. */
-async function lockVisible(em: EntityManager, principal: Principal, id: string): Promise<Row | undefined> {
+async function lockVisible(em: EntityManager, principal: Principal, id: string): Promise<Pick<FlagRow, 'id' | 'state'> | null> {
   const scope = await flagScopeOf(em, principal);
-  const [f]: Row[] = await em.query(`SELECT f.state FROM flags f WHERE f.id = $1 AND ${visible(2)} FOR UPDATE`, [id, scope.sites, scope.company]);
-  return f;
+  const qb = em.getRepository(FlagEntity).createQueryBuilder('f').select(['f.id', 'f.state']).where('f.id = :id', { id });
+  return visibleIn(qb, scope).setLock('pessimistic_write').getOne();
 }
 
 /** raised → in review. */
@@ -148,16 +179,26 @@ export async function closeFlag(ds: DataSource, principal: Principal, id: string
  */
 export async function flagCases(ds: DataSource, principal: Principal, id: string, ip?: string): Promise<FlagCase[]> {
   const visibleTo = await flagScopeOf(ds, principal);
-  const [f]: Row[] = await ds.query(
+  const [f] = await rows<{
+    outcome_id: number;
+    exposure_group_id: number;
+    site_id: number | null;
+    period: Date;
+    period_iso: string;
+    window_kind: string | null;
+    statuses: string[];
+  }>(
+    ds,
     `SELECT f.outcome_id, f.exposure_group_id, f.site_id, f.period, to_char(f.period, 'YYYY-MM-DD') AS period_iso, f.detail->>'window' AS window_kind, r.settings->'countedStatuses' AS statuses
      FROM flags f JOIN runs r ON r.id = f.last_run_id WHERE f.id = $1 AND ${visible(2)}`,
     [id, visibleTo.sites, visibleTo.company],
   );
   if (!f) throw new AppError('not_found', 'no such flag');
   // The months of the flag's window, by the one definition of windows (rules watch month and rolling 12 only).
-  const months = windowMonths(ruleWindowSchema.parse(f.window_kind), f.period_iso as string).length;
+  const months = windowMonths(ruleWindowSchema.parse(f.window_kind), f.period_iso).length;
   const scope = siteScope(principal);
-  const rows: Row[] = await ds.query(
+  const cases = await rows<{ case_ref: string; worker_key: string; onset: string; status: FlagCase['status']; site_id: number }>(
+    ds,
     `SELECT c.case_ref, w.worker_key, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, c.status, a.site_id
      FROM case_events c
      JOIN outcomes o ON o.id = c.outcome_id
@@ -174,5 +215,5 @@ export async function flagCases(ds: DataSource, principal: Principal, id: string
   );
   // No count in the entry: the administrator reads the audit log and may not see how many cases a flag has.
   await recordAudit(ds, { actor: principal, action: 'cases.read', target: `flag:${id}`, ip });
-  return rows.map((r) => ({ caseRef: r.case_ref, workerKey: r.worker_key, onsetDate: r.onset, status: r.status, siteId: r.site_id }));
+  return cases.map((r) => ({ caseRef: r.case_ref, workerKey: r.worker_key, onsetDate: r.onset, status: r.status, siteId: r.site_id }));
 }

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
-import type { DataSource } from 'typeorm';
-import { OutcomeEntity, ReferenceRateTableEntity } from '@ratewarden/db/entities/index';
+import { In, type DataSource, type FindOptionsWhere } from 'typeorm';
+import { OutcomeEntity, ReferenceRateEntity, ReferenceRateTableEntity, UserEntity, type ReferenceRateTable } from '@ratewarden/db/entities/index';
+import { rows as sqlRows } from '@ratewarden/db/sql';
 import { requestRun } from '@ratewarden/db/run-requests';
 import type { Principal } from '@ratewarden/shared/permissions';
 import type { ReferenceRateRow, ReferenceTable } from '@ratewarden/shared/reference-rates';
@@ -8,39 +9,60 @@ import { recordAudit } from '../../audit/audit-log';
 import { AppError } from '../../lib/app-error';
 import { checkReferenceFile } from './reference-rates-check';
 
-type Row = Record<string, any>;
+const iso = (d: Date | null) => (d === null ? null : d.toISOString());
 
-const tableCols = `t.id, t.state, t.file_name, t.row_count, t.problem_count, t.problems, t.sources, t.created_at, t.superseded_at, u.name AS uploaded_by,
-  (SELECT coalesce(array_agg(DISTINCT o.code ORDER BY o.code), '{}') FROM reference_rates r JOIN outcomes o ON o.id = r.outcome_id WHERE r.table_id = t.id) AS outcome_codes,
-  (SELECT min(year) FROM reference_rates r WHERE r.table_id = t.id) AS year_from,
-  (SELECT max(year) FROM reference_rates r WHERE r.table_id = t.id) AS year_to`;
-const tableFrom = `reference_rate_tables t LEFT JOIN users u ON u.id = t.uploaded_by`;
+/** What a version covers: its outcomes' codes and its years. */
+interface Coverage {
+  tableId: number;
+  outcomeCodes: string[];
+  yearFrom: number;
+  yearTo: number;
+}
 
-const iso = (d: Date | string | null) => (d === null ? null : new Date(d).toISOString());
-
-function tableOf(r: Row): ReferenceTable {
-  return {
-    id: r.id,
-    version: r.id,
-    state: r.state,
-    fileName: r.file_name,
-    rowCount: r.row_count,
-    problemCount: r.problem_count,
-    problems: r.problems,
-    sources: r.sources,
-    outcomeCodes: r.outcome_codes,
-    yearFrom: r.year_from,
-    yearTo: r.year_to,
-    uploadedBy: r.uploaded_by,
-    createdAt: iso(r.created_at)!,
-    supersededAt: iso(r.superseded_at),
-  };
+/** The versions that match, newest first, with their uploader's name and what they cover. */
+async function tablesWhere(ds: DataSource, where: FindOptionsWhere<ReferenceRateTable> = {}): Promise<ReferenceTable[]> {
+  const tables = await ds.getRepository(ReferenceRateTableEntity).find({ where, order: { id: 'DESC' } });
+  if (!tables.length) return [];
+  const uploaderIds = [...new Set(tables.flatMap((t) => (t.uploadedBy === null ? [] : [t.uploadedBy])))];
+  const uploaders = uploaderIds.length ? await ds.getRepository(UserEntity).find({ select: { id: true, name: true }, where: { id: In(uploaderIds) } }) : [];
+  const nameOf = new Map(uploaders.map((u) => [u.id, u.name]));
+  const coverage = await ds
+    .getRepository(ReferenceRateEntity)
+    .createQueryBuilder('r')
+    .innerJoin(OutcomeEntity.options.name, 'o', 'o.id = r.outcomeId')
+    .select('r.tableId', 'tableId')
+    .addSelect('array_agg(DISTINCT o.code ORDER BY o.code)', 'outcomeCodes')
+    .addSelect('min(r.year)', 'yearFrom')
+    .addSelect('max(r.year)', 'yearTo')
+    .where('r.tableId IN (:...ids)', { ids: tables.map((t) => t.id) })
+    .groupBy('r.tableId')
+    .getRawMany<Coverage>();
+  const coverageOf = new Map(coverage.map((c) => [c.tableId, c]));
+  return tables.map((t) => {
+    const covers = coverageOf.get(t.id);
+    return {
+      id: t.id,
+      version: t.id,
+      state: t.state,
+      fileName: t.fileName,
+      rowCount: t.rowCount,
+      problemCount: t.problemCount,
+      problems: t.problems,
+      sources: t.sources,
+      outcomeCodes: covers?.outcomeCodes ?? [],
+      yearFrom: covers?.yearFrom ?? null,
+      yearTo: covers?.yearTo ?? null,
+      uploadedBy: t.uploadedBy === null ? null : (nameOf.get(t.uploadedBy) ?? null),
+      createdAt: iso(t.createdAt)!,
+      supersededAt: iso(t.supersededAt),
+    };
+  });
 }
 
 async function tableById(ds: DataSource, id: number): Promise<ReferenceTable> {
-  const [row]: Row[] = await ds.query(`SELECT ${tableCols} FROM ${tableFrom} WHERE t.id = $1`, [id]);
-  if (!row) throw new AppError('not_found', 'no such reference-rate version');
-  return tableOf(row);
+  const [table] = await tablesWhere(ds, { id });
+  if (!table) throw new AppError('not_found', 'no such reference-rate version');
+  return table;
 }
 
 export interface ReferenceUpload {
@@ -66,18 +88,25 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
   const checked = checkReferenceFile(up.bytes.toString('utf8'), new Map(outcomes.map((o) => [o.code.toUpperCase(), o.id])));
   if (checked.problems.length) {
     const id = await ds.transaction(async (em) => {
-      const [row]: Row[] = await em.query(
-        `INSERT INTO reference_rate_tables (state, file_name, checksum, problem_count, problems, uploaded_by) VALUES ('rejected', $1, $2, $3, $4, $5) RETURNING id`,
-        [up.fileName, checksum, checked.problems.length, JSON.stringify(checked.problems.slice(0, 1000)), uploadedBy],
+      const tables = em.getRepository(ReferenceRateTableEntity);
+      const { id: rejectedId } = await tables.save(
+        tables.create({
+          state: 'rejected',
+          fileName: up.fileName,
+          checksum,
+          problemCount: checked.problems.length,
+          problems: checked.problems.slice(0, 1000),
+          uploadedBy,
+        }),
       );
       await recordAudit(em, {
         actor: up.principal,
         action: 'reference.reject',
-        target: `reference_rates:${row!.id}`,
+        target: `reference_rates:${rejectedId}`,
         detail: { fileName: up.fileName, problems: checked.problems.length },
         ip: up.ip,
       });
-      return row!.id as number;
+      return rejectedId;
     });
     const table = await tableById(ds, id);
     const more = table.problemCount > 1 ? ` (and ${table.problemCount - 1} more problems)` : '';
@@ -89,12 +118,10 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
   const id = await ds.transaction(async (em) => {
     // Serializes concurrent uploads: the second waits, then supersedes the first.
     await em.query(`LOCK TABLE reference_rate_tables IN SHARE ROW EXCLUSIVE MODE`);
-    await em.query(`UPDATE reference_rate_tables SET state = 'superseded', superseded_at = now() WHERE state = 'applied'`);
-    const [row]: Row[] = await em.query(
-      `INSERT INTO reference_rate_tables (state, file_name, checksum, row_count, sources, uploaded_by) VALUES ('applied', $1, $2, $3, $4, $5) RETURNING id`,
-      [up.fileName, checksum, rows.length, sources, uploadedBy],
-    );
-    const tableId = row!.id as number;
+    const tables = em.getRepository(ReferenceRateTableEntity);
+    await tables.update({ state: 'applied' }, { state: 'superseded', supersededAt: () => 'now()' });
+    const { id: tableId } = await tables.save(tables.create({ state: 'applied', fileName: up.fileName, checksum, rowCount: rows.length, sources, uploadedBy }));
+    // The rows in one set-wise statement (a table has thousands).
     await em.query(
       `INSERT INTO reference_rates (table_id, outcome_id, sex, age_from, age_to, year, rate, source)
        SELECT $1, * FROM unnest($2::int[], $3::text[], $4::int[], $5::int[], $6::int[], $7::float8[], $8::text[])`,
@@ -124,8 +151,7 @@ export async function receiveReferenceTable(ds: DataSource, up: ReferenceUpload)
 
 /** Every version, newest first. */
 export async function listReferenceTables(ds: DataSource): Promise<ReferenceTable[]> {
-  const rows: Row[] = await ds.query(`SELECT ${tableCols} FROM ${tableFrom} ORDER BY t.id DESC`);
-  return rows.map(tableOf);
+  return tablesWhere(ds);
 }
 
 /** The rows of one version (the applied one by default). */
@@ -137,13 +163,12 @@ export async function referenceRatesOf(ds: DataSource, version: number | undefin
     id = applied.id;
   }
   const table = await tableById(ds, id);
-  const rows: Row[] = await ds.query(
-    `SELECT o.code, r.sex, r.age_from, r.age_to, r.year, r.rate, r.source FROM reference_rates r JOIN outcomes o ON o.id = r.outcome_id
+  const rates = await sqlRows<ReferenceRateRow>(
+    ds,
+    `SELECT o.code AS "outcomeCode", r.sex, r.age_from AS "ageFrom", r.age_to AS "ageTo", r.year, r.rate, r.source
+     FROM reference_rates r JOIN outcomes o ON o.id = r.outcome_id
      WHERE r.table_id = $1 ORDER BY o.code, r.year, r.sex, r.age_from`,
     [id],
   );
-  return {
-    table,
-    rates: rows.map((r) => ({ outcomeCode: r.code, sex: r.sex, ageFrom: r.age_from, ageTo: r.age_to, year: r.year, rate: r.rate, source: r.source })),
-  };
+  return { table, rates };
 }
