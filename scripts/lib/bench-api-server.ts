@@ -45,14 +45,7 @@ function quietLog(log: (line: string) => void) {
   };
 }
 
-function startService(
-  root: string,
-  name: string,
-  entry: string,
-  env: NodeJS.ProcessEnv,
-  log: (line: string) => void,
-  nodeArgs: string[] = [],
-): ChildProcess {
+function startService(root: string, name: string, entry: string, env: NodeJS.ProcessEnv, log: (line: string) => void, nodeArgs: string[] = []): ChildProcess {
   const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', entry], {
     cwd: root,
     // Supervised: the service stops by itself if this process dies (exit-with-parent.ts).
