@@ -100,7 +100,9 @@ export class RosterStream extends Transform {
       // What is left: the bytes after the last line end, or a quoted record not closed yet.
       this.carry = Buffer.from(buf.subarray(stop));
       if (this.carry.length > MAX_ROW_CHARS) throw unreadable(`a row is too long to be a roster row (line ${this.line})`, this.line);
-      done(null, this.pendingOut());
+      // The next chunk after the event loop's turn: chunks already buffered would otherwise be
+      // parsed back to back in one go, and other requests would wait for all of them.
+      setImmediate(done, null, this.pendingOut());
     } catch (err) {
       done(err as Error);
     }
