@@ -5,6 +5,7 @@ import type { IntakeProblem } from '@ratewarden/shared/intake-schemas';
 import { pgClientOf } from '@ratewarden/db/sql';
 import { recordAudit } from '../../audit/audit-log';
 import { dropStaging } from './staging-drop';
+import { IntakeEntity } from '@ratewarden/db/entities/intake';
 
 /** Hours a checked intake waits for apply or discard before it expires (INTAKE_EXPIRY_HOURS). */
 export const DEFAULT_EXPIRY_HOURS = 24;
@@ -18,10 +19,7 @@ export function expiredProblem(hours: number): IntakeProblem {
  * it expired, and its staging tables are dropped.
  */
 export async function expireIntake(client: PoolClient, em: EntityManager, id: string, table: string | null, hours: number): Promise<void> {
-  await client.query(`UPDATE intakes SET state = 'rejected', discarded_at = now(), problem_count = 1, problems = $2 WHERE id = $1`, [
-    id,
-    JSON.stringify([expiredProblem(hours)]),
-  ]);
+  await em.getRepository(IntakeEntity).update(id, { state: 'rejected', discardedAt: () => 'now()', problemCount: 1, problems: [expiredProblem(hours)] });
   if (table) await dropStaging(client, id, table);
   await recordAudit(em, { actor: null, action: 'intake.expire', target: `intake:${id}`, detail: { hours } });
 }

@@ -20,6 +20,7 @@ import { settleChecked } from './intake-settle';
 import { requestRun } from '@ratewarden/db/run-requests';
 import { restoreRoster } from './roster-apply';
 import { dropStaging } from './staging-drop';
+import { IntakeEntity } from '@ratewarden/db/entities/intake';
 
 // What happens to an intake after it was received (intake-receive.ts): apply, discard, restore.
 
@@ -104,7 +105,7 @@ export async function discardIntake(ds: DataSource, p: Principal, id: string, ip
     const it = await lockIntake(client, id);
     assertSites(p, it.site_ids);
     if (it.state !== 'checked') throw new AppError('conflict', `only a checked intake can be discarded; this one is ${it.state}`);
-    await client.query(`UPDATE intakes SET state = 'rejected', discarded_at = now() WHERE id = $1`, [id]);
+    await em.getRepository(IntakeEntity).update(id, { state: 'rejected', discardedAt: () => 'now()' });
     if (it.staging_table) await dropStaging(client, id, it.staging_table);
     await recordAudit(em, { actor: p, action: 'intake.discard', target: `intake:${id}`, ip });
     return loadIntake(em, id);
@@ -137,7 +138,7 @@ export async function restoreIntake(ds: DataSource, p: Principal, id: string, ip
       }
       superseded = (await restoreCases(client, id)).superseded;
     }
-    await client.query(`UPDATE intakes SET state = 'applied', superseded_at = NULL, restored_at = now() WHERE id = $1`, [id]);
+    await em.getRepository(IntakeEntity).update(id, { state: 'applied', supersededAt: null, restoredAt: () => 'now()' });
     await requestRun(em, `${it.kind === 'roster' ? 'roster' : 'case list'} intake restored`, { intakeId: id });
     await recordAudit(em, { actor: p, action: 'intake.restore', target: `intake:${id}`, ip, detail: { superseded } });
     return loadIntake(em, id);

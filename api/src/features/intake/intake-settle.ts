@@ -8,6 +8,7 @@ import { AppError } from '../../lib/app-error';
 import { hasOpenConflicts, leaveKeptCases, recordCaseConflicts } from './case-conflicts';
 import { applyChecked, type CheckOutcome } from './intake-check';
 import { dropStaging } from './staging-drop';
+import { IntakeEntity } from '@ratewarden/db/entities/intake';
 
 /** Records the checks' verdict; applies when asked and the file is clean ('if-clear': and no case contradicts a physician's decision). */
 export async function settleChecked(
@@ -22,19 +23,16 @@ export async function settleChecked(
   ip?: string | null,
 ): Promise<void> {
   const rejected = outcome.problemCount > 0;
-  await client.query(
-    `UPDATE intakes SET state = $2, problem_count = $3, problems = $4, diff = $5, site_ids = $6, month_from = $7, month_to = $8, checked_at = now() WHERE id = $1`,
-    [
-      id,
-      rejected ? 'rejected' : 'checked',
-      outcome.problemCount,
-      JSON.stringify(outcome.problems),
-      outcome.diff ? JSON.stringify(outcome.diff) : null,
-      outcome.scope.siteIds,
-      outcome.scope.monthFrom,
-      outcome.scope.monthTo,
-    ],
-  );
+  await em.getRepository(IntakeEntity).update(id, {
+    state: rejected ? 'rejected' : 'checked',
+    problemCount: outcome.problemCount,
+    problems: outcome.problems,
+    diff: outcome.diff,
+    siteIds: outcome.scope.siteIds,
+    monthFrom: outcome.scope.monthFrom,
+    monthTo: outcome.scope.monthTo,
+    checkedAt: () => 'now()',
+  });
   if (rejected) {
     await dropStaging(client, id, table);
     await recordAudit(em, { actor: principal, action: 'intake.reject', target: `intake:${id}`, ip, detail: { problems: outcome.problemCount } });
@@ -65,7 +63,7 @@ async function applyNow(
 ): Promise<void> {
   if (kind === 'cases') await leaveKeptCases(client, id);
   const { superseded } = await applyChecked(client, kind, table, id);
-  await client.query(`UPDATE intakes SET state = 'applied', applied_at = now() WHERE id = $1`, [id]);
+  await em.getRepository(IntakeEntity).update(id, { state: 'applied', appliedAt: () => 'now()' });
   await dropStaging(client, id, table);
   await requestRun(em, `${kind === 'roster' ? 'roster' : 'case list'} intake applied`, { intakeId: id });
   await recordAudit(em, { actor: principal, action: 'intake.apply', target: `intake:${id}`, ip, detail: { kind, superseded } });
