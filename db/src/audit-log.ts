@@ -1,5 +1,6 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Principal } from '@ratewarden/shared/permissions';
+import { AuditEventEntity } from './entities/audit-event';
 
 /** Who did it: a signed-in person or an integration client, nobody (`null`: signed out), or one of Ratewarden's own processes by name. */
 export type AuditActor = Principal | null | { kind: 'system'; name: string };
@@ -26,12 +27,11 @@ function labelOf(actor: AuditActor): string {
  */
 export async function recordAudit(db: DataSource | EntityManager, entry: AuditEntry): Promise<void> {
   const actorId = entry.actor?.kind === 'user' ? entry.actor.id : null;
-  await db.query(`INSERT INTO audit_events (actor_id, actor_label, action, target, detail, ip) VALUES ($1, $2, $3, $4, $5, $6)`, [
-    actorId,
-    labelOf(entry.actor),
-    entry.action,
-    entry.target ?? null,
-    JSON.stringify(entry.detail ?? {}),
-    entry.ip ?? null,
-  ]);
+  // save, not insert: TypeORM's insert types refuse a jsonb column typed as a record. One INSERT, no transaction of its own.
+  await ('manager' in db ? db.manager : db)
+    .getRepository(AuditEventEntity)
+    .save(
+      { actorId, actorLabel: labelOf(entry.actor), action: entry.action, target: entry.target ?? null, detail: entry.detail ?? {}, ip: entry.ip ?? null },
+      { transaction: false, reload: false },
+    );
 }

@@ -5,6 +5,9 @@ import { METHODS } from '@ratewarden/shared/stats';
 import { resultScope } from '../../disclosure/result-scope';
 import { runFrame, seesEveryCount } from '../../disclosure/run-frame';
 import { AppError } from '../../lib/app-error';
+import { CurrentRunEntity } from '@ratewarden/db/entities/current-run';
+import { RunEntity } from '@ratewarden/db/entities/run';
+import { ReferenceRateTableEntity } from '@ratewarden/db/entities/reference-rate-table';
 
 type Row = Record<string, any>;
 
@@ -22,10 +25,8 @@ export async function runSir(
   q: { outcomeId?: number; siteId?: number },
   principal: Parameters<typeof seesEveryCount>[0],
 ): Promise<SirAnswer> {
-  const [run]: Array<{ id: string; number: string }> =
-    runId === 'current'
-      ? await ds.query(`SELECT r.id, r.number FROM current_run c JOIN runs r ON r.id = c.run_id`)
-      : await ds.query(`SELECT id, number FROM runs WHERE id = $1`, [runId]);
+  const id = runId === 'current' ? (await ds.getRepository(CurrentRunEntity).findOne({ where: { singleton: true } }))?.runId : runId;
+  const run = id ? await ds.getRepository(RunEntity).findOne({ select: { id: true, number: true }, where: { id } }) : null;
   if (!run) throw new AppError('not_found', runId === 'current' ? 'no run has succeeded yet' : 'no such run');
   const siteId = await resultScope(ds, principal, q.siteId);
   // As for every run figure: readers other than the physician read the current run only (two runs
@@ -42,7 +43,8 @@ export async function runSir(
     rows[0]?.reference_table_id ??
     (await ds.query(`SELECT reference_table_id FROM run_sir WHERE run_id = $1 LIMIT 1`, [run.id]))[0]?.reference_table_id ??
     null;
-  const sources: string[] = tableId === null ? [] : ((await ds.query(`SELECT sources FROM reference_rate_tables WHERE id = $1`, [tableId]))[0]?.sources ?? []);
+  const sources =
+    tableId === null ? [] : ((await ds.getRepository(ReferenceRateTableEntity).findOne({ select: { sources: true }, where: { id: tableId } }))?.sources ?? []);
   return {
     runId: run.id,
     runNumber: Number(run.number),
