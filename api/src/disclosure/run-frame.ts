@@ -1,4 +1,7 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { In, Not, type DataSource, type EntityManager } from 'typeorm';
+import { CurrentRunEntity } from '@ratewarden/db/entities/current-run';
+import { RunEntity } from '@ratewarden/db/entities/run';
+import { SiteEntity } from '@ratewarden/db/entities/site';
 import { roleMay, type Principal } from '@ratewarden/shared/permissions';
 import { isSmallCount, type Withheld } from '@ratewarden/shared/small-cells';
 import { siteScope } from '../auth/authorize';
@@ -12,8 +15,8 @@ export const seesEveryCount = (p: Principal) => p.kind === 'user' && roleMay(p.r
 export async function readsEverySite(ds: DataSource | EntityManager, principal: Principal): Promise<boolean> {
   const scope = siteScope(principal);
   if (scope === 'all') return true;
-  const missing: unknown[] = await ds.query(`SELECT id FROM sites WHERE NOT (id = ANY($1::int[])) LIMIT 1`, [scope]);
-  return missing.length === 0;
+  const sites = ds.getRepository(SiteEntity);
+  return !(scope.length === 0 ? await sites.exists() : await sites.existsBy({ id: Not(In(scope)) }));
 }
 
 /** Key of one count in a run's disclosure frame: scope, outcome, group, window, period (ISO, "" for a series). */
@@ -33,13 +36,11 @@ export type RunFrame = Map<string, Withheld>;
  */
 export async function runFrame(ds: DataSource, runId: string, principal: Principal, outcomeId?: number): Promise<RunFrame | null> {
   if (seesEveryCount(principal)) return null;
-  const [run]: Array<{ disclosure_frame: boolean; is_current: boolean }> = await ds.query(
-    `SELECT r.disclosure_frame, EXISTS (SELECT 1 FROM current_run c WHERE c.run_id = r.id) AS is_current FROM runs r WHERE r.id = $1`,
-    [runId],
-  );
+  const run = await ds.getRepository(RunEntity).findOne({ select: { id: true, disclosureFrame: true }, where: { id: runId } });
   if (!run) throw new AppError('not_found', 'no such run');
-  if (!run.is_current) throw new AppError('forbidden', "the figures of earlier runs are shown to the physician only; read the current run's");
-  if (!run.disclosure_frame)
+  if (!(await ds.getRepository(CurrentRunEntity).existsBy({ runId })))
+    throw new AppError('forbidden', "the figures of earlier runs are shown to the physician only; read the current run's");
+  if (!run.disclosureFrame)
     throw new AppError(
       'conflict',
       'the figures of this run are shown to the physician only until the next run, which publishes them with the counts protected',
