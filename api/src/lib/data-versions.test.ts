@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
-import { freshVersions, type DataVersions } from './data-versions';
+import { freshVersions, versionsWaiting, type DataVersions } from './data-versions';
 
 /** A read the test settles by hand, numbered in the order the reads started. */
 function controlledReads() {
@@ -24,6 +24,8 @@ describe('freshVersions', () => {
     // Three callers ask while the first read runs: none joins it, all share one read started after it.
     const later = [freshVersions(ds, read), freshVersions(ds, read), freshVersions(ds, read)];
     expect(started).toHaveLength(1);
+    // They count as waiting for the database (the overload bound counts them: database-saturation.ts).
+    expect(versionsWaiting(ds)).toBe(3);
     started[0]!.resolve(versions(1));
     expect(await first).toEqual(versions(1));
     await tick();
@@ -32,6 +34,7 @@ describe('freshVersions', () => {
     const third = freshVersions(ds, read);
     started[1]!.resolve(versions(2));
     expect(await Promise.all(later)).toEqual([versions(2), versions(2), versions(2)]);
+    expect(versionsWaiting(ds)).toBe(1);
     await tick();
     expect(started).toHaveLength(3);
     started[2]!.resolve(versions(3));

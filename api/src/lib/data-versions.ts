@@ -41,6 +41,8 @@ interface Reads {
   running: Promise<DataVersions> | null;
   /** The read that starts when `running` ends, shared by everyone who asked meanwhile. */
   queued: Promise<DataVersions> | null;
+  /** Callers waiting for `queued`. */
+  waiting: number;
 }
 const readsOf = new WeakMap<DataSource, Reads>();
 
@@ -61,7 +63,7 @@ export function freshVersions(
   patienceMs = VERSIONS_PATIENCE_MS,
 ): Promise<DataVersions> {
   let reads = readsOf.get(ds);
-  if (!reads) readsOf.set(ds, (reads = { running: null, queued: null }));
+  if (!reads) readsOf.set(ds, (reads = { running: null, queued: null, waiting: 0 }));
   const r = reads;
   const start = (): Promise<DataVersions> => {
     const p = read(ds);
@@ -88,7 +90,17 @@ export function freshVersions(
     });
     r.queued = queued;
   }
+  r.waiting += 1;
+  const leave = () => {
+    r.waiting -= 1;
+  };
+  r.queued.then(leave, leave);
   return r.queued;
+}
+
+/** Requests waiting for the next shared read (they wait for the database as much as the pool's own waiters do). */
+export function versionsWaiting(ds: DataSource): number {
+  return readsOf.get(ds)?.waiting ?? 0;
 }
 
 export async function readVersions(ds: DataSource): Promise<DataVersions> {
