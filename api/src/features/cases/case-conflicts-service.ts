@@ -1,5 +1,4 @@
 import type { DataSource } from 'typeorm';
-import type { CaseReview } from '@ratewarden/db/entities/case-review';
 import { IntakeCaseConflictEntity, type IntakeCaseConflict } from '@ratewarden/db/entities/intake-case-conflict';
 import { IntakeEntity } from '@ratewarden/db/entities/intake';
 import type { CaseConflict, CaseConflictResolution } from '@ratewarden/shared/cases';
@@ -7,9 +6,10 @@ import type { Principal } from '@ratewarden/shared/permissions';
 import { recordAudit } from '../../audit/audit-log';
 import { assertSites, userOf } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
+import { reviewColumns, reviewOf, type ReviewRow } from './review-columns';
 
 /** A conflict with its case, the decision it contradicts and its resolution, as the join below reads it. */
-interface ConflictRow {
+interface ConflictRow extends ReviewRow {
   case_ref: string;
   worker_key: string;
   onset: string;
@@ -18,13 +18,6 @@ interface ConflictRow {
   resolution: IntakeCaseConflict['resolution'];
   resolved_by: string | null;
   resolved_at: Date | null;
-  review_id: string;
-  decision: CaseReview['decision'];
-  from_status: CaseReview['fromStatus'];
-  to_status: CaseReview['toStatus'];
-  reason: string;
-  decided_by: string;
-  decided_at: Date;
 }
 
 async function intakeSites(ds: DataSource, principal: Principal, intakeId: string): Promise<void> {
@@ -38,7 +31,7 @@ export async function listConflicts(ds: DataSource, principal: Principal, intake
   await intakeSites(ds, principal, intakeId);
   const rows: ConflictRow[] = await ds.query(
     `SELECT k.case_ref, w.worker_key, to_char(e.onset_date, 'YYYY-MM-DD') AS onset, k.decided_status, k.list_status, k.resolution, ru.email AS resolved_by, k.resolved_at,
-            r.id::text AS review_id, r.decision, r.from_status, r.to_status, r.reason, du.email AS decided_by, r.decided_at
+            ${reviewColumns('du')}
      FROM intake_case_conflicts k
      JOIN case_reviews r ON r.id = k.review_id
      JOIN users du ON du.id = r.decided_by
@@ -55,15 +48,7 @@ export async function listConflicts(ds: DataSource, principal: Principal, intake
     onsetDate: r.onset,
     decidedStatus: r.decided_status,
     listStatus: r.list_status,
-    decision: {
-      id: r.review_id,
-      decision: r.decision,
-      fromStatus: r.from_status,
-      toStatus: r.to_status,
-      reason: r.reason,
-      decidedBy: r.decided_by,
-      decidedAt: new Date(r.decided_at).toISOString(),
-    },
+    decision: reviewOf(r),
     resolution: r.resolution,
     resolvedBy: r.resolved_by,
     resolvedAt: r.resolved_at ? new Date(r.resolved_at).toISOString() : null,

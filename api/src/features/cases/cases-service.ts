@@ -1,5 +1,5 @@
 import { CaseEventEntity } from '@ratewarden/db/entities/case-event';
-import { CaseReviewEntity, type CaseReview } from '@ratewarden/db/entities/case-review';
+import { CaseReviewEntity } from '@ratewarden/db/entities/case-review';
 import { requestRun } from '@ratewarden/db/run-requests';
 import type { DataSource } from 'typeorm';
 import {
@@ -16,19 +16,10 @@ import { recordAudit } from '../../audit/audit-log';
 import { userOf } from '../../auth/authorize';
 import { AppError } from '../../lib/app-error';
 import { queryCase, queryCases } from './case-queries';
+import { reviewColumns, reviewOf, type ReviewRow } from './review-columns';
 
 /** The decision that made a version, as the join in `history` reads it (every column null for a list's version). */
-type ReviewColumns =
-  | {
-      review_id: string;
-      decision: CaseReview['decision'];
-      from_status: CaseReview['fromStatus'];
-      to_status: CaseReview['toStatus'];
-      reason: string;
-      decided_by: string;
-      decided_at: Date;
-    }
-  | { review_id: null; decision: null; from_status: null; to_status: null; reason: null; decided_by: null; decided_at: null };
+type ReviewColumns = ReviewRow | { [K in keyof ReviewRow]: null };
 
 /** One version of a case with its outcome, worker and intake, as the join in `history` reads it. */
 type VersionRow = ReviewColumns & {
@@ -73,7 +64,7 @@ async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> 
   const rows: VersionRow[] = await ds.query(
     `SELECT c.id::text AS id, c.status, to_char(c.onset_date, 'YYYY-MM-DD') AS onset, o.code AS outcome_code, w.worker_key,
             c.intake_id, i.file_name, c.created_at, c.superseded_by IS NULL AS current,
-            r.id::text AS review_id, r.decision, r.from_status, r.to_status, r.reason, u.email AS decided_by, r.decided_at
+            ${reviewColumns('u')}
      FROM case_events c
      JOIN outcomes o ON o.id = c.outcome_id
      JOIN workers w ON w.id = c.worker_id
@@ -93,17 +84,7 @@ async function history(ds: DataSource, caseRef: string): Promise<CaseVersion[]> 
     intakeFileName: r.file_name,
     createdAt: new Date(r.created_at).toISOString(),
     current: r.current,
-    review: r.review_id
-      ? {
-          id: r.review_id,
-          decision: r.decision,
-          fromStatus: r.from_status,
-          toStatus: r.to_status,
-          reason: r.reason,
-          decidedBy: r.decided_by,
-          decidedAt: new Date(r.decided_at).toISOString(),
-        }
-      : null,
+    review: r.review_id === null ? null : reviewOf(r),
   }));
 }
 
